@@ -1,0 +1,1 @@
+"""The PySide6 editor: the only package that imports Qt."""

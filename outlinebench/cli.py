@@ -1,0 +1,84 @@
+"""The command line: ``outlinebench SUBCOMMAND ...``.
+
+Thin by design: it parses arguments, hands them to a subcommand module in
+:mod:`outlinebench.subcommands`, and turns the result into an exit code.
+
+Exit codes
+----------
+0  nothing of warning level or worse was found (or the command succeeded);
+1  findings of warning level or worse (or a tolerance was exceeded);
+2  bad input or usage: one line on stderr naming the file and the place, never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import importlib.util
+import sys
+from collections.abc import Sequence
+from types import ModuleType
+
+from outlinebench import __version__
+from outlinebench.errors import OutlinebenchError
+from outlinebench.subcommands import SUBCOMMANDS
+
+__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
+
+EXIT_OK = 0
+EXIT_FINDINGS = 1
+EXIT_BAD_INPUT = 2
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse exits with 2 on usage errors already; keep its one-line message."""
+
+
+def _modules() -> list[ModuleType]:
+    mods = []
+    for name in SUBCOMMANDS:
+        full = f"outlinebench.subcommands.{name}"
+        if importlib.util.find_spec(full) is None:
+            continue  # not written yet in this checkout
+        mods.append(importlib.import_module(full))
+    return mods
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The full argument parser, one sub-parser per subcommand module."""
+    parser = _Parser(
+        prog="outlinebench",
+        description=(
+            "Check, measure, flatten and offset Bézier outlines in SVG files. "
+            "Run 'outlinebench FILE.svg' (no subcommand) to open the editor."
+        ),
+        epilog="Exit codes: 0 clean, 1 findings of warning level or worse, 2 bad input.",
+    )
+    parser.add_argument("--version", action="version", version=f"outlinebench {__version__}")
+    sub = parser.add_subparsers(dest="subcommand", metavar="SUBCOMMAND")
+    for mod in _modules():
+        p = sub.add_parser(mod.NAME, help=mod.HELP, description=mod.HELP)
+        mod.add_arguments(p)
+        p.set_defaults(_run=mod.run)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(list(sys.argv[1:] if argv is None else argv))
+    if not getattr(args, "_run", None):
+        parser.print_help()
+        return EXIT_OK
+    try:
+        return int(args._run(args))
+    except OutlinebenchError as exc:
+        print(f"outlinebench: error: {exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except OSError as exc:
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"outlinebench: error: {where}{exc.strerror or exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        print("outlinebench: interrupted", file=sys.stderr)
+        return 130

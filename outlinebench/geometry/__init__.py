@@ -1,0 +1,40 @@
+"""Pure-numpy geometry of Bézier segments.
+
+A segment is a float64 control-point array of shape ``(K, 2)`` with K = 2 (line), 3 (quadratic)
+or 4 (cubic); a batch of same-degree segments has shape ``(M, K, 2)``. Functions never mutate
+their inputs, print, or keep state. Validate foreign input once with :func:`as_control_points`.
+"""
+
+from outlinebench.geometry.bezier import (
+    DEGREE_BY_KIND,
+    KIND_BY_DEGREE,
+    as_control_points,
+    bernstein_matrix,
+    degree,
+    derivative,
+    derivative_at,
+    elevate,
+    evaluate,
+    reverse,
+    split,
+    split_many,
+    subsegment,
+    to_cubic,
+)
+
+__all__ = [
+    "DEGREE_BY_KIND",
+    "KIND_BY_DEGREE",
+    "as_control_points",
+    "bernstein_matrix",
+    "degree",
+    "derivative",
+    "derivative_at",
+    "elevate",
+    "evaluate",
+    "reverse",
+    "split",
+    "split_many",
+    "subsegment",
+    "to_cubic",
+]

@@ -1,0 +1,63 @@
+"""Health checks on the code itself: lint, format, and the layer rules of DEVELOPERS.md."""
+
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def _tool(name: str) -> str:
+    exe = Path(sys.executable).with_name(name)
+    found = str(exe) if exe.exists() else shutil.which(name)
+    if not found:
+        pytest.skip(f"{name} is not installed (it comes with the test extra)")
+    return found
+
+
+def test_ruff_lint_is_clean():
+    # Rules chosen in pyproject.toml [tool.ruff.lint]; common practice, no source.
+    res = subprocess.run(
+        [_tool("ruff"), "check", "outlinebench", "tests", "benchmarks"],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
+    assert res.returncode == 0, res.stdout + res.stderr
+
+
+def test_ruff_format_is_clean():
+    res = subprocess.run(
+        [_tool("ruff"), "format", "--check", "outlinebench", "tests", "benchmarks"],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
+    assert res.returncode == 0, res.stdout + res.stderr
+
+
+def test_layer_contracts_hold():
+    # Contracts in pyproject.toml [tool.importlinter]: Qt only in outlinebench.app, and each
+    # layer imports only the layers below it.
+    res = subprocess.run(
+        [_tool("lint-imports"), "--no-cache"], cwd=ROOT, capture_output=True, text=True
+    )
+    assert res.returncode == 0, res.stdout + res.stderr
+
+
+def test_core_imports_without_qt():
+    # Import every module outside app/ with PySide6 made unimportable.
+    code = (
+        "import sys, pkgutil, importlib\n"
+        "sys.modules['PySide6'] = None\n"
+        "import outlinebench\n"
+        "for m in pkgutil.walk_packages(outlinebench.__path__, 'outlinebench.'):\n"
+        "    if m.name.startswith('outlinebench.app') or m.name == 'outlinebench.__main__':\n"
+        "        continue\n"
+        "    importlib.import_module(m.name)\n"
+    )
+    res = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True)
+    assert res.returncode == 0, res.stderr
