@@ -21,6 +21,15 @@ from outlinebench.geometry.bezier import (
     subsegment,
     to_cubic,
 )
+from outlinebench.geometry.curvature import (
+    curvature,
+    cusps,
+    end_curvatures,
+    end_tangents,
+    inflections,
+    unit_normal,
+    unit_tangent,
+)
 
 __all__ = [
     "DEGREE_BY_KIND",
@@ -37,4 +46,11 @@ __all__ = [
     "split_many",
     "subsegment",
     "to_cubic",
+    "curvature",
+    "cusps",
+    "end_curvatures",
+    "end_tangents",
+    "inflections",
+    "unit_normal",
+    "unit_tangent",
 ]

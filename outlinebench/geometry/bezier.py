@@ -97,8 +97,10 @@ def bernstein_matrix(n: int, t: ArrayLike) -> FloatArray:
     B_{i,n}(t) = C(n, i) tⁱ (1 − t)ⁿ⁻ⁱ. Used for batched evaluation, where a product with the
     control points gives the same point as de Casteljau's algorithm (Farin, §4.3).
     """
-    t = np.atleast_1d(np.asarray(t, dtype=np.float64))[:, None]
+    t = np.atleast_1d(np.asarray(t, dtype=np.float64)).ravel()[:, None]
     s = 1.0 - t
+    if n == 0:
+        return np.ones_like(t)
     if n == 1:
         return np.hstack([s, t])
     if n == 2:
@@ -128,8 +130,12 @@ def evaluate(points: FloatArray, t: ArrayLike) -> FloatArray:
 
     Notes
     -----
-    de Casteljau's algorithm (Farin §4.2): repeated linear interpolation of the control polygon,
-    run on all segments and all parameters at once.
+    For a few points, de Casteljau's algorithm (Farin §4.2): repeated linear interpolation of
+    the control polygon. For many, B(t) = Σ P_i B_{i,n}(t) with the Bernstein basis values
+    (:func:`bernstein_matrix`) as one matrix product over all segments and parameters; the
+    Bernstein form is as well conditioned as de Casteljau (Farouki & Rajan, "On the numerical
+    condition of polynomials in Bernstein form", CAGD 4, 1987) and gives P0 and Pn exactly at
+    t = 0 and t = 1.
 
     Examples
     --------
@@ -138,15 +144,25 @@ def evaluate(points: FloatArray, t: ArrayLike) -> FloatArray:
     """
     # NOTE: inputs are trusted (validated with as_control_points at the boundary).
     scalar_t = np.ndim(t) == 0
-    tt = np.atleast_1d(np.asarray(t, dtype=np.float64))
-    single = points.ndim == 2
-    pts = points[None] if single else points
-    # (M, 1, K, 2) against (T, 1, 1) -> (M, T, K, 2)
-    w = pts[:, None, :, :]
-    tb = tt[None, :, None, None]
-    while w.shape[2] > 1:
-        w = w[:, :, :-1, :] + tb * (w[:, :, 1:, :] - w[:, :, :-1, :])
-    out = w[:, :, 0, :]
+    tt = np.atleast_1d(np.asarray(t, dtype=np.float64)).ravel()
+    pts = np.asarray(points, dtype=np.float64)
+    single = pts.ndim == 2
+    if single:
+        pts = pts[None]
+    m, k, dim = pts.shape
+    if scalar_t or tt.size * m < 64:
+        # de Casteljau on (M, T, K, 2): cheapest for a handful of points.
+        w = np.broadcast_to(pts[:, None, :, :], (m, tt.size, k, dim))
+        tb = tt[None, :, None, None]
+        sb = 1.0 - tb
+        while w.shape[2] > 1:
+            w = sb * w[:, :, :-1, :] + tb * w[:, :, 1:, :]
+        out = w[:, :, 0, :]
+    else:
+        # One matrix product (T, K) @ (K, 2M) for everything at once.
+        basis = bernstein_matrix(k - 1, tt)
+        flat = basis @ pts.transpose(1, 0, 2).reshape(k, dim * m)
+        out = flat.reshape(tt.size, m, dim).transpose(1, 0, 2)
     if scalar_t:
         out = out[:, 0, :]
     if single:
@@ -195,15 +211,16 @@ def split(points: FloatArray, t: float) -> tuple[FloatArray, FloatArray]:
     Notes
     -----
     The left part's control points are the first points of each de Casteljau level, the right
-    part's the last points, in reverse order (Farin §4.4). The shared point is exactly the
-    point :func:`evaluate` gives at t.
+    part's the last points, in reverse order (Farin §4.4). The shared point is bit for bit the
+    point :func:`evaluate` gives for a scalar t (the same (1 − t)·a + t·b steps).
     """
     k = points.shape[-2]
     left = [points[..., 0, :]]
     right = [points[..., -1, :]]
     w = points
+    s = 1.0 - t
     for _ in range(k - 1):
-        w = w[..., :-1, :] + t * (w[..., 1:, :] - w[..., :-1, :])
+        w = s * w[..., :-1, :] + t * w[..., 1:, :]
         left.append(w[..., 0, :])
         right.append(w[..., -1, :])
     return np.stack(left, axis=-2), np.stack(right[::-1], axis=-2)

@@ -1,0 +1,56 @@
+"""Shape handling shared by the geometry modules: one segment or a batch, one t or many.
+
+Private helpers. Public functions accept ``(K, 2)`` or ``(M, K, 2)`` control points and a scalar
+or ``(T,)`` parameter; they work internally on ``(M, K, 2)`` and ``(T,)`` and give back the
+shape the caller used.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+__all__ = ["as_batch", "as_params", "unbatch", "segment_scale", "normalized"]
+
+FloatArray = NDArray[np.float64]
+
+
+def as_batch(points: ArrayLike) -> tuple[FloatArray, bool]:
+    """``(M, K, 2)`` float64 view of the control points and whether one segment was given."""
+    # NOTE: shape and finiteness are trusted (validated with as_control_points at the boundary).
+    pts = np.asarray(points, dtype=np.float64)
+    if pts.ndim == 2:
+        return pts[None], True
+    return pts, False
+
+
+def as_params(t: ArrayLike) -> tuple[FloatArray, bool]:
+    """``(T,)`` float64 parameters and whether a scalar was given."""
+    return np.atleast_1d(np.asarray(t, dtype=np.float64)).ravel(), np.ndim(t) == 0
+
+
+def unbatch(out: np.ndarray, single: bool, scalar_t: bool | None = None) -> np.ndarray:
+    """Drop the batch axis (axis 0) and/or the parameter axis (axis 1) the caller did not use."""
+    if scalar_t:
+        out = out[:, 0]
+    if single:
+        out = out[0]
+    return out
+
+
+def segment_scale(pts: FloatArray) -> FloatArray:
+    """Size of each segment: the larger side of its control-point box, shape ``(M,)``."""
+    return np.max(np.ptp(pts, axis=-2), axis=-1)
+
+
+def normalized(pts: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """Control points moved to start at the origin and scaled to unit size.
+
+    Returns ``(q, scale)`` with ``q = (P − P0) / scale``; a segment whose points all coincide
+    keeps ``scale = 0`` and gets ``q = 0``. Working on ``q`` keeps squared and cubed lengths
+    inside float64's range for coordinates from 1e-150 to 1e150 (curvature, tangents).
+    """
+    scale = segment_scale(pts)
+    safe = np.where(scale > 0.0, scale, 1.0)
+    q = (pts - pts[:, :1, :]) / safe[:, None, None]
+    return q, scale
