@@ -1,0 +1,253 @@
+"""The drawing canvas: paints the document and turns mouse and keys into model gestures.
+
+Navigation (handled here): the wheel scrolls (Shift + wheel scrolls sideways), Ctrl + wheel
+zooms about the pointer, the middle button or Space + left button drags the view. Editing
+gestures are not decided here: mouse events become :class:`outlinebench.model.tools`
+pointer events in document coordinates and the active tool decides what they mean.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QPointF, QRectF, Qt, Signal
+from PySide6.QtGui import (
+    QKeyEvent,
+    QMouseEvent,
+    QPainter,
+    QPaintEvent,
+    QPen,
+    QResizeEvent,
+    QWheelEvent,
+)
+from PySide6.QtWidgets import QSizePolicy, QWidget
+
+from outlinebench.app import style
+from outlinebench.app.canvas_painter import PaintStats, document_bounds, page_rect, paint_document
+from outlinebench.app.contour_graphics import GraphicsCache
+from outlinebench.app.view_transform import ViewTransform
+from outlinebench.model.document import Document
+
+__all__ = ["Canvas", "WHEEL_ZOOM_PER_NOTCH", "WHEEL_PAN_PX_PER_NOTCH"]
+
+# Zoom factor per wheel notch (120 units of angleDelta, the Qt QWheelEvent convention).
+WHEEL_ZOOM_PER_NOTCH = 1.2
+# Scroll distance per wheel notch, logical px.
+WHEEL_PAN_PX_PER_NOTCH = 60.0
+
+
+class Canvas(QWidget):
+    """Shows a document and forwards editing gestures to the active tool.
+
+    Parameters
+    ----------
+    editor : EditorSession
+        The session (history, selection and tools) the canvas shows and edits.
+    """
+
+    view_changed = Signal()
+    pointer_moved = Signal(float, float)  # document coordinates
+
+    def __init__(self, editor, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self._editor = editor
+        self.view = ViewTransform()
+        self.cache = GraphicsCache()
+        self.stats = PaintStats()
+        self._panning = False
+        self._space_down = False
+        self._last_pan = QPointF()
+        self._fitted_once = False
+        self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
+        self.setMouseTracking(True)
+        self.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
+        self.setMinimumSize(200, 200)
+        self.setAttribute(Qt.WidgetAttribute.WA_OpaquePaintEvent, True)
+        editor.changed.connect(self._on_document_changed)
+        editor.selection_changed.connect(self.update)
+
+    # -- model → widget -----------------------------------------------------------------
+    @property
+    def document(self) -> Document:
+        return self._editor.document
+
+    def _on_document_changed(self) -> None:
+        doc = self.document
+        self.cache.prune({id(c) for o in doc.outlines for c in o.contours})
+        self.update()
+
+    # -- view ---------------------------------------------------------------------------
+    def fit_to_outline(self) -> None:
+        """Show every outline (or the page, when the document has none) with a margin."""
+        bounds = document_bounds(self.document, self.cache) or page_rect(self.document)
+        if bounds is None:
+            bounds = (0.0, 0.0, 100.0, 100.0)
+        self.view.fit(bounds, self.width(), self.height())
+        self._fitted_once = True
+        self.view_changed.emit()
+        self.update()
+
+    def zoom(self, factor: float, at: QPointF | None = None) -> None:
+        """Zoom by ``factor`` about ``at`` (logical px), or about the centre of the canvas."""
+        at = at if at is not None else QPointF(self.width() / 2, self.height() / 2)
+        self.view.zoom_about(at.x(), at.y(), factor)
+        self.view_changed.emit()
+        self.update()
+
+    def to_doc(self, pos: QPointF) -> tuple[float, float]:
+        return self.view.to_doc(pos.x(), pos.y())
+
+    def to_screen(self, x: float, y: float) -> QPointF:
+        return QPointF(*self.view.to_screen(x, y))
+
+    def pick_radius(self) -> float:
+        """How close (document units) the pointer must be to a point to pick it."""
+        return style.PICK_RADIUS_PX / self.view.scale
+
+    # -- painting -----------------------------------------------------------------------
+    def resizeEvent(self, event: QResizeEvent) -> None:  # noqa: N802 (Qt name)
+        super().resizeEvent(event)
+        if not self._fitted_once:
+            self.fit_to_outline()
+
+    def paintEvent(self, event: QPaintEvent) -> None:  # noqa: N802 (Qt name)
+        p = QPainter(self)
+        try:
+            paint_document(
+                p,
+                self.view,
+                self.document,
+                self.cache,
+                self.width(),
+                self.height(),
+                self.devicePixelRatioF(),
+                self._editor.selected_points(),
+                self._editor.hover,
+                self.stats,
+            )
+            self._paint_tool_overlay(p)
+        finally:
+            p.end()
+
+    def _paint_tool_overlay(self, p: QPainter) -> None:
+        overlay = self._editor.overlay()
+        if overlay is None:
+            return
+        band = overlay.get("band")
+        if band is not None:
+            x0, y0, x1, y1 = band
+            a = self.to_screen(x0, y0)
+            b = self.to_screen(x1, y1)
+            pen = QPen(style.BAND_EDGE, 1.0, Qt.PenStyle.DashLine)
+            p.setPen(pen)
+            p.setBrush(style.BAND_FILL)
+            p.drawRect(QRectF(a, b).normalized())
+        draft = overlay.get("draft")
+        if draft:
+            p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+            pen = QPen(style.DRAFT, 1.6)
+            p.setPen(pen)
+            p.setBrush(Qt.BrushStyle.NoBrush)
+            for seg in draft:
+                pts = [self.to_screen(float(x), float(y)) for x, y in seg]
+                if len(pts) == 4:
+                    from PySide6.QtGui import QPainterPath
+
+                    path = QPainterPath(pts[0])
+                    path.cubicTo(pts[1], pts[2], pts[3])
+                    p.drawPath(path)
+                    p.setPen(QPen(style.DRAFT, 0.8, Qt.PenStyle.DotLine))
+                    p.drawLine(pts[0], pts[1])
+                    p.drawLine(pts[3], pts[2])
+                    p.setPen(pen)
+                else:
+                    p.drawLine(pts[0], pts[-1])
+        for x, y in overlay.get("draft_points", ()):
+            p.setPen(QPen(style.DRAFT, 1.4))
+            p.setBrush(style.PAPER)
+            p.drawEllipse(self.to_screen(float(x), float(y)), 4.0, 4.0)
+
+    # -- navigation ---------------------------------------------------------------------
+    def wheelEvent(self, event: QWheelEvent) -> None:  # noqa: N802 (Qt name)
+        mods = event.modifiers()
+        angle = event.angleDelta()
+        pixel = event.pixelDelta()
+        if mods & Qt.KeyboardModifier.ControlModifier:
+            notches = angle.y() / 120.0
+            if notches:
+                self.zoom(WHEEL_ZOOM_PER_NOTCH**notches, event.position())
+        else:
+            if not pixel.isNull():
+                dx, dy = float(pixel.x()), float(pixel.y())
+            else:
+                dx = angle.x() / 120.0 * WHEEL_PAN_PX_PER_NOTCH
+                dy = angle.y() / 120.0 * WHEEL_PAN_PX_PER_NOTCH
+            if mods & Qt.KeyboardModifier.ShiftModifier:
+                dx, dy = dy, dx
+            self.view.pan(dx, dy)
+            self.view_changed.emit()
+            self.update()
+        event.accept()
+
+    def _start_pan(self, event: QMouseEvent) -> bool:
+        if event.button() == Qt.MouseButton.MiddleButton or (
+            event.button() == Qt.MouseButton.LeftButton and self._space_down
+        ):
+            self._panning = True
+            self._last_pan = event.position()
+            self.setCursor(Qt.CursorShape.ClosedHandCursor)
+            return True
+        return False
+
+    # -- mouse → tool -------------------------------------------------------------------
+    def mousePressEvent(self, event: QMouseEvent) -> None:  # noqa: N802 (Qt name)
+        self.setFocus(Qt.FocusReason.MouseFocusReason)
+        if self._start_pan(event):
+            return
+        if event.button() == Qt.MouseButton.LeftButton:
+            self._editor.pointer("press", *self.to_doc(event.position()), event, self)
+        event.accept()
+
+    def mouseMoveEvent(self, event: QMouseEvent) -> None:  # noqa: N802 (Qt name)
+        if self._panning:
+            d = event.position() - self._last_pan
+            self._last_pan = event.position()
+            self.view.pan(d.x(), d.y())
+            self.view_changed.emit()
+            self.update()
+            return
+        x, y = self.to_doc(event.position())
+        self.pointer_moved.emit(x, y)
+        self._editor.pointer("move", x, y, event, self)
+
+    def mouseReleaseEvent(self, event: QMouseEvent) -> None:  # noqa: N802 (Qt name)
+        if self._panning and event.button() in (
+            Qt.MouseButton.MiddleButton,
+            Qt.MouseButton.LeftButton,
+        ):
+            self._panning = False
+            self.setCursor(
+                Qt.CursorShape.OpenHandCursor if self._space_down else Qt.CursorShape.ArrowCursor
+            )
+            return
+        if event.button() == Qt.MouseButton.LeftButton:
+            self._editor.pointer("release", *self.to_doc(event.position()), event, self)
+
+    def mouseDoubleClickEvent(self, event: QMouseEvent) -> None:  # noqa: N802 (Qt name)
+        # Treat as a second press so quick clicks are not lost.
+        self.mousePressEvent(event)
+
+    def keyPressEvent(self, event: QKeyEvent) -> None:  # noqa: N802 (Qt name)
+        if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
+            self._space_down = True
+            self.setCursor(Qt.CursorShape.OpenHandCursor)
+            return
+        if self._editor.key(event):
+            event.accept()
+            return
+        super().keyPressEvent(event)
+
+    def keyReleaseEvent(self, event: QKeyEvent) -> None:  # noqa: N802 (Qt name)
+        if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
+            self._space_down = False
+            self.setCursor(Qt.CursorShape.ArrowCursor)
+            return
+        super().keyReleaseEvent(event)

@@ -1,0 +1,318 @@
+"""Painting a document on the canvas: page, grid, outlines, handles, join marks, selection.
+
+Outlines are drawn as one cached QPainterPath per contour under the view transform with a
+cosmetic pen (constant width in pixels), skipping contours outside the visible rectangle.
+Marks and handles are drawn in screen coordinates so they keep their size at every zoom.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable
+
+import numpy as np
+from PySide6.QtCore import QLineF, QPointF, QRectF, Qt
+from PySide6.QtGui import QBrush, QColor, QPainter, QPainterPath, QPen, QPolygonF, QTransform
+
+from outlinebench.app import style
+from outlinebench.app.contour_graphics import ContourGraphics, GraphicsCache, JoinMark
+from outlinebench.app.view_transform import ViewTransform
+from outlinebench.model.document import Document
+
+__all__ = ["page_rect", "paint_document", "PaintStats", "document_bounds"]
+
+
+class PaintStats:
+    """What the last paint did (for the status bar and the benchmark)."""
+
+    def __init__(self) -> None:
+        self.contours_drawn = 0
+        self.points_in_view = 0
+        self.marks_drawn = False
+
+
+def page_rect(doc: Document) -> tuple[float, float, float, float] | None:
+    """The page in document coordinates ``(xmin, ymin, xmax, ymax)``, or None if unknown."""
+    if doc.view_box is not None:
+        x, y, w, h = doc.view_box
+        return (x, y, x + w, y + h)
+    if doc.width_mm and doc.height_mm:
+        return (0.0, 0.0, doc.width_mm / doc.mm_per_unit, doc.height_mm / doc.mm_per_unit)
+    return None
+
+
+def document_bounds(
+    doc: Document, cache: GraphicsCache
+) -> tuple[float, float, float, float] | None:
+    """Bounding box of every contour's control points, or None for an empty document."""
+    boxes = [cache.get(c).bounds for o in doc.outlines for c in o.contours if c.segments]
+    if not boxes:
+        return None
+    arr = np.array(boxes)
+    return (
+        float(arr[:, 0].min()),
+        float(arr[:, 1].min()),
+        float(arr[:, 2].max()),
+        float(arr[:, 3].max()),
+    )
+
+
+def _grid_step_mm(px_per_mm: float) -> float:
+    # Minor grid lines at least 10 px apart: 1, 5, 10, 50, 100 … mm.
+    step = 1.0
+    while step * px_per_mm < 10.0:
+        step *= 5.0 if str(step).startswith("1") else 2.0
+    return step
+
+
+def paint_grid(
+    p: QPainter,
+    view: ViewTransform,
+    doc: Document,
+    visible: tuple[float, float, float, float],
+    dpr: float,
+) -> None:
+    """Millimetre grid inside the page (every 5th line darker), snapped to device pixels."""
+    page = page_rect(doc)
+    if page is None:
+        return
+    px_per_mm = view.scale / doc.mm_per_unit
+    step_mm = _grid_step_mm(px_per_mm)
+    step = step_mm / doc.mm_per_unit
+    x0, y0 = max(page[0], visible[0]), max(page[1], visible[1])
+    x1, y1 = min(page[2], visible[2]), min(page[3], visible[3])
+    if x1 <= x0 or y1 <= y0:
+        return
+    minor: list[QLineF] = []
+    major: list[QLineF] = []
+
+    def snap(v: float) -> float:  # centre 1-device-pixel lines on device pixels
+        return (math.floor(v * dpr) + 0.5) / dpr
+
+    sy0, sy1 = view.to_screen(0, y0)[1], view.to_screen(0, y1)[1]
+    sx0, sx1 = view.to_screen(x0, 0)[0], view.to_screen(x1, 0)[0]
+    i0 = math.ceil((x0 - page[0]) / step)
+    i1 = math.floor((x1 - page[0]) / step)
+    for i in range(i0, i1 + 1):
+        sx = snap(view.to_screen(page[0] + i * step, 0)[0])
+        (major if i % 5 == 0 else minor).append(QLineF(sx, sy0, sx, sy1))
+    j0 = math.ceil((y0 - page[1]) / step)
+    j1 = math.floor((y1 - page[1]) / step)
+    for j in range(j0, j1 + 1):
+        sy = snap(view.to_screen(0, page[1] + j * step)[1])
+        (major if j % 5 == 0 else minor).append(QLineF(sx0, sy, sx1, sy))
+    pen = QPen(style.GRID_MINOR, 0)
+    p.setPen(pen)
+    p.drawLines(minor)
+    pen.setColor(style.GRID_MAJOR)
+    p.setPen(pen)
+    p.drawLines(major)
+
+
+def _intersects(a: tuple[float, float, float, float], b: tuple[float, float, float, float]):
+    return a[0] <= b[2] and b[0] <= a[2] and a[1] <= b[3] and b[1] <= a[3]
+
+
+def _mark_path(path: QPainterPath, x: float, y: float, mark: JoinMark) -> None:
+    """Add the outline of one join mark at screen point (x, y) to ``path``."""
+    s = style.MARK_SIZE
+    dx, dy = mark.direction
+    nx, ny = -dy, dx
+    if mark.kind == "smooth":
+        # capsule along the tangent: two half circles joined by straight sides
+        r = s * 0.55
+        L = s * 0.9
+        t = QTransform()
+        t.translate(x, y)
+        t.rotateRadians(math.atan2(dy, dx))
+        cap = QPainterPath()
+        cap.addRoundedRect(QRectF(-L - r, -r, 2 * (L + r), 2 * r), r, r)
+        path.addPath(t.map(cap))
+    elif mark.kind == "corner":
+        # triangle whose apex points where the corner points
+        tip = QPointF(x + dx * s * 1.5, y + dy * s * 1.5)
+        b1 = QPointF(x - dx * s * 0.9 + nx * s * 1.1, y - dy * s * 0.9 + ny * s * 1.1)
+        b2 = QPointF(x - dx * s * 0.9 - nx * s * 1.1, y - dy * s * 0.9 - ny * s * 1.1)
+        path.addPolygon(QPolygonF([tip, b1, b2, tip]))
+        path.closeSubpath()
+    elif mark.kind == "start":
+        # bar across the tangent, set just before the point
+        w = s * 0.45
+        a = QPointF(x + nx * s * 1.3 - dx * w, y + ny * s * 1.3 - dy * w)
+        b = QPointF(x - nx * s * 1.3 - dx * w, y - ny * s * 1.3 - dy * w)
+        c = QPointF(x - nx * s * 1.3 + dx * w, y - ny * s * 1.3 + dy * w)
+        d = QPointF(x + nx * s * 1.3 + dx * w, y + ny * s * 1.3 + dy * w)
+        path.addPolygon(QPolygonF([a, b, c, d, a]))
+        path.closeSubpath()
+    else:  # "end": arrowhead in travel direction
+        tip = QPointF(x + dx * s * 1.2, y + dy * s * 1.2)
+        b1 = QPointF(x - dx * s * 0.8 + nx * s, y - dy * s * 0.8 + ny * s)
+        b2 = QPointF(x - dx * s * 0.8 - nx * s, y - dy * s * 0.8 - ny * s)
+        notch = QPointF(x - dx * s * 0.2, y - dy * s * 0.2)
+        path.addPolygon(QPolygonF([tip, b1, notch, b2, tip]))
+        path.closeSubpath()
+
+
+def paint_document(
+    p: QPainter,
+    view: ViewTransform,
+    doc: Document,
+    cache: GraphicsCache,
+    width: float,
+    height: float,
+    dpr: float,
+    selected: set[tuple[int, int, int, int]],
+    hover: tuple[int, int, int, int] | None = None,
+    stats: PaintStats | None = None,
+) -> PaintStats:
+    """Paint ``doc`` into a ``width × height`` logical-pixel area.
+
+    Parameters
+    ----------
+    selected : set of (outline, contour, segment, index)
+        Control points drawn as selected. An on-curve point is named by the segment it
+        starts (index 0), or for the end of an open contour by the last segment (index −1
+        of its control points, written as its real index).
+    hover : (outline, contour, segment, index) or None
+        The point under the pointer.
+    """
+    stats = stats or PaintStats()
+    stats.contours_drawn = 0
+    stats.points_in_view = 0
+    p.fillRect(QRectF(0, 0, width, height), style.DESK)
+    page = page_rect(doc)
+    if page is not None:
+        sx0, sy0 = view.to_screen(page[0], page[1])
+        sx1, sy1 = view.to_screen(page[2], page[3])
+        p.fillRect(QRectF(sx0 + 3, sy0 + 3, sx1 - sx0, sy1 - sy0), QColor(0, 0, 0, 22))
+        p.fillRect(QRectF(sx0, sy0, sx1 - sx0, sy1 - sy0), style.PAPER)
+    visible = view.doc_rect(width, height)
+    paint_grid(p, view, doc, visible, dpr)
+    if page is not None:
+        p.setPen(QPen(style.PAGE_EDGE, 0))
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        p.drawRect(QRectF(sx0, sy0, sx1 - sx0, sy1 - sy0))
+
+    # Visible contours (bounding boxes of control points contain the curves).
+    margin = (style.MARK_SIZE * 2) / view.scale
+    vis = (visible[0] - margin, visible[1] - margin, visible[2] + margin, visible[3] + margin)
+    shown: list[tuple[int, int, ContourGraphics]] = []
+    for oi, outline in enumerate(doc.outlines):
+        for ci, contour in enumerate(outline.contours):
+            if not contour.segments:
+                continue
+            g = cache.get(contour)
+            if _intersects(g.bounds, vis):
+                shown.append((oi, ci, g))
+    stats.contours_drawn = len(shown)
+
+    # Outlines: fill closed contours per outline (even-odd), then stroke.
+    p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+    p.save()
+    p.setTransform(QTransform(view.scale, 0, 0, view.scale, view.offset_x, view.offset_y), False)
+    fill = QPainterPath()
+    fill.setFillRule(Qt.FillRule.OddEvenFill)
+    for oi, ci, g in shown:
+        if doc.outlines[oi].contours[ci].closed:
+            fill.addPath(g.path)
+    p.fillPath(fill, QBrush(style.OUTLINE_FILL))
+    pen = QPen(style.OUTLINE, 1.3)
+    pen.setCosmetic(True)
+    p.setPen(pen)
+    p.setBrush(Qt.BrushStyle.NoBrush)
+    for _, _, g in shown:
+        p.drawPath(g.path)
+    p.restore()
+
+    # How many on-curve points are in view decides whether marks are drawn.
+    in_view: list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]] = []
+    total = 0
+    for oi, ci, g in shown:
+        scr = view.to_screen_array(g.on_curve)
+        inside = (
+            (scr[:, 0] >= -20)
+            & (scr[:, 0] <= width + 20)
+            & (scr[:, 1] >= -20)
+            & (scr[:, 1] <= height + 20)
+        )
+        total += int(inside.sum())
+        in_view.append((oi, ci, g, scr, inside))
+    stats.points_in_view = total
+    stats.marks_drawn = total <= style.MAX_MARKED_POINTS
+    if stats.marks_drawn:
+        _paint_marks(p, view, in_view, width, height)
+    _paint_selection(p, view, doc, selected, hover)
+    return stats
+
+
+def _paint_marks(
+    p: QPainter,
+    view: ViewTransform,
+    in_view: Iterable[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]],
+    width: float,
+    height: float,
+) -> None:
+    lines: dict[str, list[QLineF]] = {"smooth": [], "corner": [], "start": [], "end": []}
+    handles: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
+    filled: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
+    hollow: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
+    r = style.HANDLE_RADIUS
+    for _oi, _ci, g, scr, inside in in_view:
+        if len(g.handle_lines):
+            hl = g.handle_lines * view.scale + np.array([view.offset_x, view.offset_y])
+            for (a, b), kind in zip(hl, g.handle_kind, strict=True):
+                if not (-20 <= b[0] <= width + 20 and -20 <= b[1] <= height + 20) and not (
+                    -20 <= a[0] <= width + 20 and -20 <= a[1] <= height + 20
+                ):
+                    continue
+                lines[kind].append(QLineF(a[0], a[1], b[0], b[1]))
+                handles[kind].addEllipse(QPointF(b[0], b[1]), r, r)
+        for k in np.flatnonzero(inside):
+            mark = g.marks[k]
+            target = filled if mark.stated else hollow
+            _mark_path(target[mark.kind], float(scr[k, 0]), float(scr[k, 1]), mark)
+    for kind, colour in style.JOIN_COLOURS.items():
+        pen = QPen(colour, 1.0)
+        p.setPen(pen)
+        p.drawLines(lines[kind])
+    for kind, colour in style.JOIN_COLOURS.items():
+        p.setPen(QPen(colour, 1.4))
+        p.setBrush(style.PAPER)
+        p.drawPath(handles[kind])
+        p.setPen(QPen(colour.darker(130), 1.0))
+        p.setBrush(colour)
+        p.drawPath(filled[kind])
+        p.setPen(QPen(colour, 1.6))
+        p.setBrush(style.PAPER)
+        p.drawPath(hollow[kind])
+
+
+def _paint_selection(
+    p: QPainter,
+    view: ViewTransform,
+    doc: Document,
+    selected: set[tuple[int, int, int, int]],
+    hover: tuple[int, int, int, int] | None,
+) -> None:
+    ring = QPainterPath()
+    for oi, ci, si, k in selected:
+        try:
+            pt = doc.outlines[oi].contours[ci].segments[si][k]
+        except IndexError:
+            continue
+        x, y = view.to_screen(float(pt[0]), float(pt[1]))
+        ring.addEllipse(QPointF(x, y), style.MARK_SIZE + 3.5, style.MARK_SIZE + 3.5)
+    if not ring.isEmpty():
+        p.setPen(QPen(style.SELECTED, 2.4))
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        p.drawPath(ring)
+    if hover is not None:
+        oi, ci, si, k = hover
+        try:
+            pt = doc.outlines[oi].contours[ci].segments[si][k]
+        except IndexError:
+            return
+        x, y = view.to_screen(float(pt[0]), float(pt[1]))
+        p.setPen(QPen(style.HOVER, 1.2))
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        p.drawEllipse(QPointF(x, y), style.MARK_SIZE + 6, style.MARK_SIZE + 6)

@@ -1,0 +1,496 @@
+"""The editor's main window: canvas, selection panel, menus, tool bar and file handling.
+
+``run_editor(args)`` is the entry point ``outlinebench [FILE.svg]`` reaches.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from PySide6.QtCore import QSettings, Qt, QTimer
+from PySide6.QtGui import QAction, QActionGroup, QCloseEvent, QKeySequence
+from PySide6.QtWidgets import (
+    QApplication,
+    QDockWidget,
+    QFrame,
+    QLabel,
+    QMainWindow,
+    QPushButton,
+    QVBoxLayout,
+)
+
+from outlinebench.app import dialogs
+from outlinebench.app.canvas import Canvas
+from outlinebench.app.icons import icon
+from outlinebench.app.selection_panel import SelectionPanel
+from outlinebench.app.session import TOOLS, EditorSession
+from outlinebench.app.settings import RecentFiles
+from outlinebench.errors import OutlinebenchError
+from outlinebench.model.document import Document
+
+__all__ = ["MainWindow", "run_editor", "samples_dir", "NAVIGATION_HINT"]
+
+NAVIGATION_HINT = (
+    "Wheel: scroll · Shift+wheel: scroll sideways · Ctrl+wheel: zoom at pointer · "
+    "Middle-drag or Space+drag: pan"
+)
+
+
+def samples_dir() -> Path | None:
+    """The bundled ``samples`` folder of a source checkout, or None when absent."""
+    here = Path(__file__).resolve()
+    for parent in here.parents:
+        candidate = parent / "samples"
+        if candidate.is_dir() and (parent / "outlinebench").is_dir():
+            return candidate
+    return None
+
+
+def sample_files() -> list[Path]:
+    base = samples_dir()
+    return sorted(base.glob("*.svg")) if base is not None else []
+
+
+class StartPanel(QFrame):
+    """Shown over an empty canvas: open a file or one of the bundled samples."""
+
+    def __init__(self, window: MainWindow) -> None:
+        super().__init__(window.canvas)
+        self.setObjectName("startPanel")
+        self.setFrameShape(QFrame.Shape.StyledPanel)
+        self.setStyleSheet(
+            "#startPanel { background: #fbfaf6; border: 1px solid #b9b3a5; border-radius: 6px; }"
+            "QPushButton { text-align: left; padding: 4px 10px; }"
+        )
+        lay = QVBoxLayout(self)
+        title = QLabel("<b>No drawing open</b>")
+        lay.addWidget(title)
+        lay.addWidget(QLabel("Open an SVG file to check and edit its outlines."))
+        open_btn = QPushButton(icon("open"), "Open a file…")
+        open_btn.clicked.connect(window.open_dialog)
+        lay.addWidget(open_btn)
+        samples = sample_files()
+        if samples:
+            lay.addWidget(QLabel("Or try a sample drawing:"))
+            for path in samples:
+                btn = QPushButton(path.stem.replace("-", " "))
+                btn.setToolTip(str(path))
+                btn.clicked.connect(lambda _=False, p=str(path): window.open_path(p))
+                lay.addWidget(btn)
+        else:
+            lay.addWidget(QLabel("<i>No sample drawings are installed.</i>"))
+        lay.addWidget(QLabel("Or draw a contour with the Draw contour tool."))
+        self.adjustSize()
+
+
+class MainWindow(QMainWindow):
+    """The editor window.
+
+    Parameters
+    ----------
+    settings : QSettings, optional
+        Where recent files are remembered (tests pass a temporary one).
+    """
+
+    def __init__(self, settings: QSettings | None = None) -> None:
+        super().__init__()
+        self.session = EditorSession(Document())
+        self.path: str | None = None
+        self._partial = False  # opened only the part of a file before a read error
+        self.recent = RecentFiles(settings)
+        self.setWindowIcon(icon("app"))
+        self.canvas = Canvas(self.session, self)
+        self.setCentralWidget(self.canvas)
+        self.panel = SelectionPanel(self.session, self)
+        dock = QDockWidget("Selection", self)
+        dock.setObjectName("selectionDock")
+        dock.setWidget(self.panel)
+        dock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
+        self.addDockWidget(Qt.DockWidgetArea.RightDockWidgetArea, dock)
+        self._build_actions()
+        self._build_menus_and_toolbar()
+        self._build_status_bar()
+        self.start_panel = StartPanel(self)
+        self.session.changed.connect(self._on_document_changed)
+        self.session.selection_changed.connect(self._on_selection_changed)
+        self.session.message.connect(self._show_message)
+        self.session.tool_changed.connect(self._on_tool_changed)
+        self.canvas.pointer_moved.connect(self._on_pointer_moved)
+        self.canvas.view_changed.connect(self._on_view_changed)
+        self.resize(1280, 800)
+        self._update_title()
+        self._on_document_changed()
+
+    # -- actions ------------------------------------------------------------------------
+    def _action(self, text, slot, shortcut=None, icon_name=None, tip=None) -> QAction:
+        act = QAction(text, self)
+        if icon_name:
+            act.setIcon(icon(icon_name))
+        if shortcut is not None:
+            if isinstance(shortcut, QKeySequence.StandardKey):
+                act.setShortcuts(shortcut)
+            else:
+                act.setShortcut(QKeySequence(shortcut))
+        act.setStatusTip(tip or text)
+        act.setToolTip(f"{text} ({act.shortcut().toString()})" if shortcut else text)
+        act.triggered.connect(slot)
+        self.addAction(act)
+        return act
+
+    def _build_actions(self) -> None:
+        sk = QKeySequence.StandardKey
+        s = self.session
+        self.act_open = self._action("&Open…", self.open_dialog, sk.Open, "open")
+        self.act_save = self._action("&Save", self.save, sk.Save, "save")
+        self.act_save_as = self._action("Save &as…", self.save_as, sk.SaveAs)
+        self.act_quit = self._action("&Quit", self.close, sk.Quit)
+        self.act_undo = self._action("&Undo", s.undo, sk.Undo, "undo")
+        self.act_redo = self._action("&Redo", s.redo, sk.Redo, "redo")
+        self.act_select_all = self._action("Select &all points", s.select_all, sk.SelectAll)
+        self.act_delete = self._action(
+            "&Delete points",
+            s.delete_selection,
+            sk.Delete,
+            tip="Delete the selected points; the neighbouring segments are refitted",
+        )
+        self.act_delete.setShortcuts([QKeySequence(sk.Delete), QKeySequence("Backspace")])
+        self.act_toggle_join = self._action(
+            "Toggle join &intent (smooth ⇄ corner)",
+            s.toggle_join_intent,
+            "J",
+            "join-intent",
+        )
+        self.act_reverse = self._action(
+            "&Reverse contour direction", s.reverse_contours, "Ctrl+Shift+R", "reverse"
+        )
+        self.act_close_contour = self._action(
+            "&Close contour", s.close_contours, "Ctrl+Shift+C", "close-contour"
+        )
+        self.act_delete_contour = self._action(
+            "Delete &contour", s.delete_contours, "Ctrl+Shift+Backspace", "delete-contour"
+        )
+        self.act_degree = {
+            deg: self._action(
+                f"Make segment a {name}",
+                lambda _=False, d=deg: s.set_degree(d),
+                f"Ctrl+{deg}",
+                "degree" if deg == 3 else None,
+            )
+            for deg, name in ((1, "line"), (2, "quadratic"), (3, "cubic"))
+        }
+        self.act_zoom_in = self._action(
+            "Zoom &in", lambda: self.canvas.zoom(1.5), sk.ZoomIn, "zoom-in"
+        )
+        self.act_zoom_out = self._action(
+            "Zoom &out", lambda: self.canvas.zoom(1 / 1.5), sk.ZoomOut, "zoom-out"
+        )
+        self.act_fit = self._action("&Fit to outline", self.canvas.fit_to_outline, "F", "fit")
+        self.tool_group = QActionGroup(self)
+        self.tool_group.setExclusive(True)
+        self.act_tools: dict[str, QAction] = {}
+        for name, (text, key, icon_name, tip) in TOOLS.items():
+            act = self._action(
+                text, lambda _=False, n=name: self.session.set_tool(n), key, icon_name, tip
+            )
+            act.setCheckable(True)
+            self.tool_group.addAction(act)
+            self.act_tools[name] = act
+        self.act_tools[self.session.tool_name].setChecked(True)
+
+    def _build_menus_and_toolbar(self) -> None:
+        mb = self.menuBar()
+        m_file = mb.addMenu("&File")
+        m_file.addAction(self.act_open)
+        self.menu_samples = m_file.addMenu("Open sa&mple")
+        self.menu_recent = m_file.addMenu("Open &recent")
+        self.menu_recent.aboutToShow.connect(self._fill_recent_menu)
+        self._fill_samples_menu()
+        m_file.addSeparator()
+        m_file.addAction(self.act_save)
+        m_file.addAction(self.act_save_as)
+        m_file.addSeparator()
+        m_file.addAction(self.act_quit)
+        m_edit = mb.addMenu("&Edit")
+        for a in (self.act_undo, self.act_redo, None, self.act_select_all, self.act_delete):
+            m_edit.addSeparator() if a is None else m_edit.addAction(a)
+        m_points = mb.addMenu("&Points")
+        m_points.addAction(self.act_toggle_join)
+        m_deg = m_points.addMenu("Segment &degree")
+        for a in self.act_degree.values():
+            m_deg.addAction(a)
+        m_contour = mb.addMenu("&Contour")
+        for a in (self.act_reverse, self.act_close_contour, self.act_delete_contour):
+            m_contour.addAction(a)
+        m_view = mb.addMenu("&View")
+        for a in (self.act_zoom_in, self.act_zoom_out, self.act_fit):
+            m_view.addAction(a)
+        m_tools = mb.addMenu("&Tools")
+        for a in self.act_tools.values():
+            m_tools.addAction(a)
+
+        tb = self.addToolBar("Main")
+        tb.setObjectName("mainToolbar")
+        tb.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextUnderIcon)
+        tb.setMovable(False)
+        for a in (self.act_open, self.act_save, None, self.act_undo, self.act_redo, None):
+            tb.addSeparator() if a is None else tb.addAction(a)
+        for a in self.act_tools.values():
+            tb.addAction(a)
+        tb.addSeparator()
+        join = tb.addAction(self.act_toggle_join)  # noqa: F841
+        for a in (
+            self.act_degree[3],
+            self.act_reverse,
+            self.act_close_contour,
+            self.act_delete_contour,
+            None,
+            self.act_zoom_in,
+            self.act_zoom_out,
+            self.act_fit,
+        ):
+            tb.addSeparator() if a is None else tb.addAction(a)
+        # Short labels under toolbar icons; menus keep the full names.
+        short = {
+            self.act_toggle_join: "Smooth/corner",
+            self.act_degree[3]: "To cubic",
+            self.act_reverse: "Reverse",
+            self.act_close_contour: "Close",
+            self.act_delete_contour: "Delete contour",
+            self.act_open: "Open",
+            self.act_save: "Save",
+            self.act_undo: "Undo",
+            self.act_redo: "Redo",
+            self.act_zoom_in: "Zoom in",
+            self.act_zoom_out: "Zoom out",
+            self.act_fit: "Fit",
+        }
+        for a, text in short.items():
+            a.setIconText(text)
+
+    def _build_status_bar(self) -> None:
+        sb = self.statusBar()
+        self.pos_label = QLabel("")
+        self.zoom_label = QLabel("")
+        self.hint_label = QLabel(NAVIGATION_HINT)
+        self.hint_label.setStyleSheet("color: #5b6670;")
+        sb.addPermanentWidget(self.hint_label)
+        sb.addPermanentWidget(self.pos_label)
+        sb.addPermanentWidget(self.zoom_label)
+
+    def _fill_samples_menu(self) -> None:
+        self.menu_samples.clear()
+        samples = sample_files()
+        for path in samples:
+            act = self.menu_samples.addAction(path.name)
+            act.triggered.connect(lambda _=False, p=str(path): self.open_path(p))
+        if not samples:
+            act = self.menu_samples.addAction("(no samples installed)")
+            act.setEnabled(False)
+
+    def _fill_recent_menu(self) -> None:
+        self.menu_recent.clear()
+        paths = self.recent.paths()
+        for p in paths:
+            act = self.menu_recent.addAction(p)
+            act.triggered.connect(lambda _=False, q=p: self.open_path(q))
+        if not paths:
+            act = self.menu_recent.addAction("(none yet)")
+            act.setEnabled(False)
+
+    # -- model → widgets ----------------------------------------------------------------
+    def _on_document_changed(self) -> None:
+        s = self.session
+        self.setWindowModified(s.is_dirty)
+        self.act_undo.setEnabled(s.can_undo)
+        self.act_redo.setEnabled(s.can_redo)
+        self.act_undo.setText(f"&Undo {s.undo_label}" if s.can_undo else "&Undo")
+        self.act_redo.setText(f"&Redo {s.redo_label}" if s.can_redo else "&Redo")
+        self._place_start_panel()
+
+    def _on_selection_changed(self) -> None:
+        has = bool(self.session.selected_points())
+        for a in (
+            self.act_delete,
+            self.act_toggle_join,
+            self.act_reverse,
+            self.act_close_contour,
+            self.act_delete_contour,
+            *self.act_degree.values(),
+        ):
+            a.setEnabled(has)
+
+    def _on_tool_changed(self, name: str) -> None:
+        act = self.act_tools.get(name)
+        if act is not None and not act.isChecked():
+            act.setChecked(True)
+
+    def _on_pointer_moved(self, x: float, y: float) -> None:
+        u = self.session.units
+        self.pos_label.setText(
+            f"x {u.show(x):.{u.decimals}f}  y {u.show(y):.{u.decimals}f} {u.name}"
+        )
+
+    def _on_view_changed(self) -> None:
+        u = self.session.units
+        # Zoom shown as screen pixels per displayed unit.
+        self.zoom_label.setText(f"{self.canvas.view.scale / u.factor:.3g} px/{u.name}")
+        self._place_start_panel()
+
+    def _show_message(self, text: str) -> None:
+        self.statusBar().showMessage(text, 12000)
+
+    def _place_start_panel(self) -> None:
+        panel = getattr(self, "start_panel", None)
+        if panel is None:
+            return
+        empty = self.path is None and not self.session.document.outlines
+        panel.setVisible(empty)
+        if empty:
+            panel.move(
+                max(8, (self.canvas.width() - panel.width()) // 2),
+                max(8, (self.canvas.height() - panel.height()) // 3),
+            )
+
+    def resizeEvent(self, event) -> None:  # noqa: N802 (Qt name)
+        super().resizeEvent(event)
+        self._place_start_panel()
+
+    def _update_title(self) -> None:
+        name = Path(self.path).name if self.path else "Untitled"
+        self.setWindowTitle(f"{name}[*] — OutlineBench")
+
+    # -- questions the window asks (tests replace these) ---------------------------------
+    def ask_save_changes(self) -> str:
+        """ "save", "discard" or "cancel" for unsaved changes."""
+        name = Path(self.path).name if self.path else "Untitled"
+        return dialogs.ask_save_changes(self, name)
+
+    def ask_open_partial(self, path: str, error: str, outline_count: int) -> bool:
+        return dialogs.ask_open_partial(self, path, error, outline_count)
+
+    def show_error(self, title: str, text: str) -> None:
+        dialogs.show_error(self, title, text)
+
+    def choose_open_path(self) -> str | None:
+        start = str(Path(self.path).parent) if self.path else ""
+        return dialogs.choose_open_path(self, start)
+
+    def choose_save_path(self) -> str | None:
+        return dialogs.choose_save_path(self, self.path or "")
+
+    # -- files --------------------------------------------------------------------------
+    def maybe_save(self) -> bool:
+        """True when it is fine to drop the current document (saved, discarded or clean)."""
+        if not self.session.is_dirty:
+            return True
+        answer = self.ask_save_changes()
+        if answer == "save":
+            return self.save()
+        return answer == "discard"
+
+    def open_dialog(self) -> bool:
+        if not self.maybe_save():
+            return False
+        path = self.choose_open_path()
+        return self.open_path(path, ask=False) if path else False
+
+    def open_path(self, path: str, *, ask: bool = True) -> bool:
+        """Open ``path``; on any read problem show why and keep the current document."""
+        if ask and not self.maybe_save():
+            return False
+        try:
+            from outlinebench.io import read_svg
+        except ImportError as exc:
+            self.show_error("Cannot open file", f"The SVG reader is not available ({exc}).")
+            return False
+        try:
+            result = read_svg(path)
+        except OutlinebenchError as exc:
+            self.show_error("Cannot open file", str(exc))
+            return False
+        except OSError as exc:
+            self.show_error("Cannot open file", f"{path}: {exc.strerror or exc}")
+            return False
+        partial = result.error is not None
+        if partial and not self.ask_open_partial(
+            path, str(result.error), len(result.document.outlines)
+        ):
+            return False
+        self.session.load(result.document)
+        self.path = str(path)
+        self._partial = partial
+        self.recent.add(self.path)
+        self._update_title()
+        self.canvas.fit_to_outline()
+        self._on_document_changed()
+        self._on_view_changed()
+        notes = list(result.notes)
+        doc = result.document
+        parts = [
+            f"Opened {Path(path).name}: {len(doc.outlines)} outlines, "
+            f"{doc.segment_count()} segments, lengths in {self.session.units.name}"
+        ]
+        if notes:
+            parts.append(f"{len(notes)} note(s) from reading: " + str(notes[0]))
+        if partial:
+            parts.append("only the part before the read error was opened")
+        self._show_message("; ".join(parts))
+        return True
+
+    def save(self) -> bool:
+        if self.path is None or self._partial:
+            return self.save_as()
+        return self._write(self.path)
+
+    def save_as(self) -> bool:
+        path = self.choose_save_path()
+        if not path:
+            return False
+        if self._write(path):
+            self.path = path
+            self._partial = False
+            self.recent.add(path)
+            self._update_title()
+            return True
+        return False
+
+    def _write(self, path: str) -> bool:
+        try:
+            from outlinebench.io import write_svg
+        except ImportError as exc:
+            self.show_error("Cannot save", f"The SVG writer is not available ({exc}).")
+            return False
+        try:
+            write_svg(self.session.document, path)
+        except OutlinebenchError as exc:
+            self.show_error("Cannot save", str(exc))
+            return False
+        except OSError as exc:
+            self.show_error("Cannot save", f"{path}: {exc.strerror or exc}")
+            return False
+        self.session.mark_saved()
+        self._on_document_changed()
+        self._show_message(f"Saved {path}")
+        return True
+
+    def closeEvent(self, event: QCloseEvent) -> None:  # noqa: N802 (Qt name)
+        if self.maybe_save():
+            event.accept()
+        else:
+            event.ignore()
+
+
+def run_editor(args: list[str]) -> int:
+    """Open the editor window; ``args`` is ``[]`` or ``[FILE.svg]``. Returns the exit code."""
+    if len(args) > 1:
+        print("outlinebench: error: the editor opens one file at a time", file=sys.stderr)
+        return 2
+    app = QApplication.instance() or QApplication(sys.argv[:1])
+    app.setApplicationName("OutlineBench")
+    app.setOrganizationName("OutlineBench")
+    window = MainWindow()
+    window.show()
+    if args:
+        QTimer.singleShot(0, lambda: window.open_path(args[0]))
+    return app.exec()

@@ -1,0 +1,128 @@
+"""Naming control points in a document as ``(outline, contour, segment, index)`` tuples.
+
+An on-curve point shared by two segments is named by the segment it starts (index 0); the
+last point of an open contour by its last segment's last index. Handles are named by their
+own segment and index.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from outlinebench.model.document import Document
+
+__all__ = [
+    "Key",
+    "normalize",
+    "point_at",
+    "exists",
+    "is_on_curve",
+    "join_of",
+    "handles_of",
+    "owner_of_handle",
+    "opposite_handle",
+    "polar",
+    "screen_angle_deg",
+]
+
+Key = tuple[int, int, int, int]
+
+
+def exists(doc: Document, key: Key) -> bool:
+    o, c, s, i = key
+    try:
+        seg = doc.outlines[o].contours[c].segments[s]
+    except IndexError:
+        return False
+    return min(o, c, s, i) >= 0 and i < seg.shape[0]
+
+
+def normalize(doc: Document, key: Key) -> Key:
+    """The canonical name of a control point (an on-curve end → start of the next segment)."""
+    o, c, s, i = key
+    contour = doc.outlines[o].contours[c]
+    n = len(contour.segments)
+    k = contour.segments[s].shape[0]
+    if i == k - 1 and (s < n - 1 or contour.closed):
+        return (o, c, (s + 1) % n, 0)
+    return key
+
+
+def point_at(doc: Document, key: Key) -> np.ndarray:
+    o, c, s, i = key
+    return doc.outlines[o].contours[c].segments[s][i]
+
+
+def is_on_curve(doc: Document, key: Key) -> bool:
+    o, c, s, i = key
+    return i == 0 or i == doc.outlines[o].contours[c].segments[s].shape[0] - 1
+
+
+def join_of(doc: Document, key: Key) -> int | None:
+    """Join index at an on-curve point (None at the free ends of an open contour)."""
+    o, c, s, i = normalize(doc, key)
+    contour = doc.outlines[o].contours[c]
+    n = len(contour.segments)
+    if i != 0:  # the end of an open contour
+        return None
+    if s == 0 and not contour.closed:
+        return None
+    return (s - 1) % n
+
+
+def handles_of(doc: Document, key: Key) -> tuple[Key | None, Key | None]:
+    """(incoming handle, outgoing handle) of an on-curve point; None where the adjacent
+    segment is a line or missing."""
+    o, c, s, i = normalize(doc, key)
+    contour = doc.outlines[o].contours[c]
+    n = len(contour.segments)
+    incoming = outgoing = None
+    if i == 0:
+        seg = contour.segments[s]
+        if seg.shape[0] > 2:
+            outgoing = (o, c, s, 1)
+        if s > 0 or contour.closed:
+            prev = (s - 1) % n
+            k = contour.segments[prev].shape[0]
+            if k > 2:
+                incoming = (o, c, prev, k - 2)
+    else:  # end of open contour
+        k = contour.segments[s].shape[0]
+        if k > 2:
+            incoming = (o, c, s, k - 2)
+    return incoming, outgoing
+
+
+def owner_of_handle(doc: Document, key: Key) -> Key:
+    """The on-curve point a handle hangs from (the nearer end of its segment; for a
+    quadratic's single handle, the segment's start)."""
+    o, c, s, i = key
+    k = doc.outlines[o].contours[c].segments[s].shape[0]
+    if i == 1 or k == 3:
+        return (o, c, s, 0)
+    return normalize(doc, (o, c, s, k - 1))
+
+
+def opposite_handle(doc: Document, key: Key) -> Key | None:
+    """The handle on the other side of the same on-curve point, if any."""
+    owner = owner_of_handle(doc, key)
+    inc, out = handles_of(doc, owner)
+    if key == inc:
+        return out
+    if key == out:
+        return inc
+    return None
+
+
+def polar(origin: np.ndarray, p: np.ndarray) -> tuple[float, float]:
+    """Length and on-screen angle (degrees) of the vector origin → p."""
+    d = p - origin
+    return float(math.hypot(d[0], d[1])), screen_angle_deg(d)
+
+
+def screen_angle_deg(d: np.ndarray) -> float:
+    """Angle of a document-space vector as seen on screen: anticlockwise from +x with the
+    screen's y axis up (SVG's y axis points down, so y is negated)."""
+    return math.degrees(math.atan2(-float(d[1]), float(d[0])))

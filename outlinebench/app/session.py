@@ -1,0 +1,436 @@
+"""The editing session behind one window: history, selection, the active tool, as Qt signals.
+
+The session owns the model's :class:`~outlinebench.model.history.History`; every edit it makes
+is a model command pushed there. Widgets listen to its signals and call its methods; none of
+them changes a document directly. Core errors (:class:`OutlinebenchError`) from a command are
+caught here and reported through the ``message`` signal, so a refused edit never takes the
+editor down.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+import numpy as np
+from PySide6.QtCore import QObject, Qt, Signal
+from PySide6.QtGui import QKeyEvent, QMouseEvent
+
+from outlinebench.app import point_keys as pk
+from outlinebench.app.units import DisplayUnits, display_units
+from outlinebench.errors import OutlinebenchError
+from outlinebench.model import commands as cmds
+from outlinebench.model.document import Document
+from outlinebench.model.history import History
+
+__all__ = ["EditorSession", "TOOLS", "NUDGE_STEPS", "BREAK_JOIN_MODIFIER", "SYMMETRIC_MODIFIER"]
+
+# Tool name → (menu text, shortcut, icon, status tip).
+TOOLS: dict[str, tuple[str, str, str, str]] = {
+    "select": (
+        "Select and move",
+        "S",
+        "tool-select",
+        "Click a point to select it, Shift+click to add, drag a box to select several; drag "
+        "points or handles to move them (Alt: break a smooth join, Ctrl: keep handles equal)",
+    ),
+    "insert": (
+        "Insert point",
+        "I",
+        "tool-insert",
+        "Click on a segment to split it there; the shape does not change",
+    ),
+    "draw": (
+        "Draw contour",
+        "D",
+        "tool-draw",
+        "Click for a corner point, press and drag for a smooth point with handles; click the "
+        "first point to close; Enter ends an open contour, Esc cancels",
+    ),
+}
+
+# Arrow-key nudge (plain, with Shift) in the displayed unit.
+NUDGE_STEPS: dict[str, tuple[float, float]] = {
+    "mm": (0.1, 1.0),
+    "cm": (0.01, 0.1),
+    "in": (0.005, 0.05),
+    "pt": (0.5, 5.0),
+    "pc": (0.05, 0.5),
+    "px": (1.0, 10.0),
+}
+
+# While dragging a handle: Alt moves it alone and makes its join a corner; Ctrl mirrors the
+# opposite handle (equal lengths) and makes the join smooth.
+BREAK_JOIN_MODIFIER = Qt.KeyboardModifier.AltModifier
+SYMMETRIC_MODIFIER = Qt.KeyboardModifier.ControlModifier
+ADD_TO_SELECTION_MODIFIER = Qt.KeyboardModifier.ShiftModifier
+
+
+class EditorSession(QObject):
+    """History, selection and tools of one open document.
+
+    Parameters
+    ----------
+    document : Document
+        The document to start with (counts as saved).
+
+    Signals
+    -------
+    changed
+        The document changed (edit, undo, redo, load).
+    selection_changed
+        The selected points, or the point under the pointer, changed.
+    message(str)
+        Something to tell the user in the status bar (results, refused edits).
+    tool_changed(str)
+        The active tool's name.
+    """
+
+    changed = Signal()
+    selection_changed = Signal()
+    message = Signal(str)
+    tool_changed = Signal(str)
+
+    def __init__(self, document: Document, parent: QObject | None = None) -> None:
+        super().__init__(parent)
+        self.history = History(document)
+        self.history.subscribe(self._on_history_changed)
+        self._selection: dict[pk.Key, None] = {}
+        self.primary: pk.Key | None = None
+        self.hover: pk.Key | None = None
+        self.tool_name = "select"
+        self._units = display_units(document)
+        self._gesture = None  # the active model tool (set up by set_tool)
+        self.set_tool("select")
+
+    # -- state --------------------------------------------------------------------------
+    @property
+    def document(self) -> Document:
+        return self.history.document
+
+    @property
+    def units(self) -> DisplayUnits:
+        return self._units
+
+    @property
+    def is_dirty(self) -> bool:
+        return self.history.is_dirty
+
+    @property
+    def can_undo(self) -> bool:
+        return self.history.can_undo
+
+    @property
+    def can_redo(self) -> bool:
+        return self.history.can_redo
+
+    @property
+    def undo_label(self) -> str:
+        return self.history.undo_label or ""
+
+    @property
+    def redo_label(self) -> str:
+        return self.history.redo_label or ""
+
+    def mark_saved(self) -> None:
+        self.history.mark_saved()
+        self.changed.emit()
+
+    def load(self, document: Document) -> None:
+        """Start over with another document (a file was opened)."""
+        self._cancel_gesture()
+        self._units = display_units(document)
+        self._selection.clear()
+        self.primary = None
+        self.hover = None
+        self.history.reset(document)
+        self.selection_changed.emit()
+
+    def _on_history_changed(self, old: Document, new: Document) -> None:
+        # Keep only selected points that still exist, under their canonical names.
+        kept: dict[pk.Key, None] = {}
+        for key in self._selection:
+            if pk.exists(new, key):
+                kept[tuple(cmds.canonical_ref(new, cmds.PointRef(*key)))] = None
+        sel_changed = list(kept) != list(self._selection)
+        self._selection = kept
+        if self.primary is not None and self.primary not in kept:
+            self.primary = next(reversed(kept), None) if kept else None
+            sel_changed = True
+        if self.hover is not None and not pk.exists(new, self.hover):
+            self.hover = None
+        self.changed.emit()
+        if sel_changed:
+            self.selection_changed.emit()
+
+    # -- selection ----------------------------------------------------------------------
+    def selected_points(self) -> set[pk.Key]:
+        return set(self._selection)
+
+    def selection_order(self) -> list[pk.Key]:
+        return list(self._selection)
+
+    def set_selection(self, keys: Iterable[pk.Key], primary: pk.Key | None = None) -> None:
+        doc = self.document
+        new = {tuple(cmds.canonical_ref(doc, cmds.PointRef(*k))): None for k in keys}
+        if primary is not None:
+            primary = tuple(cmds.canonical_ref(doc, cmds.PointRef(*primary)))
+        elif new:
+            primary = next(reversed(new))
+        if list(new) == list(self._selection) and primary == self.primary:
+            return
+        self._selection = new
+        self.primary = primary
+        self.selection_changed.emit()
+
+    def select_all(self) -> None:
+        doc = self.document
+        keys = [
+            tuple(r)
+            for oi, o in enumerate(doc.outlines)
+            for ci, _c in enumerate(o.contours)
+            for r in cmds.point_refs(doc, oi, ci)
+        ]
+        self.set_selection(keys)
+        self.message.emit(f"{len(keys)} points selected")
+
+    def set_hover(self, key: pk.Key | None) -> None:
+        if key != self.hover:
+            self.hover = key
+            self.selection_changed.emit()
+
+    def _selected_contours(self) -> list[tuple[int, int]]:
+        return sorted({(k[0], k[1]) for k in self._selection})
+
+    # -- running commands ---------------------------------------------------------------
+    def do(self, command: cmds.Command) -> bool:
+        """Push one command; on a core error report it and leave the document as it was."""
+        try:
+            self.history.do(command)
+        except OutlinebenchError as exc:
+            self.message.emit(f"{command.label}: not done — {exc}")
+            return False
+        return True
+
+    def _do_group(self, label: str, commands: Iterable[cmds.Command]) -> list[cmds.Command]:
+        """Push several commands as one undo step; all or nothing."""
+        done: list[cmds.Command] = []
+        try:
+            with self.history.group(label):
+                for c in commands:
+                    self.history.do(c)
+                    done.append(c)
+        except OutlinebenchError as exc:
+            self.message.emit(f"{label}: not done — {exc}")
+            return []
+        return done
+
+    def undo(self) -> None:
+        self._cancel_gesture()
+        if not self.history.can_undo:
+            self.message.emit("Nothing to undo")
+            return
+        label = self.history.undo_label
+        try:
+            self.history.undo()
+        except OutlinebenchError as exc:
+            self.message.emit(f"Undo: not done — {exc}")
+            return
+        self.message.emit(f"Undone: {label}")
+
+    def redo(self) -> None:
+        self._cancel_gesture()
+        if not self.history.can_redo:
+            self.message.emit("Nothing to redo")
+            return
+        label = self.history.redo_label
+        try:
+            self.history.redo()
+        except OutlinebenchError as exc:
+            self.message.emit(f"Redo: not done — {exc}")
+            return
+        self.message.emit(f"Redone: {label}")
+
+    # -- numeric edits (selection panel) ------------------------------------------------
+    def set_point(self, key: pk.Key, x: float, y: float) -> None:
+        self.do(cmds.SetPoint(cmds.PointRef(*key), (x, y)))
+
+    def set_handle_polar(self, key: pk.Key, length: float, angle_deg: float) -> None:
+        """Put a handle at ``length`` and on-screen ``angle_deg`` from its on-curve point."""
+        doc = self.document
+        owner = pk.owner_of_handle(doc, key)
+        p = pk.point_at(doc, owner)
+        a = np.radians(angle_deg)
+        # screen angle: anticlockwise with y up; document y points down
+        target = (float(p[0] + length * np.cos(a)), float(p[1] - length * np.sin(a)))
+        self.do(cmds.SetPoint(cmds.PointRef(*key), target))
+
+    def set_join_intent(self, key: pk.Key, intent: str | None) -> None:
+        doc = self.document
+        j = pk.join_of(doc, key)
+        if j is None:
+            self.message.emit("The free end of an open contour has no join")
+            return
+        self.do(cmds.SetJoinIntent(key[0], key[1], j, intent))
+
+    # -- menu edits ---------------------------------------------------------------------
+    def nudge(self, dx_steps: float, dy_steps: float, large: bool) -> None:
+        if not self._selection:
+            return
+        u = self.units
+        step = NUDGE_STEPS.get(u.name, (1.0, 10.0))[1 if large else 0]
+        d = u.parse(step)
+        self.do(
+            cmds.MovePoints(
+                [cmds.PointRef(*k) for k in self._selection], (dx_steps * d, dy_steps * d)
+            )
+        )
+
+    def toggle_join_intent(self) -> None:
+        doc = self.document
+        from outlinebench.app.contour_graphics import GraphicsCache
+
+        cache = GraphicsCache()
+        todo = []
+        for key in self._selection:
+            on = key if pk.is_on_curve(doc, key) else pk.owner_of_handle(doc, key)
+            j = pk.join_of(doc, on)
+            if j is None:
+                continue
+            o, c = on[0], on[1]
+            contour = doc.outlines[o].contours[c]
+            mark = cache.get(contour).marks[(j + 1) % len(contour.segments)]
+            new = "corner" if mark.kind == "smooth" else "smooth"
+            todo.append((o, c, j, new))
+        todo = list(dict.fromkeys(todo))
+        if not todo:
+            self.message.emit("Select an on-curve point where two segments meet")
+            return
+        self._do_group(
+            "Toggle join intent", [cmds.SetJoinIntent(o, c, j, new) for o, c, j, new in todo]
+        )
+        kinds = {t[3] for t in todo}
+        self.message.emit(f"{len(todo)} join(s) now stated as {' / '.join(sorted(kinds))}")
+
+    def _selected_segments(self) -> list[tuple[int, int, int]]:
+        """Segments with a selected handle or with both ends selected; else the segment the
+        primary point starts (or ends, at the end of an open contour)."""
+        doc = self.document
+        segs: set[tuple[int, int, int]] = set()
+        sel = set(self._selection)
+        for o, c, s, i in sel:
+            contour = doc.outlines[o].contours[c]
+            k = contour.segments[s].shape[0]
+            if 0 < i < k - 1:
+                segs.add((o, c, s))
+        for oi, o in enumerate(doc.outlines):
+            for ci, contour in enumerate(o.contours):
+                if not any(k[0] == oi and k[1] == ci for k in sel):
+                    continue
+                for s, seg in enumerate(contour.segments):
+                    a = tuple(cmds.canonical_ref(doc, cmds.PointRef(oi, ci, s, 0)))
+                    b = tuple(cmds.canonical_ref(doc, cmds.PointRef(oi, ci, s, seg.shape[0] - 1)))
+                    if a in sel and b in sel:
+                        segs.add((oi, ci, s))
+        if not segs and self.primary is not None:
+            o, c, s, _ = self.primary
+            segs.add((o, c, s))
+        return sorted(segs)
+
+    def set_degree(self, degree: int) -> None:
+        segs = self._selected_segments()
+        doc = self.document
+        segs = [
+            s
+            for s in segs
+            if doc.outlines[s[0]].contours[s[1]].segments[s[2]].shape[0] - 1 != degree
+        ]
+        if not segs:
+            self.message.emit("No selected segment needs changing")
+            return
+        done = self._do_group(
+            f"Make {'line' if degree == 1 else 'quadratic' if degree == 2 else 'cubic'}",
+            [cmds.ChangeDegree(cmds.SegmentRef(*s), degree) for s in segs],
+        )
+        if done:
+            dev = max(c.deviation or 0.0 for c in done)
+            self.message.emit(
+                f"{len(done)} segment(s) changed; shape changed by at most {self.units.text(dev)}"
+            )
+
+    def delete_selection(self) -> None:
+        doc = self.document
+        on_curve = [k for k in self._selection if pk.is_on_curve(doc, k)]
+        if not on_curve:
+            if self._selection:
+                self.message.emit(
+                    "Handles cannot be deleted alone; make the segment a line instead (Ctrl+1)"
+                )
+            return
+        # Delete from the end of each contour backwards so earlier names stay valid.
+        on_curve.sort(key=lambda k: (k[0], k[1], k[2], k[3]), reverse=True)
+        done = self._do_group(
+            "Delete points" if len(on_curve) > 1 else "Delete point",
+            [cmds.DeletePoint(cmds.PointRef(*k)) for k in on_curve],
+        )
+        if done:
+            dev = max(c.deviation or 0.0 for c in done)
+            self.set_selection([])
+            self.message.emit(
+                f"Deleted {len(done)} point(s); neighbouring segments refitted, shape changed "
+                f"by at most {self.units.text(dev)}"
+            )
+
+    def reverse_contours(self) -> None:
+        todo = self._selected_contours()
+        if todo and self._do_group("Reverse contour", [cmds.ReverseContour(o, c) for o, c in todo]):
+            self.set_selection([])
+            self.message.emit(f"Reversed {len(todo)} contour(s)")
+
+    def close_contours(self) -> None:
+        doc = self.document
+        todo = [(o, c) for o, c in self._selected_contours() if not doc.contour(o, c).closed]
+        if not todo:
+            self.message.emit("The selected contours are already closed")
+            return
+        if self._do_group("Close contour", [cmds.SetClosed(o, c, True) for o, c in todo]):
+            self.message.emit(f"Closed {len(todo)} contour(s)")
+
+    def delete_contours(self) -> None:
+        todo = sorted(self._selected_contours(), reverse=True)
+        if todo and self._do_group("Delete contour", [cmds.DeleteContour(o, c) for o, c in todo]):
+            self.set_selection([])
+            self.message.emit(f"Deleted {len(todo)} contour(s)")
+
+    # -- tools --------------------------------------------------------------------------
+    def set_tool(self, name: str) -> None:
+        if name not in TOOLS:
+            raise ValueError(f"unknown tool {name!r}; tools are {', '.join(TOOLS)}")
+        self._cancel_gesture()
+        self.tool_name = name
+        self.tool_changed.emit(name)
+        self.message.emit(TOOLS[name][3])
+
+    def _cancel_gesture(self) -> None:
+        pass
+
+    def overlay(self) -> dict | None:
+        """What the active gesture wants drawn over the document (rubber band, draft)."""
+        return None
+
+    def pointer(self, kind: str, x: float, y: float, event: QMouseEvent, canvas) -> None:
+        """A mouse event from the canvas, in document coordinates."""
+
+    def key(self, event: QKeyEvent) -> bool:
+        """A key pressed on the canvas; True when the session used it."""
+        k = event.key()
+        large = bool(event.modifiers() & Qt.KeyboardModifier.ShiftModifier)
+        arrows = {
+            Qt.Key.Key_Left: (-1, 0),
+            Qt.Key.Key_Right: (1, 0),
+            Qt.Key.Key_Up: (0, -1),
+            Qt.Key.Key_Down: (0, 1),
+        }
+        if k in arrows and self._selection:
+            self.nudge(*arrows[k], large)
+            return True
+        return False
