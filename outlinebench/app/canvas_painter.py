@@ -19,7 +19,7 @@ from outlinebench.app.contour_graphics import ContourGraphics, GraphicsCache, Jo
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
 
-__all__ = ["page_rect", "paint_document", "PaintStats", "document_bounds"]
+__all__ = ["page_rect", "paint_document", "PaintStats", "document_bounds", "mark_path"]
 
 
 class PaintStats:
@@ -113,7 +113,7 @@ def _intersects(a: tuple[float, float, float, float], b: tuple[float, float, flo
     return a[0] <= b[2] and b[0] <= a[2] and a[1] <= b[3] and b[1] <= a[3]
 
 
-def _mark_path(path: QPainterPath, x: float, y: float, mark: JoinMark) -> None:
+def mark_path(path: QPainterPath, x: float, y: float, mark: JoinMark) -> None:
     """Add the outline of one join mark at screen point (x, y) to ``path``."""
     s = style.MARK_SIZE
     dx, dy = mark.direction
@@ -270,7 +270,7 @@ def _paint_marks(
         for k in np.flatnonzero(inside):
             mark = g.marks[k]
             target = filled if mark.stated else hollow
-            _mark_path(target[mark.kind], float(scr[k, 0]), float(scr[k, 1]), mark)
+            mark_path(target[mark.kind], float(scr[k, 0]), float(scr[k, 1]), mark)
     for kind, colour in style.JOIN_COLOURS.items():
         pen = QPen(colour, 1.0)
         p.setPen(pen)

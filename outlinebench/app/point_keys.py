@@ -125,4 +125,5 @@ def polar(origin: np.ndarray, p: np.ndarray) -> tuple[float, float]:
 def screen_angle_deg(d: np.ndarray) -> float:
     """Angle of a document-space vector as seen on screen: anticlockwise from +x with the
     screen's y axis up (SVG's y axis points down, so y is negated)."""
-    return math.degrees(math.atan2(-float(d[1]), float(d[0])))
+    a = math.degrees(math.atan2(-float(d[1]), float(d[0])))
+    return 180.0 if a == -180.0 else a + 0.0  # one name for the leftward direction, no −0

@@ -23,6 +23,7 @@ from PySide6.QtWidgets import (
 )
 
 from outlinebench.app import point_keys as pk
+from outlinebench.app.legend import MarkKey
 from outlinebench.app.lengths import segment_length
 
 __all__ = ["SelectionPanel", "ANGLE_DECIMALS"]
@@ -110,6 +111,10 @@ class SelectionPanel(QWidget):
         c.addRow(self.contour_info)
         lay.addWidget(self.contour_box)
         lay.addStretch(1)
+        key_box = QGroupBox("How points are drawn")
+        kl = QVBoxLayout(key_box)
+        kl.addWidget(MarkKey())
+        lay.addWidget(key_box)
 
         self.x.valueChanged.connect(lambda _v: self._commit_xy())
         self.y.valueChanged.connect(lambda _v: self._commit_xy())

@@ -1,0 +1,95 @@
+"""Selection panel: model → widget (the numbers shown) and widget → model (typed values)."""
+
+import math
+
+import numpy as np
+import pytest
+
+pytest.importorskip("PySide6")
+
+from PySide6.QtCore import Qt  # noqa: E402
+from PySide6.QtTest import QTest  # noqa: E402
+
+# The lettering document has 0.5 mm per user unit; the panel shows mm.
+MM = 0.5
+
+
+def _type(widget, text):
+    widget.selectAll()
+    widget.lineEdit().selectAll()
+    QTest.keyClicks(widget.lineEdit(), text)
+    QTest.keyClick(widget.lineEdit(), Qt.Key.Key_Return)
+
+
+def test_panel_shows_point_handles_and_segments_in_mm(window):
+    panel = window.panel
+    window.session.set_selection([(0, 0, 1, 0)])  # on-curve point (50, 10), a smooth join
+    # Coordinates: user units × mm_per_unit (SVG 1.1 §7.2 viewBox scaling).
+    assert panel.x.value() == pytest.approx(50 * MM)
+    assert panel.y.value() == pytest.approx(10 * MM)
+    assert panel.x.suffix().strip() == "mm"
+    assert panel.join.currentData() == "smooth"
+    # Handles (30,10) and (70,10): length 20 units, directions 180° and 0° (closed form).
+    assert panel.in_len.value() == pytest.approx(20 * MM)
+    assert panel.out_len.value() == pytest.approx(20 * MM)
+    assert panel.in_ang.value() == pytest.approx(180.0)
+    assert panel.out_ang.value() == pytest.approx(0.0)
+    # The line segment 3 of the bowl from (90,50) to (60,50): 30 units (closed form).
+    window.session.set_selection([(0, 0, 2, 0)])
+    assert "line" in panel.seg_out.text() and f"{30 * MM:.3f} mm" in panel.seg_out.text()
+
+
+def test_panel_follows_undo(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])
+    s.set_point((0, 0, 1, 0), 52.0, 11.0)
+    assert panel.x.value() == pytest.approx(52 * MM)
+    s.undo()
+    assert panel.x.value() == pytest.approx(50 * MM)
+
+
+def test_typing_coordinates_is_one_undoable_command(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])
+    before = s.document
+    _type(panel.x, "30")  # 30 mm = 60 user units
+    p = s.document.outlines[0].contours[0].segments[1][0]
+    assert tuple(p) == (60.0, 10.0)
+    # Its handles moved with it (MovePoints rule): outgoing handle was (70,10) → (80,10).
+    assert tuple(s.document.outlines[0].contours[0].segments[1][1]) == (80.0, 10.0)
+    assert window.isWindowModified()
+    s.undo()
+    assert s.document is before
+    assert not window.isWindowModified()
+
+
+def test_typing_a_handle_angle_keeps_a_smooth_join_collinear(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])
+    _type(panel.out_ang, "30")
+    seg_in, seg_out = s.document.outlines[0].contours[0].segments[0:2]
+    p = seg_out[0]
+    out = seg_out[1] - p
+    inc = seg_in[2] - p
+    # Screen angle 30° anticlockwise with y up: direction (cos 30°, −sin 30°) in SVG axes.
+    assert math.degrees(math.atan2(-out[1], out[0])) == pytest.approx(30.0, abs=1e-9)
+    assert np.hypot(*out) == pytest.approx(20.0)  # length kept
+    # Smooth join: opposite handle points the other way (cross product 0, dot < 0).
+    assert abs(out[0] * inc[1] - out[1] * inc[0]) < 1e-9 * 400
+    assert float(out @ inc) < 0
+    assert panel.in_ang.value() == pytest.approx(-150.0)
+
+
+def test_choosing_join_intent_pushes_a_command(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 3, 0)])  # join 2 of the bowl is "corner"
+    assert panel.join.currentData() == "corner"
+    idx = panel.join.findData("smooth")
+    panel.join.setCurrentIndex(idx)
+    panel.join.activated.emit(idx)
+    assert s.document.outlines[0].contours[0].joins[2] == "smooth"
+    assert s.undo_label == "Make join smooth"
