@@ -1,5 +1,31 @@
 """The in-house document model and every edit as an undoable command (no Qt)."""
 
+from outlinebench.model.commands import (
+    DEGREE_LOWERING_TOLERANCE,
+    SMOOTH_ANGLE_TOLERANCE_DEG,
+    AddContour,
+    ChangeDegree,
+    Command,
+    CommandGroup,
+    DeleteContour,
+    DeletePoint,
+    InsertPoint,
+    MovePoints,
+    PointRef,
+    ReverseContour,
+    SegmentRef,
+    SetClosed,
+    SetJoinIntent,
+    SetPoint,
+    canonical_ref,
+    handle_refs,
+    is_on_curve,
+    node_of,
+    node_ref,
+    on_curve_refs,
+    point_position,
+    point_refs,
+)
 from outlinebench.model.document import (
     IDENTITY,
     JOIN_INTENTS,
@@ -11,6 +37,7 @@ from outlinebench.model.document import (
     documents_equal,
     frozen_points,
 )
+from outlinebench.model.history import HISTORY_LIMIT, History
 
 __all__ = [
     "IDENTITY",
@@ -22,4 +49,32 @@ __all__ = [
     "Outline",
     "documents_equal",
     "frozen_points",
+    # commands
+    "DEGREE_LOWERING_TOLERANCE",
+    "SMOOTH_ANGLE_TOLERANCE_DEG",
+    "AddContour",
+    "ChangeDegree",
+    "Command",
+    "CommandGroup",
+    "DeleteContour",
+    "DeletePoint",
+    "InsertPoint",
+    "MovePoints",
+    "PointRef",
+    "ReverseContour",
+    "SegmentRef",
+    "SetClosed",
+    "SetJoinIntent",
+    "SetPoint",
+    "canonical_ref",
+    "handle_refs",
+    "is_on_curve",
+    "node_of",
+    "node_ref",
+    "on_curve_refs",
+    "point_position",
+    "point_refs",
+    # history
+    "HISTORY_LIMIT",
+    "History",
 ]

@@ -1,0 +1,1015 @@
+"""Every edit of a document as an undoable command object.
+
+A command is a small object with a menu ``label`` and three methods:
+
+``apply(doc) -> Document``
+    The edited document. Untouched outlines, contours and segments stay the same objects.
+``revert(doc) -> Document``
+    Given the document ``apply`` returned, the identical (``is``) document it was applied to.
+``merge(other) -> bool``
+    Absorb a command that was applied right after this one into this one (consecutive moves
+    of the same points become one undo step); False when they do not combine.
+
+Commands remember the document they were applied to and the one they produced, so revert is
+exact and cheap, and applying again to the same document (redo) returns the identical
+result. Bad indices raise :class:`~outlinebench.errors.CommandError` naming what is missing.
+
+Addressing points
+-----------------
+A :class:`PointRef` ``(outline, contour, segment, index)`` names control point ``index`` of a
+segment. An on-curve point where two segments meet has two names (the end of the incoming
+segment and the start of the outgoing one); its *canonical* name is the start of the outgoing
+segment, ``index 0``. Only the end point of an open contour is named by its last segment's
+last index. Node ``k`` of a contour is the start of segment ``k`` (and, for an open contour of
+n segments, node ``n`` is its end). :func:`canonical_ref`, :func:`on_curve_refs`,
+:func:`handle_refs` and :func:`point_refs` list and normalise names.
+
+Moving points
+-------------
+Moving an on-curve point moves the handles next to it by the same amount (for a quadratic
+its single handle is next to both ends). Moving a handle at a join whose intent is smooth —
+or is unstated but whose tangents currently agree within :data:`SMOOTH_ANGLE_TOLERANCE_DEG` —
+rotates the opposite handle about the on-curve point so the two stay collinear, keeping its
+length; when the opposite side is a line, the moved handle is kept on the line's direction
+instead. ``break_join=True`` moves the handle freely and sets the join's intent to corner;
+``symmetric=True`` mirrors the opposite handle through the on-curve point (same length) and
+sets the intent to smooth.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable, Sequence
+from dataclasses import replace
+from typing import NamedTuple
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from outlinebench.errors import CommandError, InvalidGeometryError
+from outlinebench.geometry.bezier import KIND_BY_DEGREE, bernstein_matrix, elevate, split
+from outlinebench.geometry.fit import (
+    FIT_SAMPLES_PER_SEGMENT,
+    fit_chain,
+    max_deviation,
+)
+from outlinebench.model.document import (
+    JOIN_INTENTS,
+    Contour,
+    Document,
+    JoinIntent,
+    Outline,
+    documents_equal,
+)
+
+__all__ = [
+    "SMOOTH_ANGLE_TOLERANCE_DEG",
+    "DEGREE_LOWERING_TOLERANCE",
+    "PointRef",
+    "SegmentRef",
+    "canonical_ref",
+    "node_ref",
+    "node_of",
+    "is_on_curve",
+    "point_position",
+    "on_curve_refs",
+    "handle_refs",
+    "point_refs",
+    "Command",
+    "CommandGroup",
+    "MovePoints",
+    "SetPoint",
+    "InsertPoint",
+    "DeletePoint",
+    "ChangeDegree",
+    "SetJoinIntent",
+    "SetClosed",
+    "ReverseContour",
+    "AddContour",
+    "DeleteContour",
+]
+
+FloatArray = NDArray[np.float64]
+
+# An unstated join counts as smooth while its two tangent directions differ by less than this
+# angle (degrees); then moving one handle turns the other with it.
+SMOOTH_ANGLE_TOLERANCE_DEG = 1.0
+# Default largest shape change (document units, Hausdorff distance) allowed when lowering a
+# segment's degree: 0.01 user units is 2.6 µm at 96 px per inch.
+DEGREE_LOWERING_TOLERANCE = 0.01
+# Samples (uniform in t) used for the least-squares degree lowering.
+_LOWERING_SAMPLES = 65
+
+
+class PointRef(NamedTuple):
+    """Control point ``index`` of segment ``segment`` of a contour of an outline."""
+
+    outline: int
+    contour: int
+    segment: int
+    index: int
+
+
+class SegmentRef(NamedTuple):
+    """Segment ``segment`` of contour ``contour`` of outline ``outline``."""
+
+    outline: int
+    contour: int
+    segment: int
+
+
+# -- validation -----------------------------------------------------------------------------
+
+
+def _contour_at(doc: Document, outline: int, contour: int) -> Contour:
+    if not 0 <= outline < len(doc.outlines):
+        raise CommandError(
+            f"outline {outline} does not exist (the document has {len(doc.outlines)} outlines)"
+        )
+    contours = doc.outlines[outline].contours
+    if not 0 <= contour < len(contours):
+        raise CommandError(
+            f"contour {contour} does not exist in outline {outline} "
+            f"(it has {len(contours)} contours)"
+        )
+    return contours[contour]
+
+
+def _check_segment(c: Contour, outline: int, contour: int, segment: int) -> FloatArray:
+    if not 0 <= segment < len(c.segments):
+        raise CommandError(
+            f"segment {segment} does not exist in contour {contour} of outline {outline} "
+            f"(it has {len(c.segments)} segments)"
+        )
+    return c.segments[segment]
+
+
+def _check_ref(doc: Document, ref: PointRef) -> Contour:
+    c = _contour_at(doc, ref.outline, ref.contour)
+    seg = _check_segment(c, ref.outline, ref.contour, ref.segment)
+    if not 0 <= ref.index < seg.shape[0]:
+        raise CommandError(
+            f"control point {ref.index} does not exist in segment {ref.segment} of contour "
+            f"{ref.contour} of outline {ref.outline} (a {KIND_BY_DEGREE[seg.shape[0] - 1]} "
+            f"has {seg.shape[0]} control points)"
+        )
+    return c
+
+
+# -- point addressing -----------------------------------------------------------------------
+
+# Inside a contour a point is keyed ("n", node) for on-curve points and ("h", segment, index)
+# for handles.
+_Key = tuple
+
+
+def _key(c: Contour, segment: int, index: int) -> _Key:
+    n = len(c.segments)
+    k = c.segments[segment].shape[0]
+    if index == 0:
+        return ("n", segment)
+    if index == k - 1:
+        nxt = segment + 1
+        if nxt == n:
+            return ("n", 0 if c.closed else n)
+        return ("n", nxt)
+    return ("h", segment, index)
+
+
+def node_of(doc: Document, ref: PointRef) -> int | None:
+    """Node number of an on-curve point (start of segment k is node k), None for a handle."""
+    c = _check_ref(doc, ref)
+    key = _key(c, ref.segment, ref.index)
+    return key[1] if key[0] == "n" else None
+
+
+def _node_name(outline: int, contour: int, c: Contour, node: int) -> PointRef:
+    n = len(c.segments)
+    if node < n:
+        return PointRef(outline, contour, node, 0)
+    return PointRef(outline, contour, n - 1, c.segments[n - 1].shape[0] - 1)
+
+
+def node_ref(doc: Document, outline: int, contour: int, node: int) -> PointRef:
+    """Canonical reference of on-curve node ``node`` of a contour."""
+    c = _contour_at(doc, outline, contour)
+    n = len(c.segments)
+    count = n if c.closed else n + 1
+    if n == 0 or not 0 <= node < count:
+        raise CommandError(
+            f"on-curve point {node} does not exist in contour {contour} of outline {outline} "
+            f"(it has {count if n else 0})"
+        )
+    return _node_name(outline, contour, c, node)
+
+
+def canonical_ref(doc: Document, ref: PointRef) -> PointRef:
+    """The canonical name of a control point (see the module docstring)."""
+    c = _check_ref(doc, ref)
+    key = _key(c, ref.segment, ref.index)
+    if key[0] == "h":
+        return PointRef(*ref)
+    return _node_name(ref.outline, ref.contour, c, key[1])
+
+
+def is_on_curve(doc: Document, ref: PointRef) -> bool:
+    """Whether the control point lies on the curve (a segment end point)."""
+    c = _check_ref(doc, ref)
+    return _key(c, ref.segment, ref.index)[0] == "n"
+
+
+def point_position(doc: Document, ref: PointRef) -> FloatArray:
+    """Coordinates of a control point, shape (2,) (a read-only view)."""
+    c = _check_ref(doc, ref)
+    return c.segments[ref.segment][ref.index]
+
+
+def on_curve_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
+    """Canonical references of a contour's on-curve points, in order along it."""
+    c = _contour_at(doc, outline, contour)
+    n = len(c.segments)
+    if n == 0:
+        return []
+    count = n if c.closed else n + 1
+    return [_node_name(outline, contour, c, k) for k in range(count)]
+
+
+def handle_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
+    """References of a contour's handles (off-curve control points), in order along it."""
+    c = _contour_at(doc, outline, contour)
+    return [
+        PointRef(outline, contour, s, i)
+        for s, seg in enumerate(c.segments)
+        for i in range(1, seg.shape[0] - 1)
+    ]
+
+
+def point_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
+    """Canonical references of every control point of a contour, in order along it."""
+    c = _contour_at(doc, outline, contour)
+    out: list[PointRef] = []
+    n = len(c.segments)
+    for s, seg in enumerate(c.segments):
+        out.append(PointRef(outline, contour, s, 0))
+        out.extend(PointRef(outline, contour, s, i) for i in range(1, seg.shape[0] - 1))
+    if n and not c.closed:
+        out.append(_node_name(outline, contour, c, n))
+    return out
+
+
+# -- command base ---------------------------------------------------------------------------
+
+
+class Command:
+    """Base of every edit. Subclasses implement ``_compute(doc) -> Document``."""
+
+    label: str = "Edit"
+
+    def __init__(self) -> None:
+        self._before: Document | None = None
+        self._after: Document | None = None
+
+    def _compute(self, doc: Document) -> Document:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def apply(self, doc: Document) -> Document:
+        """The edited document (see the module docstring).
+
+        Raises
+        ------
+        CommandError
+            An index is out of range, or the edit cannot be made on this document.
+        """
+        if self._before is not None and doc is self._before:
+            assert self._after is not None
+            return self._after
+        new = self._compute(doc)
+        self._before, self._after = doc, new
+        return new
+
+    def revert(self, doc: Document) -> Document:
+        """The document this command was last applied to.
+
+        Raises
+        ------
+        CommandError
+            The command was never applied, or ``doc`` is not the document it produced.
+        """
+        if self._after is None or self._before is None:
+            raise CommandError(f"cannot undo '{self.label}': it was never applied")
+        if doc is self._after or documents_equal(doc, self._after):
+            return self._before
+        raise CommandError(
+            f"cannot undo '{self.label}': the document has changed since it was applied"
+        )
+
+    def merge(self, other: Command) -> bool:
+        """Absorb ``other`` (applied right after this command); False if they do not combine."""
+        return False
+
+    def _absorb(self, other: Command) -> None:
+        self._after = other._after
+
+    def _follows(self, other: Command) -> bool:
+        return self._after is not None and other._before is self._after
+
+    def __repr__(self) -> str:
+        return f"<{type(self).__name__} {self.label!r}>"
+
+
+class CommandGroup(Command):
+    """Several commands done and undone as one step (a drag, a multi-part repair)."""
+
+    def __init__(self, label: str, commands: Sequence[Command] = ()) -> None:
+        super().__init__()
+        self.label = label
+        self.commands: list[Command] = list(commands)
+
+    def _compute(self, doc: Document) -> Document:
+        for cmd in self.commands:
+            doc = cmd.apply(doc)
+        return doc
+
+    def revert(self, doc: Document) -> Document:
+        if self._after is not None and doc is self._after and self._before is not None:
+            # Undo each part (checks the chain) and hand back the identical document.
+            for cmd in reversed(self.commands):
+                doc = cmd.revert(doc)
+            return self._before
+        for cmd in reversed(self.commands):
+            doc = cmd.revert(doc)
+        return doc
+
+    def _record(self, before: Document, after: Document) -> None:
+        self._before, self._after = before, after
+
+
+def _replace_contours(doc: Document, changes: dict[tuple[int, int], Contour]) -> Document:
+    by_outline: dict[int, dict[int, Contour]] = {}
+    for (o, c), new in changes.items():
+        by_outline.setdefault(o, {})[c] = new
+    outlines = list(doc.outlines)
+    for o, repl in by_outline.items():
+        old = outlines[o]
+        contours = tuple(repl.get(i, x) for i, x in enumerate(old.contours))
+        outlines[o] = replace(old, contours=contours)
+    return replace(doc, outlines=tuple(outlines))
+
+
+def _freeze(a: FloatArray) -> FloatArray:
+    a.flags.writeable = False
+    return a
+
+
+# -- moving points --------------------------------------------------------------------------
+
+
+def _first_dir(points: FloatArray) -> FloatArray | None:
+    p0 = points[0]
+    for q in points[1:]:
+        d = q - p0
+        n = math.hypot(d[0], d[1])
+        if n > 0.0:
+            return d / n
+    return None
+
+
+def _tangents_agree(incoming: FloatArray, outgoing: FloatArray) -> bool:
+    """Whether the end direction of ``incoming`` and start of ``outgoing`` agree (G1)."""
+    a = _first_dir(incoming[::-1])
+    b = _first_dir(outgoing)
+    if a is None or b is None:
+        return False
+    # a points back into the incoming segment; smooth when b ≈ −a.
+    cos = float(-(a[0] * b[0] + a[1] * b[1]))
+    return cos >= math.cos(math.radians(SMOOTH_ANGLE_TOLERANCE_DEG))
+
+
+def _node_slots(c: Contour, node: int) -> list[tuple[int, int]]:
+    n = len(c.segments)
+    slots = []
+    if node < n:
+        slots.append((node, 0))
+    if node > 0:
+        slots.append((node - 1, c.segments[node - 1].shape[0] - 1))
+    elif c.closed:
+        slots.append((n - 1, c.segments[n - 1].shape[0] - 1))
+    return slots
+
+
+def _node_handles(c: Contour, node: int) -> list[_Key]:
+    out = []
+    for s, i in _node_slots(c, node):
+        k = c.segments[s].shape[0]
+        if k > 2:
+            out.append(("h", s, 1 if i == 0 else k - 2))
+    return out
+
+
+def _join_at_node(c: Contour, node: int) -> int | None:
+    n = len(c.segments)
+    if c.closed:
+        return (node - 1) % n
+    if 0 < node < n:
+        return node - 1
+    return None
+
+
+def _move_in_contour(
+    c: Contour,
+    keys: Iterable[_Key],
+    delta: FloatArray,
+    *,
+    targets: dict[_Key, FloatArray] | None = None,
+    break_join: bool = False,
+    symmetric: bool = False,
+    move_handles: bool = True,
+) -> Contour:
+    """Move the keyed points of one contour; see the module docstring for the rules."""
+    segs = [s.copy() for s in c.segments]
+    joins = list(c.joins)
+    targets = targets or {}
+    keys = list(dict.fromkeys(keys))
+    moved_nodes = {k[1] for k in keys if k[0] == "n"}
+    direct_handles = [k for k in keys if k[0] == "h"]
+    moving: dict[_Key, None] = {}
+    for k in keys:
+        moving[k] = None
+        if k[0] == "n" and move_handles:
+            for h in _node_handles(c, k[1]):
+                moving[h] = None
+
+    def pos(k: _Key) -> FloatArray:
+        if k[0] == "n":
+            s, i = _node_slots(c, k[1])[0]
+            return c.segments[s][i]
+        return c.segments[k[1]][k[2]]
+
+    def put(k: _Key, p: FloatArray) -> None:
+        if k[0] == "n":
+            for s, i in _node_slots(c, k[1]):
+                segs[s][i] = p
+        else:
+            segs[k[1]][k[2]] = p
+
+    for k in moving:
+        put(k, targets[k] if k in targets else pos(k) + delta)
+
+    for h in direct_handles:
+        s, i = h[1], h[2]
+        kk = c.segments[s].shape[0]
+        ends = []
+        if i == 1:
+            ends.append((s, "start"))
+        if i == kk - 2:
+            ends.append((s, "end"))
+        for seg_i, side in ends:
+            n = len(c.segments)
+            node = seg_i if side == "start" else seg_i + 1
+            if node == n and c.closed:
+                node = 0
+            j = _join_at_node(c, node)
+            if j is None or node in moved_nodes:
+                continue
+            inc, out = c.join_segments(j)
+            other = inc if side == "start" else out
+            other_seg = c.segments[other]
+            ko = other_seg.shape[0]
+            opp_key = ("h", other, ko - 2 if side == "start" else 1) if ko > 2 else None
+            if opp_key is not None and opp_key in moving:
+                continue
+            if break_join:
+                joins[j] = "corner"
+                continue
+            intent = c.joins[j]
+            smooth = intent == "smooth" or (
+                intent is None and _tangents_agree(c.segments[inc], c.segments[out])
+            )
+            if not (smooth or symmetric):
+                continue
+            p = pos(("n", node))
+            hp = segs[s][i]
+            if opp_key is None:
+                # The other side is a line: keep the handle on the line's direction.
+                far = other_seg[0] if side == "start" else other_seg[-1]
+                d = p - far
+                dn = math.hypot(d[0], d[1])
+                if dn > 0.0:
+                    u = d / dn
+                    along = max(0.0, float(np.dot(hp - p, u)))
+                    segs[s][i] = p + along * u
+                continue
+            if symmetric:
+                segs[opp_key[1]][opp_key[2]] = 2.0 * p - hp
+                joins[j] = "smooth"
+                continue
+            away = p - hp
+            an = math.hypot(away[0], away[1])
+            op = c.segments[opp_key[1]][opp_key[2]]
+            length = math.hypot(op[0] - p[0], op[1] - p[1])
+            if an > 0.0 and length > 0.0:
+                segs[opp_key[1]][opp_key[2]] = p + away * (length / an)
+    out_segs = []
+    for old, new in zip(c.segments, segs, strict=True):
+        out_segs.append(old if np.array_equal(old, new) else _freeze(new))
+    return c.with_segments(out_segs, joins)
+
+
+def _group_keys(doc: Document, refs: Iterable[PointRef]) -> dict[tuple[int, int], list[_Key]]:
+    groups: dict[tuple[int, int], list[_Key]] = {}
+    for r in refs:
+        r = PointRef(*r)
+        c = _check_ref(doc, r)
+        groups.setdefault((r.outline, r.contour), []).append(_key(c, r.segment, r.index))
+    return groups
+
+
+def _as_xy(v: ArrayLike, what: str) -> FloatArray:
+    try:
+        a = np.array(v, dtype=np.float64).reshape(2)
+    except (TypeError, ValueError):
+        raise CommandError(f"{what} must be two numbers (x, y), got {v!r}") from None
+    if not np.all(np.isfinite(a)):
+        raise CommandError(f"{what} must be finite, got {tuple(a)}")
+    return a
+
+
+class MovePoints(Command):
+    """Move control points by ``delta`` (handles follow on-curve points; see module notes).
+
+    Parameters
+    ----------
+    refs : iterable of PointRef
+        Points to move, in any name (duplicates and both names of one point count once).
+    delta : (dx, dy)
+        Translation in document units.
+    break_join : bool
+        A moved handle moves alone and its join becomes a corner.
+    symmetric : bool
+        The opposite handle mirrors a moved handle; its join becomes smooth.
+    """
+
+    def __init__(
+        self,
+        refs: Iterable[PointRef],
+        delta: ArrayLike,
+        *,
+        break_join: bool = False,
+        symmetric: bool = False,
+    ) -> None:
+        super().__init__()
+        self.refs = tuple(PointRef(*r) for r in refs)
+        self.delta = _as_xy(delta, "a move")
+        self.break_join = break_join
+        self.symmetric = symmetric
+        self._keys: frozenset | None = None
+        count = len({(r.outline, r.contour, r.segment, r.index) for r in self.refs})
+        self.label = "Move point" if count == 1 else "Move points"
+
+    def _compute(self, doc: Document) -> Document:
+        groups = _group_keys(doc, self.refs)
+        self._keys = frozenset((oc, k) for oc, ks in groups.items() for k in ks)
+        changes = {
+            oc: _move_in_contour(
+                doc.contour(*oc),
+                ks,
+                self.delta,
+                break_join=self.break_join,
+                symmetric=self.symmetric,
+            )
+            for oc, ks in groups.items()
+        }
+        return _replace_contours(doc, changes)
+
+    def merge(self, other: Command) -> bool:
+        if (
+            isinstance(other, MovePoints)
+            and self._follows(other)
+            and self._keys is not None
+            and self._keys == other._keys
+            and self.break_join == other.break_join
+            and self.symmetric == other.symmetric
+        ):
+            self.delta = self.delta + other.delta
+            self._absorb(other)
+            return True
+        return False
+
+
+class SetPoint(Command):
+    """Put one control point at exact coordinates (numeric entry).
+
+    Parameters
+    ----------
+    ref : PointRef
+    xy : (x, y)
+        New position in document units; the point gets exactly these values.
+    move_handles : bool
+        For an on-curve point, its handles move by the same amount (default True).
+
+    Notes
+    -----
+    Handles follow the rules of :class:`MovePoints` (smooth joins stay collinear).
+    """
+
+    label = "Set point"
+
+    def __init__(self, ref: PointRef, xy: ArrayLike, *, move_handles: bool = True) -> None:
+        super().__init__()
+        self.ref = PointRef(*ref)
+        self.xy = _as_xy(xy, "a position")
+        self.move_handles = move_handles
+
+    def _compute(self, doc: Document) -> Document:
+        c = _check_ref(doc, self.ref)
+        key = _key(c, self.ref.segment, self.ref.index)
+        old = c.segments[self.ref.segment][self.ref.index]
+        delta = self.xy - old
+        new = _move_in_contour(
+            c, [key], delta, targets={key: self.xy.copy()}, move_handles=self.move_handles
+        )
+        return doc.replace_contour(self.ref.outline, self.ref.contour, new)
+
+    def merge(self, other: Command) -> bool:
+        if (
+            isinstance(other, SetPoint)
+            and self._follows(other)
+            and other.ref == self.ref
+            and other.move_handles == self.move_handles
+        ):
+            self.xy = other.xy
+            self._absorb(other)
+            return True
+        return False
+
+
+# -- structure of one contour ---------------------------------------------------------------
+
+
+class InsertPoint(Command):
+    """Split a segment at parameter t into two of the same kind (the shape is unchanged).
+
+    Parameters
+    ----------
+    outline, contour, segment : int
+    t : float
+        Strictly between 0 and 1.
+
+    Attributes
+    ----------
+    new_ref : PointRef
+        The inserted on-curve point (start of segment ``segment + 1``).
+
+    Notes
+    -----
+    de Casteljau subdivision (Farin, *Curves and Surfaces for CAGD*, §4.4) is exact: both
+    pieces together trace the same curve. The new join's intent is smooth.
+    """
+
+    label = "Insert point"
+
+    def __init__(self, outline: int, contour: int, segment: int, t: float) -> None:
+        super().__init__()
+        self.outline, self.contour, self.segment = outline, contour, segment
+        self.t = float(t)
+        self.new_ref = PointRef(outline, contour, segment + 1, 0)
+
+    def _compute(self, doc: Document) -> Document:
+        c = _contour_at(doc, self.outline, self.contour)
+        seg = _check_segment(c, self.outline, self.contour, self.segment)
+        if not 0.0 < self.t < 1.0:
+            raise CommandError(f"a point is inserted at t strictly between 0 and 1, got {self.t}")
+        left, right = split(seg, self.t)
+        left[0] = seg[0]
+        right[-1] = seg[-1]
+        right[0] = left[-1]
+        i = self.segment
+        segments = c.segments[:i] + (_freeze(left), _freeze(right)) + c.segments[i + 1 :]
+        joins = c.joins[:i] + ("smooth",) + c.joins[i:]
+        return doc.replace_contour(self.outline, self.contour, c.with_segments(segments, joins))
+
+
+class DeletePoint(Command):
+    """Delete an on-curve point, joining its two segments into one fitted cubic.
+
+    Parameters
+    ----------
+    ref : PointRef
+        The on-curve point (any of its names).
+    tolerance : float or None
+        If given, refuse (CommandError) when the shape would change by more than this.
+
+    Attributes
+    ----------
+    deviation : float or None
+        Measured shape change after ``apply``: the largest distance between the old and the
+        new curve (:func:`outlinebench.geometry.fit.max_deviation`), in document units.
+
+    Notes
+    -----
+    The new cubic keeps the outer end points and end tangent directions and is fitted to
+    the old two segments by least squares (Schneider, *Graphics Gems*, 1990; see
+    :func:`outlinebench.geometry.fit.fit_chain`). Two lines are joined into one line. The end
+    point of an open contour is removed with its segment.
+    """
+
+    label = "Delete point"
+
+    def __init__(self, ref: PointRef, *, tolerance: float | None = None) -> None:
+        super().__init__()
+        self.ref = PointRef(*ref)
+        self.tolerance = tolerance
+        self.deviation: float | None = None
+
+    def _compute(self, doc: Document) -> Document:
+        c = _check_ref(doc, self.ref)
+        key = _key(c, self.ref.segment, self.ref.index)
+        if key[0] != "n":
+            raise CommandError(
+                f"point {self.ref.index} of segment {self.ref.segment} is a handle; "
+                "only on-curve points can be deleted (lower the segment's degree instead)"
+            )
+        node = key[1]
+        n = len(c.segments)
+        if n < 2:
+            raise CommandError(
+                "a contour of one segment cannot lose a point; delete the contour instead"
+            )
+        segs = list(c.segments)
+        joins = list(c.joins)
+        if not c.closed and node in (0, n):
+            if node == 0:
+                removed, kept = segs[0], segs[1]
+                new_segs, new_joins = segs[1:], joins[1:]
+                old_chain, new_chain = [removed, kept], [kept]
+            else:
+                removed, kept = segs[-1], segs[-2]
+                new_segs, new_joins = segs[:-1], joins[:-1]
+                old_chain, new_chain = [kept, removed], [kept]
+        else:
+            if c.closed and node == 0:
+                # Rotate so that the point is interior: start at node 1.
+                segs = segs[1:] + segs[:1]
+                joins = joins[1:] + joins[:1]
+                node = n - 1
+            a, b = segs[node - 1], segs[node]
+            if a.shape[0] == 2 and b.shape[0] == 2:
+                merged = np.array([a[0], b[-1]])
+            else:
+                merged = fit_chain([a, b], samples_per_segment=FIT_SAMPLES_PER_SEGMENT)
+            merged[0] = a[0]
+            merged[-1] = b[-1]
+            merged = _freeze(merged)
+            new_segs = segs[: node - 1] + [merged] + segs[node + 1 :]
+            new_joins = joins[: node - 1] + joins[node:]
+            old_chain, new_chain = [a, b], [merged]
+        self.deviation = max_deviation(old_chain, new_chain)
+        if self.tolerance is not None and self.deviation > self.tolerance:
+            raise CommandError(
+                f"deleting this point changes the shape by {self.deviation:.6g}, more than the "
+                f"tolerance {self.tolerance:.6g}"
+            )
+        new = replace(c, segments=tuple(new_segs), joins=tuple(new_joins))
+        return doc.replace_contour(self.ref.outline, self.ref.contour, new)
+
+
+def _lower(seg: FloatArray, degree: int) -> FloatArray:
+    """Least-squares lower-degree segment with the same end points (same parametrisation)."""
+    t = np.linspace(0.0, 1.0, _LOWERING_SAMPLES)
+    target = bernstein_matrix(seg.shape[0] - 1, t) @ seg
+    b = bernstein_matrix(degree, t)
+    p0, pn = seg[0], seg[-1]
+    out = np.empty((degree + 1, 2))
+    out[0], out[-1] = p0, pn
+    if degree >= 2:
+        rhs = target - np.outer(b[:, 0], p0) - np.outer(b[:, -1], pn)
+        inner, *_ = np.linalg.lstsq(b[:, 1:-1], rhs, rcond=None)
+        out[1:-1] = inner
+    return out
+
+
+class ChangeDegree(Command):
+    """Make a segment a line, quadratic or cubic.
+
+    Parameters
+    ----------
+    ref : SegmentRef or PointRef
+        The segment (a PointRef names its segment).
+    degree : int
+        1 (line), 2 (quadratic) or 3 (cubic).
+    tolerance : float
+        Largest shape change allowed when lowering (document units); default
+        :data:`DEGREE_LOWERING_TOLERANCE`.
+
+    Attributes
+    ----------
+    deviation : float or None
+        Measured shape change after ``apply`` (0.0 for elevation, which is exact).
+
+    Raises
+    ------
+    CommandError
+        From ``apply``: the lowered segment would deviate by more than ``tolerance``; the
+        message gives the measured deviation.
+
+    Notes
+    -----
+    Elevation is exact (Farin §6.1). Lowering is a least-squares fit with end points kept,
+    in the same parametrisation (Farin §6.3 discusses degree reduction); a segment that is an
+    elevated lower-degree one is recovered exactly.
+    """
+
+    def __init__(
+        self,
+        ref: SegmentRef | PointRef,
+        degree: int,
+        tolerance: float = DEGREE_LOWERING_TOLERANCE,
+    ) -> None:
+        super().__init__()
+        self.ref = SegmentRef(ref[0], ref[1], ref[2])
+        if degree not in KIND_BY_DEGREE:
+            raise CommandError(f"degree must be 1, 2 or 3 (line, quad, cubic), got {degree}")
+        self.degree = degree
+        self.tolerance = float(tolerance)
+        self.deviation: float | None = None
+        self.label = f"Make {KIND_BY_DEGREE[degree]}"
+
+    def _compute(self, doc: Document) -> Document:
+        o, ci, s = self.ref
+        c = _contour_at(doc, o, ci)
+        seg = _check_segment(c, o, ci, s)
+        have = seg.shape[0] - 1
+        if have == self.degree:
+            raise CommandError(f"segment {s} is already a {KIND_BY_DEGREE[have]}")
+        if self.degree > have:
+            new = seg
+            while new.shape[0] - 1 < self.degree:
+                new = elevate(new)
+            self.deviation = 0.0
+        else:
+            new = _lower(seg, self.degree)
+            self.deviation = max_deviation([seg], [new])
+            if self.deviation > self.tolerance:
+                raise CommandError(
+                    f"segment {s} cannot become a {KIND_BY_DEGREE[self.degree]} within "
+                    f"{self.tolerance:.6g}: the shape would change by {self.deviation:.6g}"
+                )
+        new = np.array(new)
+        new[0], new[-1] = seg[0], seg[-1]
+        segments = c.segments[:s] + (_freeze(new),) + c.segments[s + 1 :]
+        return doc.replace_contour(o, ci, c.with_segments(segments, c.joins))
+
+
+class SetJoinIntent(Command):
+    """State what a join is meant to be: "smooth", "corner", or None (unstated).
+
+    The geometry is not changed.
+    """
+
+    def __init__(self, outline: int, contour: int, join: int, intent: JoinIntent | None) -> None:
+        super().__init__()
+        if intent is not None and intent not in JOIN_INTENTS:
+            raise CommandError(
+                f"join intent must be one of {', '.join(JOIN_INTENTS)} or None, got {intent!r}"
+            )
+        self.outline, self.contour, self.join, self.intent = outline, contour, join, intent
+        self.label = (
+            "Make join smooth"
+            if intent == "smooth"
+            else ("Make join corner" if intent == "corner" else "Clear join intent")
+        )
+
+    def _compute(self, doc: Document) -> Document:
+        c = _contour_at(doc, self.outline, self.contour)
+        if not 0 <= self.join < len(c.joins):
+            raise CommandError(
+                f"join {self.join} does not exist in contour {self.contour} of outline "
+                f"{self.outline} (it has {len(c.joins)} joins)"
+            )
+        joins = c.joins[: self.join] + (self.intent,) + c.joins[self.join + 1 :]
+        return doc.replace_contour(self.outline, self.contour, c.with_segments(c.segments, joins))
+
+
+class SetClosed(Command):
+    """Close or open a contour.
+
+    Closing a contour whose ends do not coincide exactly adds a line segment from its end to
+    its start; the new joins have no stated intent. Opening keeps every segment (the join at
+    the start point is removed).
+    """
+
+    def __init__(self, outline: int, contour: int, closed: bool) -> None:
+        super().__init__()
+        self.outline, self.contour, self.closed = outline, contour, bool(closed)
+        self.label = "Close contour" if closed else "Open contour"
+
+    def _compute(self, doc: Document) -> Document:
+        c = _contour_at(doc, self.outline, self.contour)
+        if c.closed == self.closed:
+            raise CommandError(
+                f"contour {self.contour} of outline {self.outline} is already "
+                f"{'closed' if c.closed else 'open'}"
+            )
+        if not c.segments:
+            raise CommandError("an empty contour cannot be closed")
+        if not self.closed:
+            new = Contour(c.segments, False, c.joins[:-1])
+        else:
+            start, end = c.segments[0][0], c.segments[-1][-1]
+            segs = c.segments
+            joins = c.joins
+            if not np.array_equal(start, end):
+                segs = segs + (_freeze(np.array([end, start])),)
+                joins = joins + (None,)
+            new = Contour(segs, True, joins + (None,))
+        return doc.replace_contour(self.outline, self.contour, new)
+
+
+class ReverseContour(Command):
+    """Traverse a contour the other way (a closed one keeps its start point)."""
+
+    label = "Reverse contour"
+
+    def __init__(self, outline: int, contour: int) -> None:
+        super().__init__()
+        self.outline, self.contour = outline, contour
+
+    def _compute(self, doc: Document) -> Document:
+        c = _contour_at(doc, self.outline, self.contour)
+        segs = tuple(_freeze(s[::-1].copy()) for s in reversed(c.segments))
+        if c.closed and c.joins:
+            joins = tuple(reversed(c.joins[:-1])) + (c.joins[-1],)
+        else:
+            joins = tuple(reversed(c.joins))
+        return doc.replace_contour(self.outline, self.contour, Contour(segs, c.closed, joins))
+
+
+class AddContour(Command):
+    """Add a contour to an outline, or as a new outline.
+
+    Parameters
+    ----------
+    outline : int
+        An existing outline, or ``len(doc.outlines)`` to add a new outline (element
+        ``path``, no id, created in the editor) holding just this contour.
+    contour : Contour or sequence of control-point arrays
+        Plain arrays are validated with :meth:`Contour.from_points` (open).
+    index : int or None
+        Position among the outline's contours (default: last).
+    """
+
+    label = "Add contour"
+
+    def __init__(self, outline: int, contour: Contour, index: int | None = None) -> None:
+        super().__init__()
+        if not isinstance(contour, Contour):
+            try:
+                contour = Contour.from_points(contour)
+            except InvalidGeometryError as exc:
+                raise CommandError(f"cannot add the contour: {exc}") from None
+        self.outline, self.contour, self.index = outline, contour, index
+
+    @property
+    def new_ref(self) -> tuple[int, int]:
+        """(outline, contour) of the added contour once applied."""
+        if self._before is None:
+            raise CommandError("the contour has not been added yet")
+        if self.outline == len(self._before.outlines):
+            return (self.outline, 0)
+        n = len(self._before.outlines[self.outline].contours)
+        return (self.outline, n if self.index is None else self.index)
+
+    def _compute(self, doc: Document) -> Document:
+        if self.outline == len(doc.outlines):
+            return replace(doc, outlines=doc.outlines + (Outline((self.contour,)),))
+        if not 0 <= self.outline < len(doc.outlines):
+            raise CommandError(
+                f"outline {self.outline} does not exist (the document has "
+                f"{len(doc.outlines)} outlines; use {len(doc.outlines)} for a new one)"
+            )
+        o = doc.outlines[self.outline]
+        n = len(o.contours)
+        i = n if self.index is None else self.index
+        if not 0 <= i <= n:
+            raise CommandError(
+                f"cannot add a contour at position {i} of outline {self.outline} "
+                f"(it has {n} contours)"
+            )
+        contours = o.contours[:i] + (self.contour,) + o.contours[i:]
+        return doc.replace_outline(self.outline, replace(o, contours=contours))
+
+
+class DeleteContour(Command):
+    """Remove a contour from its outline (the outline itself stays, possibly empty)."""
+
+    label = "Delete contour"
+
+    def __init__(self, outline: int, contour: int) -> None:
+        super().__init__()
+        self.outline, self.contour = outline, contour
+
+    def _compute(self, doc: Document) -> Document:
+        _contour_at(doc, self.outline, self.contour)
+        o = doc.outlines[self.outline]
+        contours = o.contours[: self.contour] + o.contours[self.contour + 1 :]
+        return doc.replace_outline(self.outline, replace(o, contours=contours))
