@@ -7,15 +7,14 @@ per mouse move, not the document).
 
 from __future__ import annotations
 
-import weakref
 from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
-from PySide6.QtCore import QPointF
+from PySide6.QtCore import QPointF, Qt
 from PySide6.QtGui import QPainterPath
 
-from outlinebench.model.document import Contour
+from outlinebench.model.document import Contour, Outline
 
 __all__ = [
     "SMOOTH_DISPLAY_DEG",
@@ -203,7 +202,8 @@ class GraphicsCache:
     """Drawing data per contour object, rebuilt only for contours an edit replaced."""
 
     def __init__(self) -> None:
-        self._items: dict[int, tuple[weakref.ref[Contour] | Contour, ContourGraphics]] = {}
+        self._items: dict[int, tuple[Contour, ContourGraphics]] = {}
+        self._fills: dict[int, tuple[Outline, QPainterPath | None]] = {}
 
     def get(self, contour: Contour) -> ContourGraphics:
         key = id(contour)
@@ -214,10 +214,27 @@ class GraphicsCache:
         self._items[key] = (contour, g)
         return g
 
+    def fill_path(self, outline: Outline) -> QPainterPath | None:
+        """Closed contours of one outline as one even-odd path (None when none is closed)."""
+        key = id(outline)
+        hit = self._fills.get(key)
+        if hit is not None and hit[0] is outline:
+            return hit[1]
+        path: QPainterPath | None = None
+        for c in outline.contours:
+            if c.closed and c.segments:
+                if path is None:
+                    path = QPainterPath()
+                    path.setFillRule(Qt.FillRule.OddEvenFill)
+                path.addPath(self.get(c).path)
+        self._fills[key] = (outline, path)
+        return path
+
     def prune(self, live: set[int]) -> None:
         """Forget contours whose ids are not in ``live`` (call after the document changed)."""
         for key in [k for k in self._items if k not in live]:
             del self._items[key]
+        self._fills.clear()
 
 
 def qpoint(p: NDArray[np.float64]) -> QPointF:

@@ -19,6 +19,7 @@ __all__ = [
     "PAPER",
     "DESK",
     "PAGE_EDGE",
+    "PAGE_SHADOW",
     "GRID_MINOR",
     "GRID_MAJOR",
     "OUTLINE",
@@ -41,6 +42,7 @@ __all__ = [
 DESK = QColor("#e4e1d8")  # around the page
 PAPER = QColor("#fbfaf6")  # the page (document width × height)
 PAGE_EDGE = QColor("#b9b3a5")
+PAGE_SHADOW = QColor("#d2cec3")  # opaque: blending a translucent shadow costs a frame
 GRID_MINOR = QColor("#efece4")
 GRID_MAJOR = QColor("#e0dccf")
 OUTLINE = QColor("#1d2b36")

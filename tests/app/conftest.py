@@ -6,6 +6,7 @@ pytest.importorskip("PySide6")
 
 from PySide6.QtCore import QSettings  # noqa: E402
 
+import outlinebench.app  # noqa: E402,F401  (first: guards None before Qt calls)
 from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
 
 

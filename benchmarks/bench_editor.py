@@ -1,0 +1,188 @@
+"""Editor canvas speed on a 10,000-segment document.
+
+Prints, per case, the median time per frame next to a reference measured in the same run:
+
+* reference: the same document flattened to 16 chords per segment and painted with one
+  ``QPainter.drawPolyline`` call per contour (antialiased, same 1-px pen) into an image the
+  size of the canvas — the least a Qt program must spend to show these outlines;
+* fit to view: ``canvas.repaint()`` with the whole document in view (outlines only: at this
+  density the point marks are left out);
+* zoomed in: ``canvas.repaint()`` at 24× with marks, handles and the grid;
+* drag update: from sending one mouse-move event during a handle drag (through the real
+  canvas event handler, the model's gesture and the undo history) to the repainted frame.
+
+Targets: ≤ 16 ms per frame (60 frames per second), ≤ 8 ms per drag update.
+Run: ``python benchmarks/bench_editor.py`` (uses the offscreen Qt platform when no display).
+"""
+
+from __future__ import annotations
+
+import os
+import statistics
+import time
+
+os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+
+import numpy as np  # noqa: E402
+from PySide6.QtCore import QEvent, QPointF, Qt  # noqa: E402
+from PySide6.QtGui import QImage, QMouseEvent, QPainter, QPen, QPolygonF  # noqa: E402
+from PySide6.QtWidgets import QApplication  # noqa: E402
+
+from outlinebench.app import style  # noqa: E402
+from outlinebench.app.main_window import MainWindow  # noqa: E402
+from outlinebench.geometry.bezier import evaluate  # noqa: E402
+from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+
+CONTOURS = 100
+SEGMENTS_PER_CONTOUR = 100
+FRAMES = 15
+TARGET_FRAME_MS = 16.0
+TARGET_DRAG_MS = 8.0
+
+
+def gear_blanks() -> Document:
+    """100 invented wavy gear-blank rings (Kestrel Fabrication), 100 cubics each.
+
+    Each ring r(θ) = R (1 + 0.06 sin 12θ) is split into 100 Hermite cubics whose handles
+    are the exact tangents scaled by Δθ/3, so joins are smooth.
+    """
+    outlines = []
+    for k in range(CONTOURS):
+        cx, cy = 60.0 * (k % 10), 60.0 * (k // 10)
+        R = 24.0
+        th = np.linspace(0.0, 2 * np.pi, SEGMENTS_PER_CONTOUR + 1)
+        r = R * (1 + 0.06 * np.sin(12 * th))
+        dr = R * 0.06 * 12 * np.cos(12 * th)
+        p = np.stack([cx + r * np.cos(th), cy + r * np.sin(th)], axis=1)
+        d = np.stack([dr * np.cos(th) - r * np.sin(th), dr * np.sin(th) + r * np.cos(th)], axis=1)
+        h = (th[1] - th[0]) / 3.0
+        segs = [
+            [p[i], p[i] + h * d[i], p[i + 1] - h * d[i + 1], p[i + 1]]
+            for i in range(SEGMENTS_PER_CONTOUR)
+        ]
+        segs[-1][3] = p[0]
+        c = Contour.from_points(segs, closed=True, joins=("smooth",) * SEGMENTS_PER_CONTOUR)
+        outlines.append(Outline((c,), f"blank-{k}", k))
+    return Document(
+        tuple(outlines),
+        width_mm=600.0,
+        height_mm=600.0,
+        view_box=(-30.0, -30.0, 600.0, 600.0),
+        mm_per_unit=1.0,
+        units="mm",
+    )
+
+
+def median_ms(fn, n: int = FRAMES) -> float:
+    fn()  # warm caches
+    times = []
+    for _ in range(n):
+        t0 = time.perf_counter()
+        fn()
+        times.append((time.perf_counter() - t0) * 1e3)
+    return statistics.median(times)
+
+
+def reference_polylines(win: MainWindow, doc: Document) -> float:
+    canvas = win.canvas
+    view = canvas.view
+    t = np.linspace(0.0, 1.0, 17)
+    polys = []
+    for o in doc.outlines:
+        for c in o.contours:
+            pts = np.concatenate([evaluate(s, t)[:-1] for s in c.segments])
+            scr = view.to_screen_array(pts)
+            polys.append(QPolygonF([QPointF(x, y) for x, y in scr]))
+    dpr = canvas.devicePixelRatioF()
+    img = QImage(
+        int(canvas.width() * dpr),
+        int(canvas.height() * dpr),
+        QImage.Format.Format_ARGB32_Premultiplied,
+    )
+    img.setDevicePixelRatio(dpr)
+
+    def paint():
+        img.fill(style.DESK)
+        p = QPainter(img)
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        p.setPen(QPen(style.OUTLINE, 1.0))
+        for poly in polys:
+            p.drawPolyline(poly)
+        p.end()
+
+    return median_ms(paint)
+
+
+def send_mouse(widget, kind, pos: QPointF, buttons, mods=Qt.KeyboardModifier.NoModifier):
+    button = Qt.MouseButton.LeftButton if kind != QEvent.Type.MouseMove else Qt.MouseButton.NoButton
+    ev = QMouseEvent(kind, pos, widget.mapToGlobal(pos), button, buttons, mods)
+    QApplication.sendEvent(widget, ev)
+
+
+def main() -> None:
+    app = QApplication.instance() or QApplication([])
+    win = MainWindow()
+    win.resize(1400, 900)
+    win.show()
+    app.processEvents()
+    doc = gear_blanks()
+    win.session.load(doc)
+    canvas = win.canvas
+    canvas.fit_to_outline()
+    app.processEvents()
+    print(
+        f"document: {doc.segment_count()} cubic segments in {CONTOURS} contours; "
+        f"canvas {canvas.width()}×{canvas.height()} logical px, dpr {canvas.devicePixelRatioF()}"
+    )
+
+    ref = reference_polylines(win, doc)
+    fit = median_ms(canvas.repaint)
+    fit_stats = (canvas.stats.contours_drawn, canvas.stats.marks_drawn)
+    ref_line = f"reference (drawPolyline, 16 chords/segment): {ref:7.2f} ms"
+    print(ref_line)
+    print(
+        f"fit to view:  {fit:7.2f} ms/frame  ours/reference = {fit / ref:5.2f}  "
+        f"target ≤ {TARGET_FRAME_MS} ms: {'met' if fit <= TARGET_FRAME_MS else 'MISSED'}  "
+        f"({fit_stats[0]} contours drawn, marks {'on' if fit_stats[1] else 'off'})"
+    )
+
+    # Zoom in on one ring so its points and handles are drawn.
+    centre = canvas.to_screen(0.0, 0.0)
+    canvas.zoom(24.0, centre)
+    app.processEvents()
+    zoom = median_ms(canvas.repaint)
+    print(
+        f"zoomed 24×:   {zoom:7.2f} ms/frame  ours/reference = {zoom / ref:5.2f}  "
+        f"target ≤ {TARGET_FRAME_MS} ms: {'met' if zoom <= TARGET_FRAME_MS else 'MISSED'}  "
+        f"({canvas.stats.contours_drawn} contours drawn, {canvas.stats.points_in_view} "
+        f"points in view, marks {'on' if canvas.stats.marks_drawn else 'off'})"
+    )
+
+    # Drag the outgoing handle of ring 0's point at θ = 0.
+    handle = doc.outlines[0].contours[0].segments[0][1]
+    start = canvas.to_screen(float(handle[0]), float(handle[1]))
+    win.session.set_tool("select")
+    send_mouse(canvas, QEvent.Type.MouseButtonPress, start, Qt.MouseButton.LeftButton)
+    times = []
+    for i in range(1, FRAMES * 2 + 1):
+        pos = QPointF(start.x() + 2.0 * i, start.y() + 1.0 * i)
+        t0 = time.perf_counter()
+        send_mouse(canvas, QEvent.Type.MouseMove, pos, Qt.MouseButton.LeftButton)
+        canvas.repaint()
+        times.append((time.perf_counter() - t0) * 1e3)
+    send_mouse(canvas, QEvent.Type.MouseButtonRelease, pos, Qt.MouseButton.NoButton)
+    moved = win.session.document.outlines[0].contours[0].segments[0][1]
+    assert not np.array_equal(moved, handle), "the drag did not move the handle"
+    drag = statistics.median(times[1:])
+    print(
+        f"drag update:  {drag:7.2f} ms/move   ours/reference = {drag / ref:5.2f}  "
+        f"target ≤ {TARGET_DRAG_MS} ms: {'met' if drag <= TARGET_DRAG_MS else 'MISSED'}  "
+        f"(mouse move → gesture → history → repainted frame, zoomed 24×; "
+        f"undo steps: {len(win.session.history._undo)})"
+    )
+    win.session.history.mark_saved()
+    win.close()
+
+
+if __name__ == "__main__":
+    main()
