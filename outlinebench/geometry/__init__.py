@@ -30,6 +30,7 @@ from outlinebench.geometry.curvature import (
     unit_normal,
     unit_tangent,
 )
+from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
 
 __all__ = [
     "DEGREE_BY_KIND",
@@ -53,4 +54,7 @@ __all__ = [
     "inflections",
     "unit_normal",
     "unit_tangent",
+    "fit_chain",
+    "fit_cubic",
+    "max_deviation",
 ]
