@@ -1,0 +1,173 @@
+"""Safe XML parsing for SVG files, remembering where each element's tags are in the bytes.
+
+Built on defusedxml's parser (expat underneath): DTD-declared entities are refused unless the
+caller allows harmless internal ones, external entities are never resolved or fetched, and the
+byte offsets of every start and end tag are kept so the writer can splice changes into the
+original bytes and leave everything else exactly as it was.
+
+References
+----------
+defusedxml documentation, "Attack vectors" (billion laughs, quadratic blowup, external entity
+expansion, DTD retrieval).
+"""
+
+from __future__ import annotations
+
+import xml.etree.ElementTree as ET
+from dataclasses import dataclass, field
+from typing import Any
+
+from defusedxml.ElementTree import DefusedXMLParser
+
+from outlinebench.errors import SvgReadError, UnsafeXmlError
+
+__all__ = ["MAX_BYTES", "MAX_ENTITY_CHARS", "XmlSource", "parse_xml"]
+
+# Largest file read (bytes): big enough for a tens-of-megabyte path, small enough to refuse
+# absurd inputs before reading them.
+MAX_BYTES = 256 * 1024 * 1024
+# Longest replacement text of one internal entity when entities are allowed (characters);
+# with nesting refused this caps expansion at this factor per reference.
+MAX_ENTITY_CHARS = 1024
+
+
+@dataclass
+class XmlSource:
+    """The parsed tree and what the writer needs to splice into the original bytes.
+
+    Attributes
+    ----------
+    data : bytes
+        The file's bytes as read.
+    root : xml.etree.ElementTree.Element
+    spans : dict
+        ``id(element) -> [start_tag_offset, end_tag_offset]`` byte offsets (the end offset
+        equals the start offset for an empty-element tag ``<x/>``).
+    encoding : str
+        Declared or detected encoding (the writer splices only ASCII-compatible ones).
+    """
+
+    data: bytes
+    root: Any
+    spans: dict[int, list[int]] = field(default_factory=dict)
+    encoding: str = "utf-8"
+
+
+class _Parser(DefusedXMLParser):
+    def __init__(self, allow_entities: bool, max_entity_chars: int, where: str) -> None:
+        builder = ET.TreeBuilder(insert_comments=True, insert_pis=True)
+        super().__init__(target=builder, forbid_dtd=False, forbid_entities=True)
+        self.where = where
+        self.allow_entities = allow_entities
+        self.max_entity_chars = max_entity_chars
+        self.spans: dict[int, list[int]] = {}
+        p = self.parser
+        p.EntityDeclHandler = self._entity_decl
+        p.UnparsedEntityDeclHandler = self._unparsed_entity
+        p.ExternalEntityRefHandler = self._external_ref
+        start, end = p.StartElementHandler, p.EndElementHandler
+        spans = self.spans
+
+        def on_start(tag: str, attrs: list[str]) -> Any:
+            pos = p.CurrentByteIndex
+            el = start(tag, attrs)
+            spans[id(el)] = [pos, pos]
+            return el
+
+        def on_end(tag: str) -> Any:
+            pos = p.CurrentByteIndex
+            el = end(tag)
+            spans[id(el)][1] = pos
+            return el
+
+        p.StartElementHandler = on_start
+        p.EndElementHandler = on_end
+
+    def _entity_decl(
+        self,
+        name: str,
+        is_parameter: bool,
+        value: str | None,
+        base: str | None,
+        sysid: str | None,
+        pubid: str | None,
+        notation: str | None,
+    ) -> None:
+        w = self.where
+        if sysid or pubid or value is None:
+            raise UnsafeXmlError(
+                f"{w}: external entity {name!r} ({sysid or pubid}) refused: OutlineBench never "
+                "reads other files or the network while opening an SVG"
+            )
+        if is_parameter:
+            raise UnsafeXmlError(f"{w}: parameter entity {name!r} refused")
+        if not self.allow_entities:
+            raise UnsafeXmlError(
+                f"{w}: the file declares the internal entity {name!r}; entity declarations are "
+                "refused by default (they can expand without bound); allow harmless ones with "
+                "allow_entities=True"
+            )
+        if "&" in value or "%" in value:
+            raise UnsafeXmlError(
+                f"{w}: entity {name!r} refers to other entities; nested entities are refused "
+                "(exponential expansion)"
+            )
+        if len(value) > self.max_entity_chars:
+            raise UnsafeXmlError(
+                f"{w}: entity {name!r} expands to {len(value)} characters, over the limit of "
+                f"{self.max_entity_chars}"
+            )
+
+    def _unparsed_entity(self, name: str, *args: Any) -> None:
+        raise UnsafeXmlError(f"{self.where}: unparsed external entity {name!r} refused")
+
+    def _external_ref(self, context: Any, base: Any, sysid: Any, pubid: Any) -> int:
+        raise UnsafeXmlError(
+            f"{self.where}: external entity reference {sysid or pubid!r} refused (never fetched)"
+        )
+
+
+def parse_xml(
+    data: bytes,
+    where: str,
+    *,
+    allow_entities: bool = False,
+    max_entity_chars: int = MAX_ENTITY_CHARS,
+) -> XmlSource:
+    """Parse XML bytes safely, keeping tag offsets.
+
+    Raises
+    ------
+    UnsafeXmlError
+        Entity declarations (unless allowed and harmless), external entities.
+    SvgReadError
+        Malformed XML (message with line and column).
+    """
+    parser = _Parser(allow_entities, max_entity_chars, where)
+    try:
+        parser.feed(data)
+        root = parser.close()
+    except UnsafeXmlError:
+        raise
+    except ET.ParseError as exc:
+        raise SvgReadError(f"{where}: not well-formed XML: {exc}") from None
+    except SvgReadError:
+        raise
+    except Exception as exc:  # defusedxml's own refusals and expat errors
+        name = type(exc).__name__
+        if name in ("EntitiesForbidden", "ExternalReferenceForbidden", "DTDForbidden"):
+            raise UnsafeXmlError(f"{where}: {exc}") from None
+        raise SvgReadError(f"{where}: cannot parse XML: {exc}") from None
+    encoding = "utf-8"
+    head = data[:200]
+    if head.startswith((b"\xff\xfe", b"\xfe\xff")) or (len(head) > 1 and head[1:2] == b"\x00"):
+        encoding = "utf-16"
+    else:
+        import re
+
+        m = re.match(
+            rb"<\?xml[^>]*encoding=[\"']([A-Za-z0-9._-]+)[\"']", head.lstrip(b"\xef\xbb\xbf")
+        )
+        if m:
+            encoding = m.group(1).decode("ascii").lower()
+    return XmlSource(data, root, parser.spans, encoding)

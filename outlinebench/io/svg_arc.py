@@ -1,0 +1,210 @@
+"""SVG elliptical arcs (endpoint form) converted to cubic Bézier segments within a stated error.
+
+References
+----------
+W3C, *Scalable Vector Graphics (SVG) 1.1 (Second Edition)*, Appendix F.6 "Elliptical arc
+implementation notes": F.6.2 (out-of-range parameters), F.6.5 (endpoint to centre
+parameterization), F.6.6 (correction of out-of-range radii).
+T. Dokken, M. Dæhlen, T. Lyche, K. Mørken, "Good approximation of circles by
+curvature-continuous Bézier curves", CAGD 7 (1990); M. Goldapp, "Approximation of circular
+arcs by cubic polynomials", CAGD 8 (1991) — the handle length 4/3·tan(θ/4) and its error.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from numpy.typing import NDArray
+
+__all__ = ["ARC_TOLERANCE", "arc_pieces", "arc_piece_error", "arc_to_cubics", "ArcResult"]
+
+# Largest allowed distance between an arc and its cubic approximation, as a fraction of the
+# ellipse's larger radius (a guaranteed bound, see arc_piece_error).
+ARC_TOLERANCE = 1e-7
+
+_TWO_PI = 2.0 * math.pi
+
+
+def arc_piece_error(sweep: float) -> float:
+    """Largest radial error of one cubic approximating a unit-circle arc of this sweep.
+
+    Parameters
+    ----------
+    sweep : float
+        Sweep angle θ in radians, 0 < |θ| ≤ π/2 in practice.
+
+    Returns
+    -------
+    float
+        ``e(θ) = (2/27) · sin⁶(θ/4) / cos²(θ/4)`` ≈ θ⁶ / 55296 for small θ.
+
+    Notes
+    -----
+    With end handles of length h = 4/3·tan(θ/4) along the tangents, the cubic's distance from
+    the centre never falls below the radius and exceeds it by at most e(θ), reached at
+    t = 1/2 (Goldapp 1991, eq. for the "standard" approximation; for θ = π/2 it gives the
+    well-known 2.7e-4). An affine map with largest singular value ``s`` moves the curve at
+    most ``s·e(θ)`` from the image ellipse, and ``s`` is the ellipse's larger radius, so the
+    bound holds for ellipses relative to max(rx, ry).
+    """
+    q = abs(sweep) / 4.0
+    return (2.0 / 27.0) * math.sin(q) ** 6 / math.cos(q) ** 2
+
+
+def arc_pieces(sweep: float, tolerance: float = ARC_TOLERANCE) -> int:
+    """Number of equal cubic pieces so each stays within ``tolerance`` (relative to radius).
+
+    Notes
+    -----
+    Start from the small-angle form θ_max = (55296·tolerance)^(1/6) of
+    :func:`arc_piece_error`, then increase the count until the exact formula is met. Never
+    fewer pieces than quarter turns (a piece sweeps at most 90°).
+    """
+    total = abs(sweep)
+    if total == 0.0:
+        return 0
+    if tolerance <= 0.0 or not math.isfinite(tolerance):
+        raise ValueError(f"arc tolerance must be a positive number, got {tolerance!r}")
+    theta_max = (55296.0 * tolerance) ** (1.0 / 6.0)
+    n = max(1, math.ceil(total / theta_max), math.ceil(total / (math.pi / 2.0) - 1e-12))
+    while arc_piece_error(total / n) > tolerance:
+        n += 1
+    return n
+
+
+class ArcResult:
+    """What :func:`arc_to_cubics` made of one arc command.
+
+    Attributes
+    ----------
+    kind : str
+        "cubics", "line" (a zero radius) or "none" (end point equals start point).
+    cubics : ndarray, shape (N, 4, 2)
+        The cubic pieces when kind is "cubics"; the first starts exactly at the start point
+        and the last ends exactly at the end point.
+    negative_radius : bool
+        A radius was negative and its absolute value was used (SVG 1.1 F.6.6 step 1).
+    radii_scaled : bool
+        The radii were too small to reach the end point and were scaled up (F.6.6 step 3).
+    """
+
+    __slots__ = ("kind", "cubics", "negative_radius", "radii_scaled")
+
+    def __init__(
+        self,
+        kind: str,
+        cubics: NDArray[np.float64] | None = None,
+        negative_radius: bool = False,
+        radii_scaled: bool = False,
+    ) -> None:
+        self.kind = kind
+        self.cubics = cubics if cubics is not None else np.zeros((0, 4, 2))
+        self.negative_radius = negative_radius
+        self.radii_scaled = radii_scaled
+
+
+def arc_to_cubics(
+    x1: float,
+    y1: float,
+    rx: float,
+    ry: float,
+    phi_degrees: float,
+    large_arc: bool,
+    sweep: bool,
+    x2: float,
+    y2: float,
+    tolerance: float = ARC_TOLERANCE,
+) -> ArcResult:
+    """Convert an SVG endpoint arc to cubic Bézier pieces.
+
+    Parameters
+    ----------
+    x1, y1 : float
+        Start point (the current point).
+    rx, ry : float
+        Radii as written (negative values are made positive).
+    phi_degrees : float
+        Rotation of the ellipse's x axis, degrees.
+    large_arc, sweep : bool
+        The arc flags.
+    x2, y2 : float
+        End point.
+    tolerance : float
+        Largest distance from the true ellipse, as a fraction of max(rx, ry) after any radius
+        correction. Default :data:`ARC_TOLERANCE`.
+
+    Returns
+    -------
+    ArcResult
+
+    Notes
+    -----
+    Follows SVG 1.1 Appendix F.6: an arc whose end point equals its start point is omitted
+    (F.6.2); a zero radius makes a straight line (F.6.2); radii too small are scaled by √Λ
+    with Λ = x1'²/rx² + y1'²/ry² (F.6.6); the centre comes from F.6.5.2 with the square-root
+    argument clamped at 0 (it can be slightly negative from rounding when Λ ≈ 1); angles
+    come from ``atan2`` (never an unclamped ``acos``). The sweep is split into
+    :func:`arc_pieces` equal parts, each a cubic with handles 4/3·tan(δ/4) on the unit circle,
+    mapped by the ellipse's affine map (exact for Béziers).
+    """
+    negative = rx < 0.0 or ry < 0.0
+    if x1 == x2 and y1 == y2:
+        return ArcResult("none", negative_radius=negative)
+    rx, ry = abs(rx), abs(ry)
+    if rx == 0.0 or ry == 0.0:
+        return ArcResult("line", negative_radius=negative)
+    phi = math.radians(math.fmod(phi_degrees, 360.0))
+    cos_phi, sin_phi = math.cos(phi), math.sin(phi)
+    dx2, dy2 = (x1 - x2) / 2.0, (y1 - y2) / 2.0
+    x1p = cos_phi * dx2 + sin_phi * dy2
+    y1p = -sin_phi * dx2 + cos_phi * dy2
+    lam = (x1p / rx) ** 2 + (y1p / ry) ** 2
+    scaled = False
+    if lam > 1.0:
+        s = math.sqrt(lam)
+        rx, ry = rx * s, ry * s
+        scaled = True
+    rx2, ry2 = rx * rx, ry * ry
+    den = rx2 * y1p * y1p + ry2 * x1p * x1p
+    num = rx2 * ry2 - den
+    coef = math.sqrt(max(0.0, num / den)) if den > 0.0 else 0.0
+    if large_arc == sweep:
+        coef = -coef
+    cxp = coef * rx * y1p / ry
+    cyp = -coef * ry * x1p / rx
+    cx = cos_phi * cxp - sin_phi * cyp + (x1 + x2) / 2.0
+    cy = sin_phi * cxp + cos_phi * cyp + (y1 + y2) / 2.0
+    theta1 = math.atan2((y1p - cyp) / ry, (x1p - cxp) / rx)
+    theta2 = math.atan2((-y1p - cyp) / ry, (-x1p - cxp) / rx)
+    delta = theta2 - theta1
+    if not sweep and delta > 0.0:
+        delta -= _TWO_PI
+    elif sweep and delta < 0.0:
+        delta += _TWO_PI
+    n = arc_pieces(delta, tolerance)
+    if n == 0:
+        return ArcResult("none", negative_radius=negative, radii_scaled=scaled)
+    step = delta / n
+    angles = theta1 + step * np.arange(n + 1)
+    cos_a, sin_a = np.cos(angles), np.sin(angles)
+    h = 4.0 / 3.0 * math.tan(step / 4.0)
+    # Unit-circle control points of every piece: P0, P0 + h·P0⊥, P3 − h·P3⊥, P3.
+    u = np.empty((n, 4, 2))
+    u[:, 0, 0], u[:, 0, 1] = cos_a[:-1], sin_a[:-1]
+    u[:, 3, 0], u[:, 3, 1] = cos_a[1:], sin_a[1:]
+    u[:, 1, 0] = cos_a[:-1] - h * sin_a[:-1]
+    u[:, 1, 1] = sin_a[:-1] + h * cos_a[:-1]
+    u[:, 2, 0] = cos_a[1:] + h * sin_a[1:]
+    u[:, 2, 1] = sin_a[1:] - h * cos_a[1:]
+    # Ellipse map: p = C + R(φ)·diag(rx, ry)·u.
+    ex = u[..., 0] * rx
+    ey = u[..., 1] * ry
+    out = np.empty_like(u)
+    out[..., 0] = cos_phi * ex - sin_phi * ey + cx
+    out[..., 1] = sin_phi * ex + cos_phi * ey + cy
+    # Shared end points exactly: the pieces' joins and the arc's own ends.
+    out[1:, 0] = out[:-1, 3]
+    out[0, 0] = (x1, y1)
+    out[-1, 3] = (x2, y2)
+    return ArcResult("cubics", out, negative_radius=negative, radii_scaled=scaled)

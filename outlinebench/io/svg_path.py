@@ -1,0 +1,623 @@
+"""SVG path data (the ``d`` attribute): lexer, parser to contours, and writer.
+
+The grammar is the one of W3C SVG 1.1 §8.3.9 (BNF) and SVG 2 §9.3 "Path data": commands
+``M L H V C S Q T A Z`` in absolute (upper case) and relative (lower case) form, implicit
+repetition of a command's parameter groups, an implicit line after the first pair of a moveto,
+compact numbers (``.5.5``, ``-.5-.5``, ``1e-3``), single-character arc flags (``a1 1 0 00.5.5``)
+and commands following ``z`` that start at the closed subpath's first point.
+
+Reading is linear in the length of the data. A fast lexer handles data whose numbers are all
+separated (by white space, commas or command letters) with whole-string byte operations and
+one float conversion per number; anything else (compact numbers, unseparated arc flags,
+errors) goes through a per-command regular-expression lexer that is still a single pass and
+finds the exact offset of the first error. Geometry is then built for all parameter groups at
+once with numpy.
+
+Error handling follows SVG 2 §9.5.4 ("render up to the error"): everything up to the last
+complete parameter group before the first error is kept and returned together with the error.
+"""
+
+from __future__ import annotations
+
+import re
+import warnings
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import NDArray
+
+from outlinebench.errors import SvgPathError
+from outlinebench.io.numbers import format_number
+from outlinebench.io.svg_arc import ARC_TOLERANCE, arc_to_cubics
+from outlinebench.model.document import Contour
+
+__all__ = [
+    "PathData",
+    "read_path_data",
+    "parse_path_data",
+    "format_path_data",
+    "format_contour",
+]
+
+_COMMANDS = "MmZzLlHhVvCcSsQqTtAa"
+_WSP = " \t\r\n\f"  # SVG 1.1 wsp (#x20 #x9 #xD #xA) plus form feed (SVG 2)
+_NUM = r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?"
+_NUM_RE = re.compile(_NUM)
+_FLAG_RE = re.compile(r"[01]")
+_SKIP_WSP = re.compile(r"[ \t\r\n\f]*+")
+# Arguments of a non-arc command: numbers separated by optional comma-wsp. Possessive so a
+# failure costs linear time (no backtracking into digit runs).
+_ARGS_RE = re.compile(rf"[ \t\r\n\f]*+(?:(?>{_NUM})[ \t\r\n\f]*+(?:,[ \t\r\n\f]*+)?+)*+")
+_SPLIT_RE = re.compile(r"([MmZzLlHhVvCcSsQqTtAa])")
+_TOKEN_RE = re.compile(r"[^ \t\r\n\f,]{1,16}")
+_ODD_DOT_RE = re.compile(r"[0-9]\.(?![0-9])")
+
+_ARITY = {"M": 2, "L": 2, "H": 1, "V": 1, "C": 6, "S": 4, "Q": 4, "T": 2, "A": 7, "Z": 0}
+_ARITY_LUT = np.zeros(256, dtype=np.int64)
+for _c, _n in _ARITY.items():
+    _ARITY_LUT[ord(_c)] = _n
+    _ARITY_LUT[ord(_c.lower())] = _n
+
+# Byte classes for the fast lexer: 0 white space, 1 number character, 2 command, 3 comma.
+_ASCII_ALLOWED = (_WSP + "0123456789.+-eE," + _COMMANDS).encode()
+_CLASS = np.full(256, 9, dtype=np.int8)
+for _ch in _WSP:
+    _CLASS[ord(_ch)] = 0
+for _ch in "0123456789.+-eE":
+    _CLASS[ord(_ch)] = 1
+for _ch in _COMMANDS:
+    _CLASS[ord(_ch)] = 2
+_CLASS[ord(",")] = 3
+_TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
+_NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
+_IS_DIGIT = np.zeros(256, dtype=bool)
+_IS_DIGIT[ord("0") : ord("9") + 1] = True
+
+# Row categories used while building geometry.
+_CAT = {"M": 0, "L": 1, "H": 1, "V": 1, "C": 2, "S": 3, "Q": 4, "T": 5, "A": 6, "Z": 7}
+_CAT_LUT = np.full(256, -1, dtype=np.int64)
+for _c, _n in _CAT.items():
+    _CAT_LUT[ord(_c)] = _n
+    _CAT_LUT[ord(_c.lower())] = _n
+
+# Levels of vectorised current-point resolution before falling back to one sequential pass.
+_RESOLVE_LEVELS = 12
+
+
+@dataclass
+class _Tokens:
+    """Commands, numbers per command and the numbers, for the valid part of the data."""
+
+    commands: bytes
+    counts: NDArray[np.int64]
+    numbers: NDArray[np.float64]
+    trailing_dot: int = 0
+    error: SvgPathError | None = None
+
+
+@dataclass
+class PathData:
+    """Contours read from one ``d`` attribute, with what the reader noticed.
+
+    Attributes
+    ----------
+    contours : list of Contour
+        Everything up to the first error (all of it when ``error`` is None).
+    error : SvgPathError or None
+        The first error, with ``offset`` and ``token``.
+    counts : dict of str to int
+        Events worth a note: "trailing_dot" (``23.`` numbers), "arcs" (converted to cubics),
+        "arc_negative_radius", "arc_zero_radius", "arc_omitted", "arc_radii_scaled".
+    """
+
+    contours: list[Contour]
+    error: SvgPathError | None = None
+    counts: dict[str, int] = field(default_factory=dict)
+
+
+def _token_at(d: str, offset: int) -> str:
+    if offset >= len(d):
+        return ""
+    ch = d[offset]
+    if ch in _WSP or ch == ",":
+        return ch
+    if ch in _COMMANDS and not (offset + 1 < len(d) and d[offset + 1].isalpha()):
+        return ch
+    m = _TOKEN_RE.match(d, offset)
+    return m.group() if m else ch
+
+
+def _found(token: str) -> str:
+    return f"found {token!r}" if token else "found the end of the data"
+
+
+def _error(d: str, offset: int, expected: str) -> SvgPathError:
+    token = _token_at(d, offset)
+    return SvgPathError(f"expected {expected} at offset {offset}, {_found(token)}", offset, token)
+
+
+# -- lexing ------------------------------------------------------------------------------------
+def _lex_fast(d: str) -> _Tokens | None:
+    """Whole-string lexer for separated numbers; None when the general lexer is needed."""
+    try:
+        raw = d.encode("ascii")
+    except UnicodeEncodeError:
+        return None
+    if raw.translate(None, _ASCII_ALLOWED):
+        return None  # a character outside the grammar's alphabet
+    commands = raw.translate(None, _NOT_COMMAND)
+    if not commands:
+        return None if raw.strip() else _Tokens(b"", np.zeros(0, np.int64), np.zeros(0))
+    if commands[0] not in b"Mm":
+        return None
+    codes = np.frombuffer(raw, dtype=np.uint8)
+    cls = _CLASS[codes]
+    sig = cls[cls != 0]
+    is_comma = sig == 3
+    if is_comma.any():
+        is_cmd = sig == 2
+        if is_comma[0] or is_comma[-1]:
+            return None
+        if np.any(is_comma[1:] & (is_comma[:-1] | is_cmd[:-1])) or np.any(
+            is_comma[:-1] & is_cmd[1:]
+        ):
+            return None
+    numch = cls == 1
+    starts = np.flatnonzero(numch & ~np.concatenate(([False], numch[:-1])))
+    cpos = np.flatnonzero(cls == 2)
+    if starts.size and starts[0] < cpos[0]:
+        return None
+    before = np.searchsorted(starts, cpos)
+    counts = np.diff(before, append=starts.size).astype(np.int64)
+    arity = _ARITY_LUT[np.frombuffer(commands, dtype=np.uint8)]
+    if np.any(counts[arity == 0] != 0):
+        return None
+    has = arity > 0
+    if np.any((counts[has] < arity[has]) | (counts[has] % np.maximum(arity[has], 1) != 0)):
+        return None
+    spaced = raw.translate(_TO_SPACE)
+    # numpy's text reader converts with a correctly rounded strtod; the alphabet check above
+    # leaves only forms it reads exactly as the SVG grammar does, and any leftover text (a
+    # lone "e", "1-2", ".5.5") shows as a count mismatch or a warning, sending the data to
+    # the general lexer.
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("error")
+            numbers = np.fromstring(spaced, dtype=np.float64, sep=" ")
+    except (ValueError, DeprecationWarning):
+        return None
+    if numbers.size != starts.size or not np.all(np.isfinite(numbers)):
+        return None
+    arc_cmds = np.flatnonzero(arity == 7)
+    if arc_cmds.size:
+        tokens = spaced.split()
+        if len(tokens) != numbers.size:
+            return None
+        first = before[arc_cmds]
+        for start, count in zip(first.tolist(), counts[arc_cmds].tolist(), strict=True):
+            for g in range(start, start + count, 7):
+                if tokens[g + 3] not in (b"0", b"1") or tokens[g + 4] not in (b"0", b"1"):
+                    return None
+    dots = np.flatnonzero(codes == ord("."))
+    trailing = 0
+    if dots.size:
+        nxt = np.append(codes, 32)[dots + 1]
+        trailing = int(np.count_nonzero(~_IS_DIGIT[nxt]))
+    return _Tokens(commands, counts, numbers, trailing)
+
+
+def _lex_general(d: str) -> _Tokens:
+    """Per-command lexer: handles every valid form and locates the first error exactly."""
+    parts = _SPLIT_RE.split(d)
+    commands: list[str] = []
+    counts: list[int] = []
+    texts: list[str] = []
+    trailing = 0
+    error: SvgPathError | None = None
+    pre = parts[0]
+    lead = len(pre) - len(pre.lstrip(_WSP))
+    if lead < len(pre):
+        return _Tokens(b"", np.zeros(0, np.int64), np.zeros(0), 0, _error(d, lead, "a moveto"))
+    if len(parts) > 1 and parts[1] not in "Mm":
+        err = _error(d, len(pre), "a moveto ('M' or 'm')")
+        return _Tokens(b"", np.zeros(0, np.int64), np.zeros(0), 0, err)
+    offset = len(pre)
+    for i in range(1, len(parts), 2):
+        cmd, args = parts[i], parts[i + 1]
+        base = offset + 1
+        offset = base + len(args)
+        arity = _ARITY[cmd.upper()]
+        got: list[str] = []
+        if arity == 7:
+            error = _lex_arc_args(d, args, base, got)
+        elif arity == 0:
+            m = _SKIP_WSP.match(args)
+            if m.end() < len(args):
+                error = _error(d, base + m.end(), "a command letter")
+        else:
+            m = _ARGS_RE.match(args)
+            end = m.end()
+            got = _NUM_RE.findall(args, 0, end)
+            if end < len(args):
+                error = _error(d, base + end, "a number")
+            elif args.rstrip(_WSP).endswith(","):
+                error = _error(d, offset, "a number")
+        # Overflow ("1e999") is a bad number at its own offset.
+        for k, text in enumerate(got):
+            value = float(text)
+            if value in (float("inf"), float("-inf")):
+                pos = [m.start() for m in _NUM_RE.finditer(args)][k]
+                token = _token_at(d, base + pos)
+                error = SvgPathError(
+                    f"number out of range at offset {base + pos}, found {token!r}",
+                    base + pos,
+                    token,
+                )
+                got = got[:k]
+                break
+        if error is None and arity and (len(got) < arity or len(got) % arity):
+            error = _error(d, offset, "a number")
+        if arity:
+            got = got[: len(got) - len(got) % arity]
+        trailing += sum(1 for t in got if _ODD_DOT_RE.search(t))
+        if got or arity == 0:
+            if not (arity and not got):
+                commands.append(cmd)
+                counts.append(len(got))
+                texts.extend(got)
+        if error is not None:
+            break
+    numbers = np.array([float(t) for t in texts], dtype=np.float64)
+    return _Tokens(
+        "".join(commands).encode("ascii"),
+        np.array(counts, dtype=np.int64),
+        numbers,
+        trailing,
+        error,
+    )
+
+
+def _lex_arc_args(d: str, args: str, base: int, out: list[str]) -> SvgPathError | None:
+    """Parameter groups of an arc command (flags are single characters)."""
+    pos = _SKIP_WSP.match(args).end()
+    n = len(args)
+    while True:
+        if pos >= n and out:
+            return None
+        group: list[str] = []
+        for j in range(7):
+            m = (_FLAG_RE if j in (3, 4) else _NUM_RE).match(args, pos)
+            if m is None:
+                what = "an arc flag (0 or 1)" if j in (3, 4) else "a number"
+                return _error(d, base + pos, what)
+            group.append(m.group())
+            pos = _SKIP_WSP.match(args, m.end()).end()
+            if pos < n and args[pos] == ",":
+                pos = _SKIP_WSP.match(args, pos + 1).end()
+                if pos >= n:
+                    return _error(d, base + n, "a number")
+        out.extend(group)
+
+
+def _lex(d: str) -> _Tokens:
+    fast = _lex_fast(d)
+    return fast if fast is not None else _lex_general(d)
+
+
+# -- geometry ----------------------------------------------------------------------------------
+def _resolve(values: NDArray[np.float64], dep: NDArray[np.int64]) -> NDArray[np.float64]:
+    """out[i] = values[i] where dep[i] < 0, else out[dep[i]] + values[i] (dep[i] < i).
+
+    The same additions in the same order as a sequential reading of the path, so the result
+    is bit-identical to one; done a dependency level at a time with numpy, then sequentially
+    for whatever long chains remain.
+    """
+    out = values.copy()
+    pending = np.flatnonzero(dep >= 0)
+    resolved = dep < 0
+    for _ in range(_RESOLVE_LEVELS):
+        if not pending.size:
+            return out
+        ready = resolved[dep[pending]]
+        idx = pending[ready]
+        out[idx] = out[dep[idx]] + values[idx]
+        resolved[idx] = True
+        pending = pending[~ready]
+    if pending.size:
+        seq = out.tolist()
+        vals = values.tolist()
+        deps = dep.tolist()
+        for i in pending.tolist():
+            seq[i] = seq[deps[i]] + vals[i]
+        out = np.array(seq, dtype=np.float64)
+    return out
+
+
+def _freeze(a: NDArray[np.float64]) -> NDArray[np.float64]:
+    a.flags.writeable = False
+    return a
+
+
+def _apply(points: NDArray[np.float64], matrix: NDArray[np.float64] | None) -> NDArray[np.float64]:
+    if matrix is None:
+        return points
+    out = np.empty_like(points)
+    x, y = points[..., 0], points[..., 1]
+    out[..., 0] = matrix[0, 0] * x + matrix[0, 1] * y + matrix[0, 2]
+    out[..., 1] = matrix[1, 0] * x + matrix[1, 1] * y + matrix[1, 2]
+    return out
+
+
+def _build(
+    tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float
+) -> tuple[list[Contour], dict[str, int]]:
+    counts_out: dict[str, int] = {}
+    if not tok.commands:
+        return [], counts_out
+    codes = np.frombuffer(tok.commands, dtype=np.uint8)
+    arity = _ARITY_LUT[codes]
+    ngroups = np.where(arity > 0, tok.counts // np.maximum(arity, 1), 1)
+    n = int(ngroups.sum())
+    cmd_first_row = np.cumsum(ngroups) - ngroups
+    num_start = np.cumsum(tok.counts) - tok.counts
+    row_code = np.repeat(codes, ngroups).astype(np.int64)
+    row_arity = np.repeat(arity, ngroups)
+    within = np.arange(n) - np.repeat(cmd_first_row, ngroups)
+    row_num = np.repeat(num_start, ngroups) + within * row_arity
+    cat = _CAT_LUT[row_code]
+    # Extra pairs after a moveto are lines (SVG 1.1 §8.3.2).
+    extra_move = (cat == 0) & (within > 0)
+    cat[extra_move] = 1
+    rel = row_code >= ord("a")
+    if n and cat[0] == 0:
+        rel[0] = False  # a leading "m" is absolute (SVG 1.1 §8.3.2)
+    params = np.zeros((n, 7))
+    for j in range(7):
+        mask = row_arity > j
+        params[mask, j] = tok.numbers[row_num[mask] + j]
+    upper = row_code & ~0x20
+    # End point of every row, per axis: (value, depends on previous row?).
+    ex = np.zeros(n)
+    ey = np.zeros(n)
+    for letters, ix, iy in (("MLT", 0, 1), ("C", 4, 5), ("SQ", 2, 3), ("A", 5, 6)):
+        mask = np.isin(upper, [ord(c) for c in letters])
+        ex[mask] = params[mask, ix]
+        ey[mask] = params[mask, iy]
+    is_h = upper == ord("H")
+    is_v = upper == ord("V")
+    ex[is_h] = params[is_h, 0]
+    ey[is_v] = params[is_v, 0]
+    prev = np.arange(n) - 1
+    dep_x = np.where(rel | is_v, prev, -1)
+    dep_y = np.where(rel | is_h, prev, -1)
+    is_z = cat == 7
+    if is_z.any():
+        move_rows = np.where(cat == 0, np.arange(n), 0)
+        subpath_start = np.maximum.accumulate(move_rows)
+        dep_x[is_z] = subpath_start[is_z]
+        dep_y[is_z] = subpath_start[is_z]
+        ex[is_z] = 0.0
+        ey[is_z] = 0.0
+    dep_x[0] = dep_y[0] = -1
+    X = _resolve(ex, dep_x)
+    Y = _resolve(ey, dep_y)
+    SX = np.concatenate(([0.0], X[:-1]))
+    SY = np.concatenate(([0.0], Y[:-1]))
+    bx = np.where(rel, SX, 0.0)
+    by = np.where(rel, SY, 0.0)
+    start = np.stack([SX, SY], axis=1)
+    end = np.stack([X, Y], axis=1)
+    p01 = np.stack([params[:, 0] + bx, params[:, 1] + by], axis=1)
+    p23 = np.stack([params[:, 2] + bx, params[:, 3] + by], axis=1)
+    p45 = np.stack([params[:, 4] + bx, params[:, 5] + by], axis=1)
+
+    rows: list = [None] * n
+    # Lines: L, H, V, extra moveto pairs, and Z when it moves.
+    line_rows = (cat == 1) | (is_z & ((SX != X) | (SY != Y)))
+    idx = np.flatnonzero(line_rows)
+    if idx.size:
+        segs = _freeze(_apply(np.stack([start[idx], end[idx]], axis=1), matrix))
+        list(map(rows.__setitem__, idx.tolist(), segs))
+    # Cubics: C, S.
+    is_c = cat == 2
+    is_s = cat == 3
+    second = np.where(is_c[:, None], p23, p01)  # the second handle of C and S rows
+    first = p01.copy()
+    if is_s.any():
+        s_idx = np.flatnonzero(is_s)
+        prev_cubic = np.zeros(n, dtype=bool)
+        prev_cubic[1:] = is_c[:-1] | is_s[:-1]
+        refl = s_idx[prev_cubic[s_idx]]
+        first[s_idx] = start[s_idx]
+        first[refl] = 2.0 * start[refl] - second[refl - 1]
+    cub_idx = np.flatnonzero(is_c | is_s)
+    if cub_idx.size:
+        third = np.where(is_c[:, None], p45, end)
+        segs = np.stack([start[cub_idx], first[cub_idx], second[cub_idx], end[cub_idx]], axis=1)
+        # C rows take their end from params (same values as `end`, kept for clarity).
+        del third
+        segs = _freeze(_apply(segs, matrix))
+        list(map(rows.__setitem__, cub_idx.tolist(), segs))
+    # Quadratics: Q, T (T reflects the previous Q/T control point, sequentially).
+    is_q = cat == 4
+    is_t = cat == 5
+    quad_idx = np.flatnonzero(is_q | is_t)
+    if quad_idx.size:
+        ctrl = p01.copy()
+        if is_t.any():
+            qt = is_q | is_t
+            for i in np.flatnonzero(is_t).tolist():
+                if i > 0 and qt[i - 1]:
+                    ctrl[i] = 2.0 * start[i] - ctrl[i - 1]
+                else:
+                    ctrl[i] = start[i]
+        segs = _freeze(
+            _apply(np.stack([start[quad_idx], ctrl[quad_idx], end[quad_idx]], 1), matrix)
+        )
+        list(map(rows.__setitem__, quad_idx.tolist(), segs))
+    # Arcs: converted in the element's own coordinates, then mapped (affine maps are exact
+    # on Bézier control points, so the arc's radii are never transformed).
+    arc_rows = np.flatnonzero(cat == 6)
+    multi = False
+    for i in arc_rows.tolist():
+        p = params[i]
+        x1, y1 = float(SX[i]), float(SY[i])
+        res = arc_to_cubics(
+            x1, y1, p[0], p[1], p[2], p[3] != 0.0, p[4] != 0.0, float(X[i]), float(Y[i]), tolerance
+        )
+        if res.negative_radius:
+            counts_out["arc_negative_radius"] = counts_out.get("arc_negative_radius", 0) + 1
+        if res.radii_scaled:
+            counts_out["arc_radii_scaled"] = counts_out.get("arc_radii_scaled", 0) + 1
+        if res.kind == "none":
+            counts_out["arc_omitted"] = counts_out.get("arc_omitted", 0) + 1
+        elif res.kind == "line":
+            counts_out["arc_zero_radius"] = counts_out.get("arc_zero_radius", 0) + 1
+            rows[i] = _freeze(_apply(np.array([[x1, y1], [X[i], Y[i]]]), matrix))
+        else:
+            counts_out["arcs"] = counts_out.get("arcs", 0) + 1
+            rows[i] = tuple(_freeze(_apply(res.cubics, matrix)))
+            multi = True
+    # Contours: a moveto starts one, a closepath ends one (and the next command after it
+    # starts a new one at the same first point, SVG 1.1 §8.3.3).
+    breaks = set(np.flatnonzero(cat == 0).tolist())
+    z_rows = np.flatnonzero(is_z).tolist()
+    breaks.update(z + 1 for z in z_rows)
+    breaks.add(n)
+    closed_after = set(z_rows)
+    order = sorted(breaks)
+    contours: list[Contour] = []
+    a = 0
+    for b in order:
+        if b <= a:
+            continue
+        chunk = rows[a:b]
+        if multi:
+            segs_list = []
+            for s in chunk:
+                if s is None:
+                    continue
+                if isinstance(s, tuple):
+                    segs_list.extend(s)
+                else:
+                    segs_list.append(s)
+        else:
+            segs_list = [s for s in chunk if s is not None]
+        if segs_list:
+            contours.append(Contour(tuple(segs_list), (b - 1) in closed_after))
+        a = b
+    if tok.trailing_dot:
+        counts_out["trailing_dot"] = tok.trailing_dot
+    return contours, counts_out
+
+
+def read_path_data(
+    d: str,
+    *,
+    matrix: NDArray[np.float64] | None = None,
+    tolerance: float = ARC_TOLERANCE,
+) -> PathData:
+    """Read path data, keeping everything up to the first error.
+
+    Parameters
+    ----------
+    d : str
+        The ``d`` attribute.
+    matrix : ndarray, shape (3, 3), optional
+        Affine map applied to every control point (the element's transform to root units).
+    tolerance : float
+        Arc conversion error bound relative to the arc's larger radius
+        (default :data:`~outlinebench.io.svg_arc.ARC_TOLERANCE`).
+
+    Returns
+    -------
+    PathData
+        Contours and, when the data is bad, the error (never raised).
+    """
+    tok = _lex(d)
+    contours, counts = _build(tok, matrix, tolerance)
+    return PathData(contours, tok.error, counts)
+
+
+def parse_path_data(d: str, *, tolerance: float = ARC_TOLERANCE) -> list[Contour]:
+    """Parse path data into contours, strictly.
+
+    Parameters
+    ----------
+    d : str
+        SVG path data.
+    tolerance : float
+        Arc conversion error bound relative to the arc's larger radius.
+
+    Returns
+    -------
+    list of Contour
+        One per subpath that has at least one segment; arcs become cubics.
+
+    Raises
+    ------
+    SvgPathError
+        At the first error, e.g. "expected a number at offset 17, found 'x'".
+
+    Examples
+    --------
+    >>> [c.kinds() for c in parse_path_data("M0 0 L1 0 Q2 0 2 1z")]
+    [['line', 'quad', 'line']]
+    >>> parse_path_data("")
+    []
+    """
+    res = read_path_data(d, tolerance=tolerance)
+    if res.error is not None:
+        raise res.error
+    return res.contours
+
+
+_CMD_BY_K = {2: "L", 3: "Q", 4: "C"}
+
+
+def format_contour(contour: Contour, out: list[str]) -> None:
+    """Append one contour's absolute path commands to ``out`` (see :func:`format_path_data`)."""
+    segs = contour.segments
+    if not segs:
+        return
+    f = format_number
+    x0, y0 = segs[0][0]
+    out.append(f"M{f(x0)} {f(y0)}")
+    last = len(segs)
+    if contour.closed and last >= 2:
+        tail = segs[-1]
+        # A closing line is recreated exactly by Z (it ends at the contour's first point).
+        if tail.shape[0] == 2 and (tail[0][0] != tail[1][0] or tail[0][1] != tail[1][1]):
+            last -= 1
+    for s in segs[:last]:
+        coords = " ".join(f"{f(x)} {f(y)}" for x, y in s[1:].tolist())
+        out.append(f"{_CMD_BY_K[s.shape[0]]}{coords}")
+    if contour.closed:
+        out.append("Z")
+
+
+def format_path_data(contours: Sequence[Contour]) -> str:
+    """Write contours as SVG path data.
+
+    Parameters
+    ----------
+    contours : sequence of Contour
+
+    Returns
+    -------
+    str
+        Absolute commands only (``M L Q C Z``), each written out (no implicit repeats),
+        numbers in shortest round-trip positional form (see
+        :func:`~outlinebench.io.numbers.format_number`), separated by single spaces.
+        Reading the result back gives bit-identical control points.
+
+    Examples
+    --------
+    >>> format_path_data(parse_path_data("m1e-7 0 h.5 v-.25z"))
+    'M0.0000001 0 L0.5000001 0 L0.5000001 -0.25 Z'
+    """
+    out: list[str] = []
+    for c in contours:
+        format_contour(c, out)
+    return " ".join(out)
