@@ -38,6 +38,20 @@ from outlinebench.model.document import (
     frozen_points,
 )
 from outlinebench.model.history import HISTORY_LIMIT, History
+from outlinebench.model.tools import (
+    DrawContourTool,
+    InsertPointTool,
+    Overlay,
+    PointerEvent,
+    SegmentHit,
+    Selection,
+    SelectTool,
+    Tool,
+    nearest_segment,
+    nudge,
+    pick_point,
+    points_in_rect,
+)
 
 __all__ = [
     "IDENTITY",
@@ -77,4 +91,17 @@ __all__ = [
     # history
     "HISTORY_LIMIT",
     "History",
+    # gestures
+    "DrawContourTool",
+    "InsertPointTool",
+    "Overlay",
+    "PointerEvent",
+    "SegmentHit",
+    "Selection",
+    "SelectTool",
+    "Tool",
+    "nearest_segment",
+    "nudge",
+    "pick_point",
+    "points_in_rect",
 ]

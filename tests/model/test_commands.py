@@ -52,8 +52,8 @@ def seg(doc, s, o=0, c=0):
 
 
 def angle_deg(u, v):
-    cos = np.dot(u, v) / (np.linalg.norm(u) * np.linalg.norm(v))
-    return math.degrees(math.acos(max(-1.0, min(1.0, cos))))
+    """Angle between two vectors from atan2(cross, dot), accurate near 0 (unlike acos)."""
+    return abs(math.degrees(math.atan2(u[0] * v[1] - u[1] * v[0], float(np.dot(u, v)))))
 
 
 # -- addressing ---------------------------------------------------------------------------
