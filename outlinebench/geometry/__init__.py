@@ -5,6 +5,12 @@ or 4 (cubic); a batch of same-degree segments has shape ``(M, K, 2)``. Functions
 their inputs, print, or keep state. Validate foreign input once with :func:`as_control_points`.
 """
 
+from outlinebench.geometry.arclength import (
+    arc_length,
+    arc_length_between,
+    param_at_length,
+    quadratic_arc_length,
+)
 from outlinebench.geometry.bezier import (
     DEGREE_BY_KIND,
     KIND_BY_DEGREE,
@@ -31,6 +37,7 @@ from outlinebench.geometry.curvature import (
     unit_tangent,
 )
 from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.quadrature import gauss_legendre
 
 __all__ = [
     "DEGREE_BY_KIND",
@@ -54,6 +61,11 @@ __all__ = [
     "inflections",
     "unit_normal",
     "unit_tangent",
+    "arc_length",
+    "arc_length_between",
+    "param_at_length",
+    "quadratic_arc_length",
+    "gauss_legendre",
     "fit_chain",
     "fit_cubic",
     "max_deviation",
