@@ -2,6 +2,7 @@
 
 from outlinebench.io.svg_path import format_path_data, parse_path_data
 from outlinebench.io.svg_read import ReadNote, ReadResult, load_svg, read_svg
+from outlinebench.io.svg_write import polylines_svg, svg_bytes, write_svg
 
 __all__ = [
     "read_svg",
@@ -10,4 +11,7 @@ __all__ = [
     "load_svg",
     "parse_path_data",
     "format_path_data",
+    "write_svg",
+    "svg_bytes",
+    "polylines_svg",
 ]

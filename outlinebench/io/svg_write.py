@@ -1,0 +1,593 @@
+"""Saving documents as SVG: write-back into the original bytes, fresh files, cut files.
+
+Write-back splices changes into the file's original bytes: the start tag of an edited element
+gets a new ``d`` (and, for a basic shape, becomes a ``path`` keeping its id and every other
+attribute); join intent goes into our own namespaced attribute; new outlines go in before the
+root's end tag. Every other byte (comments, text, images, styles, ids, unknown namespaces,
+formatting, the XML declaration and doctype) stays exactly as it was.
+
+Saving is atomic: serialise fully, re-read the result as a check, write a temporary file in the
+same folder, fsync it, ``os.replace`` it over the target, fsync the folder.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import re
+import tempfile
+from collections.abc import Sequence
+from pathlib import Path
+from typing import Any, BinaryIO
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from outlinebench.errors import SvgReadError, SvgWriteError
+from outlinebench.io.numbers import format_number
+from outlinebench.io.svg_path import _apply, format_path_data
+from outlinebench.io.svg_read import (
+    _JOIN_LETTER,
+    JOINS_NS,
+    JOINS_PREFIX,
+    SVG_NS,
+    ElementRef,
+    SvgSource,
+    read_svg,
+)
+from outlinebench.model.document import IDENTITY, Contour, Document, Outline
+
+__all__ = ["CUT_CAUTION", "svg_bytes", "write_svg", "polylines_svg", "joins_text"]
+
+CUT_CAUTION = (
+    "Caution: verify these toolpaths in the machine's own preview before cutting, follow the "
+    "machine maker's instructions, shop safety rules and local codes."
+)
+# Largest distance, relative to the coordinates' size, accepted by the save check between an
+# edited outline under a transform and its re-read geometry (the inverse transform cannot
+# always give coordinates that map back bit for bit).
+WRITE_CHECK_TOLERANCE = 1e-12
+
+_SHAPE_ATTRS = {
+    "rect": ("x", "y", "width", "height", "rx", "ry"),
+    "circle": ("cx", "cy", "r"),
+    "ellipse": ("cx", "cy", "rx", "ry"),
+    "line": ("x1", "y1", "x2", "y2"),
+    "polyline": ("points",),
+    "polygon": ("points",),
+}
+_ATTR_RE = re.compile(rb"""\s+([^\s=/>]+)\s*=\s*("[^"]*"|'[^']*')""")
+_TAG_NAME_RE = re.compile(rb"<([^\s/>]+)")
+_END_TAG_RE = re.compile(rb"</([^\s>]+)")
+_TAG_END_RE = re.compile(rb"\s*(/?)>")
+_NS_DECL_RE = re.compile(r"xmlns:([A-Za-z_][\w.-]*)")
+
+
+def joins_text(contours: Sequence[Contour]) -> str | None:
+    """The join-intent attribute value, or None when no join states an intent."""
+    if not any(j is not None for c in contours for j in c.joins):
+        return None
+    return ";".join("".join(_JOIN_LETTER[j] for j in c.joins) for c in contours)
+
+
+def _to_element(points: NDArray[np.float64], matrix: NDArray[np.float64]) -> NDArray[np.float64]:
+    """Element coordinates q with matrix·q == points, bit for bit where a nearby float allows.
+
+    The plain inverse is tried first; where mapping it forward (with the reader's arithmetic)
+    does not give the same floats, neighbouring floats up to 4 ulps away are searched.
+    """
+    inv = np.linalg.inv(matrix)
+    q = _apply(points, inv)
+    back = _apply(q, matrix)
+    bad = np.flatnonzero(np.any(back != points, axis=-1))
+    if bad.size:
+        steps = np.arange(-4, 5)
+        qb, pb = q[bad], points[bad]
+        best = qb.copy()
+        found = np.zeros(bad.size, dtype=bool)
+        for sx in steps:
+            for sy in steps:
+                cand = np.stack(
+                    [
+                        _nudge(qb[:, 0], int(sx)),
+                        _nudge(qb[:, 1], int(sy)),
+                    ],
+                    axis=1,
+                )
+                ok = ~found & np.all(_apply(cand, matrix) == pb, axis=1)
+                best[ok] = cand[ok]
+                found |= ok
+        q[bad] = best
+    return q
+
+
+def _nudge(x: NDArray[np.float64], steps: int) -> NDArray[np.float64]:
+    out = x.copy()
+    direction = np.inf if steps > 0 else -np.inf
+    for _ in range(abs(steps)):
+        out = np.nextafter(out, direction)
+    return out
+
+
+def _element_contours(outline: Outline, matrix: NDArray[np.float64]) -> list[Contour]:
+    if matrix is IDENTITY or np.array_equal(matrix, IDENTITY):
+        return list(outline.contours)
+    out = []
+    for c in outline.contours:
+        segs = []
+        for s in c.segments:
+            q = _to_element(np.asarray(s, dtype=np.float64), matrix)
+            segs.append(q)
+        # Shared end points stay shared: each segment starts where the previous one ended.
+        for i in range(1, len(segs)):
+            segs[i][0] = segs[i - 1][-1]
+        if c.closed and segs:
+            segs[-1][-1] = segs[0][0]
+        for s in segs:
+            s.flags.writeable = False
+        out.append(Contour(tuple(segs), c.closed, c.joins))
+    return out
+
+
+class _Splicer:
+    def __init__(self, src: SvgSource) -> None:
+        self.src = src
+        self.data = src.xml.data
+        self.edits: list[tuple[int, int, bytes]] = []
+        self.prefix = self._joins_prefix()
+
+    def _root_start(self) -> tuple[int, int]:
+        start = self.src.xml.spans[id(self.src.xml.root)][0]
+        return start, self._tag_end(start)
+
+    def _joins_prefix(self) -> tuple[str, bool]:
+        start, end = self._root_start()
+        tag = self.data[start:end].decode("ascii", "replace")
+        used = set()
+        for m in re.finditer(r"""xmlns:([A-Za-z_][\w.-]*)\s*=\s*("[^"]*"|'[^']*')""", tag):
+            if m.group(2)[1:-1] == JOINS_NS:
+                return m.group(1), False
+            used.add(m.group(1))
+        prefix = JOINS_PREFIX
+        k = 1
+        while prefix in used:
+            prefix = f"{JOINS_PREFIX}{k}"
+            k += 1
+        return prefix, True
+
+    def _tag_end(self, start: int) -> int:
+        m = _TAG_NAME_RE.match(self.data, start)
+        pos = m.end()
+        while True:
+            a = _ATTR_RE.match(self.data, pos)
+            if a is None:
+                break
+            pos = a.end()
+        e = _TAG_END_RE.match(self.data, pos)
+        if e is None:
+            raise SvgWriteError("cannot find the end of a start tag while saving")
+        return e.end()
+
+    def set_attrs(
+        self,
+        el: Any,
+        values: dict[str, str | None],
+        remove: Sequence[str] = (),
+        rename_to: str | None = None,
+    ) -> None:
+        """Rewrite one start tag: set/remove attributes (raw qualified names)."""
+        start = self.src.xml.spans[id(el)][0]
+        end = self._tag_end(start)
+        tag = self.data[start:end]
+        name_m = _TAG_NAME_RE.match(tag)
+        raw_name = name_m.group(1)
+        pieces = [b"<" + (self._renamed(raw_name, rename_to) if rename_to else raw_name)]
+        pos = name_m.end()
+        done = set()
+        while True:
+            a = _ATTR_RE.match(tag, pos)
+            if a is None:
+                break
+            name = a.group(1).decode("ascii", "replace")
+            if name in remove:
+                pass
+            elif name in values:
+                if values[name] is not None:
+                    q = a.group(2)[:1]
+                    pieces.append(tag[pos : a.start(2)] + q + values[name].encode() + q)
+                done.add(name)
+            else:
+                pieces.append(tag[pos : a.end()])
+            pos = a.end()
+        for name, value in values.items():
+            if name not in done and value is not None:
+                pieces.append(f' {name}="{value}"'.encode())
+        pieces.append(tag[pos:])
+        self.edits.append((start, end, b"".join(pieces)))
+        if rename_to:
+            s, e = self.src.xml.spans[id(el)]
+            if e != s and self.data[e : e + 2] == b"</":
+                m = _END_TAG_RE.match(self.data, e)
+                if m is None:  # pragma: no cover - expat guarantees an end tag here
+                    raise SvgWriteError("cannot find an end tag while saving")
+                new = b"</" + self._renamed(m.group(1), rename_to)
+                self.edits.append((e, m.end(), new))
+
+    @staticmethod
+    def _renamed(raw: bytes, local: str) -> bytes:
+        prefix, colon, _ = raw.rpartition(b":")
+        return prefix + colon + local.encode() if colon else local.encode()
+
+    def joins_attr(self) -> str:
+        return f"{self.prefix[0]}:joins"
+
+    def declare_prefix(self) -> None:
+        prefix, needed = self.prefix
+        if not needed:
+            return
+        start, end = self._root_start()
+        name_end = _TAG_NAME_RE.match(self.data, start).end()
+        self.edits.append((name_end, name_end, f' xmlns:{prefix}="{JOINS_NS}"'.encode()))
+        self.prefix = (prefix, False)
+
+    def append(self, text: bytes) -> None:
+        root = self.src.xml.root
+        s, e = self.src.xml.spans[id(root)]
+        if self.data[e : e + 2] == b"</":
+            self.edits.append((e, e, text))
+        else:  # <svg .../>: open it up
+            end = self._tag_end(s)
+            close = self.data[s:end]
+            name = _TAG_NAME_RE.match(close).group(1)
+            opened = close[:-2].rstrip() + b">" if close.endswith(b"/>") else close
+            self.edits.append((s, end, opened + b"\n" + text + b"</" + name + b">"))
+
+    def result(self) -> bytes:
+        out = []
+        pos = 0
+        # Insertions at the same offset keep their order; the prefix declaration goes first.
+        for start, end, text in sorted(self.edits, key=lambda e: (e[0], e[1])):
+            if start < pos:
+                raise SvgWriteError("overlapping edits while saving (internal error)")
+            out.append(self.data[pos:start])
+            out.append(text)
+            pos = end
+        out.append(self.data[pos:])
+        return b"".join(out)
+
+
+def _untouched(outline: Outline, ref: ElementRef) -> bool:
+    a, b = outline.contours, ref.contours
+    return a is b or (len(a) == len(b) and all(x is y for x, y in zip(a, b, strict=True)))
+
+
+def _same_segments(outline: Outline, ref: ElementRef) -> bool:
+    a, b = outline.contours, ref.contours
+    if len(a) != len(b):
+        return False
+    for x, y in zip(a, b, strict=True):
+        if x.closed != y.closed or len(x.segments) != len(y.segments):
+            return False
+        if x.segments is not y.segments and not all(
+            s is t for s, t in zip(x.segments, y.segments, strict=True)
+        ):
+            return False
+    return True
+
+
+def _path_element(d: str, joins: str | None, element_id: str | None, prefix: str) -> bytes:
+    attrs = []
+    if element_id:
+        attrs.append(f'id="{_escape(element_id)}"')
+    attrs.append(f'd="{d}"')
+    if joins is not None:
+        attrs.append(f'{prefix}:joins="{joins}"')
+    return ("<path " + " ".join(attrs) + "/>\n").encode()
+
+
+def _escape(text: str) -> str:
+    return (
+        text.replace("&", "&amp;").replace("<", "&lt;").replace('"', "&quot;").replace(">", "&gt;")
+    )
+
+
+def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
+    enc = src.xml.encoding
+    if enc.startswith(("utf-16", "utf-32", "ucs")):
+        raise SvgWriteError(
+            f"{src.path or '<bytes>'}: saving back into a {enc} file is not supported; "
+            "save it as UTF-8 first"
+        )
+    sp = _Splicer(src)
+    root_matrix = np.eye(3)
+    root = src.xml.root
+    if root.get("transform"):
+        from outlinebench.io.svg_transform import parse_transform
+
+        root_matrix = parse_transform(root.get("transform"))
+    written_old: list[tuple[int, Outline]] = []
+    new: list[Outline] = []
+    need_prefix = False
+    for outline in doc.outlines:
+        ref = outline.source
+        if not isinstance(ref, ElementRef):
+            new.append(outline)
+            continue
+        written_old.append((outline.source_index, outline))
+        if _untouched(outline, ref):
+            continue
+        if ref.use is not None:
+            raise SvgWriteError(
+                f"{src.path or '<bytes>'}: outline {outline.source_index} is an instance of "
+                f"<use id={ref.use.get('id')!r}>; edit the element it refers to instead"
+            )
+        tag = outline.tag
+        joins = joins_text(outline.contours)
+        values: dict[str, str | None] = {}
+        if joins is not None or ref.element.get(f"{{{JOINS_NS}}}joins") is not None:
+            need_prefix = need_prefix or joins is not None
+            values[sp.joins_attr()] = joins  # None removes the attribute
+        if _same_segments(outline, ref) and tag == "path":
+            sp.set_attrs(ref.element, values)
+            continue
+        contours = _element_contours(outline, ref.matrix)
+        values["d"] = format_path_data(contours)
+        if tag == "path":
+            sp.set_attrs(ref.element, values)
+        else:
+            sp.set_attrs(ref.element, values, remove=_SHAPE_ATTRS.get(tag, ()), rename_to="path")
+    if new:
+        parts = []
+        for outline in new:
+            contours = _element_contours(outline, root_matrix @ outline.transform)
+            joins = joins_text(outline.contours)
+            need_prefix = need_prefix or joins is not None
+            parts.append(
+                _path_element(format_path_data(contours), joins, outline.element_id, sp.prefix[0])
+            )
+        sp.append(b"".join(parts))
+    if need_prefix:
+        sp.declare_prefix()
+    written_old.sort(key=lambda t: t[0])
+    return sp.result(), [o for _, o in written_old] + new
+
+
+def _fresh(doc: Document) -> tuple[bytes, list[Outline]]:
+    f = format_number
+    attrs = [f'xmlns="{SVG_NS}"']
+    if any(j is not None for o in doc.outlines for c in o.contours for j in c.joins):
+        attrs.append(f'xmlns:{JOINS_PREFIX}="{JOINS_NS}"')
+    vb = doc.view_box
+    if doc.width_mm is not None and doc.height_mm is not None:
+        attrs.append(f'width="{f(doc.width_mm)}mm" height="{f(doc.height_mm)}mm"')
+        if vb is None:
+            vb = (0.0, 0.0, doc.width_mm / doc.mm_per_unit, doc.height_mm / doc.mm_per_unit)
+    if vb is not None:
+        attrs.append(f'viewBox="{" ".join(f(v) for v in vb)}"')
+    lines = [b'<?xml version="1.0" encoding="UTF-8"?>\n', f"<svg {' '.join(attrs)}>\n".encode()]
+    for outline in doc.outlines:
+        contours = _element_contours(outline, outline.transform)
+        lines.append(
+            _path_element(
+                format_path_data(contours),
+                joins_text(outline.contours),
+                outline.element_id,
+                JOINS_PREFIX,
+            )
+        )
+    lines.append(b"</svg>\n")
+    return b"".join(lines), list(doc.outlines)
+
+
+def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> None:
+    src = doc.source if isinstance(doc.source, SvgSource) else None
+    ppi = src.px_per_inch if src is not None else 96.0
+    try:
+        back = read_svg(data, px_per_inch=ppi, on_unsupported="skip", allow_entities=True)
+    except SvgReadError as exc:
+        raise SvgWriteError(f"{where}: the serialised file does not read back: {exc}") from None
+    got = back.document.outlines
+    if len(got) != len(written):
+        raise SvgWriteError(
+            f"{where}: save check failed: {len(written)} outlines written, {len(got)} read back"
+        )
+    for k, (want, have) in enumerate(zip(written, got, strict=True)):
+        ref = want.source
+        expect = ref.contours if isinstance(ref, ElementRef) and _untouched(want, ref) else None
+        expect = expect if expect is not None else want.contours
+        exact = not isinstance(ref, ElementRef) or np.array_equal(ref.matrix, IDENTITY)
+        if not _contours_match(expect, have.contours, exact):
+            raise SvgWriteError(
+                f"{where}: save check failed: outline {k} does not read back as written"
+            )
+
+
+def _contours_match(a: Sequence[Contour], b: Sequence[Contour], exact: bool) -> bool:
+    if len(a) != len(b):
+        return False
+    for x, y in zip(a, b, strict=True):
+        if x.closed != y.closed or len(x.segments) != len(y.segments) or x.joins != y.joins:
+            return False
+        for s, t in zip(x.segments, y.segments, strict=True):
+            if s.shape != t.shape:
+                return False
+            if exact:
+                if not np.array_equal(s, t):
+                    return False
+            else:
+                scale = max(1.0, float(np.max(np.abs(s))))
+                if float(np.max(np.abs(s - t))) > WRITE_CHECK_TOLERANCE * scale:
+                    return False
+    return True
+
+
+def svg_bytes(document: Document) -> bytes:
+    """Serialise a document to SVG bytes, checked by reading them back.
+
+    Parameters
+    ----------
+    document : Document
+        Read from SVG (written back into its original bytes) or made from scratch (a fresh
+        minimal SVG root).
+
+    Returns
+    -------
+    bytes
+
+    Raises
+    ------
+    SvgWriteError
+        The result does not read back to the same geometry, an edited outline is a ``use``
+        instance, or the original file's encoding cannot be spliced.
+    """
+    src = document.source
+    where = document.path or "<document>"
+    if isinstance(src, SvgSource):
+        data, written = _write_back(document, src)
+    else:
+        data, written = _fresh(document)
+    _check(data, written, document, where)
+    return data
+
+
+def _write_all(fh: BinaryIO, data: bytes) -> None:
+    """Write every byte (a separate function so tests can make it fail halfway)."""
+    view = memoryview(data)
+    while view:
+        n = fh.write(view)
+        view = view[n:]
+
+
+def _fsync_dir(directory: Path) -> None:
+    try:
+        fd = os.open(directory, os.O_RDONLY)
+    except OSError:
+        return  # platforms without directory handles (Windows)
+    try:
+        os.fsync(fd)
+    except OSError:
+        pass
+    finally:
+        os.close(fd)
+
+
+def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:
+    """Save a document atomically.
+
+    Parameters
+    ----------
+    document : Document
+    path : str or path-like, optional
+        Target file; default ``document.path``.
+
+    Raises
+    ------
+    SvgWriteError
+        No target, a read-only target (refused, never replaced), the save check failed, or
+        a disk error; the old file is then left as it was.
+
+    Notes
+    -----
+    Serialise fully and re-read as a check (:func:`svg_bytes`); write a temporary file in
+    the target's folder, flush and fsync it; ``os.replace`` it over the target (atomic on
+    POSIX and Windows); fsync the folder so the rename itself is durable.
+    """
+    target_name = path if path is not None else document.path
+    if target_name is None:
+        raise SvgWriteError("no file name to save to")
+    target = Path(target_name)
+    data = svg_bytes(document)
+    mode = None
+    if target.exists():
+        if not os.access(target, os.W_OK):
+            raise SvgWriteError(f"{target}: the file is read-only; it was not replaced")
+        mode = target.stat().st_mode & 0o7777
+    directory = target.parent if str(target.parent) else Path(".")
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
+    except OSError as exc:
+        raise SvgWriteError(f"{target}: cannot create a file in {directory}: {exc}") from None
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            _write_all(fh, data)
+            fh.flush()
+            os.fsync(fh.fileno())
+        if mode is not None:
+            os.chmod(tmp, mode)
+        os.replace(tmp, target)
+    except BaseException as exc:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        if isinstance(exc, OSError):
+            raise SvgWriteError(
+                f"{target}: save failed, the old file is unchanged: {exc}"
+            ) from None
+        raise
+    _fsync_dir(directory)
+
+
+def polylines_svg(
+    contours_points: Sequence[ArrayLike],
+    *,
+    width_mm: float,
+    height_mm: float,
+    comment: str = "",
+    closed: Sequence[bool] | None = None,
+    stroke_mm: float = 0.1,
+) -> bytes:
+    """An SVG cut file of polylines in millimetres, carrying the cutting caution.
+
+    Parameters
+    ----------
+    contours_points : sequence of array_like, each (N, 2)
+        Points in millimetres (y down, as in SVG).
+    width_mm, height_mm : float
+        Page size; the viewBox is ``0 0 width_mm height_mm`` so one user unit is 1 mm.
+    comment : str
+        Extra text for an XML comment (tolerance used, source file, ...).
+    closed : sequence of bool, optional
+        Per contour: write a ``polygon`` (closed) instead of a ``polyline``.
+    stroke_mm : float
+        Stroke width for viewing.
+
+    Returns
+    -------
+    bytes
+        UTF-8 SVG whose first comment is :data:`CUT_CAUTION`.
+
+    Raises
+    ------
+    ValueError
+        Non-finite points, a contour with fewer than 2 points, or a bad size.
+    """
+    if not (width_mm > 0 and height_mm > 0 and math.isfinite(width_mm * height_mm)):
+        raise ValueError(f"page size must be positive, got {width_mm} × {height_mm} mm")
+    f = format_number
+    w, h = f(width_mm), f(height_mm)
+    out = [
+        '<?xml version="1.0" encoding="UTF-8"?>',
+        f'<svg xmlns="{SVG_NS}" width="{w}mm" height="{h}mm" viewBox="0 0 {w} {h}">',
+        f"<!-- {_comment_text(CUT_CAUTION)} -->",
+    ]
+    if comment:
+        out.append(f"<!-- {_comment_text(comment)} -->")
+    for k, pts in enumerate(contours_points):
+        arr = np.asarray(pts, dtype=np.float64)
+        if arr.ndim != 2 or arr.shape[1] != 2 or arr.shape[0] < 2:
+            raise ValueError(f"contour {k}: points must have shape (N >= 2, 2), got {arr.shape}")
+        if not np.all(np.isfinite(arr)):
+            raise ValueError(f"contour {k}: points must be finite")
+        text = " ".join(f"{f(x)},{f(y)}" for x, y in arr.tolist())
+        tag = "polygon" if closed is not None and closed[k] else "polyline"
+        out.append(
+            f'<{tag} points="{text}" fill="none" stroke="black" stroke-width="{f(stroke_mm)}"/>'
+        )
+    out.append("</svg>")
+    return ("\n".join(out) + "\n").encode("utf-8")
+
+
+def _comment_text(text: str) -> str:
+    text = text.replace("--", "- -")
+    return text[:-1] + "- " if text.endswith("-") else text
