@@ -426,7 +426,7 @@ def _move_in_contour(
     move_handles: bool = True,
 ) -> Contour:
     """Move the keyed points of one contour; see the module docstring for the rules."""
-    segs = [s.copy() for s in c.segments]
+    segs = _LazyCopies(c.segments)
     joins = list(c.joins)
     targets = targets or {}
     keys = list(dict.fromkeys(keys))
@@ -509,10 +509,25 @@ def _move_in_contour(
             length = math.hypot(op[0] - p[0], op[1] - p[1])
             if an > 0.0 and length > 0.0:
                 segs[opp_key[1]][opp_key[2]] = p + away * (length / an)
-    out_segs = []
-    for old, new in zip(c.segments, segs, strict=True):
-        out_segs.append(old if np.array_equal(old, new) else _freeze(new))
+    out_segs = list(c.segments)
+    for i, new in segs.copies.items():
+        if not np.array_equal(out_segs[i], new):
+            out_segs[i] = _freeze(new)
     return c.with_segments(out_segs, joins)
+
+
+class _LazyCopies:
+    """Writable copies of a contour's segments, made only for the segments touched."""
+
+    def __init__(self, segments: tuple[FloatArray, ...]) -> None:
+        self.segments = segments
+        self.copies: dict[int, FloatArray] = {}
+
+    def __getitem__(self, i: int) -> FloatArray:
+        arr = self.copies.get(i)
+        if arr is None:
+            arr = self.copies[i] = self.segments[i].copy()
+        return arr
 
 
 def _group_keys(doc: Document, refs: Iterable[PointRef]) -> dict[tuple[int, int], list[_Key]]:

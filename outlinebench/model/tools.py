@@ -220,21 +220,82 @@ class Overlay:
 # -- picking --------------------------------------------------------------------------------
 
 
-def _contour_points(
-    contour: Contour,
-) -> tuple[FloatArray, NDArray[np.int64], NDArray[np.int64], NDArray[np.bool_]]:
-    """All control points of a contour: coordinates, segment, index, on-curve mask."""
+@dataclass(frozen=True, slots=True)
+class _ContourEntry:
+    contour: Contour
+    coords: FloatArray  # (P, 2) every control point
+    seg_idx: NDArray[np.int64]  # (P,)
+    pt_idx: NDArray[np.int64]  # (P,)
+    on: NDArray[np.bool_]  # (P,) on-curve mask
+    lo: FloatArray  # (S, 2) control-point bounding box of each segment
+    hi: FloatArray  # (S, 2)
+
+
+def _contour_entry(contour: Contour) -> _ContourEntry:
     segs = contour.segments
     if not segs:
         empty = np.zeros(0, dtype=np.int64)
-        return np.zeros((0, 2)), empty, empty, np.zeros(0, dtype=bool)
-    coords = np.concatenate(segs, axis=0)
+        none = np.zeros((0, 2))
+        return _ContourEntry(contour, none, empty, empty, np.zeros(0, dtype=bool), none, none)
     sizes = np.array([s.shape[0] for s in segs])
+    coords = np.concatenate(segs, axis=0)
     seg_idx = np.repeat(np.arange(len(segs)), sizes)
     starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
     pt_idx = np.arange(len(coords)) - np.repeat(starts, sizes)
     on = (pt_idx == 0) | (pt_idx == np.repeat(sizes, sizes) - 1)
-    return coords, seg_idx, pt_idx, on
+    lo = np.minimum.reduceat(coords, starts, axis=0)
+    hi = np.maximum.reduceat(coords, starts, axis=0)
+    return _ContourEntry(contour, coords, seg_idx, pt_idx, on, lo, hi)
+
+
+class _DocumentIndex:
+    """Every control point and segment bounding box of a document in flat arrays.
+
+    Built once per document; contours that did not change (same object) reuse the arrays of
+    the previous index, so rebuilding after a local edit costs little.
+    """
+
+    def __init__(self, doc: Document, previous: _DocumentIndex | None = None) -> None:
+        self.doc = doc
+        old = previous.entries if previous is not None else {}
+        self.entries: dict[int, _ContourEntry] = {}
+        owners = []
+        for ref in doc.contour_refs():
+            e = old.get(id(ref.contour))
+            if e is None or e.contour is not ref.contour:
+                e = _contour_entry(ref.contour)
+            self.entries[id(ref.contour)] = e
+            owners.append((ref.outline, ref.index, e))
+        if owners:
+            self.coords = np.concatenate([e.coords for _, _, e in owners])
+            self.outline = np.concatenate([np.full(len(e.coords), o) for o, _, e in owners])
+            self.contour = np.concatenate([np.full(len(e.coords), c) for _, c, e in owners])
+            self.seg_idx = np.concatenate([e.seg_idx for _, _, e in owners])
+            self.pt_idx = np.concatenate([e.pt_idx for _, _, e in owners])
+            self.on = np.concatenate([e.on for _, _, e in owners])
+            self.lo = np.concatenate([e.lo for _, _, e in owners])
+            self.hi = np.concatenate([e.hi for _, _, e in owners])
+            self.seg_outline = np.concatenate([np.full(len(e.lo), o) for o, _, e in owners])
+            self.seg_contour = np.concatenate([np.full(len(e.lo), c) for _, c, e in owners])
+            self.seg_number = np.concatenate([np.arange(len(e.lo)) for _, _, e in owners])
+        else:
+            z = np.zeros(0, dtype=np.int64)
+            self.coords = self.lo = self.hi = np.zeros((0, 2))
+            self.outline = self.contour = self.seg_idx = self.pt_idx = z
+            self.seg_outline = self.seg_contour = self.seg_number = z
+            self.on = np.zeros(0, dtype=bool)
+
+
+_LAST_INDEX: list[_DocumentIndex] = []
+
+
+def _index(doc: Document) -> _DocumentIndex:
+    """The index of ``doc``, kept for the last document asked about (hover, repeated picks)."""
+    if _LAST_INDEX and _LAST_INDEX[0].doc is doc:
+        return _LAST_INDEX[0]
+    idx = _DocumentIndex(doc, _LAST_INDEX[0] if _LAST_INDEX else None)
+    _LAST_INDEX[:] = [idx]
+    return idx
 
 
 def pick_point(
@@ -249,20 +310,20 @@ def pick_point(
     On-curve points win ties with handles lying on them (a handle of zero length).
     """
     p = np.asarray(list(xy), dtype=np.float64)
-    best: tuple[float, int, PointRef] | None = None
-    for ref in doc.contour_refs():
-        coords, seg_idx, pt_idx, on = _contour_points(ref.contour)
-        if not len(coords):
-            continue
-        d = np.hypot(coords[:, 0] - p[0], coords[:, 1] - p[1])
-        kinds = np.where(on, 0, 1)
-        if not handles:
-            d = np.where(kinds == 0, d, np.inf)
-        k = int(np.lexsort((kinds, d))[0])
-        if d[k] <= radius and (best is None or (d[k], kinds[k]) < best[:2]):
-            name = PointRef(ref.outline, ref.index, int(seg_idx[k]), int(pt_idx[k]))
-            best = (float(d[k]), int(kinds[k]), canonical_ref(doc, name))
-    return best[2] if best else None
+    idx = _index(doc)
+    d = np.hypot(idx.coords[:, 0] - p[0], idx.coords[:, 1] - p[1])
+    ok = d <= radius
+    if not handles:
+        ok &= idx.on
+    cand = np.flatnonzero(ok)
+    if not len(cand):
+        return None
+    # Nearest first; on-curve (kind 0) before handles at equal distance.
+    k = int(cand[np.lexsort((~idx.on[cand], d[cand]))[0]])
+    name = PointRef(
+        int(idx.outline[k]), int(idx.contour[k]), int(idx.seg_idx[k]), int(idx.pt_idx[k])
+    )
+    return canonical_ref(doc, name)
 
 
 def points_in_rect(
@@ -274,19 +335,17 @@ def points_in_rect(
     """
     x0, x1 = sorted((rect[0], rect[2]))
     y0, y1 = sorted((rect[1], rect[3]))
+    idx = _index(doc)
+    c = idx.coords
+    inside = (c[:, 0] >= x0) & (c[:, 0] <= x1) & (c[:, 1] >= y0) & (c[:, 1] <= y1)
+    if not handles:
+        inside &= idx.on
     out: dict[PointRef, None] = {}
-    for ref in doc.contour_refs():
-        coords, seg_idx, pt_idx, on = _contour_points(ref.contour)
-        inside = (
-            (coords[:, 0] >= x0)
-            & (coords[:, 0] <= x1)
-            & (coords[:, 1] >= y0)
-            & (coords[:, 1] <= y1)
+    for k in np.flatnonzero(inside):
+        name = PointRef(
+            int(idx.outline[k]), int(idx.contour[k]), int(idx.seg_idx[k]), int(idx.pt_idx[k])
         )
-        for k in np.flatnonzero(inside):
-            s, i = int(seg_idx[k]), int(pt_idx[k])
-            if on[k] or handles:
-                out[canonical_ref(doc, PointRef(ref.outline, ref.index, s, i))] = None
+        out[canonical_ref(doc, name)] = None
     return list(out)
 
 
@@ -301,19 +360,18 @@ def nearest_segment(doc: Document, xy: Iterable[float], radius: float) -> Segmen
     Newton-Raphson).
     """
     p = np.asarray(list(xy), dtype=np.float64)
+    idx = _index(doc)
+    near = np.all((idx.lo - radius <= p) & (p <= idx.hi + radius), axis=1)
     best: SegmentHit | None = None
-    for ref in doc.contour_refs():
-        for s, seg in enumerate(ref.contour.segments):
-            lo = seg.min(axis=0) - radius
-            hi = seg.max(axis=0) + radius
-            if np.any(p < lo) or np.any(p > hi):
-                continue
-            t, d = nearest_params(seg, p[None, :])
-            dist = float(d[0])
-            if dist <= radius and (best is None or dist < best.distance):
-                tt = float(t[0])
-                q = evaluate(seg, tt)
-                best = SegmentHit(ref.outline, ref.index, s, tt, (float(q[0]), float(q[1])), dist)
+    for k in np.flatnonzero(near):
+        o, c, s = int(idx.seg_outline[k]), int(idx.seg_contour[k]), int(idx.seg_number[k])
+        seg = doc.outlines[o].contours[c].segments[s]
+        t, d = nearest_params(seg, p[None, :])
+        dist = float(d[0])
+        if dist <= radius and (best is None or dist < best.distance):
+            tt = float(t[0])
+            q = evaluate(seg, tt)
+            best = SegmentHit(o, c, s, tt, (float(q[0]), float(q[1])), dist)
     return best
 
 
