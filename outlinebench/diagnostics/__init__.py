@@ -1,1 +1,40 @@
 """Findings (G0/G1/G2 breaks, cusps, ...) computed from the model, incrementally (no Qt)."""
+
+from outlinebench.diagnostics.checker import Checker, check_document
+from outlinebench.diagnostics.findings import (
+    ERROR,
+    INFO,
+    KINDS,
+    SEVERITIES,
+    WARNING,
+    Finding,
+    is_problem,
+)
+from outlinebench.diagnostics.report import (
+    CAUTION,
+    convert_units,
+    json_report,
+    sort_findings,
+    summarize,
+    text_report,
+)
+from outlinebench.diagnostics.settings import CheckSettings
+
+__all__ = [
+    "CAUTION",
+    "ERROR",
+    "INFO",
+    "KINDS",
+    "SEVERITIES",
+    "WARNING",
+    "CheckSettings",
+    "Checker",
+    "Finding",
+    "check_document",
+    "convert_units",
+    "is_problem",
+    "json_report",
+    "sort_findings",
+    "summarize",
+    "text_report",
+]

@@ -1,0 +1,483 @@
+"""Checks that look at whole contours and at contours against each other.
+
+gap and open-contour
+    The ends of open contours (no ``Z``) are matched to the nearest other open end (the same
+    contour's other end, or another open contour's end, anywhere in the document). Ends within
+    the gap tolerance count as joined and their join is judged like any other
+    (:mod:`outlinebench.diagnostics.continuity`); ends farther apart but within the search
+    distance are a *gap* (G0 break); every open contour is also reported as open.
+wrong-direction
+    Holes must wind opposite to the contour around them (nonzero fill and cutters rely on it).
+    Which contour lies inside which is decided by an even-odd point-in-polygon test of a point
+    of one contour against a flattened copy of the other (W3C SVG 1.1 §11.3 "fill-rule"
+    describes the ray-crossing rule); the winding sign is that of the exact signed area
+    (:func:`outlinebench.geometry.signed_area`, Green's theorem). A contour's parent is the
+    innermost closed contour of the same outline containing it.
+self-intersection between segments
+    Segment pairs whose control-point boxes overlap (a sort-and-sweep over the boxes) are
+    intersected with :func:`outlinebench.geometry.intersections`; the shared end point of two
+    neighbouring segments is a join, not a crossing. Neighbours that together move
+    monotonically along one direction cannot cross and are skipped.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+from outlinebench.diagnostics.continuity import (
+    INTENT_NONE,
+    JOIN_CORNER,
+    JOIN_CURVATURE_JUMP,
+    JOIN_KINK,
+    classify_joins,
+    turn_angles,
+)
+from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
+from outlinebench.diagnostics.segment_checks import Limits
+from outlinebench.geometry import derivative_at, evaluate
+
+__all__ = [
+    "OpenEnd",
+    "ClosedShape",
+    "open_end_findings",
+    "join_finding",
+    "flattened",
+    "point_in_polygon",
+    "wrong_direction_findings",
+    "overlapping_pairs",
+    "joins_monotone",
+    "crossing_findings",
+]
+
+FloatArray = NDArray[np.float64]
+
+# Parameters this close to 0 or 1 count as the segment's end when telling a join from a crossing.
+_END_PARAM = 1e-6
+
+
+@dataclass(frozen=True, slots=True)
+class OpenEnd:
+    """One end of an open contour.
+
+    ``end`` is 0 for the contour's start and 1 for its end; ``direction`` points along the
+    direction of travel; ``curvature`` is κ there (signed for the direction of travel).
+    """
+
+    outline: int
+    contour: int
+    segment: int
+    end: int
+    point: tuple[float, float]
+    direction: tuple[float, float]
+    curvature: float
+
+
+def join_finding(
+    outline: int,
+    contour: int,
+    segment: int,
+    join: int | None,
+    point: tuple[float, float],
+    d_in: FloatArray,
+    d_out: FloatArray,
+    k_in: float,
+    k_out: float,
+    intent: int,
+    limits: Limits,
+    *,
+    verdict: int | None = None,
+    angle: float | None = None,
+    jump: float | None = None,
+    where: str = "",
+) -> Finding | None:
+    """The finding for one join (None when the join is fine).
+
+    ``verdict``, ``angle`` and ``jump`` may come from a batched
+    :func:`~outlinebench.diagnostics.continuity.classify_joins`; otherwise they are computed.
+    """
+    if verdict is None:
+        v, a, j = classify_joins(
+            np.asarray(d_in, dtype=float).reshape(1, 2),
+            np.asarray(d_out, dtype=float).reshape(1, 2),
+            np.array([k_in], dtype=float),
+            np.array([k_out], dtype=float),
+            np.array([intent], dtype=np.int8),
+            kink_angle=limits.kink_angle,
+            corner_angle=limits.corner_angle,
+            curvature_jump=limits.curvature_jump,
+            straight=limits.straight,
+        )
+        verdict, angle, jump = int(v[0]), float(a[0]), float(j[0])
+    if verdict == 0:
+        return None
+    x, y = float(point[0]), float(point[1])
+    smooth_intent = intent == 1
+    if verdict == JOIN_CORNER:
+        severity = ERROR if smooth_intent else INFO
+        why = " although the file marks it smooth" if smooth_intent else ""
+        return Finding(
+            "corner", severity, outline, contour, segment, 1.0, x, y, angle, "degrees",
+            f"{where}corner: the tangent turns {angle:.2f}°{why}",
+            join=join, limit=limits.corner_angle,
+        )  # fmt: skip
+    if verdict == JOIN_KINK:
+        severity = ERROR if smooth_intent else WARNING
+        return Finding(
+            "kink", severity, outline, contour, segment, 1.0, x, y, angle, "degrees",
+            f"{where}kink: the tangent turns {angle:.2f}° (G1 break; smooth below "
+            f"{limits.kink_angle:g}°, corner from {limits.corner_angle:g}°)",
+            join=join, limit=limits.kink_angle,
+        )  # fmt: skip
+    if verdict == JOIN_CURVATURE_JUMP:
+        a = 0.0 if abs(k_in) < limits.straight else k_in
+        b = 0.0 if abs(k_out) < limits.straight else k_out
+        straight_side = (a == 0.0) != (b == 0.0)
+        severity = limits.straight_severity if straight_side else limits.jump_severity
+        return Finding(
+            "curvature-jump", severity, outline, contour, segment, 1.0, x, y, jump, "relative",
+            f"{where}curvature jumps from {a:.4g} to {b:.4g} (relative difference "
+            f"{jump:.3g}; G2 break)",
+            join=join, limit=limits.curvature_jump,
+            curvature_before=float(a) + 0.0, curvature_after=float(b) + 0.0,
+        )  # fmt: skip
+    return None
+
+
+def open_end_findings(
+    ends: list[OpenEnd], limits: Limits
+) -> tuple[list[Finding], list[tuple[OpenEnd, OpenEnd]]]:
+    """Gaps, joined ends and open contours among the open ends of a document.
+
+    Parameters
+    ----------
+    ends : list of OpenEnd
+        Both ends of every open contour (with at least one segment).
+    limits : Limits
+
+    Returns
+    -------
+    findings : list of Finding
+        ``gap`` (error), ``open-contour`` (warning, or info when its own ends meet), and the
+        join findings of ends that meet within the gap tolerance.
+    joined : list of (OpenEnd, OpenEnd)
+        Pairs of ends that count as joined (the intersection test ignores them).
+
+    Notes
+    -----
+    Each end is paired with its nearest other end (distances by brute force, or a k-d tree for
+    many ends). A pair is reported once. For a joined pair the direction arriving at the
+    meeting point is the end's direction of travel, or its reverse for a contour's start, and
+    likewise for leaving.
+    """
+    findings: list[Finding] = []
+    joined: list[tuple[OpenEnd, OpenEnd]] = []
+    n = len(ends)
+    if n == 0:
+        return findings, joined
+    pts = np.array([e.point for e in ends])
+    if n > 1:
+        if n <= 512:
+            d = np.linalg.norm(pts[:, None, :] - pts[None, :, :], axis=2)
+            np.fill_diagonal(d, np.inf)
+            nearest = np.argmin(d, axis=1)
+            dist = d[np.arange(n), nearest]
+        else:
+            from scipy.spatial import cKDTree
+
+            dist2, idx = cKDTree(pts).query(pts, k=2)
+            nearest, dist = idx[:, 1], dist2[:, 1]
+    else:
+        nearest, dist = np.array([0]), np.array([np.inf])
+    seen: set[tuple[int, int]] = set()
+    own_closed: set[int] = set()
+    for i in range(n):
+        j = int(nearest[i])
+        if i == j or dist[i] > limits.gap_search:
+            continue
+        key = (min(i, j), max(i, j))
+        if key in seen:
+            continue
+        seen.add(key)
+        a, b = ends[key[0]], ends[key[1]]
+        gap = float(dist[i])
+        if gap > limits.gap:
+            other = "its own start" if a.contour == b.contour else f"contour {b.contour}"
+            findings.append(
+                Finding(
+                    "gap", ERROR, a.outline, a.contour, a.segment, float(a.end), a.point[0],
+                    a.point[1], gap, "user",
+                    f"open end stops {gap:.4g} short of {other}; a cutter sees an unclosed "
+                    "outline",
+                    limit=limits.gap, other_contour=b.contour, other_segment=b.segment,
+                    other_t=float(b.end),
+                )
+            )  # fmt: skip
+            continue
+        joined.append((a, b))
+        if a.contour == b.contour:
+            own_closed.add(a.contour)
+        # arrive along a, leave along b (reversing the direction of a start)
+        d_in = np.array(a.direction) * (1.0 if a.end == 1 else -1.0)
+        k_in = a.curvature if a.end == 1 else -a.curvature
+        d_out = np.array(b.direction) * (1.0 if b.end == 0 else -1.0)
+        k_out = b.curvature if b.end == 0 else -b.curvature
+        f = join_finding(
+            a.outline, a.contour, a.segment, None, a.point, d_in, d_out, k_in, k_out,
+            INTENT_NONE, limits, where=f"where open ends meet (contour {b.contour}): ",
+        )  # fmt: skip
+        if f is not None:
+            findings.append(f)
+    for e in ends:
+        if e.end != 0:
+            continue
+        partner = next(x for x in ends if x.contour == e.contour and x.end == 1)
+        span = float(np.hypot(partner.point[0] - e.point[0], partner.point[1] - e.point[1]))
+        if e.contour in own_closed:
+            findings.append(
+                Finding(
+                    "open-contour", INFO, e.outline, e.contour, None, None, e.point[0],
+                    e.point[1], span, "user",
+                    "contour has no close command but its ends meet; close it to be sure",
+                )
+            )  # fmt: skip
+        else:
+            findings.append(
+                Finding(
+                    "open-contour", WARNING, e.outline, e.contour, None, None, e.point[0],
+                    e.point[1], span, "user",
+                    f"contour is open (its ends are {span:.4g} apart); cutters and fills "
+                    "need closed outlines",
+                )
+            )  # fmt: skip
+    return findings, joined
+
+
+def flattened(cubics: FloatArray, samples: int) -> FloatArray:
+    """Points of a contour at ``samples`` uniform parameters per segment, shape (n·samples, 2).
+
+    A polygon for containment tests only (no deviation bound; see ``geometry.flatten`` for
+    that).
+    """
+    ts = np.arange(samples) / samples
+    return evaluate(cubics, ts).reshape(-1, 2)
+
+
+def point_in_polygon(p: FloatArray, poly: FloatArray) -> bool:
+    """Even-odd ray-crossing test of point ``p`` (2,) against a closed polygon (N, 2).
+
+    Notes
+    -----
+    Counts crossings of the ray from p towards +x with the edges, each edge counted when
+    exactly one end lies above p (W. R. Franklin's PNPOLY rule).
+    """
+    x, y = float(p[0]), float(p[1])
+    a = poly
+    b = np.roll(poly, -1, axis=0)
+    straddle = (a[:, 1] > y) != (b[:, 1] > y)
+    if not straddle.any():
+        return False
+    a, b = a[straddle], b[straddle]
+    xs = a[:, 0] + (y - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
+    return bool(np.count_nonzero(xs > x) % 2)
+
+
+@dataclass(eq=False, slots=True)
+class ClosedShape:
+    """What containment needs of one closed contour."""
+
+    outline: int
+    contour: int
+    probe: FloatArray
+    polygon: FloatArray
+    box: FloatArray
+    area: float
+    key: object
+
+
+def wrong_direction_findings(
+    shapes: list[ClosedShape], cache: dict[tuple[int, int], bool] | None = None
+) -> list[Finding]:
+    """``wrong-direction`` findings for the closed contours of one outline.
+
+    Parameters
+    ----------
+    shapes : list of ClosedShape
+    cache : dict, optional
+        Containment results keyed by ``(id(a.key), id(b.key))``; reused and filled in, so an
+        edit recomputes only the pairs involving changed contours.
+
+    Returns
+    -------
+    list of Finding
+    """
+    n = len(shapes)
+    if n < 2:
+        return []
+    inside: list[list[int]] = [[] for _ in range(n)]
+    for i, a in enumerate(shapes):
+        for j, b in enumerate(shapes):
+            if i == j or not (
+                b.box[0] <= a.box[0] and b.box[1] <= a.box[1]
+                and b.box[2] >= a.box[2] and b.box[3] >= a.box[3]
+            ):  # fmt: skip
+                continue
+            key = (id(a.key), id(b.key))
+            hit = None if cache is None else cache.get(key)
+            if hit is None:
+                hit = point_in_polygon(a.probe, b.polygon)
+                if cache is not None:
+                    cache[key] = hit
+            if hit:
+                inside[i].append(j)
+    out = []
+    for i, parents in enumerate(inside):
+        if not parents:
+            continue
+        depth = {j: len(inside[j]) for j in parents}
+        parent = max(parents, key=lambda j: depth[j])
+        a, b = shapes[i], shapes[parent]
+        if a.area != 0.0 and b.area != 0.0 and (a.area > 0) == (b.area > 0):
+            out.append(
+                Finding(
+                    "wrong-direction", ERROR, a.outline, a.contour, 0, 0.0, float(a.probe[0]),
+                    float(a.probe[1]), abs(a.area), "user^2",
+                    f"contour lies inside contour {b.contour} and winds the same way; "
+                    "reverse it so the hole stays empty",
+                    other_contour=b.contour,
+                )
+            )  # fmt: skip
+    return out
+
+
+def overlapping_pairs(
+    boxes: FloatArray, group: NDArray[np.intp], pad: float
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    """Pairs (i < j) of rows in the same group whose boxes overlap (grown by ``pad``).
+
+    Parameters
+    ----------
+    boxes : ndarray, shape (M, 4)
+        (xmin, ymin, xmax, ymax).
+    group : ndarray of int, shape (M,)
+        Only rows with equal group are paired (rows of one outline).
+    pad : float
+
+    Returns
+    -------
+    (i, j) : ndarrays of int
+
+    Notes
+    -----
+    Sort and sweep along x (each group shifted to its own stretch of the line), then a y test.
+    """
+    m = boxes.shape[0]
+    if m < 2:
+        return np.empty(0, np.intp), np.empty(0, np.intp)
+    x0 = boxes[:, 0] - pad
+    x1 = boxes[:, 2] + pad
+    span = float(x1.max() - x0.min()) + 1.0
+    base = x0.min()
+    shift = group.astype(np.float64) * (2.0 * span)
+    s0 = (x0 - base) + shift
+    s1 = (x1 - base) + shift
+    order = np.argsort(s0, kind="stable")
+    s0o = s0[order]
+    hi = np.searchsorted(s0o, s1[order], side="right")
+    start = np.arange(m) + 1
+    counts = np.maximum(hi - start, 0)
+    total = int(counts.sum())
+    if total == 0:
+        return np.empty(0, np.intp), np.empty(0, np.intp)
+    first = np.repeat(np.arange(m), counts)
+    offs = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
+    second = np.repeat(start, counts) + offs
+    i, j = order[first], order[second]
+    keep = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
+    i, j = i[keep], j[keep]
+    return np.minimum(i, j), np.maximum(i, j)
+
+
+def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:
+    """True where two consecutive cubics (a then b), taken together, move monotonically along
+    one direction, so they meet only at their shared point.
+
+    Parameters
+    ----------
+    cub_a, cub_b : ndarray, shape (P, 4, 2)
+
+    Notes
+    -----
+    Tries c = (A3 − A0) + (B3 − B0) and c = the sum of the end tangent of a and the start
+    tangent of b; see :func:`~outlinebench.diagnostics.segment_checks.monotone_mask`.
+    """
+    d = np.concatenate([np.diff(cub_a, axis=1), np.diff(cub_b, axis=1)], axis=1)  # (P, 6, 2)
+    chord = (cub_a[:, 3] - cub_a[:, 0]) + (cub_b[:, 3] - cub_b[:, 0])
+
+    def along(c: FloatArray) -> NDArray[np.bool_]:
+        dots = np.einsum("mkj,mj->mk", d, c)
+        nonneg = (dots >= 0.0).all(axis=1)
+        # each segment must move strictly somewhere inside: its middle difference or both ends
+        a_ok = (dots[:, 1] > 0) | ((dots[:, 0] > 0) & (dots[:, 2] > 0))
+        b_ok = (dots[:, 4] > 0) | ((dots[:, 3] > 0) & (dots[:, 5] > 0))
+        return nonneg & a_ok & b_ok
+
+    ta = d[:, 2] / np.maximum(np.linalg.norm(d[:, 2], axis=1, keepdims=True), 1e-300)
+    tb = d[:, 3] / np.maximum(np.linalg.norm(d[:, 3], axis=1, keepdims=True), 1e-300)
+    return along(chord) | along(ta + tb)
+
+
+def crossing_findings(
+    seg_a: FloatArray,
+    seg_b: FloatArray,
+    where_a: tuple[int, int, int],
+    where_b: tuple[int, int, int],
+    connected: tuple[tuple[int, int], ...],
+    limits: Limits,
+) -> list[Finding]:
+    """Self-intersection findings where two segments cross or touch.
+
+    Parameters
+    ----------
+    seg_a, seg_b : ndarray, (K, 2)
+    where_a, where_b : (outline, contour, segment)
+    connected : tuple of (end_a, end_b)
+        Segment ends (0 or 1) where the two segments are joined (neighbours in a contour, or
+        open ends that meet); a hit there is the join itself and is ignored.
+    limits : Limits
+    """
+    # NOTE: imported here until the geometry package exports it at import time.
+    from outlinebench.geometry import intersections
+
+    hits = intersections(seg_a, seg_b)
+    out: list[Finding] = []
+    kept: list[FloatArray] = []
+    for ta, tb in np.atleast_2d(hits):
+        at_join = False
+        for ea, eb in connected:
+            if abs(ta - ea) <= _END_PARAM and abs(tb - eb) <= _END_PARAM:
+                at_join = True
+        if at_join:
+            continue
+        p = evaluate(seg_a, float(ta))
+        if any(np.hypot(*(p - q)) <= limits.gap for q in kept):
+            continue
+        kept.append(p)
+        turn = turn_angles(
+            derivative_at(seg_a, float(ta))[None], derivative_at(seg_b, float(tb))[None]
+        )
+        angle = float(min(turn[0], 180.0 - turn[0]))  # the acute angle between the curves
+        o, c, s = where_a
+        ob, cb, sb = where_b
+        place = "itself" if c == cb else f"contour {cb}"
+        out.append(
+            Finding(
+                "self-intersection", ERROR, o, c, s, float(ta), float(p[0]), float(p[1]),
+                angle, "degrees",
+                f"outline crosses {place} (segment {sb}, t = {tb:.4g}) at {angle:.1f}°",
+                other_contour=cb, other_segment=sb, other_t=float(tb),
+            )
+        )  # fmt: skip
+    return out

@@ -1,0 +1,187 @@
+"""Findings as text for people and as JSON for machines.
+
+Lengths in findings are in the document's user units (unit ``"user"``); reports can convert
+them to another length unit with a factor (user units → unit), which also converts areas
+(factor²) and curvatures (1/factor).
+"""
+
+from __future__ import annotations
+
+import math
+from collections import Counter
+from collections.abc import Sequence
+from dataclasses import replace
+from typing import Any
+
+from outlinebench.diagnostics.findings import (
+    ERROR,
+    INFO,
+    KINDS,
+    SEVERITIES,
+    SEVERITY_RANK,
+    WARNING,
+    Finding,
+    is_problem,
+)
+
+__all__ = [
+    "CAUTION",
+    "convert_units",
+    "sort_findings",
+    "summarize",
+    "format_finding",
+    "text_report",
+    "json_report",
+]
+
+# Carried by machine-readable output that may feed a cutting job.
+CAUTION = (
+    "Verify toolpaths in the machine's own preview before cutting, and follow the machine "
+    "maker's instructions, shop safety rules and local codes."
+)
+
+
+def convert_units(findings: Sequence[Finding], factor: float, unit: str) -> list[Finding]:
+    """Findings with positions and lengths converted from user units to ``unit``.
+
+    Parameters
+    ----------
+    findings : sequence of Finding
+    factor : float
+        Size of one user unit in ``unit`` (e.g. mm per user unit).
+    unit : str
+        Name of the target unit ("mm", "in", "pt", "px").
+
+    Returns
+    -------
+    list of Finding
+        ``x``, ``y``, lengths (unit ``"user"``) and their limits scaled by ``factor``; areas
+        (``"user^2"``) by factor²; curvatures by 1/factor. Angles and ratios are unchanged.
+    """
+    if factor == 1.0 and unit == "user":
+        return list(findings)
+    out = []
+    for f in findings:
+        changes: dict[str, Any] = {"x": f.x * factor, "y": f.y * factor}
+        if f.unit == "user":
+            changes["unit"] = unit
+            if f.value is not None:
+                changes["value"] = f.value * factor
+            if f.limit is not None:
+                changes["limit"] = f.limit * factor
+        elif f.unit == "user^2":
+            changes["unit"] = f"{unit}^2"
+            if f.value is not None:
+                changes["value"] = f.value * factor * factor
+        if f.curvature_before is not None:
+            changes["curvature_before"] = f.curvature_before / factor
+        if f.curvature_after is not None:
+            changes["curvature_after"] = f.curvature_after / factor
+        out.append(replace(f, **changes))
+    return out
+
+
+def sort_findings(findings: Sequence[Finding]) -> list[Finding]:
+    """Findings in document order: contour, segment, t, then severity and kind."""
+
+    def key(f: Finding) -> tuple:
+        return (
+            f.contour,
+            -1 if f.segment is None else f.segment,
+            -1.0 if f.t is None else f.t,
+            SEVERITY_RANK[f.severity],
+            KINDS.index(f.kind) if f.kind in KINDS else len(KINDS),
+        )
+
+    return sorted(findings, key=key)
+
+
+def summarize(findings: Sequence[Finding]) -> dict[str, Any]:
+    """Counts by severity and by kind, and whether anything of warning level or worse is there.
+
+    Returns
+    -------
+    dict
+        ``{"total", "errors", "warnings", "info", "by_kind": {kind: count}, "clean"}``;
+        ``clean`` is True when no finding is a warning or an error.
+    """
+    sev = Counter(f.severity for f in findings)
+    kinds = Counter(f.kind for f in findings)
+    return {
+        "total": len(findings),
+        "errors": sev.get(ERROR, 0),
+        "warnings": sev.get(WARNING, 0),
+        "info": sev.get(INFO, 0),
+        "by_kind": {k: kinds[k] for k in KINDS if kinds.get(k)},
+        "clean": not any(is_problem(f) for f in findings),
+    }
+
+
+def _num(v: float) -> str:
+    if v is None or not math.isfinite(v):
+        return str(v)
+    return f"{v:.4g}"
+
+
+def _value(f: Finding) -> str:
+    if f.value is None:
+        return ""
+    if f.unit == "degrees":
+        return f" {_num(f.value)}°"
+    if f.unit == "relative":
+        extra = ""
+        if f.curvature_before is not None and f.curvature_after is not None:
+            extra = f" (κ {_num(f.curvature_before)} → {_num(f.curvature_after)})"
+        return f" {_num(f.value)}{extra}"
+    return f" {_num(f.value)} {f.unit}"
+
+
+def format_finding(label: str, f: Finding) -> str:
+    """``label: contour N, segment M: kind value at (x, y) [severity]`` (one line)."""
+    where = f"contour {f.contour}"
+    if f.segment is not None:
+        where += f", segment {f.segment}"
+    return f"{label}: {where}: {f.kind}{_value(f)} at ({_num(f.x)}, {_num(f.y)}) [{f.severity}]"
+
+
+def text_report(label: str, findings: Sequence[Finding], *, unit: str = "user") -> str:
+    """One line per finding in document order, then a summary line.
+
+    Parameters
+    ----------
+    label : str
+        Usually the file name.
+    findings : sequence of Finding
+    unit : str
+        The length unit the findings are in, named in the summary.
+    """
+    lines = [format_finding(label, f) for f in sort_findings(findings)]
+    s = summarize(findings)
+    if s["total"] == 0:
+        lines.append(f"{label}: no findings")
+    else:
+        kinds = ", ".join(f"{k} {n}" for k, n in s["by_kind"].items())
+        lines.append(
+            f"{label}: {s['total']} findings: {s['errors']} errors, {s['warnings']} warnings, "
+            f"{s['info']} info ({kinds}); lengths in {unit} units"
+            if unit == "user"
+            else f"{label}: {s['total']} findings: {s['errors']} errors, {s['warnings']} "
+            f"warnings, {s['info']} info ({kinds}); lengths in {unit}"
+        )
+    return "\n".join(lines)
+
+
+def json_report(label: str, findings: Sequence[Finding], *, unit: str = "user") -> dict[str, Any]:
+    """``{"file", "units", "findings": [...], "summary": {...}, "caution"}`` for one file.
+
+    Every finding is listed, info ones included, in document order; see
+    :meth:`Finding.to_dict` for the fields.
+    """
+    return {
+        "file": label,
+        "units": unit,
+        "findings": [f.to_dict() for f in sort_findings(findings)],
+        "summary": summarize(findings),
+        "severities": list(SEVERITIES),
+        "caution": CAUTION,
+    }

@@ -1,0 +1,123 @@
+"""Small helpers shared by the subcommands: reading a file, length units, JSON output.
+
+Public to the other subcommand modules (not to users):
+
+- :func:`read_document` reads an SVG file through :mod:`outlinebench.io` and raises the
+  reader's one-line error (naming the file and the place) when it cannot.
+- :data:`LENGTH_UNITS`, :func:`unit_factor`, :func:`mm_per` convert the document's user units
+  to mm, in, pt or px through the root's width/height and viewBox
+  (:attr:`outlinebench.model.Document.mm_per_unit`).
+- :func:`positive_float`, :func:`nonnegative_float` are argparse ``type=`` checkers whose
+  messages name the bad value.
+- :func:`write_json` prints JSON with a trailing newline (non-finite numbers become null).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import sys
+from pathlib import Path
+from typing import Any, TextIO
+
+from outlinebench.model.document import Document
+
+__all__ = [
+    "LENGTH_UNITS",
+    "MM_PER",
+    "mm_per",
+    "unit_factor",
+    "read_document",
+    "positive_float",
+    "nonnegative_float",
+    "clean_json",
+    "write_json",
+]
+
+# Length units a user can ask for. "user" means the SVG root's user units after all
+# transforms (the coordinates of the model).
+LENGTH_UNITS: tuple[str, ...] = ("user", "mm", "in", "pt", "px")
+
+# Millimetres per unit: 1 in = 25.4 mm exactly, 1 pt = 1/72 in, 1 px = 1/96 in (CSS Values
+# and Units Level 3, §5.2 "Absolute lengths", as used by SVG).
+MM_PER: dict[str, float] = {"mm": 1.0, "in": 25.4, "pt": 25.4 / 72.0, "px": 25.4 / 96.0}
+
+
+def mm_per(unit: str, doc: Document) -> float:
+    """Millimetres in one ``unit`` ("user" uses the document's own scale)."""
+    if unit == "user":
+        return doc.mm_per_unit
+    return MM_PER[unit]
+
+
+def unit_factor(doc: Document, unit: str) -> float:
+    """Size of one user unit of ``doc`` expressed in ``unit`` (1.0 for "user")."""
+    if unit == "user":
+        return 1.0
+    return doc.mm_per_unit / MM_PER[unit]
+
+
+def read_document(path: str | Path) -> tuple[Document, list[str]]:
+    """Read an SVG file into a document.
+
+    Returns
+    -------
+    (document, notes)
+        ``notes`` are the reader's notes as one-line strings ("warning: FILE: ...").
+
+    Raises
+    ------
+    outlinebench.errors.SvgReadError
+        The file is not a readable SVG or a path in it is bad (the message names the file,
+        element and offset).
+    OSError
+        The file cannot be opened.
+    """
+    from outlinebench.io import read_svg
+
+    result = read_svg(str(path))
+    if result.error is not None:
+        raise result.error
+    notes = [f"{note.level}: {note.message}" for note in result.notes]
+    return result.document, notes
+
+
+def positive_float(text: str) -> float:
+    """argparse type: a finite number > 0."""
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not math.isfinite(v) or v <= 0:
+        raise argparse.ArgumentTypeError(f"expected a number above 0, got {text!r}")
+    return v
+
+
+def nonnegative_float(text: str) -> float:
+    """argparse type: a finite number ≥ 0."""
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not math.isfinite(v) or v < 0:
+        raise argparse.ArgumentTypeError(f"expected a number of at least 0, got {text!r}")
+    return v
+
+
+def clean_json(obj: Any) -> Any:
+    """A copy with non-finite floats replaced by None (JSON has no inf or NaN)."""
+    if isinstance(obj, float):
+        return obj if math.isfinite(obj) else None
+    if isinstance(obj, dict):
+        return {k: clean_json(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [clean_json(v) for v in obj]
+    return obj
+
+
+def write_json(obj: Any, stream: TextIO | None = None) -> None:
+    """Print ``obj`` as indented JSON followed by a newline (stdout by default)."""
+    stream = stream or sys.stdout
+    json.dump(clean_json(obj), stream, indent=2, ensure_ascii=False, allow_nan=False)
+    stream.write("\n")

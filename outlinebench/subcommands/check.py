@@ -1,0 +1,204 @@
+"""``outlinebench check FILE...``: report every continuity break and other finding.
+
+One line per finding (``file: contour N, segment M: kind value at (x, y) [severity]``) and a
+summary per file, or with ``--json`` one object per file (a list for several files). Exit code
+0 when nothing of warning level or worse is found, 1 when something is, 2 when a file cannot be
+read (one line on stderr naming it; the other files are still checked). Several files are
+checked in parallel on all cores.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from concurrent.futures import ProcessPoolExecutor
+from typing import Any
+
+from outlinebench.diagnostics import (
+    CheckSettings,
+    check_document,
+    convert_units,
+    json_report,
+    summarize,
+    text_report,
+)
+from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
+from outlinebench.errors import OutlinebenchError
+from outlinebench.subcommands._common import (
+    LENGTH_UNITS,
+    mm_per,
+    nonnegative_float,
+    positive_float,
+    read_document,
+    unit_factor,
+    write_json,
+)
+
+__all__ = ["NAME", "HELP", "add_arguments", "run", "check_file"]
+
+NAME = "check"
+HELP = "find gaps, kinks, corners, curvature jumps, cusps, self-intersections and more"
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``outlinebench check``."""
+    parser.add_argument("files", nargs="+", metavar="FILE", help="SVG files to check")
+    parser.add_argument("--json", action="store_true", help="print JSON instead of text")
+    parser.add_argument(
+        "--gap",
+        type=positive_float,
+        metavar="D",
+        help=f"gap tolerance in --units: closer points are the same point "
+        f"(default {DEFAULT_GAP_MM} mm)",
+    )
+    parser.add_argument(
+        "--gap-search",
+        type=positive_float,
+        metavar="D",
+        help=f"largest distance between open ends reported as a gap, in --units "
+        f"(default {DEFAULT_GAP_SEARCH_MM} mm)",
+    )
+    defaults = CheckSettings()
+    parser.add_argument(
+        "--kink-angle",
+        type=positive_float,
+        metavar="DEG",
+        default=defaults.kink_angle,
+        help="smallest tangent turn at a join that is a G1 break (default %(default)s°)",
+    )
+    parser.add_argument(
+        "--corner-angle",
+        type=positive_float,
+        metavar="DEG",
+        default=defaults.corner_angle,
+        help="smallest turn taken as an intended corner (default %(default)s°)",
+    )
+    parser.add_argument(
+        "--curvature-jump",
+        type=nonnegative_float,
+        metavar="REL",
+        default=defaults.curvature_jump,
+        help="largest relative curvature difference at a smooth join (default %(default)s)",
+    )
+    parser.add_argument(
+        "--units",
+        choices=LENGTH_UNITS,
+        default="user",
+        help="unit of --gap/--gap-search and of reported lengths and positions: the SVG "
+        "root's user units (default) or mm, in, pt, px",
+    )
+
+
+def _settings(args: dict[str, Any], doc_mm_per: float) -> CheckSettings:
+    """Settings for one file: lengths given in --units become mm through that file's scale."""
+    gap = DEFAULT_GAP_MM if args["gap"] is None else args["gap"] * doc_mm_per
+    if args["gap_search"] is None:
+        search = max(DEFAULT_GAP_SEARCH_MM, gap)
+    else:
+        search = args["gap_search"] * doc_mm_per
+    return CheckSettings(
+        gap_mm=gap,
+        gap_search_mm=search,
+        kink_angle=args["kink_angle"],
+        corner_angle=args["corner_angle"],
+        curvature_jump=args["curvature_jump"],
+    )
+
+
+def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
+    """Check one file; a plain dict so it can travel back from a worker process.
+
+    Returns
+    -------
+    dict
+        ``{"file", "error"}`` when the file cannot be read or the options do not fit it;
+        otherwise ``{"file", "text", "json", "problems", "notes"}``.
+    """
+    try:
+        doc, notes = read_document(path)
+        unit = options["units"]
+        settings = _settings(options, mm_per(unit, doc))
+        findings = check_document(doc, settings)
+    except (OutlinebenchError, OSError, ValueError) as exc:
+        if isinstance(exc, OSError):
+            msg = f"{path}: {exc.strerror or exc}"
+        else:
+            msg = str(exc)
+            if path not in msg:
+                msg = f"{path}: {msg}"
+        return {"file": path, "error": msg}
+    factor = unit_factor(doc, unit)
+    shown = convert_units(findings, factor, unit)
+    out: dict[str, Any] = {
+        "file": path,
+        "problems": not summarize(findings)["clean"],
+        "notes": notes,
+    }
+    if options["json"]:
+        out["json"] = json_report(path, shown, unit=unit)
+    else:
+        out["text"] = text_report(path, shown, unit=unit)
+    return out
+
+
+def _progress(done: int, total: int) -> None:
+    width = 30
+    filled = width * done // total
+    sys.stderr.write(f"\rchecking [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
+    if done == total:
+        sys.stderr.write("\n")
+    sys.stderr.flush()
+
+
+def run(args: argparse.Namespace) -> int:
+    """Check every file; exit code 0 clean, 1 findings of warning level or worse, 2 bad input."""
+    options = {
+        k: getattr(args, k)
+        for k in ("json", "gap", "gap_search", "kink_angle", "corner_angle", "curvature_jump")
+    }
+    options["units"] = args.units
+    if options["kink_angle"] >= options["corner_angle"]:
+        print(
+            f"outlinebench: error: --kink-angle ({options['kink_angle']}) must be below "
+            f"--corner-angle ({options['corner_angle']})",
+            file=sys.stderr,
+        )
+        return 2
+    files = list(args.files)
+    show_progress = len(files) > 1 and sys.stderr.isatty()
+    results: list[dict[str, Any]] = []
+    if len(files) == 1:
+        results.append(check_file(files[0], options))
+    else:
+        workers = min(len(files), os.cpu_count() or 1)
+        with ProcessPoolExecutor(max_workers=workers) as pool:
+            futures = [pool.submit(check_file, f, options) for f in files]
+            for k, fut in enumerate(futures, start=1):
+                results.append(fut.result())
+                if show_progress:
+                    _progress(k, len(files))
+
+    code = 0
+    payload = []
+    for r in results:
+        if "error" in r:
+            print(f"outlinebench: error: {r['error']}", file=sys.stderr)
+            code = 2
+            payload.append({"file": r["file"], "error": r["error"]})
+            continue
+        for note in r["notes"]:
+            print(f"outlinebench: {note}", file=sys.stderr)
+        if r["problems"] and code == 0:
+            code = 1
+        if args.json:
+            payload.append(r["json"])
+        else:
+            print(r["text"])
+    if args.json and payload:
+        if len(files) == 1:
+            if "error" not in payload[0]:
+                write_json(payload[0])
+        else:
+            write_json(payload)
+    return code

@@ -1,0 +1,209 @@
+"""``outlinebench measure FILE``: lengths, areas and bounds of every contour.
+
+Per contour: ``closed``, ``length``, ``area`` (absolute enclosed area of a closed contour, null
+when open), ``bbox`` (tight), and per segment its ``kind`` and ``length``; with ``--joins``,
+every join's gap, tangent turn angle and curvature on each side. Coordinates are the SVG root's
+user units after all element transforms; ``--units mm`` (or in, pt, px) converts through the
+root's width/height and viewBox. Contours are numbered in document order across the file, as
+``outlinebench check`` numbers them.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from typing import Any
+
+import numpy as np
+
+from outlinebench.diagnostics.continuity import turn_angles
+from outlinebench.geometry import (
+    KIND_BY_DEGREE,
+    arc_length,
+    end_curvatures,
+    end_tangents,
+)
+from outlinebench.model.document import Contour, Document
+from outlinebench.subcommands._common import LENGTH_UNITS, read_document, unit_factor, write_json
+
+__all__ = ["NAME", "HELP", "add_arguments", "run", "measure_document"]
+
+NAME = "measure"
+HELP = "lengths, areas, bounds and joins of every contour"
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``outlinebench measure``."""
+    parser.add_argument("file", metavar="FILE", help="SVG file to measure")
+    parser.add_argument("--json", action="store_true", help="print JSON instead of text")
+    parser.add_argument(
+        "--joins", action="store_true", help="also list every join: gap, angle, curvatures"
+    )
+    parser.add_argument(
+        "--units",
+        choices=LENGTH_UNITS,
+        default="user",
+        help="unit of lengths and positions: the SVG root's user units (default) or mm, in, pt, px",
+    )
+
+
+def _joins(contour: Contour, f: float) -> list[dict[str, Any]]:
+    segs = contour.segments
+    out = []
+    if not contour.joins:
+        return out
+    d_in, d_out, k_in, k_out, gaps = [], [], [], [], []
+    for j in range(len(contour.joins)):
+        a, b = contour.join_segments(j)
+        sa, sb = segs[a], segs[b]
+        d_in.append(end_tangents(sa)[1])
+        d_out.append(end_tangents(sb)[0])
+        k_in.append(end_curvatures(sa)[1])
+        k_out.append(end_curvatures(sb)[0])
+        gaps.append(float(np.hypot(*(sb[0] - sa[-1]))))
+    angles = turn_angles(np.array(d_in), np.array(d_out))
+    for j in range(len(contour.joins)):
+        out.append(
+            {
+                "join": j,
+                "x": float(segs[j][-1][0]) * f,
+                "y": float(segs[j][-1][1]) * f,
+                "intent": contour.joins[j],
+                "gap": gaps[j] * f,
+                "angle": float(angles[j]),
+                "curvature_before": float(k_in[j]) / f,
+                "curvature_after": float(k_out[j]) / f,
+            }
+        )
+    return out
+
+
+def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> dict[str, Any]:
+    """The measurements of every contour as a JSON-ready dict.
+
+    Parameters
+    ----------
+    doc : Document
+    unit : str
+        One of ``"user"``, ``"mm"``, ``"in"``, ``"pt"``, ``"px"``.
+    joins : bool
+        Include the join table of each contour.
+
+    Returns
+    -------
+    dict
+        ``{"units", "contours": [...], "totals": {...}}``; lengths in ``unit``, areas in
+        ``unit``², curvatures in 1/``unit``.
+
+    Notes
+    -----
+    Lengths come from :func:`outlinebench.geometry.arc_length` (Gauss–Legendre quadrature to
+    its default tolerance), areas from the exact signed area of
+    :func:`outlinebench.geometry.signed_area` (Green's theorem), boxes from
+    :func:`outlinebench.geometry.bounding_box` (end points and interior extrema).
+    """
+    # NOTE: imported here until the geometry package exports them at import time.
+    from outlinebench.geometry import bounding_box, signed_area
+
+    f = unit_factor(doc, unit)
+    contours = []
+    total_len = 0.0
+    total_segs = 0
+    for ref in doc.contour_refs():
+        c = ref.contour
+        outline = doc.outlines[ref.outline]
+        seg_rows = []
+        boxes = []
+        length = 0.0
+        for s in c.segments:
+            sl = float(arc_length(s))
+            length += sl
+            seg_rows.append({"kind": KIND_BY_DEGREE[s.shape[0] - 1], "length": sl * f})
+            boxes.append(bounding_box(s))
+        if boxes:
+            b = np.array(boxes, dtype=float)
+            bbox: list[float] | None = [
+                float(b[:, 0].min()) * f,
+                float(b[:, 1].min()) * f,
+                float(b[:, 2].max()) * f,
+                float(b[:, 3].max()) * f,
+            ]
+        else:
+            bbox = None
+        area = (
+            abs(float(signed_area(list(c.segments)))) * f * f if c.closed and c.segments else None
+        )
+        row: dict[str, Any] = {
+            "contour": ref.global_index,
+            "outline": outline.source_index if outline.source_index >= 0 else ref.outline,
+            "element_id": outline.element_id,
+            "closed": c.closed,
+            "length": length * f,
+            "area": area,
+            "bbox": bbox,
+            "segments": seg_rows,
+        }
+        if not c.closed and c.segments:
+            row["ends_distance"] = float(np.hypot(*(c.segments[-1][-1] - c.segments[0][0]))) * f
+        if joins:
+            row["joins"] = _joins(c, f)
+        contours.append(row)
+        total_len += length
+        total_segs += len(c.segments)
+    return {
+        "units": unit,
+        "contours": contours,
+        "totals": {
+            "contours": len(contours),
+            "segments": total_segs,
+            "length": total_len * f,
+        },
+    }
+
+
+def _fmt(v: float | None) -> str:
+    return "null" if v is None else f"{v:.6g}"
+
+
+def _text(label: str, m: dict[str, Any]) -> str:
+    u = m["units"]
+    unit_name = "user units" if u == "user" else u
+    t = m["totals"]
+    lines = [
+        f"{label}: {t['contours']} contours, {t['segments']} segments, total length "
+        f"{_fmt(t['length'])} (lengths in {unit_name})"
+    ]
+    for c in m["contours"]:
+        name = f", id {c['element_id']}" if c["element_id"] else ""
+        box = c["bbox"]
+        box_s = (
+            f"({_fmt(box[0])}, {_fmt(box[1])})–({_fmt(box[2])}, {_fmt(box[3])})" if box else "none"
+        )
+        state = "closed" if c["closed"] else f"open (ends {_fmt(c.get('ends_distance'))} apart)"
+        lines.append(
+            f"contour {c['contour']} (outline {c['outline']}{name}): {state}, length "
+            f"{_fmt(c['length'])}, area {_fmt(c['area'])}, bbox {box_s}"
+        )
+        for k, s in enumerate(c["segments"]):
+            lines.append(f"  segment {k}: {s['kind']}, length {_fmt(s['length'])}")
+        for j in c.get("joins", ()):
+            intent = f", intent {j['intent']}" if j["intent"] else ""
+            lines.append(
+                f"  join {j['join']} at ({_fmt(j['x'])}, {_fmt(j['y'])}): gap {_fmt(j['gap'])}, "
+                f"angle {j['angle']:.4g}°, curvature {_fmt(j['curvature_before'])} → "
+                f"{_fmt(j['curvature_after'])}{intent}"
+            )
+    return "\n".join(lines)
+
+
+def run(args: argparse.Namespace) -> int:
+    """Measure one file; exit code 0, or 2 when it cannot be read (raised to the CLI)."""
+    doc, notes = read_document(args.file)
+    for note in notes:
+        print(f"outlinebench: {note}", file=sys.stderr)
+    m = measure_document(doc, args.units, args.joins)
+    if args.json:
+        write_json({"file": args.file, **m})
+    else:
+        print(_text(args.file, m))
+    return 0

@@ -1,0 +1,131 @@
+"""The incremental checker gives the same findings as a full check, computing only what an edit
+touched."""
+
+import math
+
+import numpy as np
+import pytest
+
+from outlinebench.diagnostics import Checker, CheckSettings, check_document
+from outlinebench.model.document import Contour, Document, frozen_points
+from tests.diagnostics._docs import circle, doc_of, polygon
+
+
+def as_set(findings):
+    # findings as comparable rows (repr of each field; floats compared to 9 significant digits)
+    def row(f):
+        return tuple(f"{v:.9g}" if isinstance(v, float) else repr(v) for v in f.to_dict().values())
+
+    return sorted(row(f) for f in findings)
+
+
+def _move_point(doc: Document, outline: int, contour: int, segment: int, dx: float, dy: float):
+    """Move the end point of one segment (and the start of the next): two new segment arrays,
+    everything else shared, as an editor's move does."""
+    c = doc.contour(outline, contour)
+    segs = list(c.segments)
+    n = len(segs)
+    a = segs[segment].copy()
+    a[-1] += (dx, dy)
+    segs[segment] = frozen_points(a)
+    if c.closed or segment + 1 < n:
+        k = (segment + 1) % n
+        b = segs[k].copy()
+        b[0] += (dx, dy)
+        segs[k] = frozen_points(b)
+    return doc.replace_contour(outline, contour, c.with_segments(segs, c.joins))
+
+
+def _sample_doc():
+    r = math.radians(3)
+    return doc_of(
+        (polygon([(0, 0), (20, 0), (20, 20), (0, 20)]), circle(10, 10, 4, ccw=True)),
+        circle(40, 10, 8),
+        polygon([(60, 0), (70, 0), (70 + 10 * math.cos(r), 10 * math.sin(r))], closed=False),
+        (polygon([(0, 30), (10, 40), (10, 30), (0, 40)]),),
+    )
+
+
+def test_update_without_change_computes_nothing():
+    doc = _sample_doc()
+    ch = Checker()
+    first = ch.update(doc)
+    assert ch.last_segments_computed == doc.segment_count()
+    again = ch.update(doc)
+    assert ch.last_segments_computed == 0 and ch.last_joins_computed == 0
+    assert as_set(first) == as_set(again)
+
+
+@pytest.mark.parametrize("where", [(0, 0, 1), (0, 1, 2), (1, 0, 3), (2, 0, 0), (3, 0, 1)])
+def test_update_after_a_move_matches_a_full_check(where):
+    doc = _sample_doc()
+    ch = Checker()
+    ch.update(doc)
+    moved = _move_point(doc, *where, 0.7, -0.4)
+    got = ch.update(moved)
+    assert as_set(got) == as_set(check_document(moved))
+    # only the two segments sharing the moved point were computed again, and only the joins
+    # next to them (at most 3: before, at and after the point)
+    assert ch.last_segments_computed == 2 or (ch.last_segments_computed == 1 and where[0] == 2)
+    assert ch.last_joins_computed <= 3
+
+
+def test_a_series_of_edits_and_undo_stays_consistent():
+    doc0 = _sample_doc()
+    ch = Checker()
+    ch.update(doc0)
+    rng = np.random.default_rng(5)
+    doc = doc0
+    for _ in range(25):
+        o = int(rng.integers(len(doc.outlines)))
+        c = int(rng.integers(len(doc.outlines[o].contours)))
+        n = len(doc.contour(o, c).segments)
+        s = int(rng.integers(n - (0 if doc.contour(o, c).closed else 1)))
+        doc = _move_point(doc, o, c, s, *rng.normal(scale=2.0, size=2))
+        assert as_set(ch.update(doc)) == as_set(check_document(doc))
+    # back to the first version (undo): all its contours are the original objects again
+    assert as_set(ch.update(doc0)) == as_set(check_document(doc0))
+
+
+def test_changing_a_join_intent_recomputes_that_join():
+    r = math.radians(3)
+    c = polygon([(0, 0), (1, 0), (1 + math.cos(r), math.sin(r))], closed=False)
+    doc = doc_of(c)
+    ch = Checker()
+    assert [f.kind for f in ch.update(doc) if f.kind in ("kink", "corner")] == ["kink"]
+    c2 = c.with_segments(c.segments, ("corner",))  # same segment objects, new intent
+    doc2 = doc.replace_contour(0, 0, c2)
+    got = ch.update(doc2)
+    assert ch.last_segments_computed == 0 and ch.last_joins_computed == 1
+    assert [f.kind for f in got if f.kind in ("kink", "corner")] == ["corner"]
+
+
+def test_inserting_a_point_shifts_segment_numbers():
+    doc = doc_of(polygon([(0, 0), (10, 0), (10, 10), (0, 10)]))
+    ch = Checker()
+    ch.update(doc)
+    c = doc.contour(0, 0)
+    segs = list(c.segments)
+    # split segment 0 at its middle with a 20° bend: three segments where there was one
+    new = [frozen_points([(0, 0), (5, 1.8)]), frozen_points([(5, 1.8), (10, 0)])]
+    c2 = Contour(tuple(new + segs[1:]), True)
+    doc2 = doc.replace_contour(0, 0, c2)
+    assert as_set(ch.update(doc2)) == as_set(check_document(doc2))
+    assert ch.last_segments_computed == 2
+
+
+def test_structure_change_falls_back_to_full_check():
+    doc = _sample_doc()
+    ch = Checker()
+    ch.update(doc)
+    smaller = Document(doc.outlines[1:], mm_per_unit=doc.mm_per_unit)
+    assert as_set(ch.update(smaller)) == as_set(check_document(smaller))
+
+
+def test_settings_are_used():
+    r = math.radians(3)
+    pts = [(0, 0), (10, 0), (10 + 10 * math.cos(r), 10 * math.sin(r))]
+    doc = doc_of(polygon(pts, closed=False))
+    assert [f.kind for f in check_document(doc, CheckSettings(kink_angle=5.0))] == ["open-contour"]
+    with pytest.raises(ValueError, match="kink angle"):
+        CheckSettings(kink_angle=20.0, corner_angle=10.0)
