@@ -14,7 +14,9 @@ symmetric=False)``
 ``Selection()``
     Ordered set of selected points under canonical names (:class:`PointRef`), with a
     ``primary`` (last picked) point: ``refs``, ``set(refs)``, ``add(refs)``, ``toggle(ref)``,
-    ``clear()``, ``prune(doc)``, ``subscribe(callback)``; ``ref in selection``.
+    ``clear()``, ``prune(doc)``, ``subscribe(callback)``; ``ref in selection``. Tools use only
+    ``refs``, ``set``, ``add``, ``toggle``, ``clear`` and ``in``, so an editor may pass its own
+    object with those members instead.
 ``SelectTool(history, selection, pick_radius=...)``
     Press on a point picks it (replacing the selection, or toggling it with
     ``add_to_selection``); press and drag moves the selection (or the picked point if it was

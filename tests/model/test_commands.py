@@ -402,3 +402,44 @@ def test_revert_of_an_unapplied_or_foreign_document_is_refused():
         ChangeDegree(SegmentRef(0, 0, 0), 4)
     with pytest.raises(CommandError, match="finite"):
         MovePoints([], (math.nan, 0))
+
+
+def test_moving_the_start_of_a_closed_contour_moves_both_names_and_handles():
+    doc = lobe_doc()
+    new = MovePoints([PointRef(0, 0, 3, 1)], (0.5, 0.5)).apply(doc)  # end of last = node 0
+    c = new.contour(0, 0)
+    np.testing.assert_array_equal(c.segments[0][0], [0.5, 0.5])
+    np.testing.assert_array_equal(c.segments[3][1], [0.5, 0.5])
+    np.testing.assert_array_equal(c.segments[0][1], [10.5, 20.5])  # its handle followed
+    # Segments 1 and 2 are untouched and stay the same objects (identity sharing).
+    assert c.segments[1] is doc.contour(0, 0).segments[1]
+    assert c.segments[2] is doc.contour(0, 0).segments[2]
+
+
+def test_quadratic_handle_turns_its_smooth_neighbours_on_both_sides():
+    segs = [
+        [[0.0, 0.0], [10.0, 0.0], [20.0, 10.0], [30.0, 10.0]],
+        [[30.0, 10.0], [40.0, 10.0], [50.0, 0.0]],  # quad: handle continues both tangents
+        [[50.0, 0.0], [60.0, -10.0], [70.0, -10.0], [80.0, 0.0]],
+    ]
+    doc = Document((Outline((Contour.from_points(segs, joins=("smooth", "smooth")),)),))
+    new = MovePoints([PointRef(0, 0, 1, 1)], (0.0, 4.0)).apply(doc)
+    c = new.contour(0, 0)
+    h = c.segments[1][1]
+    for node, opp in ((c.segments[1][0], c.segments[0][2]), (c.segments[1][2], c.segments[2][1])):
+        u, v = h - node, opp - node
+        # Opposite handles point the other way: cross product 0 and dot product < 0.
+        assert abs(u[0] * v[1] - u[1] * v[0]) < 1e-9 and np.dot(u, v) < 0
+
+
+def test_delete_point_of_a_two_segment_closed_contour_gives_a_closed_cubic():
+    segs = [
+        [[0.0, 0.0], [0.0, 10.0], [20.0, 10.0], [20.0, 0.0]],
+        [[20.0, 0.0], [20.0, -10.0], [0.0, -10.0], [0.0, 0.0]],
+    ]
+    doc = Document((Outline((Contour.from_points(segs, closed=True),)),))
+    cmd = DeletePoint(PointRef(0, 0, 1, 0))
+    c = cmd.apply(doc).contour(0, 0)
+    assert c.closed and len(c.segments) == 1 and len(c.joins) == 1
+    np.testing.assert_array_equal(c.segments[0][0], c.segments[0][-1])
+    assert np.isfinite(cmd.deviation) and cmd.deviation > 0
