@@ -11,6 +11,7 @@ from outlinebench.geometry.arclength import (
     param_at_length,
     quadratic_arc_length,
 )
+from outlinebench.geometry.area import segment_area_terms, signed_area
 from outlinebench.geometry.bezier import (
     DEGREE_BY_KIND,
     KIND_BY_DEGREE,
@@ -36,7 +37,9 @@ from outlinebench.geometry.curvature import (
     unit_normal,
     unit_tangent,
 )
+from outlinebench.geometry.extrema import bounding_box, extrema_params
 from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.quadrature import gauss_legendre
 
 __all__ = [
@@ -66,6 +69,12 @@ __all__ = [
     "param_at_length",
     "quadratic_arc_length",
     "gauss_legendre",
+    "bounding_box",
+    "extrema_params",
+    "signed_area",
+    "segment_area_terms",
+    "nearest_point",
+    "distance_to",
     "fit_chain",
     "fit_cubic",
     "max_deviation",
