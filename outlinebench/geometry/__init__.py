@@ -39,6 +39,7 @@ from outlinebench.geometry.curvature import (
 )
 from outlinebench.geometry.extrema import bounding_box, extrema_params
 from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.intersect import intersections, line_intersection, self_intersections
 from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.quadrature import gauss_legendre
 
@@ -75,6 +76,9 @@ __all__ = [
     "segment_area_terms",
     "nearest_point",
     "distance_to",
+    "intersections",
+    "line_intersection",
+    "self_intersections",
     "fit_chain",
     "fit_cubic",
     "max_deviation",

@@ -1,0 +1,355 @@
+"""Intersections of two Bézier segments, and self-intersections of one cubic.
+
+References
+----------
+T. W. Sederberg and T. Nishita, "Curve intersection using Bézier clipping", CAD 22(9), 1990,
+§2 (subdivision with convex-hull culling; a segment lies inside its control points' box).
+J. M. Lane and R. F. Riesenfeld, "A theoretical development for the computer generation and
+display of piecewise polynomial surfaces", IEEE PAMI 2(1), 1980 (subdivision termination).
+M. Stone and T. DeRose, "A geometric characterization of parametric cubic curves", ACM TOG
+8(3), 1989 (the self-intersection of a cubic in closed form).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from outlinebench.geometry._batch import segment_scale
+from outlinebench.geometry.bezier import derivative, evaluate, split
+from outlinebench.geometry.curvature import power_coefficients
+
+__all__ = [
+    "INTERSECTION_TOLERANCE",
+    "intersections",
+    "self_intersections",
+    "line_intersection",
+]
+
+FloatArray = NDArray[np.float64]
+
+# Largest distance |A(ta) − B(tb)| of a reported intersection, as a fraction of the size of
+# the two segments together (the larger side of the box around all their control points).
+# Newton polishing usually brings it to ~1e-16; 1e-9 leaves room for tangential crossings,
+# where Newton converges only linearly.
+INTERSECTION_TOLERANCE = 1e-9
+
+# A piece whose control points lie within this fraction of the joint size from its chord is
+# treated as straight for the first guess (the guess is then polished by Newton's method).
+_FLAT = 1e-6
+# Two answers closer than this in both parameters are one intersection.
+_SAME_PARAM = 1e-7
+# More live pairs than this after subdivision means the segments share a stretch (overlap):
+# transversal crossings of two cubics (at most 9) never keep this many boxes alive.
+_MAX_PAIRS = 4096
+_MAX_DEPTH = 64
+
+
+def _cross(a: FloatArray, b: FloatArray) -> FloatArray:
+    return a[..., 0] * b[..., 1] - a[..., 1] * b[..., 0]
+
+
+def line_intersection(a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE):
+    """Intersections of two straight segments in closed form.
+
+    Parameters
+    ----------
+    a, b : array_like, shape (2, 2)
+    tolerance : float
+        As :data:`INTERSECTION_TOLERANCE`: relative to the joint size; decides parallel and
+        touching cases.
+
+    Returns
+    -------
+    ndarray, shape (N, 2)
+        (ta, tb) pairs. N is 0 or 1 for lines that cross or touch; for collinear segments
+        that overlap, the two ends of the shared stretch (a single pair if they only touch).
+
+    Notes
+    -----
+    A0 + s dA = B0 + u dB is solved by Cramer's rule: s = (e × dB)/(dA × dB),
+    u = (e × dA)/(dA × dB) with e = B0 − A0.
+    """
+    a = np.asarray(a, dtype=np.float64)
+    b = np.asarray(b, dtype=np.float64)
+    origin = a[0].copy()
+    size = float(segment_scale(np.concatenate([a, b])[None])[0])
+    if size == 0.0:
+        return np.array([[0.0, 0.0]])
+    a0, b0 = (a - origin) / size, (b - origin) / size
+    da, db, e = a0[1] - a0[0], b0[1] - b0[0], b0[0] - a0[0]
+    den = float(_cross(da, db))
+    la, lb = float(np.hypot(*da)), float(np.hypot(*db))
+    if abs(den) > tolerance * max(la * lb, 1e-300):
+        s = float(_cross(e, db)) / den
+        u = float(_cross(e, da)) / den
+        slack_a = tolerance / la if la > 0 else 0.0
+        slack_b = tolerance / lb if lb > 0 else 0.0
+        if -slack_a <= s <= 1 + slack_a and -slack_b <= u <= 1 + slack_b:
+            return np.array([[min(max(s, 0.0), 1.0), min(max(u, 0.0), 1.0)]])
+        return np.empty((0, 2))
+    # Parallel (or a zero-length segment): report end points lying on the other segment.
+    return _endpoint_contacts(a0[None], b0[None], tolerance)
+
+
+def _project(seg: FloatArray, p: FloatArray) -> tuple[float, float]:
+    from outlinebench.geometry.nearest import nearest_point
+
+    t, d, _ = nearest_point(seg, p)
+    return t, d
+
+
+def _endpoint_contacts(a: FloatArray, b: FloatArray, tolerance: float) -> FloatArray:
+    """(ta, tb) for every end point of one segment lying on the other (normalized input)."""
+    a, b = a[0], b[0]
+    out = []
+    for ta, p in ((0.0, a[0]), (1.0, a[-1])):
+        tb, d = _project(b, p)
+        if d <= tolerance:
+            out.append((ta, tb))
+    for tb, p in ((0.0, b[0]), (1.0, b[-1])):
+        ta, d = _project(a, p)
+        if d <= tolerance:
+            out.append((ta, tb))
+    return _dedupe(np.array(out).reshape(-1, 2), None, None)
+
+
+def _dedupe(cands: FloatArray, a: FloatArray | None, b: FloatArray | None) -> FloatArray:
+    if cands.shape[0] == 0:
+        return cands.reshape(0, 2)
+    if a is not None:
+        res = np.linalg.norm(evaluate(a, cands[:, 0]) - evaluate(b, cands[:, 1]), axis=-1)
+    else:
+        res = np.zeros(cands.shape[0])
+    order = np.lexsort((res, cands[:, 1], cands[:, 0]))
+    kept: list[int] = []
+    for i in order:
+        if all(
+            abs(cands[i, 0] - cands[j, 0]) > _SAME_PARAM
+            or abs(cands[i, 1] - cands[j, 1]) > _SAME_PARAM
+            for j in kept
+        ):
+            kept.append(int(i))
+        else:
+            # keep the better of the two (smaller residual)
+            for n, j in enumerate(kept):
+                close = (
+                    abs(cands[i, 0] - cands[j, 0]) <= _SAME_PARAM
+                    and abs(cands[i, 1] - cands[j, 1]) <= _SAME_PARAM
+                )
+                if close and res[i] < res[j]:
+                    kept[n] = int(i)
+                    break
+    out = cands[sorted(kept, key=lambda k: (cands[k, 0], cands[k, 1]))]
+    return out
+
+
+def _newton(a, b, s, u, iterations=40):
+    """Polish A(s) = B(u) by Newton's method on the 2×2 system, kept inside [0, 1]²."""
+    da, db = derivative(a), derivative(b)
+    for _ in range(iterations):
+        r = evaluate(a, s) - evaluate(b, u)  # (N, 2)
+        ja = evaluate(da, s)
+        jb = -evaluate(db, u)
+        det = _cross(ja, jb)
+        ok = np.abs(det) > 1e-300
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            ds = np.where(ok, _cross(r, jb) / np.where(ok, det, 1.0), 0.0)
+            du = np.where(ok, _cross(ja, r) / np.where(ok, det, 1.0), 0.0)
+        s_new = np.clip(s - ds, 0.0, 1.0)
+        u_new = np.clip(u - du, 0.0, 1.0)
+        if np.all((np.abs(s_new - s) < 1e-16) & (np.abs(u_new - u) < 1e-16)):
+            s, u = s_new, u_new
+            break
+        s, u = s_new, u_new
+    return s, u
+
+
+def _piece_flat(p: FloatArray) -> FloatArray:
+    """Largest distance of the control points from the chord, per piece (N,)."""
+    chord = p[:, -1] - p[:, 0]
+    n = np.linalg.norm(chord, axis=-1)
+    rel = p - p[:, :1]
+    dist_line = np.abs(_cross(rel, chord[:, None, :])) / np.where(n > 0, n, 1.0)[:, None]
+    dist_pt = np.linalg.norm(rel, axis=-1)
+    d = np.where(n[:, None] > 0, dist_line, dist_pt)
+    # a handle beyond the chord's ends is not flat either
+    proj = np.sum(rel * chord[:, None, :], axis=-1) / np.where(n > 0, n * n, 1.0)[:, None]
+    beyond = (proj < -1e-12) | (proj > 1 + 1e-12)
+    d = np.where(beyond, np.maximum(d, dist_pt), d)
+    return d.max(axis=1)
+
+
+def intersections(
+    a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE
+) -> FloatArray:
+    """Parameters where two segments meet.
+
+    Parameters
+    ----------
+    a, b : array_like, shape (Ka, 2) and (Kb, 2)
+        Segments of any degree 1 … 3.
+    tolerance : float
+        Largest distance |A(ta) − B(tb)| reported, as a fraction of the two segments' joint
+        size (see :data:`INTERSECTION_TOLERANCE`).
+
+    Returns
+    -------
+    ndarray, shape (N, 2)
+        (ta, tb) pairs sorted by ta, each intersection once (shared end points included).
+        Segments that share a whole stretch (overlap, e.g. collinear lines or a segment and
+        its own sub-segment) have infinitely many common points: the two ends of each
+        shared stretch are returned instead, so the answer stays finite.
+
+    Notes
+    -----
+    Subdivision with box culling (Sederberg & Nishita 1990, §2), run on all live pairs at
+    once: each segment lies in the box of its control points, so pairs of pieces whose boxes
+    are apart are dropped and the rest are halved until both pieces are straight within
+    1e-6 of the joint size. The crossing of their chords is then polished by Newton's
+    method on A(s) − B(u) = 0 with the original segments, and answers closer than 1e-7 in
+    both parameters are merged. More answers than Bézout's bound deg(a)·deg(b), or more
+    live pairs than subdivision of crossings can produce, means a shared stretch. Two lines
+    use :func:`line_intersection`. Work is done after moving and scaling both segments
+    together to unit size.
+    """
+    a = np.asarray(a, dtype=np.float64)
+    b = np.asarray(b, dtype=np.float64)
+    if a.shape[0] == 2 and b.shape[0] == 2:
+        return line_intersection(a, b, tolerance)
+    both = np.concatenate([a, b])
+    origin = both.min(axis=0)
+    size = float(segment_scale(both[None])[0])
+    if size == 0.0:
+        return np.array([[0.0, 0.0]])
+    a0, b0 = (a - origin) / size, (b - origin) / size
+    pa, pb = a0[None], b0[None]
+    ra = np.array([[0.0, 1.0]])
+    rb = np.array([[0.0, 1.0]])
+    found_s: list[FloatArray] = []
+    found_u: list[FloatArray] = []
+    pad = tolerance
+    overlap = False
+    for _ in range(_MAX_DEPTH):
+        if pa.shape[0] == 0:
+            break
+        if pa.shape[0] > _MAX_PAIRS:
+            overlap = True
+            break
+        amin, amax = pa.min(axis=1), pa.max(axis=1)
+        bmin, bmax = pb.min(axis=1), pb.max(axis=1)
+        hit = np.all((amin <= bmax + pad) & (bmin <= amax + pad), axis=1)
+        pa, pb, ra, rb = pa[hit], pb[hit], ra[hit], rb[hit]
+        if pa.shape[0] == 0:
+            break
+        flat = (_piece_flat(pa) <= _FLAT) & (_piece_flat(pb) <= _FLAT)
+        if flat.any():
+            fa, fb = pa[flat], pb[flat]
+            da, db = fa[:, -1] - fa[:, 0], fb[:, -1] - fb[:, 0]
+            e = fb[:, 0] - fa[:, 0]
+            den = _cross(da, db)
+            ok = np.abs(den) > 1e-300
+            with np.errstate(divide="ignore", invalid="ignore"):
+                s = np.where(ok, _cross(e, db) / np.where(ok, den, 1.0), 0.5)
+                u = np.where(ok, _cross(e, da) / np.where(ok, den, 1.0), 0.5)
+            s, u = np.clip(s, 0.0, 1.0), np.clip(u, 0.0, 1.0)
+            ga = ra[flat, 0] + s * (ra[flat, 1] - ra[flat, 0])
+            gb = rb[flat, 0] + u * (rb[flat, 1] - rb[flat, 0])
+            found_s.append(ga)
+            found_u.append(gb)
+            keep = ~flat
+            pa, pb, ra, rb = pa[keep], pb[keep], ra[keep], rb[keep]
+            if pa.shape[0] == 0:
+                break
+        # Halve both pieces: four pairs.
+        al, ar = split(pa, 0.5)
+        bl, br = split(pb, 0.5)
+        ma = ra.mean(axis=1)
+        mb = rb.mean(axis=1)
+        ral = np.stack([ra[:, 0], ma], axis=1)
+        rar = np.stack([ma, ra[:, 1]], axis=1)
+        rbl = np.stack([rb[:, 0], mb], axis=1)
+        rbr = np.stack([mb, rb[:, 1]], axis=1)
+        pa = np.concatenate([al, al, ar, ar])
+        pb = np.concatenate([bl, br, bl, br])
+        ra = np.concatenate([ral, ral, rar, rar])
+        rb = np.concatenate([rbl, rbr, rbl, rbr])
+    if overlap:
+        return _endpoint_contacts(a0[None], b0[None], tolerance)
+    if not found_s:
+        return np.empty((0, 2))
+    s = np.concatenate(found_s)
+    u = np.concatenate(found_u)
+    s, u = _newton(a0, b0, s, u)
+    res = np.linalg.norm(evaluate(a0, s) - evaluate(b0, u), axis=-1)
+    good = res <= tolerance
+    cands = np.stack([s[good], u[good]], axis=1)
+    out = _dedupe(cands, a0, b0)
+    if out.shape[0] > (a.shape[0] - 1) * (b.shape[0] - 1):
+        # More common points than Bézout's bound deg(a)·deg(b) allows two different
+        # polynomial curves: they share a stretch.
+        return _endpoint_contacts(a0[None], b0[None], tolerance)
+    return out
+
+
+def self_intersections(points: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE) -> FloatArray:
+    """Parameter pairs (t1 < t2) where one segment crosses itself.
+
+    Parameters
+    ----------
+    points : array_like, shape (K, 2)
+    tolerance : float
+        As :data:`INTERSECTION_TOLERANCE`; also the smallest parameter gap t2 − t1 counted
+        (a cusp is the limit t1 = t2 and is not a self-intersection).
+
+    Returns
+    -------
+    ndarray, shape (N, 2), N ≤ 1
+        Lines and quadratics never cross themselves. A cubic crosses itself at most once (a
+        loop). A segment that runs back over itself along a line overlaps itself along a
+        stretch; that is a cusp (see :func:`~outlinebench.geometry.curvature.cusps`) and is
+        not reported here.
+
+    Notes
+    -----
+    With B(t) = c3 t³ + c2 t² + c1 t + c0, B(s) = B(t) for s ≠ t means
+    c3 (σ² − π) + c2 σ + c1 = 0 with σ = s + t, π = s t (divide B(s) − B(t) by s − t). The
+    cross product with c3 gives σ = −(c3 × c1)/(c3 × c2); the dot product with c3 then gives
+    π = σ² + (c3·c2 σ + c3·c1)/|c3|²; s and t are the roots of x² − σx + π (Stone & DeRose
+    1989 treat the same loop condition geometrically). The pair is polished by Newton's
+    method on B(s) − B(t) = 0.
+    """
+    pts = np.asarray(points, dtype=np.float64)
+    if pts.shape[0] < 4:
+        return np.empty((0, 2))
+    size = float(segment_scale(pts[None])[0])
+    if size == 0.0:
+        return np.empty((0, 2))
+    q = (pts - pts[0]) / size
+    c = power_coefficients(q)
+    c1, c2, c3 = c[1], c[2], c[3]
+    k32 = float(_cross(c3, c2))
+    n3 = float(c3 @ c3)
+    if abs(k32) <= 1e-14 or n3 <= 1e-28:
+        return np.empty((0, 2))
+    sigma = -float(_cross(c3, c1)) / k32
+    pi = sigma * sigma + (float(c3 @ c2) * sigma + float(c3 @ c1)) / n3
+    disc = sigma * sigma - 4.0 * pi
+    if disc <= 0.0:
+        return np.empty((0, 2))
+    r = np.sqrt(disc)
+    t1, t2 = (sigma - r) / 2.0, (sigma + r) / 2.0
+    if t2 - t1 <= tolerance:
+        return np.empty((0, 2))
+    s, u = _newton(q, q, np.array([t1]), np.array([t2]), iterations=8)
+    if not (0.0 <= t1 and t2 <= 1.0):
+        # Outside the segment before polishing can only come closer by clipping: recheck.
+        if not (-tolerance <= t1 and t2 <= 1.0 + tolerance):
+            return np.empty((0, 2))
+    s, u = float(s[0]), float(u[0])
+    if u - s <= tolerance:
+        return np.empty((0, 2))
+    res = float(np.linalg.norm(evaluate(q, s) - evaluate(q, u)))
+    if res > tolerance:
+        return np.empty((0, 2))
+    return np.array([[s, u]])
