@@ -55,6 +55,8 @@ class Length:
 
     def to_user(self, px_per_inch: float = PX_PER_INCH) -> float | None:
         """User units (px) outside any viewBox, or None for relative units."""
+        if self.unit in ("", "px"):
+            return self.value
         mm = self.to_mm(px_per_inch)
         return None if mm is None else mm * px_per_inch / 25.4
 

@@ -1,0 +1,310 @@
+"""Tests of outlinebench/io/svg_read.py and _xml.py: whole documents, safety, references."""
+
+import math
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from outlinebench.errors import SvgPathError, SvgReadError, UnsafeXmlError, UnsupportedSvgFeature
+from outlinebench.io import load_svg, read_svg
+from outlinebench.io import svg_read as svg_read_module
+
+DATA = Path(__file__).resolve().parents[1] / "data" / "svg"
+NS = 'xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink"'
+
+
+def svg(body, attrs=""):
+    return f"<svg {NS} {attrs}>{body}</svg>".encode()
+
+
+# -- XML safety (defusedxml documentation, "attack vectors") ---------------------------------
+BILLION_LAUGHS = b"""<?xml version="1.0"?>
+<!DOCTYPE svg [
+ <!ENTITY a "lollollollollollollollollollol">
+ <!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;&a;&a;">
+ <!ENTITY c "&b;&b;&b;&b;&b;&b;&b;&b;&b;&b;">
+ <!ENTITY d "&c;&c;&c;&c;&c;&c;&c;&c;&c;&c;">
+ <!ENTITY e "&d;&d;&d;&d;&d;&d;&d;&d;&d;&d;">
+ <!ENTITY f "&e;&e;&e;&e;&e;&e;&e;&e;&e;&e;">
+ <!ENTITY g "&f;&f;&f;&f;&f;&f;&f;&f;&f;&f;">
+ <!ENTITY h "&g;&g;&g;&g;&g;&g;&g;&g;&g;&g;">
+]>
+<svg xmlns="http://www.w3.org/2000/svg"><text>&h;</text></svg>"""
+
+
+@pytest.mark.parametrize("allow", [False, True])
+def test_billion_laughs_is_refused_quickly(allow):
+    t0 = time.perf_counter()
+    with pytest.raises(UnsafeXmlError, match="entit"):
+        read_svg(BILLION_LAUGHS, allow_entities=allow)
+    assert time.perf_counter() - t0 < 5.0  # generous; it must not expand 10⁸ characters
+
+
+def test_quadratic_blowup_is_refused():
+    big = "x" * 100_000
+    refs = "&big;" * 20_000
+    data = (
+        f'<?xml version="1.0"?><!DOCTYPE svg [<!ENTITY big "{big}">]>'
+        f'<svg xmlns="http://www.w3.org/2000/svg"><text>{refs}</text></svg>'
+    ).encode()
+    with pytest.raises(UnsafeXmlError, match="refused by default"):
+        read_svg(data)
+    with pytest.raises(UnsafeXmlError, match="over the limit of 1024"):
+        read_svg(data, allow_entities=True)
+
+
+def test_external_entity_to_a_local_file_is_never_read(tmp_path):
+    secret = tmp_path / "kestrel_secret.txt"
+    secret.write_text("SECRET-KESTREL-42")
+    data = (
+        f'<?xml version="1.0"?><!DOCTYPE svg [<!ENTITY x SYSTEM "{secret.as_uri()}">]>'
+        f'<svg xmlns="http://www.w3.org/2000/svg"><text>&x;</text></svg>'
+    ).encode()
+    opened = []
+
+    def hook(event, args):
+        if event == "open" and args and str(args[0]).endswith("kestrel_secret.txt"):
+            opened.append(args[0])
+
+    sys.addaudithook(hook)  # audit events (PEP 578) report every file open
+    for allow in (False, True):
+        with pytest.raises(UnsafeXmlError, match="external entity") as info:
+            read_svg(data, allow_entities=allow)
+        assert "SECRET" not in str(info.value)
+    assert opened == []
+
+
+def test_harmless_internal_entity_needs_the_option():
+    data = (
+        b'<?xml version="1.0"?><!DOCTYPE svg [<!ENTITY d "M0 0 L10 0">]>'
+        b'<svg xmlns="http://www.w3.org/2000/svg"><path d="&d;"/></svg>'
+    )
+    with pytest.raises(UnsafeXmlError, match="internal entity 'd'.*allow_entities=True"):
+        read_svg(data)
+    doc = read_svg(data, allow_entities=True).document
+    assert doc.outlines[0].contours[0].segments[0].tolist() == [[0, 0], [10, 0]]
+
+
+def test_size_limit(tmp_path):
+    f = tmp_path / "big.svg"
+    f.write_bytes(svg("<path d='M0 0 L1 1'/>") + b" " * 5000)
+    with pytest.raises(UnsafeXmlError, match="over the limit of 1000"):
+        read_svg(f, max_bytes=1000)
+
+
+def test_malformed_xml_and_wrong_root():
+    with pytest.raises(SvgReadError, match="not well-formed"):
+        read_svg(b"<svg><g></svg>")
+    with pytest.raises(SvgReadError, match="not <svg>"):
+        read_svg(b"<html/>")
+    with pytest.raises(ValueError, match="'warn', 'raise' or 'skip'"):
+        read_svg(svg(""), on_unsupported="ignore")
+
+
+# -- paths, errors ------------------------------------------------------------------------
+def test_bad_path_error_names_file_element_and_offset():
+    res = read_svg(DATA / "bad_path.svg")
+    assert isinstance(res.error, SvgPathError)
+    assert str(res.error) == (
+        "bad_path.svg: <path id=\"kestrel-notch\">: expected a number at offset 18, found 'x20'"
+    )
+    # The model and the diagnostics together: the valid part is kept (SVG 2 §9.5.4).
+    good, notch = res.document.outlines
+    assert len(good.contours[0].segments) == 4
+    assert [s.tolist() for s in notch.contours[0].segments] == [[[10, 10], [20, 10]]]
+    with pytest.raises(SvgPathError, match="offset 18"):
+        load_svg(DATA / "bad_path.svg")
+
+
+def test_element_without_id_is_named_by_position():
+    res = read_svg(svg('<path d="M0 0 L1 1"/><path d="M0 0 L1 q"/>'))
+    assert str(res.error).startswith("<bytes>: <path> #2: expected a number at offset 8")
+
+
+# -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
+def _all_points(outline):
+    return np.concatenate([s for c in outline.contours for s in c.segments])
+
+
+def test_rect_rules():
+    doc = read_svg(
+        svg(
+            '<rect x="1" y="2" width="10" height="4"/>'
+            '<rect x="0" y="0" width="10" height="4" rx="3"/>'  # ry = rx, clamped to 2
+            '<rect x="0" y="0" width="10" height="4" ry="9"/>'  # rx = ry, clamped to 5/2
+            '<rect x="0" y="0" width="0" height="4"/>'  # zero width renders nothing
+        )
+    ).document
+    plain, rounded, clamped, empty = doc.outlines
+    assert [s.tolist() for s in plain.contours[0].segments] == [
+        [[1, 2], [11, 2]],
+        [[11, 2], [11, 6]],
+        [[11, 6], [1, 6]],
+        [[1, 6], [1, 2]],
+    ]
+    pts = _all_points(rounded)
+    assert pts[:, 0].min() == 0 and pts[:, 0].max() == 10 and pts[:, 1].max() == 4
+    # rx = 3, ry = min(3, 2) = 2: the top edge runs from x = 3 to 7.
+    assert rounded.contours[0].segments[0].tolist() == [[3, 0], [7, 0]]
+    # ry = 9 → rx = 9 → clamped to 5 and 2: no straight top edge at all.
+    assert clamped.contours[0].kinds()[0] == "cubic"
+    assert empty.contours == ()
+
+
+def test_circle_ellipse_line_polyline_polygon():
+    doc = read_svg(
+        svg(
+            '<circle cx="5" cy="5" r="2"/><ellipse cx="0" cy="0" rx="4" ry="1"/>'
+            '<line x1="0" y1="0" x2="3" y2="4"/><polyline points="0,0 1,1 2,0"/>'
+            '<polygon points="0 0 1 1 2 0"/>'
+        )
+    ).document
+    circle, ellipse, line, polyline, polygon = doc.outlines
+    # Every control point lies within the circle's bounding box; start at (cx + r, cy).
+    assert circle.contours[0].segments[0][0].tolist() == [7, 5]
+    pts = _all_points(circle)
+    assert pts[:, 0].min() >= 3 - 1e-9 and pts[:, 0].max() <= 7 + 1e-9
+    assert ellipse.contours[0].closed and line.contours[0].segments[0].tolist() == [[0, 0], [3, 4]]
+    assert not polyline.contours[0].closed and len(polyline.contours[0].segments) == 2
+    assert polygon.contours[0].closed and len(polygon.contours[0].segments) == 3
+
+
+# -- transforms, mirror ---------------------------------------------------------------------
+def test_nested_transforms_apply_in_order_and_mirror_is_reported():
+    res = read_svg(
+        svg(
+            '<g transform="translate(10 0)"><g transform="scale(-2 1)">'
+            '<path d="M1 1 L2 1"/></g></g>'
+        )
+    )
+    (o,) = res.document.outlines
+    # x ↦ 10 + (-2)·x (SVG 1.1 §7.5 nested coordinate systems): 1 → 8, 2 → 6.
+    assert o.contours[0].segments[0].tolist() == [[8, 1], [6, 1]]
+    assert any(n.kind == "mirror" for n in res.notes)
+    np.testing.assert_array_equal(o.transform, [[-2, 0, 10], [0, 1, 0], [0, 0, 1]])
+
+
+def test_two_thousand_nested_groups():
+    # Deep nesting must not hit Python's recursion limit (the walk is iterative).
+    depth = 2000
+    body = '<g transform="translate(1 0)">' * depth + '<path d="M0 0 L0 1"/>' + "</g>" * depth
+    (o,) = read_svg(svg(body)).document.outlines
+    assert o.contours[0].segments[0].tolist() == [[depth, 0], [depth, 1]]
+
+
+# -- use ------------------------------------------------------------------------------------
+def test_use_offsets_and_transforms():
+    doc = read_svg(
+        svg(
+            '<defs><path id="p" d="M0 0 L1 0"/></defs>'
+            '<use href="#p" x="5" y="7"/>'
+            '<use xlink:href="#p" transform="scale(2)" x="1"/>'
+        )
+    ).document
+    a, b = doc.outlines
+    # SVG 1.1 §5.6: use's x, y add translate(x, y) after the use's own transform.
+    assert a.contours[0].segments[0].tolist() == [[5, 7], [6, 7]]
+    assert b.contours[0].segments[0].tolist() == [[2, 0], [4, 0]]
+
+
+@pytest.mark.parametrize(
+    "body",
+    [
+        '<use id="a" href="#a"/>',
+        '<use id="a" href="#b"/><use id="b" href="#a"/>',
+        '<g id="g"><use href="#g"/></g>',
+    ],
+)
+def test_use_cycles_are_an_error_for_that_element_only(body):
+    res = read_svg(svg(body + '<path id="ok" d="M0 0 L1 1"/>'))
+    assert any(n.kind == "use-cycle" and n.level == "error" for n in res.notes)
+    assert [o.element_id for o in res.document.outlines] == ["ok"]
+
+
+def test_use_fan_out_has_an_instance_budget(monkeypatch):
+    monkeypatch.setattr(svg_read_module, "MAX_USE_INSTANCES", 50)
+    # Four levels of four-way fan-out would be 4 + 16 + 64 + 256 uses.
+    body = '<defs><path id="l0" d="M0 0 L1 0"/>'
+    for k in range(1, 5):
+        body += f'<g id="l{k}">' + f'<use href="#l{k - 1}"/>' * 4 + "</g>"
+    body += '</defs><use href="#l4"/>'
+    res = read_svg(svg(body))
+    assert any(n.kind == "use-budget" for n in res.notes)
+    assert len(res.document.outlines) < 50
+
+
+def test_external_references_are_not_fetched():
+    res = read_svg(svg('<use href="http://example.invalid/x.svg#a"/><use href="other.svg#b"/>'))
+    assert [n.count for n in res.notes if n.kind == "external"] == [2]
+
+
+# -- non-geometry ---------------------------------------------------------------------------
+def test_non_geometry_is_counted_not_dropped():
+    res = read_svg(DATA / "harbour_lane_sign.svg")
+    kinds = {n.kind: n for n in res.notes}
+    assert "text not converted" in kinds["text"].message or "not converted" in kinds["text"].message
+    assert kinds["image"].count == 1 and kinds["hidden"].count == 1
+    assert "guide" not in [o.element_id for o in res.document.outlines]
+    with pytest.raises(UnsupportedSvgFeature, match="text"):
+        read_svg(DATA / "harbour_lane_sign.svg", on_unsupported="raise")
+    quiet = read_svg(DATA / "harbour_lane_sign.svg", on_unsupported="skip")
+    assert "text" not in {n.kind for n in quiet.notes}
+
+
+def test_clip_paths_and_masks_are_not_outlines():
+    res = read_svg(
+        svg(
+            '<clipPath id="c"><rect width="5" height="5"/></clipPath>'
+            '<mask id="m"><circle r="3"/></mask><path d="M0 0 L1 1" clip-path="url(#c)"/>'
+        )
+    )
+    assert len(res.document.outlines) == 1
+    assert {"clipPath", "mask"} <= {n.kind for n in res.notes}
+
+
+# -- units ----------------------------------------------------------------------------------
+@pytest.mark.parametrize(
+    ("attrs", "width_mm", "mm_per_unit"),
+    [
+        # Worked from CSS Values 3 §5.2 and SVG 1.1 §7.7-7.8.
+        ('width="210mm" height="297mm" viewBox="0 0 210 297"', 210, 1.0),
+        ('width="8.5in" height="11in" viewBox="0 0 850 1100"', 215.9, 215.9 / 850),
+        ('width="100pt" height="100pt"', 100 * 25.4 / 72, 25.4 / 96),
+        ('width="10cm" height="5cm" viewBox="0 0 100 100"', 100, 0.5),  # meet: min(1, 0.5)
+        ('width="400" height="200"', 400 * 25.4 / 96, 25.4 / 96),
+        ('viewBox="0 0 50 50"', None, 25.4 / 96),
+        ('width="100mm" viewBox="0 0 200 100"', 100, 0.5),  # height from the aspect ratio
+    ],
+)
+def test_physical_scale(attrs, width_mm, mm_per_unit):
+    doc = read_svg(svg("", attrs)).document
+    if width_mm is None:
+        assert doc.width_mm is None
+    else:
+        assert doc.width_mm == pytest.approx(width_mm, rel=1e-12)
+    assert doc.mm_per_unit == pytest.approx(mm_per_unit, rel=1e-12)
+
+
+def test_px_per_inch_override_and_non_uniform_scale():
+    doc = read_svg(svg("", 'width="90" height="90"'), px_per_inch=90).document
+    assert doc.width_mm == pytest.approx(25.4)
+    res = read_svg(
+        svg("", 'width="100mm" height="50mm" viewBox="0 0 100 100" preserveAspectRatio="none"')
+    )
+    assert res.document.mm_per_unit == pytest.approx(math.sqrt(1 * 0.5))
+    assert any("preserveAspectRatio" in n.message for n in res.notes)
+
+
+def test_join_intent_is_read_from_our_attribute():
+    doc = read_svg(DATA / "kestrel_bracket.svg").document
+    assert doc.outlines[0].contours[0].joins == (
+        "corner",
+        "smooth",
+        "smooth",
+        "smooth",
+        "corner",
+        "corner",
+    )
