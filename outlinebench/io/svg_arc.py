@@ -45,8 +45,9 @@ def arc_piece_error(sweep: float) -> float:
     the centre never falls below the radius and exceeds it by at most e(θ): the radial
     deviation at t = 1/2 (Goldapp 1991), which equals the true maximum to leading order
     θ⁶/55296 and is slightly above it for larger sweeps (2.72567e-4 against the measured
-    2.72530e-4 at θ = π/2), so it is a guaranteed bound. An affine map with largest singular value ``s`` moves the curve at
-    most ``s·e(θ)`` from the image ellipse, and ``s`` is the ellipse's larger radius, so the
+    2.72530e-4 at θ = π/2); the tests check it stays above the measured maximum for sweeps up
+    to π/2, which is all this module uses. An affine map with largest singular value ``s``
+    moves the curve at most ``s·e(θ)`` from the image ellipse, and ``s`` is the ellipse's larger radius, so the
     bound holds for ellipses relative to max(rx, ry).
     """
     q = abs(sweep) / 4.0

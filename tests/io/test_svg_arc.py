@@ -57,7 +57,7 @@ def test_piece_error_formula_matches_the_measured_radial_error():
     # radial error ≈ θ⁶/55296; our bound (2/27)·sin⁶(θ/4)/cos²(θ/4) is that to leading order
     # and never below the measured error. For θ = π/2 the measured error is the well-known
     # 2.7253e-4, the commonly quoted 0.027 % (common practice, no source).
-    for theta in (0.2, 0.5, 1.0, math.pi / 2):
+    for theta in [*np.linspace(0.05, math.pi / 2, 12).tolist(), math.pi / 2]:
         h = 4 / 3 * math.tan(theta / 4)
         pts = np.array(
             [
