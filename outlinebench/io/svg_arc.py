@@ -47,8 +47,8 @@ def arc_piece_error(sweep: float) -> float:
     θ⁶/55296 and is slightly above it for larger sweeps (2.72567e-4 against the measured
     2.72530e-4 at θ = π/2); the tests check it stays above the measured maximum for sweeps up
     to π/2, which is all this module uses. An affine map with largest singular value ``s``
-    moves the curve at most ``s·e(θ)`` from the image ellipse, and ``s`` is the ellipse's larger radius, so the
-    bound holds for ellipses relative to max(rx, ry).
+    moves the curve at most ``s·e(θ)`` from the image ellipse, and ``s`` is the ellipse's
+    larger radius, so the bound holds for ellipses relative to max(rx, ry).
     """
     q = abs(sweep) / 4.0
     return (2.0 / 27.0) * math.sin(q) ** 6 / math.cos(q) ** 2
