@@ -499,9 +499,11 @@ def write_svg(document: Document, path: str | os.PathLike[str] | None = None) ->
     data = svg_bytes(document)
     mode = None
     if target.exists():
-        if not os.access(target, os.W_OK):
-            raise SvgWriteError(f"{target}: the file is read-only; it was not replaced")
         mode = target.stat().st_mode & 0o7777
+        # Permission bits too, not only os.access: an administrator could write anyway, but
+        # a file marked read-only is not meant to be replaced.
+        if not os.access(target, os.W_OK) or not mode & 0o222:
+            raise SvgWriteError(f"{target}: the file is read-only; it was not replaced")
     directory = target.parent if str(target.parent) else Path(".")
     try:
         fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)

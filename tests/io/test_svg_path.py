@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 import svgelements
 import svgpathtools
-from hypothesis import given
+from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.integrate import quad
 
@@ -284,11 +284,13 @@ def test_random_valid_data_matches_svgpathtools(d):
         np.testing.assert_allclose(a, b, rtol=1e-12, atol=1e-9)
 
 
+@settings(max_examples=25)
 @given(path_strings(arcs=True))
-def test_random_data_with_arcs_has_svgelements_length(d):
-    # Arc lengths: svgelements integrates the true ellipse arc; ours are cubics within
+def test_random_data_with_arcs_has_svgpathtools_length(d):
+    # Arc lengths: svgpathtools integrates the true ellipse arc; ours are cubics within
     # 1e-7 of the radius (radii here are at most ~250, so 1e-4 absolute covers it).
-    ref = svgelements.Path(d).length(error=1e-10)
+    # (svgpathtools rather than svgelements: see the note on S/T reflection above.)
+    ref = svgpathtools.parse_path(d).length(error=1e-9)
     assert length(parse_path_data(d)) == pytest.approx(ref, rel=1e-6, abs=1e-4)
 
 

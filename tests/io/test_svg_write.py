@@ -1,0 +1,231 @@
+"""Tests of outlinebench/io/svg_write.py: write-back, round trips, atomic saving, cut files."""
+
+import os
+import stat
+import xml.etree.ElementTree as ET
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
+from outlinebench.errors import SvgWriteError
+from outlinebench.io import polylines_svg, read_svg, svg_bytes, write_svg
+from outlinebench.io import svg_write as svg_write_module
+from outlinebench.model.document import Contour, Document, Outline, documents_equal
+
+DATA = Path(__file__).resolve().parents[1] / "data" / "svg"
+FILES = sorted(DATA.glob("*.svg"))
+
+
+def moved(contour, dx=0.125, joins=None):
+    return Contour.from_points(
+        [np.asarray(s) + [dx, 0.0] for s in contour.segments],
+        closed=contour.closed,
+        joins=joins if joins is not None else contour.joins,
+    )
+
+
+@pytest.mark.parametrize("path", FILES, ids=lambda p: p.name)
+def test_untouched_documents_are_written_byte_for_byte(path):
+    doc = read_svg(path).document
+    assert svg_bytes(doc) == path.read_bytes()
+
+
+@pytest.mark.parametrize("path", FILES, ids=lambda p: p.name)
+def test_edited_round_trip_is_bit_identical(path, tmp_path):
+    # read → edit every outline without a transform → write → read: same floats, same joins
+    # (the writer's shortest round-trip digits; documents_equal compares bit for bit).
+    res = read_svg(path)
+    doc = res.document
+    for i, o in enumerate(doc.outlines):
+        if o.source.use is None and np.array_equal(o.transform, np.eye(3)):
+            for k, c in enumerate(o.contours):
+                doc = doc.replace_contour(i, k, moved(c))
+    target = tmp_path / path.name
+    write_svg(doc, target)
+    again = read_svg(target).document
+    expected = replace(
+        doc,
+        outlines=tuple(
+            replace(o, tag="path") if o.contours is not orig.contours else o
+            for o, orig in zip(doc.outlines, res.document.outlines, strict=True)
+        ),
+        source=None,
+    )
+    for a, b in zip(expected.outlines, again.outlines, strict=True):
+        assert a.element_id == b.element_id
+        assert len(a.contours) == len(b.contours)
+        for x, y in zip(a.contours, b.contours, strict=True):
+            assert x.joins == y.joins and x.closed == y.closed
+            for s, t in zip(x.segments, y.segments, strict=True):
+                assert np.array_equal(s, t)
+    assert documents_equal(read_svg(target).document, again)
+
+
+def test_everything_else_survives_an_edit():
+    path = DATA / "harbour_lane_sign.svg"
+    doc = read_svg(path).document
+    board = doc.outlines[0]
+    assert board.tag == "rect"
+    doc = doc.replace_contour(0, 0, moved(board.contours[0]))
+    out = svg_bytes(doc).decode()
+    original = path.read_text()
+    # The rect became a path with its id, class and foreign attribute; its geometry
+    # attributes are gone.
+    assert '<path id="board" class="cut" hl:layer="outer" d="M' in out
+    assert 'rx="12"' not in out
+    # Every other line is untouched: comments, doctype, text, image, style, hidden path.
+    changed = [a for a, b in zip(original.splitlines(), out.splitlines(), strict=True) if a != b]
+    assert len(changed) == 1 and "board" in changed[0]
+
+
+def test_shape_with_an_end_tag_becomes_a_path():
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg"><!-- keep -->'
+        b'<circle id="c" cx="0" cy="0" r="1" fill="red"><title>dot</title></circle></svg>'
+    )
+    doc = read_svg(data).document
+    doc = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+    out = svg_bytes(doc)
+    root = ET.fromstring(out)
+    (el,) = [e for e in root if e.tag.endswith("path")]
+    assert el.get("id") == "c" and el.get("fill") == "red" and el.get("r") is None
+    assert el[0].text == "dot" and b"<!-- keep -->" in out
+
+
+def test_join_intent_round_trip_and_namespace_declaration():
+    data = b'<svg xmlns="http://www.w3.org/2000/svg"><path d="M0 0 L1 0 L1 1 L0 1 Z"/></svg>'
+    doc = read_svg(data).document
+    c = doc.outlines[0].contours[0]
+    doc = doc.replace_contour(0, 0, Contour(c.segments, c.closed, ("smooth", None, "corner", None)))
+    out = svg_bytes(doc)
+    assert b'xmlns:ob="urn:outlinebench:join-intent"' in out
+    assert b'ob:joins="s-c-"' in out
+    assert b'd="M0 0 L1 0 L1 1 L0 1 Z"' in out  # only the joins changed: d kept as written
+    back = read_svg(out).document
+    assert back.outlines[0].contours[0].joins == ("smooth", None, "corner", None)
+
+
+def test_new_outlines_are_added():
+    data = b'<svg xmlns="http://www.w3.org/2000/svg"/>'
+    doc = read_svg(data).document
+    new = Outline((Contour.from_points([[[0, 0], [1, 2]], [[1, 2], [3, 0]]]),), element_id="n")
+    doc = replace(doc, outlines=(new,))
+    back = read_svg(svg_bytes(doc)).document
+    assert back.outlines[0].element_id == "n"
+    assert back.outlines[0].contours[0].segments[1].tolist() == [[1, 2], [3, 0]]
+
+
+def test_edits_under_a_transform_go_back_to_element_coordinates():
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg"><g transform="rotate(33) scale(-1.1 0.7)">'
+        b'<path id="t" d="M0 0 C1 2 3 4 5 6"/></g></svg>'
+    )
+    doc = read_svg(data).document
+    doc = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0], 0.3))
+    back = read_svg(svg_bytes(doc)).document
+    # Inverse transform, then the reader's forward transform: equal to ~1e-15 relative (the
+    # writer searches nearby floats; bit equality is not always reachable under rotation).
+    np.testing.assert_allclose(
+        back.outlines[0].contours[0].segments[0],
+        doc.outlines[0].contours[0].segments[0],
+        rtol=0,
+        atol=1e-13,
+    )
+
+
+def test_fresh_document_gets_a_minimal_root():
+    c = Contour.from_points(
+        [[[0, 0], [10, 0]], [[10, 0], [10, 5], [0, 5]], [[0, 5], [0, 0]]], closed=True
+    )
+    doc = Document(
+        (Outline((c,)),),
+        width_mm=20.0,
+        height_mm=10.0,
+        view_box=(0, 0, 20, 10),
+        mm_per_unit=1.0,
+        units="mm",
+    )
+    out = svg_bytes(doc)
+    back = read_svg(out).document
+    assert back.width_mm == 20 and back.mm_per_unit == 1.0
+    for s, t in zip(c.segments, back.outlines[0].contours[0].segments, strict=True):
+        assert np.array_equal(s, t)
+
+
+def test_edit_of_a_use_instance_is_refused_with_a_message():
+    doc = read_svg(DATA / "harbour_lane_sign.svg").document
+    i = [o.element_id for o in doc.outlines].index("wave2")
+    doc = doc.replace_contour(i, 0, moved(doc.outlines[i].contours[0]))
+    with pytest.raises(SvgWriteError, match="instance of <use"):
+        svg_bytes(doc)
+
+
+# -- atomic saving ------------------------------------------------------------------------
+def _edited(path):
+    doc = read_svg(path).document
+    return doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+
+
+def test_failed_write_leaves_the_old_file(tmp_path, monkeypatch):
+    target = tmp_path / "bracket.svg"
+    target.write_bytes((DATA / "kestrel_bracket.svg").read_bytes())
+    before = target.read_bytes()
+    doc = _edited(target)
+
+    def half_then_fail(fh, data):
+        fh.write(data[: len(data) // 2])
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(svg_write_module, "_write_all", half_then_fail)
+    with pytest.raises(SvgWriteError, match="old file is unchanged"):
+        write_svg(doc, target)
+    assert target.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["bracket.svg"]  # no temp left
+    monkeypatch.undo()
+    write_svg(doc, target)
+    assert target.read_bytes() != before
+    assert documents_equal(read_svg(target).document, read_svg(svg_bytes(doc)).document)
+
+
+@pytest.mark.skipif(os.name != "posix", reason="POSIX permission bits")
+def test_read_only_target_is_refused(tmp_path):
+    target = tmp_path / "locked.svg"
+    target.write_bytes((DATA / "kestrel_bracket.svg").read_bytes())
+    target.chmod(stat.S_IRUSR)
+    doc = _edited(target)
+    with pytest.raises(SvgWriteError, match="read-only"):
+        write_svg(doc, target)
+    assert target.read_bytes() == (DATA / "kestrel_bracket.svg").read_bytes()
+
+
+def test_no_target_name():
+    with pytest.raises(SvgWriteError, match="no file name"):
+        write_svg(Document())
+
+
+# -- cut files ------------------------------------------------------------------------------
+def test_polylines_carry_the_caution_and_read_back_in_mm():
+    pts = [np.array([[0, 0], [10, 0], [10, 5]]), np.array([[1, 1], [2, 2], [3, 1]])]
+    out = polylines_svg(
+        pts, width_mm=30, height_mm=20, comment="tolerance 0.01 mm", closed=[True, False]
+    )
+    text = out.decode()
+    assert "verify these toolpaths in the machine's own preview" in text
+    assert "shop safety rules and local codes" in text
+    doc = read_svg(out).document
+    assert doc.width_mm == 30 and doc.mm_per_unit == 1.0
+    assert doc.outlines[0].contours[0].closed and not doc.outlines[1].contours[0].closed
+    assert doc.outlines[1].contours[0].segments[1].tolist() == [[2, 2], [3, 1]]
+
+
+@given(st.lists(st.tuples(st.floats(-1e4, 1e4), st.floats(-1e4, 1e4)), min_size=2, max_size=8))
+def test_polyline_points_round_trip_exactly(points):
+    out = polylines_svg([points], width_mm=10, height_mm=10)
+    doc = read_svg(out).document
+    segs = doc.outlines[0].contours[0].segments
+    got = [segs[0][0].tolist()] + [s[1].tolist() for s in segs]
+    assert got == [[x + 0.0, y + 0.0] for x, y in points]
