@@ -17,7 +17,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import as_batch, normalized
 from outlinebench.geometry.curvature import power_coefficients
-from outlinebench.geometry.quadrature import GAUSS_ORDER, integrate_intervals
+from outlinebench.geometry.quadrature import integrate_intervals
 
 __all__ = [
     "ARC_LENGTH_TOLERANCE",
@@ -53,25 +53,55 @@ def _horner(coeffs: FloatArray, t: FloatArray) -> FloatArray:
     return v
 
 
-def _speed_function(hodo: FloatArray, curve_of: NDArray[np.intp]):
-    """Vectorised |B′| for the engine: ``f(owners, t)`` with owners indexing queries."""
-    k = hodo.shape[1]
+def _taylor_shift(coeffs: FloatArray, center: FloatArray) -> FloatArray:
+    """Coefficients in powers of (t − center) of per-curve polynomials ``(M, k, …)``.
+
+    Repeated synthetic division (Horner's scheme for the Taylor shift; Knuth, *TAOCP* vol. 2,
+    §4.6.4).
+    """
+    c = coeffs.copy()
+    k = c.shape[1]
+    x = center.reshape((-1,) + (1,) * (c.ndim - 2))
+    for i in range(k - 1):
+        for j in range(k - 2, i - 1, -1):
+            c[:, j] += x * c[:, j + 1]
+    return c
+
+
+def _square(b: FloatArray) -> FloatArray:
+    """Coefficients of |B′|² from those of B′ (``(M, k, 2)`` → ``(M, 2k − 1)``)."""
+    k = b.shape[1]
+    sq = np.zeros((b.shape[0], 2 * k - 1))
+    for i in range(k):
+        for j in range(k):
+            sq[:, i + j] += b[:, i, 0] * b[:, j, 0] + b[:, i, 1] * b[:, j, 1]
+    return sq
+
+
+def _speed_function(hodo: FloatArray, curve_of: NDArray[np.intp], center: FloatArray):
+    """Vectorised |B′| for the engine: ``f(owners, t)`` with owners indexing queries.
+
+    |B′|² is expanded once per curve as a polynomial in u = t − center of degree 2(n − 1)
+    (a quartic for a cubic), so each node costs one Horner pass and a square root. The
+    centre is the parameter of the smallest speed: there the constant term |B′(center)|² is
+    computed directly from B′, and the other terms are small, so the expansion does not
+    cancel where the speed is tiny (near a cusp); elsewhere the speed is large and the
+    relative rounding stays ~eps. Rounding below zero is clipped.
+    """
+    sq = _square(_taylor_shift(hodo, center))
+    deg = sq.shape[1] - 1
 
     def speed(owners, t):
-        c = hodo[curve_of[owners]]  # (N, k, 2)
-        vx = c[:, k - 1, 0, None] * t
-        vy = c[:, k - 1, 1, None] * t
-        for j in range(k - 2, 0, -1):
-            vx += c[:, j, 0, None]
-            vx *= t
-            vy += c[:, j, 1, None]
-            vy *= t
-        vx += c[:, 0, 0, None]
-        vy += c[:, 0, 1, None]
-        vx *= vx
-        vy *= vy
-        vx += vy
-        return np.sqrt(vx, out=vx)
+        idx = curve_of[owners]
+        c = sq[idx]  # (N, 2k − 1)
+        u = t - center[idx, None]
+        v = c[:, deg, None] * u
+        for j in range(deg - 1, 0, -1):
+            v += c[:, j, None]
+            v *= u
+        v += c[:, 0, None]
+        np.maximum(v, 0.0, out=v)
+        return np.sqrt(v, out=v)
 
     return speed
 
@@ -88,42 +118,41 @@ def _speed_minimum(hodo: FloatArray) -> tuple[FloatArray, FloatArray]:
 
     Notes
     -----
-    Grid search on 17 points, then Newton's method on g = B′·B″ (half the derivative of
-    |B′|²) with g′ = |B″|² + B′·B‴, kept inside [0, 1].
+    Grid search on 17 points, then Newton's method on the derivative of |B′|² (that is,
+    2 B′·B″ = 0), kept inside [0, 1].
     """
     m, k, _ = hodo.shape
-    grid = np.linspace(0.0, 1.0, 17)
-    tg = np.broadcast_to(grid, (m, grid.size))
-    vx, vy = _horner(hodo[..., 0], tg), _horner(hodo[..., 1], tg)
-    t = grid[np.argmin(vx * vx + vy * vy, axis=1)]
     if k < 2:
-        return t, np.full(m, np.inf)
-    d2 = hodo[:, 1:, :] * np.arange(1, k)[None, :, None]
-    d3 = d2[:, 1:, :] * np.arange(1, k - 1)[None, :, None] if k > 2 else np.zeros((m, 1, 2))
-
-    def at(c, tt):
-        return np.stack([_horner(c[..., j], tt[:, None])[:, 0] for j in (0, 1)], axis=-1)
-
+        return np.zeros(m), np.full(m, np.inf)
+    sq = _square(hodo)  # |B′|² in powers of t, (M, 2k − 1)
+    d1 = sq[:, 1:] * np.arange(1, sq.shape[1])  # its derivative
+    d2 = d1[:, 1:] * np.arange(1, d1.shape[1])
+    grid = np.linspace(0.0, 1.0, 17)
+    t = grid[np.argmin(_horner(sq, np.broadcast_to(grid, (m, grid.size))), axis=1)]
     for _ in range(8):
-        b1, b2, b3 = at(hodo, t), at(d2, t), at(d3, t)
-        g = np.sum(b1 * b2, axis=-1)
-        gp = np.sum(b2 * b2, axis=-1) + np.sum(b1 * b3, axis=-1)
+        tc = t[:, None]
+        g = _horner(d1, tc)[:, 0]
+        gp = _horner(d2, tc)[:, 0]
         with np.errstate(divide="ignore", invalid="ignore"):
             step = np.where(gp > 0.0, g / np.where(gp > 0.0, gp, 1.0), 0.0)
         t = np.clip(t - step, 0.0, 1.0)
-    n1 = np.linalg.norm(at(hodo, t), axis=-1)
-    n2 = np.linalg.norm(at(d2, t), axis=-1)
+    b = _taylor_shift(hodo, t)  # B′(t + u) = b0 + b1 u + …, b0 computed at t directly
+    n1 = np.hypot(b[:, 0, 0], b[:, 0, 1])
+    n2 = np.hypot(b[:, 1, 0], b[:, 1, 1])
     with np.errstate(divide="ignore", invalid="ignore"):
         width = np.where(n2 > 0.0, n1 / np.where(n2 > 0.0, n2, 1.0), np.inf)
     return t, width
 
 
 # Break points around a dip of the speed sit at tmin ± width·GRADING^j: each interval is then
-# about GRADING − 1 times as wide as its distance from the singularity tmin ± i·width, where
-# 16-point Gauss–Legendre converges like ρ^(−32) with ρ ≈ 3 (Bernstein ellipse; Trefethen,
-# "Is Gauss quadrature better than Clenshaw–Curtis?", SIAM Review 50, 2008).
-_GRADING = 4.0
-_GRADED_LEVELS = 27  # 4^27 ≈ 1.8e16: reaches from a width of 1e-16 up to 1
+# at most GRADING − 1 times as wide as its distance from the singularities tmin ± i·width, so
+# the quadrature nodes see the dip at every scale and converge geometrically (Bernstein
+# ellipse ρ ≈ 2 for ratio 7; Trefethen, "Is Gauss quadrature better than Clenshaw–Curtis?",
+# SIAM Review 50, 2008); where that is not yet enough, adaptive halving finishes. 8 needed
+# the fewest integrand values on the benchmark's near-cusp set (4 and 2 were 1.4× and 2.5×
+# more) at the same accuracy.
+_GRADING = 8.0
+_GRADED_LEVELS = 18  # 8^18 ≈ 1.8e16: reaches from a width of 1e-16 up to 1
 # Dips wider than this are left to plain bisection; narrower than _MIN_WIDTH the speed is
 # |t − tmin|·(smooth) to float64 resolution and a single cut at tmin suffices.
 _MAX_WIDTH = 0.05
@@ -179,7 +208,7 @@ def _lengths(
     lo, hi = np.minimum(t0, t1), np.maximum(t0, t1)
     owners, a, b = _start_intervals(lo, hi, tmin[curve_of], width[curve_of])
     values, errors = integrate_intervals(
-        _speed_function(hodo, curve_of), owners, a, b, n, tolerance=tolerance, order=GAUSS_ORDER
+        _speed_function(hodo, curve_of, tmin), owners, a, b, n, tolerance=tolerance
     )
     return values, errors
 
@@ -205,13 +234,14 @@ def arc_length(
 
     Notes
     -----
-    L = ∫₀¹ |B′(t)| dt. Lines: |P1 − P0|. Curves: 16-point Gauss–Legendre, adaptive
+    L = ∫₀¹ |B′(t)| dt. Lines: |P1 − P0|. Curves: 21-point Gauss–Kronrod with its embedded
+    10-point Gauss–Legendre rule, adaptive
     (:func:`~outlinebench.geometry.quadrature.integrate_intervals`) over all segments of a
     batch at once. Each segment is first cut where its speed |B′| is smallest (Newton's
     method on B′·B″ = 0). Near a cusp the speed has a narrow dip of width
     w = |B′|/|B″| there (complex singularities at tmin ± iw); the cuts are then graded,
-    tmin ± w·4ʲ, so every interval is a few times wider than its distance from the
-    singularity and Gauss–Legendre converges fast on it (Trefethen, SIAM Review 50, 2008).
+    tmin ± w·8ʲ, so every interval is at most 7 times wider than its distance from the
+    singularity and the rule converges geometrically on it (Trefethen, SIAM Review 50, 2008).
     Without the grading the nodes step over a dip narrower than their spacing and the error
     estimate cannot see what is missed. Further cuts halve only the unconverged intervals.
     The points are moved to P0 and scaled to unit size first, so

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 import scipy.special
 
-from outlinebench.geometry.quadrature import gauss_legendre, integrate_intervals
+from outlinebench.geometry.quadrature import gauss_kronrod, gauss_legendre, integrate_intervals
 
 
 def test_two_point_rule_matches_abramowitz_stegun():
@@ -80,3 +80,29 @@ def test_zero_integrand_and_round_limit():
     )
     assert errors[0] > 0.0
     assert values[0] == pytest.approx(5 / 18, rel=1e-3)  # ∫₀¹ |x − ⅓| = 1/18 + 4/18
+
+
+def test_kronrod_21_matches_quadpack_table():
+    # QUADPACK QK21 (Piessens et al. 1983) on [−1, 1]: outermost node 0.995657163025808080735,
+    # its weight 0.011694638867371874278, centre weight 0.149445554002916905664; mapped to
+    # [0, 1] the nodes become (x + 1)/2 and the weights halve.
+    x, wk, wg = gauss_kronrod(10)
+    assert x.shape == wk.shape == wg.shape == (21,)
+    assert x[-1] == pytest.approx((1 + 0.995657163025808080735) / 2, abs=1e-15)
+    assert wk[-1] == pytest.approx(0.011694638867371874278 / 2, rel=1e-13)
+    assert wk[10] == pytest.approx(0.149445554002916905664 / 2, rel=1e-13)
+    # The embedded rule is 10-point Gauss–Legendre (A&S Table 25.4: weights 0.2955242247…).
+    xs, ws = scipy.special.roots_legendre(10)
+    np.testing.assert_allclose(x[wg > 0], (xs + 1) / 2, atol=1e-15)
+    np.testing.assert_allclose(wg[wg > 0], ws / 2, atol=1e-15)
+    assert np.count_nonzero(wg) == 10
+
+
+@pytest.mark.parametrize("n", [3, 7, 10])
+def test_kronrod_exact_for_degree_3n_plus_1(n):
+    # Kronrod extension of n-point Gauss is exact for degree ≤ 3n + 1 (Laurie 1997).
+    x, wk, wg = gauss_kronrod(n)
+    for d in range(3 * n + 2):
+        assert wk @ x**d == pytest.approx(1 / (d + 1), rel=2e-14), d
+    for d in range(2 * n):
+        assert wg @ x**d == pytest.approx(1 / (d + 1), rel=1e-13), d
