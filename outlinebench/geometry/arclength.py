@@ -47,9 +47,14 @@ _MAX_NEWTON = 60
 
 def _horner(coeffs: FloatArray, t: FloatArray) -> FloatArray:
     """Σ c_j tʲ for per-row coefficients ``(N, k)`` at per-row points ``(N, m)``."""
-    v = np.broadcast_to(coeffs[:, -1, None], t.shape)
-    for j in range(coeffs.shape[1] - 2, -1, -1):
-        v = v * t + coeffs[:, j, None]
+    k = coeffs.shape[1]
+    if k == 1:
+        return np.zeros(t.shape) + coeffs[:, :1]
+    v = coeffs[:, -1, None] * t
+    v += coeffs[:, -2, None]
+    for j in range(k - 3, -1, -1):
+        v *= t
+        v += coeffs[:, j, None]
     return v
 
 
@@ -135,7 +140,10 @@ def _speed_minimum(hodo: FloatArray) -> tuple[FloatArray, FloatArray]:
         gp = _horner(d2, tc)[:, 0]
         with np.errstate(divide="ignore", invalid="ignore"):
             step = np.where(gp > 0.0, g / np.where(gp > 0.0, gp, 1.0), 0.0)
-        t = np.clip(t - step, 0.0, 1.0)
+        t_new = np.clip(t - step, 0.0, 1.0)
+        if np.array_equal(t_new, t):
+            break
+        t = t_new
     b = _taylor_shift(hodo, t)  # B′(t + u) = b0 + b1 u + …, b0 computed at t directly
     n1 = np.hypot(b[:, 0, 0], b[:, 0, 1])
     n2 = np.hypot(b[:, 1, 0], b[:, 1, 1])

@@ -218,6 +218,11 @@ def intersections(
     if a.shape[0] == 2 and b.shape[0] == 2:
         return line_intersection(a, b, tolerance)
     both = np.concatenate([a, b])
+    slack = tolerance * float(np.ptp(both, axis=0).max())
+    if np.any(a.min(axis=0) > b.max(axis=0) + slack) or np.any(
+        b.min(axis=0) > a.max(axis=0) + slack
+    ):
+        return np.empty((0, 2))  # control-point boxes apart: the segments cannot meet
     origin = both.min(axis=0)
     size = float(segment_scale(both[None])[0])
     if size == 0.0:
@@ -339,13 +344,9 @@ def self_intersections(points: ArrayLike, tolerance: float = INTERSECTION_TOLERA
         return np.empty((0, 2))
     r = np.sqrt(disc)
     t1, t2 = (sigma - r) / 2.0, (sigma + r) / 2.0
-    if t2 - t1 <= tolerance:
+    if t2 - t1 <= tolerance or t1 < -tolerance or t2 > 1.0 + tolerance:
         return np.empty((0, 2))
-    s, u = _newton(q, q, np.array([t1]), np.array([t2]), iterations=8)
-    if not (0.0 <= t1 and t2 <= 1.0):
-        # Outside the segment before polishing can only come closer by clipping: recheck.
-        if not (-tolerance <= t1 and t2 <= 1.0 + tolerance):
-            return np.empty((0, 2))
+    s, u = _newton(q, q, np.array([max(t1, 0.0)]), np.array([min(t2, 1.0)]), iterations=8)
     s, u = float(s[0]), float(u[0])
     if u - s <= tolerance:
         return np.empty((0, 2))
