@@ -16,7 +16,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import as_batch, normalized
-from outlinebench.geometry.curvature import power_coefficients
+from outlinebench.geometry.bezier import power_coefficients
 from outlinebench.geometry.quadrature import integrate_intervals
 
 __all__ = [

@@ -33,6 +33,7 @@ __all__ = [
     "elevate",
     "to_cubic",
     "bernstein_matrix",
+    "power_coefficients",
 ]
 
 KIND_BY_DEGREE = {1: "line", 2: "quad", 3: "cubic"}
@@ -295,3 +296,21 @@ def to_cubic(points: FloatArray) -> FloatArray:
     while points.shape[-2] < 4:
         points = elevate(points)
     return points
+
+
+def power_coefficients(points: ArrayLike) -> FloatArray:
+    """Coefficients c_k of B(t) = Σ c_k t^k, shape (K, 2) (or (M, K, 2)), lowest power first.
+
+    Notes
+    -----
+    c_k = C(n, k) Σ_{i=0}^{k} (−1)^{k−i} C(k, i) P_i (Farin §4.7, Bernstein to monomial).
+    """
+    from math import comb
+
+    pts = np.asarray(points, dtype=np.float64)
+    n = pts.shape[-2] - 1
+    m = np.zeros((n + 1, n + 1))
+    for k in range(n + 1):
+        for i in range(k + 1):
+            m[k, i] = comb(n, k) * (-1) ** (k - i) * comb(k, i)
+    return np.einsum("ki,...ij->...kj", m, pts)

@@ -23,7 +23,7 @@ from numpy.polynomial import polynomial as P
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import as_batch, as_params, normalized, unbatch
-from outlinebench.geometry.bezier import derivative, evaluate
+from outlinebench.geometry.bezier import derivative, evaluate, power_coefficients
 
 __all__ = [
     "ZERO_DERIVATIVE_TOLERANCE",
@@ -35,7 +35,6 @@ __all__ = [
     "end_curvatures",
     "inflections",
     "cusps",
-    "power_coefficients",
 ]
 
 FloatArray = NDArray[np.float64]
@@ -267,24 +266,6 @@ def end_curvatures(points: ArrayLike) -> tuple[FloatArray | float, FloatArray | 
     if np.ndim(k0) == 0:
         return float(k0), float(k1)
     return k0, k1
-
-
-def power_coefficients(points: ArrayLike) -> FloatArray:
-    """Coefficients c_k of B(t) = Σ c_k t^k, shape (K, 2) (or (M, K, 2)), lowest power first.
-
-    Notes
-    -----
-    c_k = C(n, k) Σ_{i=0}^{k} (−1)^{k−i} C(k, i) P_i (Farin §4.7, Bernstein to monomial).
-    """
-    from math import comb
-
-    pts = np.asarray(points, dtype=np.float64)
-    n = pts.shape[-2] - 1
-    m = np.zeros((n + 1, n + 1))
-    for k in range(n + 1):
-        for i in range(k + 1):
-            m[k, i] = comb(n, k) * (-1) ** (k - i) * comb(k, i)
-    return np.einsum("ki,...ij->...kj", m, pts)
 
 
 def _real_roots_in(coeffs: FloatArray, lo: float, hi: float, imag_tol: float = 1e-9) -> FloatArray:

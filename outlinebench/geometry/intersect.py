@@ -16,8 +16,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import segment_scale
-from outlinebench.geometry.bezier import derivative, evaluate, split
-from outlinebench.geometry.curvature import power_coefficients
+from outlinebench.geometry.bezier import derivative, evaluate, power_coefficients, split
 
 __all__ = [
     "INTERSECTION_TOLERANCE",

@@ -15,8 +15,7 @@ from numpy.polynomial import polynomial as P
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import segment_scale
-from outlinebench.geometry.bezier import evaluate
-from outlinebench.geometry.curvature import power_coefficients
+from outlinebench.geometry.bezier import evaluate, power_coefficients
 
 __all__ = ["nearest_point", "distance_to"]
 

@@ -201,3 +201,19 @@ def test_extreme_coordinates_stay_finite(scale):
     left, right = split(p, 0.5)
     np.testing.assert_allclose(left[-1], evaluate(p, 0.5), rtol=1e-15)
     np.testing.assert_allclose(evaluate(elevate(p), 0.3), evaluate(p, 0.3), rtol=1e-14)
+
+
+def test_power_coefficients_reproduce_the_curve():
+    # Σ c_k t^k (numpy polyval, monomial form) equals the Bernstein form (Farin §4.7);
+    # for the parabola cubic, y(t) = t² exactly: coefficients (0, 0, 1, 0).
+    from numpy.polynomial import polynomial as P
+
+    from outlinebench.geometry.bezier import power_coefficients
+
+    ts = np.linspace(0, 1, 11)
+    for p in mixed_cubics(2):
+        c = power_coefficients(p)
+        np.testing.assert_allclose(P.polyval(ts, c).T, evaluate(p, ts), atol=1e-12)
+    par = np.array([[0.0, 0.0], [1 / 3, 0.0], [2 / 3, 1 / 3], [1.0, 1.0]])
+    np.testing.assert_allclose(power_coefficients(par)[:, 1], [0, 0, 1, 0], atol=1e-15)
+    assert power_coefficients(random_cubics(3)).shape == (3, 4, 2)
