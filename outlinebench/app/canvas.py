@@ -13,6 +13,7 @@ from PySide6.QtGui import (
     QKeyEvent,
     QMouseEvent,
     QPainter,
+    QPainterPath,
     QPaintEvent,
     QPen,
     QResizeEvent,
@@ -128,42 +129,63 @@ class Canvas(QWidget):
             p.end()
 
     def _paint_tool_overlay(self, p: QPainter) -> None:
-        overlay = self._editor.overlay()
-        if overlay is None:
+        ov = self._editor.overlay()
+        if ov is None:
             return
-        band = overlay.get("band")
-        if band is not None:
-            x0, y0, x1, y1 = band
-            a = self.to_screen(x0, y0)
-            b = self.to_screen(x1, y1)
-            pen = QPen(style.BAND_EDGE, 1.0, Qt.PenStyle.DashLine)
-            p.setPen(pen)
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        if ov.rubber_band is not None:
+            x0, y0, x1, y1 = ov.rubber_band
+            p.setPen(QPen(style.BAND_EDGE, 1.0, Qt.PenStyle.DashLine))
             p.setBrush(style.BAND_FILL)
-            p.drawRect(QRectF(a, b).normalized())
-        draft = overlay.get("draft")
-        if draft:
-            p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-            pen = QPen(style.DRAFT, 1.6)
-            p.setPen(pen)
+            p.drawRect(QRectF(self.to_screen(x0, y0), self.to_screen(x1, y1)).normalized())
+        hit = ov.segment_hit
+        if hit is not None:
+            # Where the new point would go: a plus inside a ring, in the draft colour.
+            c = self.to_screen(*hit.point)
+            seg = self.document.outlines[hit.outline].contours[hit.contour].segments[hit.segment]
+            p.setPen(QPen(style.DRAFT, 2.4))
             p.setBrush(Qt.BrushStyle.NoBrush)
-            for seg in draft:
-                pts = [self.to_screen(float(x), float(y)) for x, y in seg]
-                if len(pts) == 4:
-                    from PySide6.QtGui import QPainterPath
-
-                    path = QPainterPath(pts[0])
-                    path.cubicTo(pts[1], pts[2], pts[3])
-                    p.drawPath(path)
-                    p.setPen(QPen(style.DRAFT, 0.8, Qt.PenStyle.DotLine))
-                    p.drawLine(pts[0], pts[1])
-                    p.drawLine(pts[3], pts[2])
-                    p.setPen(pen)
-                else:
-                    p.drawLine(pts[0], pts[-1])
-        for x, y in overlay.get("draft_points", ()):
-            p.setPen(QPen(style.DRAFT, 1.4))
+            p.drawPath(self._screen_path(seg))
+            p.setPen(QPen(style.DRAFT, 1.6))
             p.setBrush(style.PAPER)
-            p.drawEllipse(self.to_screen(float(x), float(y)), 4.0, 4.0)
+            p.drawEllipse(c, 6.0, 6.0)
+            p.drawLine(c + QPointF(-3.5, 0), c + QPointF(3.5, 0))
+            p.drawLine(c + QPointF(0, -3.5), c + QPointF(0, 3.5))
+        draft_pen = QPen(style.DRAFT, 1.6)
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        p.setPen(draft_pen)
+        for seg in ov.draft_segments:
+            p.drawPath(self._screen_path(seg))
+        if ov.draft_to_pointer is not None:
+            p.setPen(QPen(style.DRAFT, 1.0, Qt.PenStyle.DashLine))
+            p.drawPath(self._screen_path(ov.draft_to_pointer))
+        p.setPen(QPen(style.DRAFT, 1.0))
+        for (ax, ay), (bx, by) in ov.draft_handles:
+            a, b = self.to_screen(ax, ay), self.to_screen(bx, by)
+            p.drawLine(a, b)
+            p.setBrush(style.PAPER)
+            p.drawEllipse(b, style.HANDLE_RADIUS, style.HANDLE_RADIUS)
+            p.setBrush(Qt.BrushStyle.NoBrush)
+        p.setPen(QPen(style.DRAFT, 1.4))
+        p.setBrush(style.DRAFT)
+        for x, y in ov.draft_points:
+            p.drawEllipse(self.to_screen(x, y), 3.5, 3.5)
+        if ov.close_target and ov.draft_points:
+            # The pointer is on the first point: clicking closes the contour.
+            p.setPen(QPen(style.DRAFT, 2.0))
+            p.setBrush(Qt.BrushStyle.NoBrush)
+            p.drawEllipse(self.to_screen(*ov.draft_points[0]), 9.0, 9.0)
+
+    def _screen_path(self, seg) -> QPainterPath:
+        pts = [self.to_screen(float(x), float(y)) for x, y in seg]
+        path = QPainterPath(pts[0])
+        if len(pts) == 4:
+            path.cubicTo(pts[1], pts[2], pts[3])
+        elif len(pts) == 3:
+            path.quadTo(pts[1], pts[2])
+        else:
+            path.lineTo(pts[-1])
+        return path
 
     # -- navigation ---------------------------------------------------------------------
     def wheelEvent(self, event: QWheelEvent) -> None:  # noqa: N802 (Qt name)

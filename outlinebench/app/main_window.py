@@ -29,12 +29,22 @@ from outlinebench.app.settings import RecentFiles
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model.document import Document
 
-__all__ = ["MainWindow", "run_editor", "samples_dir", "NAVIGATION_HINT"]
+__all__ = ["MainWindow", "run_editor", "samples_dir", "new_document", "NAVIGATION_HINT"]
 
 NAVIGATION_HINT = (
     "Wheel: scroll · Shift+wheel: scroll sideways · Ctrl+wheel: zoom at pointer · "
     "Middle-drag or Space+drag: pan"
 )
+
+
+# A new drawing: a landscape A4 sheet in millimetres (ISO 216: 297 mm × 210 mm).
+NEW_PAGE_MM = (297.0, 210.0)
+
+
+def new_document() -> Document:
+    """An empty drawing on a landscape A4 page, one user unit per millimetre."""
+    w, h = NEW_PAGE_MM
+    return Document(width_mm=w, height_mm=h, view_box=(0.0, 0.0, w, h), mm_per_unit=1.0, units="mm")
 
 
 def samples_dir() -> Path | None:
@@ -95,7 +105,7 @@ class MainWindow(QMainWindow):
 
     def __init__(self, settings: QSettings | None = None) -> None:
         super().__init__()
-        self.session = EditorSession(Document())
+        self.session = EditorSession(new_document())
         self.path: str | None = None
         self._partial = False  # opened only the part of a file before a read error
         self.recent = RecentFiles(settings)

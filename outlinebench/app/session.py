@@ -19,6 +19,7 @@ from outlinebench.app import point_keys as pk
 from outlinebench.app.units import DisplayUnits, display_units
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model import commands as cmds
+from outlinebench.model import tools
 from outlinebench.model.document import Document
 from outlinebench.model.history import History
 
@@ -94,13 +95,29 @@ class EditorSession(QObject):
         super().__init__(parent)
         self.history = History(document)
         self.history.subscribe(self._on_history_changed)
-        self._selection: dict[pk.Key, None] = {}
-        self.primary: pk.Key | None = None
-        self.hover: pk.Key | None = None
-        self.tool_name = "select"
+        self.selection = tools.Selection()
+        self.selection.subscribe(self.selection_changed.emit)
         self._units = display_units(document)
-        self._gesture = None  # the active model tool (set up by set_tool)
+        self.tools: dict[str, tools.Tool] = {
+            "select": tools.SelectTool(self.history, self.selection),
+            "insert": tools.InsertPointTool(self.history, self.selection),
+            "draw": tools.DrawContourTool(self.history, self.selection),
+        }
+        self.tool_name = "select"
         self.set_tool("select")
+
+    @property
+    def tool(self) -> tools.Tool:
+        return self.tools[self.tool_name]
+
+    @property
+    def primary(self) -> pk.Key | None:
+        return self.selection.primary
+
+    @property
+    def hover(self) -> pk.Key | None:
+        tool = self.tool
+        return tool.hover if isinstance(tool, tools.SelectTool) else None
 
     # -- state --------------------------------------------------------------------------
     @property
@@ -139,48 +156,28 @@ class EditorSession(QObject):
         """Start over with another document (a file was opened)."""
         self._cancel_gesture()
         self._units = display_units(document)
-        self._selection.clear()
-        self.primary = None
-        self.hover = None
+        self.selection.clear()
+        self.tools["select"].hover = None
         self.history.reset(document)
-        self.selection_changed.emit()
 
     def _on_history_changed(self, old: Document, new: Document) -> None:
-        # Keep only selected points that still exist, under their canonical names.
-        kept: dict[pk.Key, None] = {}
-        for key in self._selection:
-            if pk.exists(new, key):
-                kept[tuple(cmds.canonical_ref(new, cmds.PointRef(*key)))] = None
-        sel_changed = list(kept) != list(self._selection)
-        self._selection = kept
-        if self.primary is not None and self.primary not in kept:
-            self.primary = next(reversed(kept), None) if kept else None
-            sel_changed = True
-        if self.hover is not None and not pk.exists(new, self.hover):
-            self.hover = None
+        # Selected points that no longer exist are dropped, the rest renamed canonically.
+        self.selection.prune(new)
+        select = self.tools["select"]
+        if select.hover is not None and not pk.exists(new, select.hover):
+            select.hover = None
         self.changed.emit()
-        if sel_changed:
-            self.selection_changed.emit()
 
     # -- selection ----------------------------------------------------------------------
     def selected_points(self) -> set[pk.Key]:
-        return set(self._selection)
-
-    def selection_order(self) -> list[pk.Key]:
-        return list(self._selection)
+        return set(self.selection.refs)
 
     def set_selection(self, keys: Iterable[pk.Key], primary: pk.Key | None = None) -> None:
         doc = self.document
-        new = {tuple(cmds.canonical_ref(doc, cmds.PointRef(*k))): None for k in keys}
+        refs = [cmds.canonical_ref(doc, cmds.PointRef(*k)) for k in keys]
         if primary is not None:
-            primary = tuple(cmds.canonical_ref(doc, cmds.PointRef(*primary)))
-        elif new:
-            primary = next(reversed(new))
-        if list(new) == list(self._selection) and primary == self.primary:
-            return
-        self._selection = new
-        self.primary = primary
-        self.selection_changed.emit()
+            primary = cmds.canonical_ref(doc, cmds.PointRef(*primary))
+        self.selection.set(refs, primary)
 
     def select_all(self) -> None:
         doc = self.document
@@ -193,13 +190,8 @@ class EditorSession(QObject):
         self.set_selection(keys)
         self.message.emit(f"{len(keys)} points selected")
 
-    def set_hover(self, key: pk.Key | None) -> None:
-        if key != self.hover:
-            self.hover = key
-            self.selection_changed.emit()
-
     def _selected_contours(self) -> list[tuple[int, int]]:
-        return sorted({(k[0], k[1]) for k in self._selection})
+        return sorted({(k[0], k[1]) for k in self.selection.refs})
 
     # -- running commands ---------------------------------------------------------------
     def do(self, command: cmds.Command) -> bool:
@@ -222,6 +214,9 @@ class EditorSession(QObject):
         except OutlinebenchError as exc:
             self.message.emit(f"{label}: not done — {exc}")
             return []
+        finally:
+            # Closing a group records the step without a document change of its own.
+            self.changed.emit()
         return done
 
     def undo(self) -> None:
@@ -274,16 +269,15 @@ class EditorSession(QObject):
 
     # -- menu edits ---------------------------------------------------------------------
     def nudge(self, dx_steps: float, dy_steps: float, large: bool) -> None:
-        if not self._selection:
+        """Move the selection by whole nudge steps (see :data:`NUDGE_STEPS`)."""
+        if not self.selection.refs:
             return
         u = self.units
-        step = NUDGE_STEPS.get(u.name, (1.0, 10.0))[1 if large else 0]
-        d = u.parse(step)
-        self.do(
-            cmds.MovePoints(
-                [cmds.PointRef(*k) for k in self._selection], (dx_steps * d, dy_steps * d)
-            )
-        )
+        step = u.parse(NUDGE_STEPS.get(u.name, (1.0, 10.0))[1 if large else 0])
+        try:
+            tools.nudge(self.history, self.selection, dx_steps * step, dy_steps * step)
+        except OutlinebenchError as exc:
+            self.message.emit(f"Nudge: not done — {exc}")
 
     def toggle_join_intent(self) -> None:
         doc = self.document
@@ -291,7 +285,7 @@ class EditorSession(QObject):
 
         cache = GraphicsCache()
         todo = []
-        for key in self._selection:
+        for key in self.selection.refs:
             on = key if pk.is_on_curve(doc, key) else pk.owner_of_handle(doc, key)
             j = pk.join_of(doc, on)
             if j is None:
@@ -316,7 +310,7 @@ class EditorSession(QObject):
         primary point starts (or ends, at the end of an open contour)."""
         doc = self.document
         segs: set[tuple[int, int, int]] = set()
-        sel = set(self._selection)
+        sel = set(self.selection.refs)
         for o, c, s, i in sel:
             contour = doc.outlines[o].contours[c]
             k = contour.segments[s].shape[0]
@@ -359,9 +353,9 @@ class EditorSession(QObject):
 
     def delete_selection(self) -> None:
         doc = self.document
-        on_curve = [k for k in self._selection if pk.is_on_curve(doc, k)]
+        on_curve = [k for k in self.selection.refs if pk.is_on_curve(doc, k)]
         if not on_curve:
-            if self._selection:
+            if self.selection.refs:
                 self.message.emit(
                     "Handles cannot be deleted alone; make the segment a line instead (Ctrl+1)"
                 )
@@ -411,14 +405,62 @@ class EditorSession(QObject):
         self.message.emit(TOOLS[name][3])
 
     def _cancel_gesture(self) -> None:
-        pass
+        tool = self.tools.get(self.tool_name) if hasattr(self, "tools") else None
+        if tool is not None and tool.busy:
+            tool.cancel()
+            self.selection_changed.emit()
 
-    def overlay(self) -> dict | None:
+    def overlay(self) -> tools.Overlay | None:
         """What the active gesture wants drawn over the document (rubber band, draft)."""
-        return None
+        return self.tool.overlay()
 
     def pointer(self, kind: str, x: float, y: float, event: QMouseEvent, canvas) -> None:
-        """A mouse event from the canvas, in document coordinates."""
+        """A mouse event from the canvas, in document coordinates, handed to the tool.
+
+        Modifier meanings: Shift adds to the selection, Alt breaks a smooth join, Ctrl keeps
+        the two handles of a join equal (see the module constants).
+        """
+        mods = event.modifiers()
+        if kind == "move":
+            held = event.buttons() & Qt.MouseButton.LeftButton
+            button = "left" if held else "none"
+        else:
+            button = "left"
+        ev = tools.PointerEvent(
+            kind,  # type: ignore[arg-type]
+            x,
+            y,
+            button=button,
+            add_to_selection=bool(mods & ADD_TO_SELECTION_MODIFIER),
+            break_join=bool(mods & BREAK_JOIN_MODIFIER),
+            symmetric=bool(mods & SYMMETRIC_MODIFIER),
+        )
+        tool = self.tool
+        tool.pick_radius = canvas.pick_radius()
+        try:
+            repaint = tool.handle(ev)
+        except OutlinebenchError as exc:
+            tool.cancel()
+            self.message.emit(f"{TOOLS[self.tool_name][0]}: not done — {exc}")
+            repaint = True
+        if tool.message:
+            self.message.emit(tool.message)
+        if kind == "release" and not self.history.in_group:
+            # A finished gesture closes its history group without a document change; undo
+            # and redo become available again.
+            self.changed.emit()
+        if repaint:
+            canvas.update()
+            if kind != "move" or button == "none":
+                self.selection_changed.emit()
+
+    def finish_drawing(self) -> None:
+        tool = self.tools["draw"]
+        if tool.nodes:
+            tool.finish()
+            if tool.message:
+                self.message.emit(tool.message)
+            self.selection_changed.emit()
 
     def key(self, event: QKeyEvent) -> bool:
         """A key pressed on the canvas; True when the session used it."""
@@ -430,7 +472,17 @@ class EditorSession(QObject):
             Qt.Key.Key_Up: (0, -1),
             Qt.Key.Key_Down: (0, 1),
         }
-        if k in arrows and self._selection:
+        if k in arrows and self.selection.refs:
             self.nudge(*arrows[k], large)
+            return True
+        if k in (Qt.Key.Key_Return, Qt.Key.Key_Enter) and self.tool_name == "draw":
+            self.finish_drawing()
+            return True
+        if k == Qt.Key.Key_Escape:
+            if self.tool.busy:
+                self._cancel_gesture()
+                self.message.emit("Cancelled")
+            else:
+                self.selection.clear()
             return True
         return False

@@ -1,0 +1,114 @@
+"""Main window: opening, saving, unreadable files, unsaved-changes questions, entry point."""
+
+import pytest
+
+pytest.importorskip("PySide6")
+
+from PySide6.QtGui import QKeySequence  # noqa: E402
+
+from outlinebench.model.document import documents_equal  # noqa: E402
+
+io = pytest.importorskip("outlinebench.io")
+if not hasattr(io, "read_svg"):
+    pytest.skip("the SVG reader is not in this tree yet", allow_module_level=True)
+
+# An invented Harbour Lane Signs part: a 40 mm × 20 mm plate with a rounded end, in mm.
+PLATE_SVG = """<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="50mm"
+  viewBox="0 0 100 50">
+  <path id="plate" d="M 10 10 L 40 10 C 51 10 51 30 40 30 L 10 30 Z"/>
+  <path id="tail" d="M 60 10 C 70 0 80 20 90 10"/>
+</svg>
+"""
+
+
+@pytest.fixture
+def plate(tmp_path):
+    path = tmp_path / "plate.svg"
+    path.write_text(PLATE_SVG, encoding="utf-8")
+    return path
+
+
+def test_open_shows_the_file_in_mm(window, plate):
+    assert window.open_path(str(plate))
+    doc = window.session.document
+    assert [o.element_id for o in doc.outlines] == ["plate", "tail"]
+    assert window.session.units.name == "mm"  # width="100mm" (SVG 1.1 §7.10 units)
+    assert window.windowTitle().startswith("plate.svg")
+    assert not window.isWindowModified()
+    assert not window.start_panel.isVisible()
+    assert window.recent.paths()[0].endswith("plate.svg")
+
+
+def test_missing_file_shows_a_message_and_keeps_the_document(window, tmp_path):
+    before = window.session.document
+    assert not window.open_path(str(tmp_path / "nowhere.svg"))
+    assert window.dialog_log and window.dialog_log[-1][0] == "Cannot open file"
+    assert "nowhere.svg" in window.dialog_log[-1][1]
+    assert window.session.document is before
+
+
+def test_not_an_svg_shows_a_message(window, tmp_path):
+    junk = tmp_path / "junk.svg"
+    junk.write_bytes(b"\x00\x01 this is not XML <<<")
+    before = window.session.document
+    assert not window.open_path(str(junk))
+    assert window.dialog_log[-1][0] == "Cannot open file"
+    assert window.session.document is before
+    # The editor stays usable: an edit still works.
+    window.session.set_point((0, 0, 0, 0), 11.0, 50.0)
+    assert window.session.can_undo
+
+
+def test_bad_path_data_offers_the_valid_part(window, tmp_path, monkeypatch):
+    bad = tmp_path / "bad.svg"
+    bad.write_text(PLATE_SVG.replace("L 10 30 Z", "L 10 30 Q Z"), encoding="utf-8")
+    asked = []
+    monkeypatch.setattr(window, "ask_open_partial", lambda *a: asked.append(a) or True)
+    saved_to = []
+    monkeypatch.setattr(window, "choose_save_path", lambda: saved_to.append(1) or None)
+    assert window.open_path(str(bad))
+    assert asked and "bad.svg" in asked[0][0]
+    # Saving a partly read file never overwrites it: Save asks for a new name.
+    window.save()
+    assert saved_to == [1]
+
+
+def test_unsaved_changes_are_asked_about(window, plate, monkeypatch):
+    window.session.set_point((0, 0, 0, 0), 11.0, 50.0)
+    assert window.isWindowModified()
+    monkeypatch.setattr(window, "ask_save_changes", lambda: "cancel")
+    before = window.session.document
+    assert not window.open_path(str(plate))
+    assert window.session.document is before
+    monkeypatch.setattr(window, "ask_save_changes", lambda: "discard")
+    assert window.open_path(str(plate))
+
+
+def test_save_reopen_compare(window, plate, tmp_path, monkeypatch):
+    if not hasattr(io, "write_svg"):
+        pytest.skip("the SVG writer is not in this tree yet")
+    assert window.open_path(str(plate))
+    window.session.set_point((0, 0, 0, 0), 12.5, 9.25)
+    edited = window.session.document
+    out = tmp_path / "plate-edited.svg"
+    monkeypatch.setattr(window, "choose_save_path", lambda: str(out))
+    assert window.save_as()
+    assert not window.isWindowModified()
+    assert window.windowTitle().startswith("plate-edited.svg")
+    again = io.read_svg(str(out))
+    assert again.error is None
+    # Written numbers read back bit for bit (shortest round-trip float formatting).
+    assert documents_equal(again.document, edited)
+
+
+def test_standard_shortcuts(window):
+    sk = QKeySequence.StandardKey
+    for act, key in [
+        (window.act_open, sk.Open),
+        (window.act_save, sk.Save),
+        (window.act_undo, sk.Undo),
+        (window.act_redo, sk.Redo),
+        (window.act_select_all, sk.SelectAll),
+        (window.act_zoom_in, sk.ZoomIn),
+    ]:
+        assert act.shortcut() == QKeySequence.keyBindings(key)[0]
