@@ -2,41 +2,48 @@
 
 :func:`check_document` checks a whole document. :class:`Checker` keeps what it computed and,
 given the next version of the document, recomputes only what the edit touched: documents
-share unchanged contours and segment arrays by identity (see
-:mod:`outlinebench.model.document`), so a contour that is the same object as before keeps its
-findings, and inside a changed contour only the segments that are new objects, the joins next
-to them and the intersections involving them are computed again. The checker holds the
-previous document, so the ids it keys its caches by stay valid.
+share unchanged outlines, contours and segment arrays by identity (see
+:mod:`outlinebench.model.document`), so an outline or contour that is the same object as
+before keeps its findings, and inside a changed contour only the segments that are new
+objects, the joins next to them and the intersections involving them are computed again.
+Winding (holes) is redone for the changed outline only; gaps between open contours are redone
+when an open contour changed. The checker holds the previous document, so the object ids it
+compares stay valid.
 
-A change of structure (a contour or outline added, removed or moved, or a different scale)
-makes the next update a full check; moving, inserting or deleting points inside a contour does
-not.
+A change of structure (an outline or contour added, removed or moved, or a different scale)
+makes the next update a full check; moving, inserting or deleting points inside a contour and
+changing join intent do not.
 
 Whole-document work is vectorised: all new segments are elevated to cubics and stacked in one
-``(M, 4, 2)`` array, and joins, boxes and screening tests run as array operations; only
-segments and pairs that fail a screening test are examined one by one.
+``(M, 4, 2)`` array; joins, boxes, screening tests, containment of holes and the box culling of
+segment pairs run as array operations, and only what fails a screening test is examined one
+item at a time.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 
-from outlinebench.diagnostics.continuity import INTENT_CODE, classify_joins
+from outlinebench.diagnostics.continuity import (
+    INTENT_CODE,
+    JOIN_CORNER,
+    JOIN_CURVATURE_JUMP,
+    JOIN_KINK,
+    classify_joins,
+)
 from outlinebench.diagnostics.contour_checks import (
-    ClosedShape,
     OpenEnd,
+    containment_pairs,
     crossing_findings,
-    flattened,
-    join_finding,
-    joins_monotone,
+    narrow_pairs,
     open_end_findings,
     overlapping_pairs,
     wrong_direction_findings,
 )
-from outlinebench.diagnostics.findings import Finding
+from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
 from outlinebench.diagnostics.segment_checks import (
     Limits,
     SegmentTable,
@@ -44,46 +51,58 @@ from outlinebench.diagnostics.segment_checks import (
     segment_table,
 )
 from outlinebench.diagnostics.settings import CheckSettings
-from outlinebench.geometry import evaluate
+from outlinebench.geometry import evaluate, segment_area_terms
 from outlinebench.model.document import Contour, Document
 
 __all__ = ["check_document", "Checker"]
 
-# Above this many changed segments the box test uses a sort-and-sweep over all segments of the
-# changed outlines instead of comparing each changed segment with every other one.
-_SWEEP_THRESHOLD = 256
+_EMPTY: tuple = ()
+
+
+# Marks "every segment of the contour changed" in the map of changed rows.
+_ALL = np.zeros(0, dtype=np.intp)
 
 
 @dataclass(eq=False, slots=True)
 class _ContourState:
     contour: Contour
-    outline: int  # source index used in findings
+    outline: int  # outline number used in findings
     global_index: int
-    table: SegmentTable
+    base: SegmentTable  # the contour's rows are base[start : start + count]
+    start: int
+    count: int
     seg_findings: dict[int, list[Finding]]
     join_findings: dict[int, Finding]
-    shape: ClosedShape | None
-    findings: list[Finding] = field(default_factory=list)
+    findings: list[Finding]
+    _table: SegmentTable | None = None
+
+    @property
+    def table(self) -> SegmentTable:
+        if self._table is None:
+            if self.start == 0 and len(self.base) == self.count:
+                self._table = self.base
+            else:
+                self._table = self.base.take(slice(self.start, self.start + self.count))
+        return self._table
 
     def assemble(self) -> None:
-        items: list[Finding] = []
-        n = len(self.contour.segments)
-        if len(self.seg_findings) + len(self.join_findings) == 0:
-            self.findings = items
+        if not self.seg_findings:
+            jf = self.join_findings
+            self.findings = [jf[k] for k in sorted(jf)] if jf else []
             return
-        for s in sorted(set(self.seg_findings) | set(self.join_findings)):
-            items.extend(self.seg_findings.get(s, ()))
-            j = self.join_findings.get(s)
-            if j is not None and s < n:
-                items.append(j)
+        items: list[Finding] = []
+        for fs in self.seg_findings.values():
+            items.extend(fs)
+        items.extend(self.join_findings.values())
+        items.sort(key=lambda f: (f.segment, f.t if f.t is not None else -1.0))
         self.findings = items
 
 
 @dataclass(eq=False, slots=True)
 class _OutlineState:
     hits: list[tuple[int, int, Finding]]  # (id of segment a, id of segment b, finding)
-    pip_cache: dict[tuple[int, int], bool]
     direction: list[Finding]
+    block: list[Finding]
 
 
 def check_document(doc: Document, settings: CheckSettings | None = None) -> list[Finding]:
@@ -98,7 +117,8 @@ def check_document(doc: Document, settings: CheckSettings | None = None) -> list
     Returns
     -------
     list of Finding
-        Grouped by outline and contour in document order; gaps between open contours last.
+        Grouped by outline in document order (contour findings, then crossings and winding);
+        gaps and open contours last.
 
     Examples
     --------
@@ -108,6 +128,71 @@ def check_document(doc: Document, settings: CheckSettings | None = None) -> list
     return Checker(settings).update(doc)
 
 
+def _join_findings_batch(
+    verdict: NDArray[np.int8],
+    angle: NDArray[np.float64],
+    jump: NDArray[np.float64],
+    k_in: NDArray[np.float64],
+    k_out: NDArray[np.float64],
+    intent: NDArray[np.int8],
+    points: NDArray[np.float64],
+    outline: NDArray[np.intp],
+    contour: NDArray[np.intp],
+    join: NDArray[np.intp],
+    limits: Limits,
+) -> list[Finding]:
+    """Findings for flagged joins, built in one loop over plain Python values (fast path of
+    :func:`~outlinebench.diagnostics.contour_checks.join_finding`, same wording)."""
+    out: list[Finding] = []
+    straight = limits.straight
+    ka = np.where(np.abs(k_in) < straight, 0.0, k_in) + 0.0
+    kb = np.where(np.abs(k_out) < straight, 0.0, k_out) + 0.0
+    rows = zip(
+        verdict.tolist(), angle.tolist(), jump.tolist(), ka.tolist(), kb.tolist(),
+        intent.tolist(), points[:, 0].tolist(), points[:, 1].tolist(), outline.tolist(),
+        contour.tolist(), join.tolist(), strict=True,
+    )  # fmt: skip
+    corner_lim, kink_lim, jump_lim = limits.corner_angle, limits.kink_angle, limits.curvature_jump
+    for v, a, jmp, k1, k2, it, x, y, o, c, j in rows:
+        smooth = it == 1
+        if v == JOIN_CORNER:
+            if smooth:
+                out.append(
+                    Finding(
+                        "corner", ERROR, o, c, j, 1.0, x, y, a, "degrees",
+                        f"corner: the tangent turns {a:.2f}° although the file marks it smooth",
+                        j, corner_lim,
+                    )
+                )  # fmt: skip
+            else:
+                out.append(
+                    Finding(
+                        "corner", INFO, o, c, j, 1.0, x, y, a, "degrees",
+                        f"corner: the tangent turns {a:.2f}°", j, corner_lim,
+                    )
+                )  # fmt: skip
+        elif v == JOIN_KINK:
+            out.append(
+                Finding(
+                    "kink", ERROR if smooth else WARNING, o, c, j, 1.0, x, y, a, "degrees",
+                    f"kink: the tangent turns {a:.2f}° (G1 break; smooth below "
+                    f"{kink_lim:g}°, corner from {corner_lim:g}°)",
+                    j, kink_lim,
+                )
+            )  # fmt: skip
+        elif v == JOIN_CURVATURE_JUMP:
+            sev = limits.straight_severity if (k1 == 0.0) != (k2 == 0.0) else limits.jump_severity
+            out.append(
+                Finding(
+                    "curvature-jump", sev, o, c, j, 1.0, x, y, jmp, "relative",
+                    f"curvature jumps from {k1:.4g} to {k2:.4g} (relative difference "
+                    f"{jmp:.3g}; G2 break)",
+                    j, jump_lim, k1, k2,
+                )
+            )  # fmt: skip
+    return out
+
+
 class Checker:
     """Incremental checks: ``update(doc)`` after each edit returns the findings of ``doc``.
 
@@ -115,10 +200,17 @@ class Checker:
     ----------
     settings : CheckSettings, optional
 
+    Attributes
+    ----------
+    findings : list of Finding
+        The result of the last update.
+    last_segments_computed, last_joins_computed : int
+        How many segments and joins the last update examined (the rest was reused).
+
     Notes
     -----
-    The result of ``update`` equals ``check_document(doc, settings)`` up to the order of
-    findings within an outline.
+    The result of ``update`` holds the same findings as ``check_document(doc, settings)``;
+    within an outline their order may differ.
     """
 
     def __init__(self, settings: CheckSettings | None = None) -> None:
@@ -127,73 +219,92 @@ class Checker:
         self._limits: Limits | None = None
         self._contours: list[_ContourState] = []
         self._outlines: list[_OutlineState] = []
-        self._shape: list[tuple[int, int]] = []  # (source index, contour count) per outline
+        self._first: list[int] = []  # global index of each outline's first contour
+        self._flat: list[Finding] = []  # all outline blocks, in order
+        self._lens = np.zeros(0, dtype=np.intp)  # length of each outline block
         self._gap_findings: list[Finding] = []
         self._joined: list[tuple[OpenEnd, OpenEnd]] = []
         self.findings: list[Finding] = []
-        # Number of segments and joins computed by the last update (for tests and benchmarks).
         self.last_segments_computed = 0
         self.last_joins_computed = 0
 
     # ------------------------------------------------------------------------------------
-    def update(self, doc: Document) -> list[Finding]:
-        """Check ``doc``, reusing results for every contour and segment it shares with the
-        document of the previous update. Returns the findings (also kept in ``.findings``)."""
-        # NOTE: imported here until the geometry package exports it at import time.
-        from outlinebench.geometry import signed_area
-
-        shape = [
-            (o.source_index if o.source_index >= 0 else i, len(o.contours))
-            for i, o in enumerate(doc.outlines)
+    def _changed_outlines(self, doc: Document) -> list[int] | None:
+        """Outlines that are not the same objects as last time; None when the structure
+        changed (then everything is checked again)."""
+        old = self._doc
+        if old is None or doc.mm_per_unit != old.mm_per_unit:
+            return None
+        if len(doc.outlines) != len(old.outlines):
+            return None
+        changed = [
+            i for i, (a, b) in enumerate(zip(doc.outlines, old.outlines, strict=True)) if a is not b
         ]
-        if self._doc is None or shape != self._shape or doc.mm_per_unit != self._doc.mm_per_unit:
-            self._contours = []
-            self._outlines = []
+        for i in changed:
+            a, b = doc.outlines[i], old.outlines[i]
+            if len(a.contours) != len(b.contours) or a.source_index != b.source_index:
+                return None
+        return changed
+
+    def update(self, doc: Document) -> list[Finding]:
+        """Check ``doc``, reusing results for everything it shares with the document of the
+        previous update. Returns the findings (also kept in ``.findings``)."""
+        changed_outlines = self._changed_outlines(doc)
+        full = changed_outlines is None
+        if full:
             self._limits = Limits.from_settings(self.settings, doc.mm_per_unit)
-        self._shape = shape
+            changed_outlines = list(range(len(doc.outlines)))
+            self._contours = [None] * sum(len(o.contours) for o in doc.outlines)  # type: ignore[list-item]
+            self._outlines = [None] * len(doc.outlines)  # type: ignore[list-item]
+            first, k = [], 0
+            for o in doc.outlines:
+                first.append(k)
+                k += len(o.contours)
+            self._first = first
         limits = self._limits
         assert limits is not None
-        old_states = self._contours
+        states = self._contours
+        number = [o.source_index if o.source_index >= 0 else i for i, o in enumerate(doc.outlines)]
 
-        # 1. which contours changed, and which of their segments are new objects
-        refs = list(doc.contour_refs())
-        dirty: list[tuple[int, int, Contour, _ContourState | None]] = []
-        new_states: list[_ContourState | None] = []
-        for ref in refs:
-            old = old_states[ref.global_index] if old_states else None
-            if old is not None and old.contour is ref.contour:
-                new_states.append(old)
-            else:
-                new_states.append(None)
-                dirty.append((ref.outline, ref.global_index, ref.contour, old))
-
+        # 1. changed contours, and which of their segments are new objects
+        dirty: list[tuple[int, int, Contour, _ContourState | None, dict[int, int]]] = []
         fresh_segments: list[np.ndarray] = []
         lab_outline: list[int] = []
         lab_contour: list[int] = []
         lab_segment: list[int] = []
-        plans = []  # per dirty contour: (reuse map new index -> old index, fresh start row)
-        for oi, gi, contour, old in dirty:
-            src = shape[oi][0]
-            reuse: dict[int, int] = {}
-            if old is not None:
-                old_ix = {id(s): k for k, s in enumerate(old.contour.segments)}
-                for k, s in enumerate(contour.segments):
-                    j = old_ix.get(id(s))
-                    if j is not None:
-                        reuse[k] = j
-            start = len(fresh_segments)
-            for k, s in enumerate(contour.segments):
-                if k not in reuse:
-                    fresh_segments.append(s)
-                    lab_outline.append(src)
-                    lab_contour.append(gi)
-                    lab_segment.append(k)
-            plans.append((reuse, start))
+        for oi in changed_outlines:
+            gi = self._first[oi]
+            for contour in doc.outlines[oi].contours:
+                old = None if full else states[gi]
+                if old is not None and old.contour is contour:
+                    gi += 1
+                    continue
+                reuse: dict[int, int] = {}
+                if old is not None:
+                    old_ix = {id(s): k for k, s in enumerate(old.contour.segments)}
+                    for k, s in enumerate(contour.segments):
+                        j = old_ix.get(id(s))
+                        if j is not None:
+                            reuse[k] = j
+                n = len(contour.segments)
+                if reuse:
+                    new_ix = [k for k in range(n) if k not in reuse]
+                    fresh_segments.extend(contour.segments[k] for k in new_ix)
+                    lab_segment.extend(new_ix)
+                    cnt = len(new_ix)
+                else:
+                    fresh_segments.extend(contour.segments)
+                    lab_segment.extend(range(n))
+                    cnt = n
+                lab_outline.extend([number[oi]] * cnt)
+                lab_contour.extend([gi] * cnt)
+                dirty.append((oi, gi, contour, old, reuse))
+                gi += 1
 
         # 2. all new segments at once
         fresh = segment_table(fresh_segments)
-        per_row: dict[int, list[Finding]] = {}
-        for row, f in segment_findings(
+        seg_by: dict[int, dict[int, list[Finding]]] = {}  # contour -> segment -> findings
+        for _, f in segment_findings(
             fresh,
             fresh_segments,
             limits,
@@ -201,163 +312,124 @@ class Checker:
             np.array(lab_contour, dtype=np.intp),
             np.array(lab_segment, dtype=np.intp),
         ):
-            per_row.setdefault(row, []).append(f)
+            seg_by.setdefault(f.contour, {}).setdefault(f.segment, []).append(f)
         self.last_segments_computed = len(fresh_segments)
 
-        # 3. per dirty contour: its table, segment findings, and the joins to recompute
-        join_rows_in: list[NDArray[np.intp]] = []
-        join_rows_out: list[NDArray[np.intp]] = []
-        join_intents: list[NDArray[np.int8]] = []
-        join_owner: list[tuple[int, NDArray[np.intp]]] = []
-        tables: list[SegmentTable] = []
-        offset = 0
-        changed_rows: dict[int, NDArray[np.intp]] = {}  # global contour -> changed seg indices
-        for (oi, gi, contour, old), (reuse, start) in zip(dirty, plans, strict=True):
-            n = len(contour.segments)
-            n_fresh = n - len(reuse)
-            src = shape[oi][0]
-            if not reuse:
-                table = fresh.take(slice(start, start + n))
-                seg_f = {k: per_row[start + k] for k in range(n) if start + k in per_row}
-                changed = np.arange(n)
-            else:
-                assert old is not None
-                new_ix = [k for k in range(n) if k not in reuse]
-                changed = np.array(new_ix, dtype=np.intp)
-                src_rows = np.empty(n, dtype=np.intp)
-                m_old = len(old.table)
-                for k, j in reuse.items():
-                    src_rows[k] = j
-                src_rows[changed] = m_old + np.arange(n_fresh)
-                both = SegmentTable.concat([old.table, fresh.take(slice(start, start + n_fresh))])
-                table = both.take(src_rows)
-                seg_f = {}
-                for k, j in reuse.items():
-                    fs = old.seg_findings.get(j)
-                    if fs:
-                        seg_f[k] = fs if j == k else [replace(f, segment=k) for f in fs]
-                for q, k in enumerate(new_ix):
-                    fs = per_row.get(start + q)
-                    if fs:
-                        seg_f[k] = fs
-            changed_rows[gi] = changed
-            joins_n = len(contour.joins)
-            intents = np.fromiter(
-                (INTENT_CODE[j] for j in contour.joins), dtype=np.int8, count=joins_n
+        # 3. per changed contour: its table, segment findings, joins to recompute
+        new_states: list[_ContourState] = []
+        changed_rows: dict[int, NDArray[np.intp]] = {}
+        if all(not reuse for *_, reuse in dirty):
+            # every changed contour is new as a whole: its rows are a stretch of `fresh`
+            allt = fresh
+            n_arr = np.array([len(c.segments) for _, _, c, _, _ in dirty], dtype=np.intp)
+            closed = np.array([c.closed for _, _, c, _, _ in dirty], dtype=bool)
+            offs = (np.cumsum(n_arr) - n_arr).astype(np.intp)
+            jn = np.where(closed, n_arr, np.maximum(n_arr - 1, 0))
+            total = int(jn.sum())
+            jx_all = np.arange(total) - np.repeat(np.cumsum(jn) - jn, jn)
+            owner_all = np.repeat(np.arange(len(dirty)), jn)
+            base = np.repeat(offs, jn)
+            rin = base + jx_all
+            rout = base + (jx_all + 1) % np.maximum(np.repeat(n_arr, jn), 1)
+            code = INTENT_CODE
+            intent = np.fromiter(
+                (code[x] for _, _, c, _, _ in dirty for x in c.joins), dtype=np.int8, count=total
             )
-            # joins to recompute: next to a changed segment, or with a changed intent
-            todo = np.ones(joins_n, dtype=bool)
-            join_f: dict[int, Finding] = {}
-            if reuse and old is not None:
-                is_new = np.zeros(n, dtype=bool)
-                is_new[changed] = True
-                old_n = len(old.contour.segments)
-                for jx in range(joins_n):
-                    a, b = jx, (jx + 1) % n
-                    if is_new[a] or is_new[b]:
-                        continue
-                    ja, jb = reuse[a], reuse[b]
-                    if jb != (ja + 1) % old_n or ja >= len(old.contour.joins):
-                        continue
-                    if old.contour.joins[ja] != contour.joins[jx]:
-                        continue
-                    todo[jx] = False
-                    f = old.join_findings.get(ja)
-                    if f is not None:
-                        join_f[jx] = f if ja == jx else replace(f, segment=jx, join=jx)
-            idx = np.flatnonzero(todo)
-            join_rows_in.append(offset + idx)
-            join_rows_out.append(offset + (idx + 1) % max(n, 1))
-            join_intents.append(intents[idx])
-            join_owner.append((len(tables), idx))
-            tables.append(table)
-            offset += n
-            shape_ = None
-            if contour.closed and n:
-                shape_ = ClosedShape(
-                    src,
-                    gi,
-                    evaluate(table.cubics[0], 0.5),
-                    flattened(table.cubics, limits.samples),
-                    np.concatenate([table.box[:, :2].min(axis=0), table.box[:, 2:].max(axis=0)]),
-                    float(signed_area(list(contour.segments))),
-                    contour,
+            for d, (oi, gi, contour, _, _) in enumerate(dirty):
+                n = int(n_arr[d])
+                st = _ContourState(
+                    contour, number[oi], gi, fresh, int(offs[d]), n, seg_by.get(gi, {}), {}, []
                 )
-            st = _ContourState(contour, src, gi, table, seg_f, join_f, shape_)
-            new_states[gi] = st
+                new_states.append(st)
+                states[gi] = st
+                changed_rows[gi] = _ALL
+        else:
+            rows_in: list[NDArray[np.intp]] = []
+            rows_out: list[NDArray[np.intp]] = []
+            intents: list[NDArray[np.int8]] = []
+            owners: list[NDArray[np.intp]] = []
+            join_ix: list[NDArray[np.intp]] = []
+            tables: list[SegmentTable] = []
+            start = 0
+            offset = 0
+            for d, (oi, gi, contour, old, reuse) in enumerate(dirty):
+                n = len(contour.segments)
+                n_fresh = n - len(reuse)
+                seg_f = dict(seg_by.get(gi, {}))
+                if not reuse:
+                    table = fresh.take(slice(start, start + n))
+                    changed = _ALL
+                    join_f: dict[int, Finding] = {}
+                    todo = np.arange(len(contour.joins))
+                else:
+                    assert old is not None
+                    new_ix = [k for k in range(n) if k not in reuse]
+                    changed = np.array(new_ix, dtype=np.intp)
+                    src = np.empty(n, dtype=np.intp)
+                    for k, j in reuse.items():
+                        src[k] = j
+                    src[changed] = len(old.table) + np.arange(n_fresh)
+                    table = SegmentTable.concat(
+                        [old.table, fresh.take(slice(start, start + n_fresh))]
+                    ).take(src)
+                    for k, j in reuse.items():
+                        fs = old.seg_findings.get(j)
+                        if fs:
+                            seg_f[k] = fs if j == k else [f._replace(segment=k) for f in fs]
+                    join_f, todo = self._reuse_joins(contour, old, reuse, changed)
+                start += n_fresh
+                changed_rows[gi] = changed
+                if todo.size:
+                    code = INTENT_CODE
+                    joins = contour.joins
+                    intents.append(np.array([code[joins[j]] for j in todo.tolist()], dtype=np.int8))
+                    rows_in.append(offset + todo)
+                    rows_out.append(offset + (todo + 1) % n)
+                    owners.append(np.full(todo.size, d, dtype=np.intp))
+                    join_ix.append(todo)
+                tables.append(table)
+                offset += n
+                st = _ContourState(contour, number[oi], gi, table, 0, n, seg_f, join_f, [])
+                new_states.append(st)
+                states[gi] = st
+            allt = SegmentTable.concat(tables) if tables else fresh
+            empty_i = np.zeros(0, dtype=np.intp)
+            rin = np.concatenate(rows_in) if rows_in else empty_i
+            rout = np.concatenate(rows_out) if rows_out else empty_i
+            intent = np.concatenate(intents) if intents else np.zeros(0, dtype=np.int8)
+            owner_all = np.concatenate(owners) if owners else empty_i
+            jx_all = np.concatenate(join_ix) if join_ix else empty_i
 
         # 4. the joins, all at once
-        if tables:
-            allt = SegmentTable.concat(tables) if len(tables) > 1 else tables[0]
-            rin = np.concatenate(join_rows_in)
-            rout = np.concatenate(join_rows_out)
+        self.last_joins_computed = int(rin.size)
+        if rin.size:
             verdict, angle, jump = classify_joins(
-                allt.d1[rin],
-                allt.d0[rout],
-                allt.k1[rin],
-                allt.k0[rout],
-                np.concatenate(join_intents),
-                kink_angle=limits.kink_angle,
-                corner_angle=limits.corner_angle,
-                curvature_jump=limits.curvature_jump,
-                straight=limits.straight,
-            )
-            self.last_joins_computed = int(rin.size)
-            flagged = np.flatnonzero(verdict)
-            if flagged.size:
-                owner_of = np.concatenate(
-                    [np.full(idx.size, t, dtype=np.intp) for t, idx in join_owner]
-                )
-                jidx = np.concatenate([idx for _, idx in join_owner])
-                dirty_states = [new_states[gi] for _, gi, _, _ in dirty]
-                intents_all = np.concatenate(join_intents)
-                for q in flagged:
-                    st = dirty_states[owner_of[q]]
-                    assert st is not None
-                    jx = int(jidx[q])
-                    r_in, r_out = int(rin[q]), int(rout[q])
-                    f = join_finding(
-                        st.outline, st.global_index, jx, jx, tuple(allt.cubics[r_in, 3]),
-                        allt.d1[r_in], allt.d0[r_out], float(allt.k1[r_in]),
-                        float(allt.k0[r_out]), int(intents_all[q]), limits,
-                        verdict=int(verdict[q]), angle=float(angle[q]), jump=float(jump[q]),
-                    )  # fmt: skip
-                    if f is not None:
-                        st.join_findings[jx] = f
-        else:
-            self.last_joins_computed = 0
-        for _, gi, _, _ in dirty:
-            st = new_states[gi]
-            assert st is not None
+                allt.d1[rin], allt.d0[rout], allt.k1[rin], allt.k0[rout], intent,
+                kink_angle=limits.kink_angle, corner_angle=limits.corner_angle,
+                curvature_jump=limits.curvature_jump, straight=limits.straight,
+            )  # fmt: skip
+            q = np.flatnonzero(verdict)
+            if q.size:
+                owner = owner_all[q]
+                jx = jx_all[q]
+                lab_o = np.array([st.outline for st in new_states], dtype=np.intp)[owner]
+                lab_c = np.array([st.global_index for st in new_states], dtype=np.intp)[owner]
+                found = _join_findings_batch(
+                    verdict[q], angle[q], jump[q], allt.k1[rin[q]], allt.k0[rout[q]],
+                    intent[q], allt.cubics[rin[q], 3], lab_o, lab_c, jx, limits,
+                )  # fmt: skip
+                for d, j, f in zip(owner.tolist(), jx.tolist(), found, strict=True):
+                    new_states[d].join_findings[j] = f
+        for st in new_states:
             st.assemble()
-        states: list[_ContourState] = new_states  # type: ignore[assignment]
 
-        # 5. open ends: gaps and open contours (whole document, cheap)
-        open_changed = any(
-            c.closed is False or (old is not None and not old.contour.closed)
-            for _, _, c, old in dirty
-        )
-        if open_changed or self._doc is None or not old_states:
-            ends: list[OpenEnd] = []
-            for st in states:
-                c = st.contour
-                if c.closed or not c.segments:
-                    continue
-                t = st.table
-                last = len(c.segments) - 1
-                ends.append(
-                    OpenEnd(
-                        st.outline, st.global_index, 0, 0, tuple(t.cubics[0, 0]),
-                        tuple(t.d0[0]), float(t.k0[0]),
-                    )
-                )  # fmt: skip
-                ends.append(
-                    OpenEnd(
-                        st.outline, st.global_index, last, 1, tuple(t.cubics[last, 3]),
-                        tuple(t.d1[last]), float(t.k1[last]),
-                    )
-                )  # fmt: skip
-            self._gap_findings, self._joined = open_end_findings(ends, limits)
+        # 5. open ends: gaps and open contours (whole document; only when an open contour
+        # changed, since closed ones have no ends)
+        if full or any(
+            not c.closed or (old is not None and not old.contour.closed)
+            for _, _, c, old, _ in dirty
+        ):
+            self._open_ends(states, limits)
         joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]] = {}
         for a, b in self._joined:
             joined_ends.setdefault((a.contour, b.contour), []).append(
@@ -367,161 +439,247 @@ class Checker:
                 (b.segment, b.end, a.segment, a.end)
             )
 
-        # 6. intersections and winding, per outline with a changed contour
-        first_contour = []
-        k = 0
-        for _, count in shape:
-            first_contour.append(k)
-            k += count
-        dirty_outlines = sorted({oi for oi, _, _, _ in dirty})
-        outlines = self._outlines if self._outlines else [None] * len(shape)
-        outlines = list(outlines)
-        n_changed = sum(v.size for v in changed_rows.values())
-        for oi in dirty_outlines:
-            lo, hi = first_contour[oi], first_contour[oi] + shape[oi][1]
-            o_states = states[lo:hi]
-            old_o = outlines[oi]
-            hits = self._outline_hits(
-                o_states, old_o, changed_rows, joined_ends, limits, n_changed, old_states, lo
-            )
-            shapes = [st.shape for st in o_states if st.shape is not None]
-            cache = old_o.pip_cache if old_o is not None else {}
-            live = {id(s.key) for s in shapes}
-            cache = {key: v for key, v in cache.items() if key[0] in live and key[1] in live}
-            outlines[oi] = _OutlineState(hits, cache, wrong_direction_findings(shapes, cache))
+        # 6. crossings and winding of the changed outlines
+        dirty_outlines = sorted({oi for oi, _, _, _, _ in dirty})
+        if dirty_outlines:
+            self._outline_checks(
+                doc, dirty_outlines, number, changed_rows, joined_ends, limits, full,
+                fresh if full else None,
+            )  # fmt: skip
 
-        # 7. assemble
-        result: list[Finding] = []
-        for oi, (_, count) in enumerate(shape):
-            lo = first_contour[oi]
-            for st in states[lo : lo + count]:
-                result.extend(st.findings)
-            o = outlines[oi]
-            if o is not None:
-                result.extend(f for _, _, f in o.hits)
-                result.extend(o.direction)
-        result.extend(self._gap_findings)
+        # 7. assemble: splice the changed outline blocks into the flat list
+        if full:
+            flat: list[Finding] = []
+            lens = np.zeros(len(doc.outlines), dtype=np.intp)
+            for oi, o in enumerate(self._outlines):
+                flat.extend(o.block)
+                lens[oi] = len(o.block)
+            self._flat, self._lens = flat, lens
+        elif dirty_outlines:
+            flat = self._flat
+            starts = np.concatenate([[0], np.cumsum(self._lens)])
+            for oi in reversed(dirty_outlines):
+                a, b = int(starts[oi]), int(starts[oi + 1])
+                block = self._outlines[oi].block
+                flat[a:b] = block
+                self._lens[oi] = len(block)
         self._doc = doc
-        self._contours = states
-        self._outlines = outlines  # type: ignore[assignment]
-        self.findings = result
-        return result
+        self.findings = self._flat + self._gap_findings
+        return self.findings
 
     # ------------------------------------------------------------------------------------
-    def _outline_hits(
+    @staticmethod
+    def _reuse_joins(
+        contour: Contour, old: _ContourState, reuse: dict[int, int], changed: NDArray[np.intp]
+    ) -> tuple[dict[int, Finding], NDArray[np.intp]]:
+        """Old join findings still valid (both segments and the intent unchanged) and the
+        joins that must be computed again."""
+        n = len(contour.segments)
+        is_new = np.zeros(n, dtype=bool)
+        is_new[changed] = True
+        old_n = len(old.contour.segments)
+        old_joins = old.contour.joins
+        join_f: dict[int, Finding] = {}
+        todo: list[int] = []
+        for jx in range(len(contour.joins)):
+            a, b = jx, (jx + 1) % n
+            if is_new[a] or is_new[b]:
+                todo.append(jx)
+                continue
+            ja, jb = reuse[a], reuse[b]
+            if jb != (ja + 1) % old_n or ja >= len(old_joins) or old_joins[ja] != contour.joins[jx]:
+                todo.append(jx)
+                continue
+            f = old.join_findings.get(ja)
+            if f is not None:
+                join_f[jx] = f if ja == jx else f._replace(segment=jx, join=jx)
+        return join_f, np.array(todo, dtype=np.intp)
+
+    def _open_ends(self, states: list[_ContourState], limits: Limits) -> None:
+        ends: list[OpenEnd] = []
+        for st in states:
+            c = st.contour
+            if c.closed or not c.segments:
+                continue
+            t = st.table
+            last = len(c.segments) - 1
+            ends.append(
+                OpenEnd(
+                    st.outline, st.global_index, 0, 0, tuple(t.cubics[0, 0].tolist()),
+                    tuple(t.d0[0].tolist()), float(t.k0[0]),
+                )
+            )  # fmt: skip
+            ends.append(
+                OpenEnd(
+                    st.outline, st.global_index, last, 1, tuple(t.cubics[last, 3].tolist()),
+                    tuple(t.d1[last].tolist()), float(t.k1[last]),
+                )
+            )  # fmt: skip
+        self._gap_findings, self._joined = open_end_findings(ends, limits)
+
+    def _outline_checks(
         self,
-        o_states: list[_ContourState],
-        old_o: _OutlineState | None,
+        doc: Document,
+        dirty_outlines: list[int],
+        number: list[int],
         changed_rows: dict[int, NDArray[np.intp]],
         joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]],
         limits: Limits,
-        n_changed: int,
-        old_states: list[_ContourState],
-        first: int,
-    ) -> list[tuple[int, int, Finding]]:
-        """Crossings within one outline: keep old ones between unchanged segments, compute the
-        pairs that involve a changed segment."""
-        seg_of: list[np.ndarray] = []
-        where: list[tuple[int, int, int]] = []
-        counts = []
-        for st in o_states:
-            for k, s in enumerate(st.contour.segments):
-                seg_of.append(s)
-                where.append((st.outline, st.global_index, k))
-            counts.append(len(st.contour.segments))
-        if not seg_of:
-            return []
-        starts = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(np.intp)
-        box = np.concatenate([st.table.box for st in o_states])
-        changed = np.zeros(len(seg_of), dtype=bool)
-        for ci, st in enumerate(o_states):
+        full: bool,
+        whole: SegmentTable | None,
+    ) -> None:
+        """Crossings between segments and winding of holes, for the given outlines at once.
+
+        ``whole`` is the table of all their segments in order, when the caller has it."""
+        cs: list[_ContourState] = []
+        c_group: list[int] = []
+        for oi in dirty_outlines:
+            lo = self._first[oi]
+            for st in self._contours[lo : lo + len(doc.outlines[oi].contours)]:
+                cs.append(st)
+                c_group.append(oi)
+        counts = np.array([len(st.contour.segments) for st in cs], dtype=np.intp)
+        if not cs or counts.sum() == 0:
+            for oi in dirty_outlines:
+                n = len(doc.outlines[oi].contours)
+                self._outlines[oi] = _OutlineState([], [], self._block(oi, [], [], n))
+            return
+        table = whole if whole is not None else SegmentTable.concat([st.table for st in cs])
+        m = len(table)
+        cstart = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(np.intp)
+        contour_of = np.repeat(np.arange(len(cs)), counts)
+        seg_ix = np.arange(m) - cstart[contour_of]
+        group = np.array(c_group, dtype=np.intp)[contour_of]
+        changed = np.zeros(m, dtype=bool)
+        for ci, st in enumerate(cs):
             rows = changed_rows.get(st.global_index)
-            if rows is not None:
-                changed[starts[ci] + rows] = True
+            if rows is _ALL:
+                changed[cstart[ci] : cstart[ci] + counts[ci]] = True
+            elif rows is not None:
+                changed[cstart[ci] + rows] = True
 
-        kept: list[tuple[int, int, Finding]] = []
-        if old_o is not None:
-            gone: set[int] = set()
-            for ci, st in enumerate(o_states):
-                if st.global_index in changed_rows:
-                    old = old_states[first + ci]
-                    gone.update(id(s) for s in old.contour.segments)
-            now_changed = {id(seg_of[r]) for r in np.flatnonzero(changed)}
-            still = set()
-            for st in o_states:
-                if st.global_index in changed_rows:
-                    still.update(id(s) for s in st.contour.segments)
-            gone = (gone - still) | now_changed
-            index_of = {}
-            for st in o_states:
-                if st.global_index in changed_rows:
-                    for k, s in enumerate(st.contour.segments):
-                        index_of[id(s)] = k
-            for ia, ib, f in old_o.hits:
-                if ia in gone or ib in gone:
+        # -- crossings ------------------------------------------------------------------
+        kept: dict[int, list[tuple[int, int, Finding]]] = {oi: [] for oi in dirty_outlines}
+        if not full:
+            for oi in dirty_outlines:
+                old_o = self._outlines[oi]
+                if old_o is None:
                     continue
-                sa, sb = index_of.get(ia, f.segment), index_of.get(ib, f.other_segment)
-                if sa != f.segment or sb != f.other_segment:
-                    f = replace(f, segment=sa, other_segment=sb)
-                kept.append((ia, ib, f))
+                gone: set[int] = set()
+                index_of: dict[int, int] = {}
+                for ci, st in enumerate(cs):
+                    if c_group[ci] != oi or st.global_index not in changed_rows:
+                        continue
+                    now = {id(s): k for k, s in enumerate(st.contour.segments)}
+                    index_of.update(now)
+                    rows = changed_rows[st.global_index]
+                    segs = st.contour.segments
+                    gone.update(id(segs[r]) for r in (range(len(segs)) if rows is _ALL else rows))
+                for ia, ib, f in old_o.hits:
+                    if ia in gone or ib in gone:
+                        continue
+                    if f.contour in changed_rows or f.other_contour in changed_rows:
+                        if ia not in index_of and f.contour in changed_rows:
+                            continue  # that segment was removed
+                        if ib not in index_of and f.other_contour in changed_rows:
+                            continue
+                        sa = index_of.get(ia, f.segment)
+                        sb = index_of.get(ib, f.other_segment)
+                        if sa != f.segment or sb != f.other_segment:
+                            f = f._replace(segment=sa, other_segment=sb)
+                    kept[oi].append((ia, ib, f))
 
-        # candidate pairs with at least one changed segment
-        m = len(seg_of)
-        if n_changed > _SWEEP_THRESHOLD:
-            i, j = overlapping_pairs(box, np.zeros(m, dtype=np.intp), limits.gap)
+        if changed.all() or changed.sum() > 256:
+            i, j = overlapping_pairs(table.box, group, limits.gap)
             sel = changed[i] | changed[j]
             i, j = i[sel], j[sel]
         else:
             rows = np.flatnonzero(changed)
-            pad = limits.gap
-            b = box[rows]
-            ov = (
-                (b[:, None, 0] - pad <= box[None, :, 2])
-                & (box[None, :, 0] - pad <= b[:, None, 2])
-                & (b[:, None, 1] - pad <= box[None, :, 3])
-                & (box[None, :, 1] - pad <= b[:, None, 3])
+            b = table.box[rows]
+            box, pad = table.box, limits.gap
+            ov = (b[:, None, 0] - pad <= box[None, :, 2]) & (box[None, :, 0] - pad <= b[:, None, 2])
+            ov &= (b[:, None, 1] - pad <= box[None, :, 3]) & (
+                box[None, :, 1] - pad <= b[:, None, 3]
             )
+            ov &= group[rows][:, None] == group[None, :]
             ri, cj = np.nonzero(ov)
             i, j = rows[ri], cj
             sel = (i != j) & ~(changed[j] & (j < i))
-            i, j = i[sel], j[sel]
-            i, j = np.minimum(i, j), np.maximum(i, j)
-        if i.size == 0:
-            return kept
-        contour_of = np.repeat(np.arange(len(o_states)), counts)
-        seg_ix = np.arange(m) - starts[contour_of]
-        n_of = np.array(counts)[contour_of]
-        closed_of = np.array([st.contour.closed for st in o_states])[contour_of]
-        same = contour_of[i] == contour_of[j]
-        nxt = (seg_ix[i] + 1 == seg_ix[j]) | (
-            closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0)
-        )
-        prv = closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
-        adjacent = same & (nxt | prv)
-        # neighbours that together move monotonically cannot cross: skip them
-        cub = np.concatenate([st.table.cubics for st in o_states])
-        a_first = np.where(prv, j, i)
-        b_second = np.where(prv, i, j)
-        skip = np.zeros(i.size, dtype=bool)
-        if adjacent.any():
-            ad = np.flatnonzero(adjacent)
-            skip[ad] = joins_monotone(cub[a_first[ad]], cub[b_second[ad]])
-            # a closed contour of two segments: both joins connect them
-            two = n_of[i[ad]] == 2
-            skip[ad[two]] = False
-        out = list(kept)
-        for q in np.flatnonzero(~skip):
-            ra, rb = int(i[q]), int(j[q])
-            wa, wb = where[ra], where[rb]
-            connected: list[tuple[int, int]] = []
-            if adjacent[q]:
-                if nxt[q]:
+            i, j = np.minimum(i[sel], j[sel]), np.maximum(i[sel], j[sel])
+        if i.size:
+            n_of = counts[contour_of]
+            closed_of = np.array([st.contour.closed for st in cs])[contour_of]
+            same = contour_of[i] == contour_of[j]
+            nxt = same & (
+                (seg_ix[i] + 1 == seg_ix[j])
+                | (closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0))
+            )
+            prv = same & closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
+            joined = np.where(nxt, 1, np.where(prv, 2, 0)).astype(np.int8)
+            joined[same & (n_of[i] == 2) & (nxt | prv)] = 3
+            if joined_ends:
+                gi_of = np.array([st.global_index for st in cs])[contour_of]
+                for q in np.flatnonzero(joined == 0).tolist():
+                    if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
+                        joined[q] = 3
+            survive = narrow_pairs(table.cubics[i], table.cubics[j], joined, limits.gap)
+            for q in np.flatnonzero(survive).tolist():
+                ra, rb = int(i[q]), int(j[q])
+                sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]
+                sa, sb = int(seg_ix[ra]), int(seg_ix[rb])
+                wa = (sta.outline, sta.global_index, sa)
+                wb = (stb.outline, stb.global_index, sb)
+                connected: list[tuple[int, int]] = []
+                if joined[q] in (1, 3) and nxt[q]:
                     connected.append((1, 0))
-                if prv[q] or (closed_of[ra] and n_of[ra] == 2):
+                if joined[q] in (2, 3) and (prv[q] or (nxt[q] and n_of[ra] == 2)):
                     connected.append((0, 1))
-            for sa, ea, sb, eb in joined_ends.get((wa[1], wb[1]), ()):
-                if sa == wa[2] and sb == wb[2]:
-                    connected.append((ea, eb))
-            for f in crossing_findings(seg_of[ra], seg_of[rb], wa, wb, tuple(connected), limits):
-                out.append((id(seg_of[ra]), id(seg_of[rb]), f))
-        return out
+                for ea_seg, ea, eb_seg, eb in joined_ends.get((wa[1], wb[1]), ()):
+                    if ea_seg == sa and eb_seg == sb:
+                        connected.append((ea, eb))
+                seg_a, seg_b = sta.contour.segments[sa], stb.contour.segments[sb]
+                for f in crossing_findings(seg_a, seg_b, wa, wb, tuple(connected), limits):
+                    kept[int(group[ra])].append((id(seg_a), id(seg_b), f))
+
+        # -- winding of holes -----------------------------------------------------------
+        closed = np.array([st.contour.closed and len(st.contour.segments) > 0 for st in cs])
+        direction: dict[int, list[Finding]] = {oi: [] for oi in dirty_outlines}
+        cl = np.flatnonzero(closed)
+        if cl.size > 1:
+            rows = np.concatenate([np.arange(cstart[c], cstart[c] + counts[c]) for c in cl])
+            samples = limits.samples
+            poly = evaluate(table.cubics[rows], np.arange(samples) / samples).reshape(-1, 2)
+            plen = counts[cl] * samples
+            pstart = np.concatenate([[0], np.cumsum(plen)[:-1]]).astype(np.intp)
+            probes = poly[pstart + samples // 2]
+            seg_start = np.concatenate([[0], np.cumsum(counts[cl])[:-1]]).astype(np.intp)
+            areas = np.add.reduceat(segment_area_terms(table.cubics[rows]), seg_start)
+            bmin = np.minimum.reduceat(table.box[rows, :2], seg_start)
+            bmax = np.maximum.reduceat(table.box[rows, 2:], seg_start)
+            cgroup = np.array(c_group, dtype=np.intp)[cl]
+            inner, outer = containment_pairs(
+                probes, poly, pstart, plen, np.concatenate([bmin, bmax], axis=1), cgroup
+            )
+            found = wrong_direction_findings(
+                inner, outer, areas, probes,
+                np.array([cs[c].outline for c in cl]), np.array([cs[c].global_index for c in cl]),
+            )  # fmt: skip
+            outline_of = {st.global_index: c_group[ci] for ci, st in enumerate(cs)}
+            for f in found:
+                direction[outline_of[f.contour]].append(f)
+
+        for oi in dirty_outlines:
+            hits = kept[oi]
+            block = self._block(oi, hits, direction[oi], len(doc.outlines[oi].contours))
+            self._outlines[oi] = _OutlineState(hits, direction[oi], block)
+
+    def _block(
+        self, oi: int, hits: list[tuple[int, int, Finding]], direction: list[Finding], n: int
+    ) -> list[Finding]:
+        lo = self._first[oi]
+        block: list[Finding] = []
+        for st in self._contours[lo : lo + n]:
+            block.extend(st.findings)
+        block.extend(f for _, _, f in hits)
+        block.extend(direction)
+        return block

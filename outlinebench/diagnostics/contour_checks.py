@@ -37,18 +37,19 @@ from outlinebench.diagnostics.continuity import (
 )
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
 from outlinebench.diagnostics.segment_checks import Limits
-from outlinebench.geometry import derivative_at, evaluate
+from outlinebench.geometry import derivative_at, evaluate, intersections, split
 
 __all__ = [
     "OpenEnd",
-    "ClosedShape",
     "open_end_findings",
     "join_finding",
     "flattened",
     "point_in_polygon",
+    "containment_pairs",
     "wrong_direction_findings",
     "overlapping_pairs",
     "joins_monotone",
+    "narrow_pairs",
     "crossing_findings",
 ]
 
@@ -284,69 +285,109 @@ def point_in_polygon(p: FloatArray, poly: FloatArray) -> bool:
     return bool(np.count_nonzero(xs > x) % 2)
 
 
-@dataclass(eq=False, slots=True)
-class ClosedShape:
-    """What containment needs of one closed contour."""
-
-    outline: int
-    contour: int
-    probe: FloatArray
-    polygon: FloatArray
-    box: FloatArray
-    area: float
-    key: object
-
-
-def wrong_direction_findings(
-    shapes: list[ClosedShape], cache: dict[tuple[int, int], bool] | None = None
-) -> list[Finding]:
-    """``wrong-direction`` findings for the closed contours of one outline.
+def containment_pairs(
+    probes: FloatArray,
+    polygons: FloatArray,
+    poly_start: NDArray[np.intp],
+    poly_len: NDArray[np.intp],
+    boxes: FloatArray,
+    group: NDArray[np.intp],
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    """Pairs (i, j) where closed contour i lies inside closed contour j of the same group.
 
     Parameters
     ----------
-    shapes : list of ClosedShape
-    cache : dict, optional
-        Containment results keyed by ``(id(a.key), id(b.key))``; reused and filled in, so an
-        edit recomputes only the pairs involving changed contours.
+    probes : ndarray, shape (C, 2)
+        A point on each contour.
+    polygons : ndarray, shape (P, 2)
+        All flattened contours, one after the other; contour c is
+        ``polygons[poly_start[c] : poly_start[c] + poly_len[c]]``.
+    poly_start, poly_len : ndarray of int, shape (C,)
+    boxes : ndarray, shape (C, 4)
+    group : ndarray of int, shape (C,)
+        Outline of each contour; only contours of one outline are compared.
 
     Returns
     -------
-    list of Finding
+    (inner, outer) : ndarrays of int
+
+    Notes
+    -----
+    Candidates are pairs whose boxes nest; each is decided by the even-odd crossing count of
+    the ray from the probe towards +x against the edges of the other polygon (see
+    :func:`point_in_polygon`), all pairs in one pass over their edges.
     """
-    n = len(shapes)
-    if n < 2:
-        return []
-    inside: list[list[int]] = [[] for _ in range(n)]
-    for i, a in enumerate(shapes):
-        for j, b in enumerate(shapes):
-            if i == j or not (
-                b.box[0] <= a.box[0] and b.box[1] <= a.box[1]
-                and b.box[2] >= a.box[2] and b.box[3] >= a.box[3]
-            ):  # fmt: skip
-                continue
-            key = (id(a.key), id(b.key))
-            hit = None if cache is None else cache.get(key)
-            if hit is None:
-                hit = point_in_polygon(a.probe, b.polygon)
-                if cache is not None:
-                    cache[key] = hit
-            if hit:
-                inside[i].append(j)
-    out = []
-    for i, parents in enumerate(inside):
-        if not parents:
-            continue
-        depth = {j: len(inside[j]) for j in parents}
-        parent = max(parents, key=lambda j: depth[j])
-        a, b = shapes[i], shapes[parent]
-        if a.area != 0.0 and b.area != 0.0 and (a.area > 0) == (b.area > 0):
+    i, j = overlapping_pairs(boxes, group, 0.0)
+    if i.size == 0:
+        return i, j
+    bi, bj = boxes[i], boxes[j]
+    i_in_j = (bj[:, 0] <= bi[:, 0]) & (bj[:, 1] <= bi[:, 1]) & (bj[:, 2] >= bi[:, 2])
+    i_in_j &= bj[:, 3] >= bi[:, 3]
+    j_in_i = (bi[:, 0] <= bj[:, 0]) & (bi[:, 1] <= bj[:, 1]) & (bi[:, 2] >= bj[:, 2])
+    j_in_i &= bi[:, 3] >= bj[:, 3]
+    inner = np.concatenate([i[i_in_j], j[j_in_i]])
+    outer = np.concatenate([j[i_in_j], i[j_in_i]])
+    if inner.size == 0:
+        return inner, outer
+    counts = poly_len[outer]
+    total = int(counts.sum())
+    pair_of_edge = np.repeat(np.arange(inner.size), counts)
+    within = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
+    e0 = poly_start[outer][pair_of_edge] + within
+    e1 = poly_start[outer][pair_of_edge] + (within + 1) % counts[pair_of_edge]
+    a, b = polygons[e0], polygons[e1]
+    p = probes[inner][pair_of_edge]
+    straddle = (a[:, 1] > p[:, 1]) != (b[:, 1] > p[:, 1])
+    with np.errstate(divide="ignore", invalid="ignore"):
+        xs = a[:, 0] + (p[:, 1] - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
+    crossing = straddle & (xs > p[:, 0])
+    hits = np.bincount(pair_of_edge, weights=crossing, minlength=inner.size)
+    inside = (hits.astype(np.int64) % 2) == 1
+    return inner[inside], outer[inside]
+
+
+def wrong_direction_findings(
+    inner: NDArray[np.intp],
+    outer: NDArray[np.intp],
+    areas: FloatArray,
+    probes: FloatArray,
+    outline: NDArray[np.intp],
+    contour: NDArray[np.intp],
+) -> list[Finding]:
+    """``wrong-direction`` findings from the containment pairs of closed contours.
+
+    Parameters
+    ----------
+    inner, outer : ndarrays of int
+        From :func:`containment_pairs`.
+    areas : ndarray, shape (C,)
+        Exact signed area of each contour.
+    probes : ndarray, shape (C, 2)
+    outline, contour : ndarrays of int, shape (C,)
+        Labels for the findings (outline index, global contour index).
+
+    Notes
+    -----
+    The parent of a contour is the deepest contour containing it (depth = how many contain
+    it); the contour must wind opposite to its parent.
+    """
+    out: list[Finding] = []
+    if inner.size == 0:
+        return out
+    depth = np.bincount(inner, minlength=areas.size)
+    order = np.lexsort((depth[outer], inner))
+    inner, outer = inner[order], outer[order]
+    last = np.r_[inner[1:] != inner[:-1], True]
+    for i, j in zip(inner[last].tolist(), outer[last].tolist(), strict=True):
+        a, b = float(areas[i]), float(areas[j])
+        if a != 0.0 and b != 0.0 and (a > 0) == (b > 0):
             out.append(
                 Finding(
-                    "wrong-direction", ERROR, a.outline, a.contour, 0, 0.0, float(a.probe[0]),
-                    float(a.probe[1]), abs(a.area), "user^2",
-                    f"contour lies inside contour {b.contour} and winds the same way; "
+                    "wrong-direction", ERROR, int(outline[i]), int(contour[i]), 0, 0.0,
+                    float(probes[i, 0]), float(probes[i, 1]), abs(a), "user^2",
+                    f"contour lies inside contour {int(contour[j])} and winds the same way; "
                     "reverse it so the hole stays empty",
-                    other_contour=b.contour,
+                    other_contour=int(contour[j]),
                 )
             )  # fmt: skip
     return out
@@ -429,6 +470,87 @@ def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:
     return along(chord) | along(ta + tb)
 
 
+def narrow_pairs(
+    cub_a: FloatArray,
+    cub_b: FloatArray,
+    joined: NDArray[np.int8],
+    pad: float,
+    levels: int = 6,
+    max_pieces: int = 400_000,
+) -> NDArray[np.bool_]:
+    """Which segment pairs may meet anywhere except at the end where they are joined.
+
+    Parameters
+    ----------
+    cub_a, cub_b : ndarray, shape (P, 4, 2)
+    joined : ndarray of int8, shape (P,)
+        0: not joined; 1: a's end is b's start; 2: a's start is b's end; 3: joined otherwise
+        (always kept).
+    pad : float
+        Boxes are grown by this much (the gap tolerance).
+    levels : int
+        Halvings of both segments.
+    max_pieces : int
+        Stop halving (keeping every live pair) when this many piece pairs are alive.
+
+    Returns
+    -------
+    ndarray of bool, shape (P,)
+        False only where the pair certainly does not meet (other than at its join).
+
+    Notes
+    -----
+    Box culling by subdivision (T. W. Sederberg and T. Nishita, "Curve intersection using
+    Bézier clipping", CAD 22(9), 1990, §2, the subdivision variant), run on all pairs at once
+    as a screen before :func:`outlinebench.geometry.intersections` examines the survivors one
+    by one. A piece pair at the join of two neighbours is dropped when the two pieces together
+    move monotonically along one direction (:func:`joins_monotone`).
+    """
+    p = cub_a.shape[0]
+    keep = np.zeros(p, dtype=bool)
+    if p == 0:
+        return keep
+    keep[joined == 3] = True
+    live = np.flatnonzero(joined != 3)
+    a, b = cub_a[live], cub_b[live]
+    owner = live
+    kind = joined[live]
+    a0 = np.ones(live.size, bool)  # piece of a touches a's start
+    a1 = np.ones(live.size, bool)  # ... a's end
+    b0 = np.ones(live.size, bool)
+    b1 = np.ones(live.size, bool)
+    for level in range(levels + 1):
+        lo_a, hi_a = a.min(axis=1), a.max(axis=1)
+        lo_b, hi_b = b.min(axis=1), b.max(axis=1)
+        ok = (
+            (lo_a[:, 0] - pad <= hi_b[:, 0]) & (lo_b[:, 0] - pad <= hi_a[:, 0])
+            & (lo_a[:, 1] - pad <= hi_b[:, 1]) & (lo_b[:, 1] - pad <= hi_a[:, 1])
+        )  # fmt: skip
+        at1 = (kind == 1) & a1 & b0
+        at2 = (kind == 2) & a0 & b1
+        if at1.any():
+            q = np.flatnonzero(ok & at1)
+            ok[q[joins_monotone(a[q], b[q])]] = False
+        if at2.any():
+            q = np.flatnonzero(ok & at2)
+            ok[q[joins_monotone(b[q], a[q])]] = False
+        a, b, owner, kind = a[ok], b[ok], owner[ok], kind[ok]
+        a0, a1, b0, b1 = a0[ok], a1[ok], b0[ok], b1[ok]
+        if owner.size == 0 or level == levels or 4 * owner.size > max_pieces:
+            break
+        al, ar = split(a, 0.5)
+        bl, br = split(b, 0.5)
+        a = np.concatenate([al, al, ar, ar])
+        b = np.concatenate([bl, br, bl, br])
+        owner = np.tile(owner, 4)
+        kind = np.tile(kind, 4)
+        f = np.zeros_like(a0)
+        a0, a1 = np.concatenate([a0, a0, f, f]), np.concatenate([f, f, a1, a1])
+        b0, b1 = np.concatenate([b0, f, b0, f]), np.concatenate([f, b1, f, b1])
+    keep[owner] = True
+    return keep
+
+
 def crossing_findings(
     seg_a: FloatArray,
     seg_b: FloatArray,
@@ -448,9 +570,6 @@ def crossing_findings(
         open ends that meet); a hit there is the join itself and is ignored.
     limits : Limits
     """
-    # NOTE: imported here until the geometry package exports it at import time.
-    from outlinebench.geometry import intersections
-
     hits = intersections(seg_a, seg_b)
     out: list[Finding] = []
     kept: list[FloatArray] = []

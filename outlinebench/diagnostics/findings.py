@@ -17,8 +17,7 @@ is the index within that contour; ``join`` j is where segment j ends and segment
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import Any
+from typing import Any, NamedTuple
 
 __all__ = [
     "ERROR",
@@ -54,9 +53,12 @@ KINDS: tuple[str, ...] = (
 )
 
 
-@dataclass(frozen=True, slots=True)
-class Finding:
-    """One finding.
+class Finding(NamedTuple):
+    """One finding (an immutable record; ``f._replace(...)`` gives a changed copy).
+
+    A named tuple rather than a dataclass: a check of a large document creates tens of
+    thousands of findings, and a tuple is built about five times faster than a frozen
+    dataclass.
 
     Parameters
     ----------
@@ -113,12 +115,10 @@ class Finding:
 
     def to_dict(self) -> dict[str, Any]:
         """A JSON-ready dict: every field, non-finite numbers as None (JSON has no inf/NaN)."""
-        out: dict[str, Any] = {}
-        for name in self.__slots__:  # type: ignore[attr-defined]
-            v = getattr(self, name)
+        out: dict[str, Any] = self._asdict()
+        for name, v in out.items():
             if isinstance(v, float) and not math.isfinite(v):
-                v = None
-            out[name] = v
+                out[name] = None
         return out
 
 

@@ -10,7 +10,6 @@ from __future__ import annotations
 import math
 from collections import Counter
 from collections.abc import Sequence
-from dataclasses import replace
 from typing import Any
 
 from outlinebench.diagnostics.findings import (
@@ -77,7 +76,7 @@ def convert_units(findings: Sequence[Finding], factor: float, unit: str) -> list
             changes["curvature_before"] = f.curvature_before / factor
         if f.curvature_after is not None:
             changes["curvature_after"] = f.curvature_after / factor
-        out.append(replace(f, **changes))
+        out.append(f._replace(**changes))
     return out
 
 

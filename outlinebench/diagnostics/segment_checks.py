@@ -19,7 +19,8 @@ cusp and self-intersection (a loop)
 missing-extremum
     An interior x or y extremum lying more than the overshoot tolerance beyond the segment's end
     points. If every handle lies within the end points' range (plus tolerance) the convex hull
-    property rules it out; the others go to :func:`~outlinebench.geometry.extrema_params`.
+    property rules it out; for the others the simple roots of x′ and y′
+    (:func:`outlinebench.geometry.extrema.stationary_params`, all at once) are evaluated.
 """
 
 from __future__ import annotations
@@ -35,13 +36,16 @@ from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
 from outlinebench.diagnostics.settings import CheckSettings
 from outlinebench.geometry import (
     arc_length,
+    bernstein_matrix,
     cusps,
     derivative_at,
     end_curvatures,
     end_tangents,
     evaluate,
+    self_intersections,
     to_cubic,
 )
+from outlinebench.geometry.extrema import stationary_params
 
 __all__ = ["Limits", "SegmentTable", "segment_table", "monotone_mask", "segment_findings"]
 
@@ -228,9 +232,6 @@ def segment_findings(
     list of (row, Finding)
         Findings in row order, each with the row it belongs to.
     """
-    # NOTE: imported here until the geometry package exports them at import time.
-    from outlinebench.geometry import extrema_params, self_intersections
-
     out: list[tuple[int, Finding]] = []
     cub = table.cubics
     m = cub.shape[0]
@@ -332,29 +333,37 @@ def segment_findings(
     hi = np.maximum(cub[:, 0], cub[:, 3]) + limits.overshoot
     handles = cub[:, 1:3]
     outside = ((handles < lo[:, None]) | (handles > hi[:, None])).any(axis=(1, 2))
-    for r in np.flatnonzero(outside & (table.degree >= 2) & ~tiny):
-        seg = segments[r]
-        o, c, s = place(r)
-        for axis, params in enumerate(extrema_params(seg)):
-            for t in np.atleast_1d(params):
-                p = evaluate(seg, float(t))
-                ends = (seg[0, axis], seg[-1, axis])
-                over = max(p[axis] - max(ends), min(ends) - p[axis])
-                if over <= limits.overshoot:
-                    continue
-                name = "xy"[axis]
-                out.append(
-                    (
-                        int(r),
-                        Finding(
-                            "missing-extremum", INFO, o, c, s, float(t), float(p[0]),
-                            float(p[1]), float(over), "user",
-                            f"the segment reaches its {name} extremum at t = {t:.4g}, "
-                            f"{over:.4g} beyond its end points; an on-curve point there "
-                            "keeps the outline easy to edit",
-                            limit=limits.overshoot,
-                        ),
-                    )
-                )  # fmt: skip
+    cand = np.flatnonzero(outside & (table.degree >= 2) & ~tiny)
+    if cand.size:
+        c = cub[cand]
+        ts = stationary_params(c, simple_only=True).reshape(cand.size, 4)  # x, x, y, y
+        valid = np.isfinite(ts)
+        basis = bernstein_matrix(3, np.where(valid, ts, 0.0).ravel()).reshape(cand.size, 4, 4)
+        vals = np.einsum("mtk,mkd->mtd", basis, c)  # (C, 4, 2)
+        axis = np.array([0, 0, 1, 1])
+        coord = vals[:, np.arange(4), axis]
+        end_lo = np.minimum(c[:, 0], c[:, 3])[:, axis]
+        end_hi = np.maximum(c[:, 0], c[:, 3])[:, axis]
+        over = np.maximum(coord - end_hi, end_lo - coord)
+        hit_r, hit_k = np.nonzero(valid & (over > limits.overshoot))
+        for q, k in zip(hit_r.tolist(), hit_k.tolist(), strict=True):
+            r = int(cand[q])
+            o, cc, s = place(r)
+            t = float(ts[q, k])
+            ov = float(over[q, k])
+            name = "xy"[axis[k]]
+            out.append(
+                (
+                    r,
+                    Finding(
+                        "missing-extremum", INFO, o, cc, s, t, float(vals[q, k, 0]),
+                        float(vals[q, k, 1]), ov, "user",
+                        f"the segment reaches its {name} extremum at t = {t:.4g}, {ov:.4g} "
+                        "beyond its end points; an on-curve point there keeps the outline "
+                        "easy to edit",
+                        limit=limits.overshoot,
+                    ),
+                )
+            )  # fmt: skip
     out.sort(key=lambda item: item[0])
     return out
