@@ -3,6 +3,15 @@
 A segment is a float64 control-point array of shape ``(K, 2)`` with K = 2 (line), 3 (quadratic)
 or 4 (cubic); a batch of same-degree segments has shape ``(M, K, 2)``. Functions never mutate
 their inputs, print, or keep state. Validate foreign input once with :func:`as_control_points`.
+
+Modules: ``bezier`` (evaluation, hodographs, split, elevation, power basis), ``curvature``
+(signed κ, tangents and normals with degenerate-end fallback, inflections, cusps),
+``quadrature`` (Gauss–Legendre and Gauss–Kronrod rules, batched adaptive integration),
+``arclength`` (lengths, sub-range lengths, parameter at a length), ``extrema`` (x/y extrema,
+tight boxes), ``area`` (Green's-theorem signed area), ``nearest`` (global nearest point),
+``intersect`` (segment–segment and self-intersections), plus ``flatten``, ``offset`` and
+``fit``. Nothing here returns NaN for finite input: degenerate segments get defined answers
+documented per function.
 """
 
 from outlinebench.geometry.arclength import (
