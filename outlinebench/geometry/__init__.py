@@ -10,8 +10,8 @@ Modules: ``bezier`` (evaluation, hodographs, split, elevation, power basis), ``c
 ``arclength`` (lengths, sub-range lengths, parameter at a length), ``extrema`` (x/y extrema,
 tight boxes), ``area`` (Green's-theorem signed area), ``nearest`` (global nearest point),
 ``intersect`` (segment–segment and self-intersections), plus ``flatten``, ``offset`` and
-``fit``. Nothing here returns NaN for finite input: degenerate segments get defined answers
-documented per function.
+``fit``. The core modules never return NaN for finite input: degenerate segments get defined
+answers, documented per function.
 """
 
 from outlinebench.geometry.arclength import (
