@@ -16,7 +16,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import segment_scale
-from outlinebench.geometry.bezier import derivative, evaluate, power_coefficients, split
+from outlinebench.geometry.bezier import evaluate, power_coefficients, split
 
 __all__ = [
     "INTERSECTION_TOLERANCE",
@@ -143,13 +143,29 @@ def _dedupe(cands: FloatArray, a: FloatArray | None, b: FloatArray | None) -> Fl
     return out
 
 
+def _poly(c: FloatArray, t: FloatArray) -> FloatArray:
+    """Σ c_k t^k for monomial coefficients ``(k, 2)`` at ``(N,)`` parameters → ``(N, 2)``."""
+    v = np.broadcast_to(c[-1], (t.size, 2)).copy()
+    for j in range(c.shape[0] - 2, -1, -1):
+        v *= t[:, None]
+        v += c[j]
+    return v
+
+
 def _newton(a, b, s, u, iterations=40):
-    """Polish A(s) = B(u) by Newton's method on the 2×2 system, kept inside [0, 1]²."""
-    da, db = derivative(a), derivative(b)
+    """Polish A(s) = B(u) by Newton's method on the 2×2 system, kept inside [0, 1]².
+
+    Stops when no parameter moves by more than a few ulps. The inputs are unit-sized (see
+    callers), where the monomial form is accurate to ~1e-15.
+    """
+    ca, cb = power_coefficients(a), power_coefficients(b)
+    dca = ca[1:] * np.arange(1, ca.shape[0])[:, None]
+    dcb = cb[1:] * np.arange(1, cb.shape[0])[:, None]
+    stop = 4.0 * np.finfo(np.float64).eps
     for _ in range(iterations):
-        r = evaluate(a, s) - evaluate(b, u)  # (N, 2)
-        ja = evaluate(da, s)
-        jb = -evaluate(db, u)
+        r = _poly(ca, s) - _poly(cb, u)  # (N, 2)
+        ja = _poly(dca, s)
+        jb = -_poly(dcb, u)
         det = _cross(ja, jb)
         ok = np.abs(det) > 1e-300
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
@@ -157,10 +173,10 @@ def _newton(a, b, s, u, iterations=40):
             du = np.where(ok, _cross(ja, r) / np.where(ok, det, 1.0), 0.0)
         s_new = np.clip(s - ds, 0.0, 1.0)
         u_new = np.clip(u - du, 0.0, 1.0)
-        if np.all((np.abs(s_new - s) < 1e-16) & (np.abs(u_new - u) < 1e-16)):
-            s, u = s_new, u_new
-            break
+        moved = max(np.abs(s_new - s).max(initial=0.0), np.abs(u_new - u).max(initial=0.0))
         s, u = s_new, u_new
+        if moved <= stop:
+            break
     return s, u
 
 
