@@ -71,6 +71,9 @@ for _ch in _COMMANDS:
 _CLASS[ord(",")] = 3
 _TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
 _NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
+# A "." after a "." or an exponent within one run of number characters.
+_SECOND_DOT_RE = re.compile(rb"[.eE][+-]?[0-9]*+\.")
+_DROP_WSP = str.maketrans("", "", _WSP)
 _IS_DIGIT = np.zeros(256, dtype=bool)
 _IS_DIGIT[ord("0") : ord("9") + 1] = True
 
@@ -138,6 +141,35 @@ def _error(d: str, offset: int, expected: str) -> SvgPathError:
 
 
 # -- lexing ------------------------------------------------------------------------------------
+def _separate(raw: bytes) -> bytes:
+    """Put a space where one number ends and the next begins without a separator.
+
+    The grammar's longest-match reading (SVG 1.1 §8.3.9) starts a new number at a sign that
+    does not follow an exponent's "e" ("1-2", "1e-2" stays), and at a "." when the number so
+    far already has a "." or an exponent (".5.5", "1e5.5"). Splitting there changes no valid
+    data's meaning, and invalid data stays invalid (it then fails a later check and goes to
+    the general lexer, which reports the error on the original text).
+    """
+    if b"-" in raw or b"+" in raw:
+        raw = raw.replace(b"-", b" -").replace(b"+", b" +")
+        for glued in (b"e -", b"E -", b"e +", b"E +"):
+            if glued in raw:
+                raw = raw.replace(glued, glued[:1] + glued[2:])
+    if _SECOND_DOT_RE.search(raw) is None:
+        return raw
+    codes = np.frombuffer(raw, dtype=np.uint8)
+    dots = np.flatnonzero(codes == ord("."))
+    markers = np.flatnonzero((codes == ord(".")) | (codes == ord("e")) | (codes == ord("E")))
+    idx = np.searchsorted(markers, dots) - 1
+    prev = markers[np.maximum(idx, 0)]
+    gaps = np.flatnonzero(_CLASS[codes] != 1)  # separator and command positions
+    same_number = np.searchsorted(gaps, dots) == np.searchsorted(gaps, prev)
+    split = dots[(idx >= 0) & same_number]
+    if not split.size:
+        return raw
+    return np.insert(codes, split, ord(" ")).tobytes()
+
+
 def _lex_fast(d: str) -> _Tokens | None:
     """Whole-string lexer for separated numbers; None when the general lexer is needed."""
     try:
@@ -151,6 +183,7 @@ def _lex_fast(d: str) -> _Tokens | None:
         return None if raw.strip() else _Tokens(b"", np.zeros(0, np.int64), np.zeros(0))
     if commands[0] not in b"Mm":
         return None
+    raw = _separate(raw)
     codes = np.frombuffer(raw, dtype=np.uint8)
     cls = _CLASS[codes]
     sig = cls[cls != 0]
@@ -202,8 +235,10 @@ def _lex_fast(d: str) -> _Tokens | None:
     dots = np.flatnonzero(codes == ord("."))
     trailing = 0
     if dots.size:
-        nxt = np.append(codes, 32)[dots + 1]
-        trailing = int(np.count_nonzero(~_IS_DIGIT[nxt]))
+        after = dots + 1
+        at_end = int(after[-1] == codes.size)  # a final "." is followed by nothing
+        nxt = codes[after[: after.size - at_end]]
+        trailing = int(np.count_nonzero(~_IS_DIGIT[nxt])) + at_end
     return _Tokens(commands, counts, numbers, trailing)
 
 
@@ -223,6 +258,8 @@ def _lex_general(d: str) -> _Tokens:
         err = _error(d, len(pre), "a moveto ('M' or 'm')")
         return _Tokens(b"", np.zeros(0, np.int64), np.zeros(0), 0, err)
     offset = len(pre)
+    starts: list[int] = []  # per kept command: index of its first number in `texts`
+    spans: list[tuple[int, str]] = []  # per kept command: (offset of its arguments, text)
     for i in range(1, len(parts), 2):
         cmd, args = parts[i], parts[i + 1]
         base = offset + 1
@@ -236,39 +273,50 @@ def _lex_general(d: str) -> _Tokens:
             if m.end() < len(args):
                 error = _error(d, base + m.end(), "a command letter")
         else:
-            m = _ARGS_RE.match(args)
-            end = m.end()
-            got = _NUM_RE.findall(args, 0, end)
-            if end < len(args):
-                error = _error(d, base + end, "a number")
-            elif args.rstrip(_WSP).endswith(","):
-                error = _error(d, offset, "a number")
-        # Overflow ("1e999") is a bad number at its own offset.
-        for k, text in enumerate(got):
-            value = float(text)
-            if value in (float("inf"), float("-inf")):
-                pos = [m.start() for m in _NUM_RE.finditer(args)][k]
-                token = _token_at(d, base + pos)
-                error = SvgPathError(
-                    f"number out of range at offset {base + pos}, found {token!r}",
-                    base + pos,
-                    token,
-                )
-                got = got[:k]
-                break
+            got = _NUM_RE.findall(args)
+            # Valid when the numbers cover every character that is not a separator and no
+            # comma is involved (then the comma rules need the full pattern below).
+            if "," in args or sum(map(len, got)) != len(args.translate(_DROP_WSP)):
+                m = _ARGS_RE.match(args)
+                end = m.end()
+                got = _NUM_RE.findall(args, 0, end)
+                if end < len(args):
+                    error = _error(d, base + end, "a number")
+                elif args.rstrip(_WSP).endswith(","):
+                    error = _error(d, offset, "a number")
         if error is None and arity and (len(got) < arity or len(got) % arity):
             error = _error(d, offset, "a number")
         if arity:
             got = got[: len(got) - len(got) % arity]
-        trailing += sum(1 for t in got if _ODD_DOT_RE.search(t))
         if got or arity == 0:
-            if not (arity and not got):
-                commands.append(cmd)
-                counts.append(len(got))
-                texts.extend(got)
+            if "." in args:
+                joined = " ".join(got) + " "
+                trailing += joined.count(". ") + joined.count(".e") + joined.count(".E")
+            commands.append(cmd)
+            counts.append(len(got))
+            starts.append(len(texts))
+            spans.append((base, args))
+            texts.extend(got)
         if error is not None:
             break
-    numbers = np.array([float(t) for t in texts], dtype=np.float64)
+    numbers = np.array(texts, dtype=np.float64) if texts else np.zeros(0)
+    bad = np.flatnonzero(~np.isfinite(numbers))
+    if bad.size:
+        # Overflow ("1e999") is a bad number at its own offset; keep what precedes it.
+        g = int(bad[0])
+        j = int(np.searchsorted(starts, g, side="right")) - 1
+        k = g - starts[j]
+        base, args = spans[j]
+        pos = base + [m.start() for m in _NUM_RE.finditer(args)][k]
+        token = _token_at(d, pos)
+        error = SvgPathError(f"number out of range at offset {pos}, found {token!r}", pos, token)
+        arity = _ARITY[commands[j].upper()]
+        keep = k - k % arity
+        commands, counts = commands[: j + 1], counts[: j + 1]
+        counts[j] = keep
+        if keep == 0:
+            commands, counts = commands[:j], counts[:j]
+        numbers = numbers[: starts[j] + keep]
     return _Tokens(
         "".join(commands).encode("ascii"),
         np.array(counts, dtype=np.int64),
@@ -325,12 +373,17 @@ def _resolve(values: NDArray[np.float64], dep: NDArray[np.int64]) -> NDArray[np.
         resolved[idx] = True
         pending = pending[~ready]
     if pending.size:
-        seq = out.tolist()
-        vals = values.tolist()
-        deps = dep.tolist()
-        for i in pending.tolist():
-            seq[i] = seq[deps[i]] + vals[i]
-        out = np.array(seq, dtype=np.float64)
+        # What is left are long chains of relative rows: each maximal run of consecutive
+        # rows depending on the row before is one sequential np.add.accumulate.
+        cut = np.flatnonzero((np.diff(pending) != 1) | (dep[pending[1:]] != pending[1:] - 1))
+        for run in np.split(pending, cut + 1):
+            a = int(run[0])
+            first = out[dep[a]] + values[a]
+            if run.size == 1:
+                out[a] = first
+            else:
+                chain = np.concatenate(([first], values[run[1:]]))
+                out[run] = np.add.accumulate(chain)
     return out
 
 

@@ -12,7 +12,7 @@ from scipy.integrate import quad
 
 from outlinebench.errors import SvgPathError, SvgReadError
 from outlinebench.geometry.bezier import derivative
-from outlinebench.io import format_path_data, parse_path_data
+from outlinebench.io import format_path_data, parse_path_data, svg_path
 from outlinebench.io.svg_path import read_path_data
 
 
@@ -231,9 +231,28 @@ def _num(x):
     return text[:-2] if text.endswith(".0") else text
 
 
+def _compact_join(texts):
+    """Join numbers the way size-minded exporters do: no separator where the grammar's
+    longest match already ends a number (before a sign, or before "." after a "." or "e")."""
+    out = texts[0]
+    for prev, t in zip(texts, texts[1:], strict=False):
+        glued = t[0] in "+-" or (t[0] == "." and ("." in prev or "e" in prev))
+        out += t if glued else " " + t
+    return out
+
+
+def _short(text):
+    # "0.5" → ".5", "-0.5" → "-.5" (both valid numbers in the BNF).
+    if text.startswith("0."):
+        return text[1:]
+    if text.startswith("-0."):
+        return "-" + text[2:]
+    return text
+
+
 @st.composite
 def path_strings(draw, arcs=False):
-    """Random valid path data (no arcs unless asked) and its command list."""
+    """Random valid path data (no arcs unless asked)."""
     letters = "LlHhVvCcSsQqTt" + ("Aa" if arcs else "")
     arity = {"L": 2, "H": 1, "V": 1, "C": 6, "S": 4, "Q": 4, "T": 2, "A": 7}
     parts = [f"M{_num(draw(_coord))} {_num(draw(_coord))}"]
@@ -253,7 +272,10 @@ def path_strings(draw, arcs=False):
                 vals[1] = _num(abs(float(vals[1])) + 1)
                 vals[3] = draw(st.sampled_from("01"))
                 vals[4] = draw(st.sampled_from("01"))
-            groups.append(draw(st.sampled_from([" ", ","])).join(vals))
+            if draw(st.booleans()) and c.upper() != "A":
+                groups.append(_compact_join([_short(v) for v in vals]))
+            else:
+                groups.append(draw(st.sampled_from([" ", ","])).join(vals))
         parts.append(c + " ".join(groups))
     return draw(st.sampled_from([" ", "", "\n"])).join(parts)
 
@@ -342,3 +364,24 @@ def test_a_long_path_reads_in_one_pass():
     b = parse_path_data(compact)
     assert len(a[0].segments) == n and len(b[0].segments) == n
     assert np.array_equal(a[0].segments[-1][1], xy[-1])
+
+
+_lexer_text = st.one_of(
+    path_strings(arcs=True),
+    st.text(alphabet="MmLlHhCcAaZz0123456789.,-+eE \n", max_size=40).map(lambda t: "M0 0" + t),
+)
+
+
+@given(_lexer_text)
+def test_fast_lexer_agrees_with_the_general_lexer(d):
+    # The whole-string lexer must give exactly what the per-command lexer gives whenever it
+    # accepts the data (it hands everything else to the general one). Our own invariant.
+    fast = svg_path._lex_fast(d)
+    if fast is None:
+        return
+    general = svg_path._lex_general(d)
+    assert general.error is None
+    assert fast.commands == general.commands
+    assert fast.counts.tolist() == general.counts.tolist()
+    assert np.array_equal(fast.numbers, general.numbers)
+    assert fast.trailing_dot == general.trailing_dot
