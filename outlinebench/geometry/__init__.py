@@ -19,6 +19,7 @@ from outlinebench.geometry.arclength import (
     arc_length_between,
     param_at_length,
     quadratic_arc_length,
+    segment_lengths,
 )
 from outlinebench.geometry.area import segment_area_terms, signed_area
 from outlinebench.geometry.bezier import (
@@ -80,6 +81,7 @@ __all__ = [
     "arc_length_between",
     "param_at_length",
     "quadratic_arc_length",
+    "segment_lengths",
     "gauss_legendre",
     "bounding_box",
     "extrema_params",

@@ -26,6 +26,7 @@ __all__ = [
     "arc_length_between",
     "param_at_length",
     "quadratic_arc_length",
+    "segment_lengths",
 ]
 
 FloatArray = NDArray[np.float64]
@@ -138,8 +139,7 @@ def _speed_minimum(hodo: FloatArray) -> tuple[FloatArray, FloatArray]:
         tc = t[:, None]
         g = _horner(d1, tc)[:, 0]
         gp = _horner(d2, tc)[:, 0]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            step = np.where(gp > 0.0, g / np.where(gp > 0.0, gp, 1.0), 0.0)
+        step = g / np.where(gp > 0.0, gp, np.inf)  # no step where |B′|² is not convex
         t_new = np.clip(t - step, 0.0, 1.0)
         if np.array_equal(t_new, t):
             break
@@ -272,6 +272,41 @@ def arc_length(
     if single:
         lengths, rel = float(lengths[0]), float(rel[0])
     return (lengths, rel) if return_error else lengths
+
+
+def segment_lengths(segments, tolerance: float = ARC_LENGTH_TOLERANCE) -> FloatArray:
+    """Lengths of a list of segments of mixed degree, batched by degree.
+
+    Parameters
+    ----------
+    segments : sequence of array_like, each (K, 2) with K in 2..4
+        For instance a contour's segments, or every segment of a document.
+    tolerance : float
+        As in :func:`arc_length`.
+
+    Returns
+    -------
+    ndarray, shape (N,)
+        In the order given.
+
+    Notes
+    -----
+    One :func:`arc_length` call per degree present, so a whole document costs three batched
+    integrations instead of one Python-level integration per segment (a single-segment
+    call carries ~0.5 ms of fixed overhead).
+
+    Examples
+    --------
+    >>> segment_lengths([np.array([[0.0, 0.0], [3.0, 4.0]]), np.zeros((4, 2))])
+    array([5., 0.])
+    """
+    arrays = [np.asarray(seg, dtype=np.float64) for seg in segments]
+    out = np.zeros(len(arrays))
+    for k in (2, 3, 4):
+        idx = [i for i, a in enumerate(arrays) if a.shape[0] == k]
+        if idx:
+            out[idx] = arc_length(np.stack([arrays[i] for i in idx]), tolerance)
+    return out
 
 
 def arc_length_between(

@@ -22,6 +22,7 @@ from outlinebench.geometry.arclength import (
     arc_length_between,
     param_at_length,
     quadratic_arc_length,
+    segment_lengths,
 )
 from outlinebench.geometry.bezier import elevate, reverse, split
 
@@ -146,3 +147,10 @@ def test_param_at_length_inverts_length():
     assert param_at_length(np.array([[0.0, 0.0], [4.0, 0.0]]), 1.0) == 0.25
     # The exact cusp sits at half the length by symmetry (EXACT_CUSP is mirror-symmetric).
     assert param_at_length(EXACT_CUSP, arc_length(EXACT_CUSP) / 2) == pytest.approx(0.5, abs=1e-9)
+
+
+def test_segment_lengths_of_mixed_degrees_keep_order():
+    segs = [PARABOLA, np.array([[0.0, 0.0], [3.0, 4.0]]), QUAD, PARABOLA * 2, np.zeros((3, 2))]
+    want = [PARABOLA_LENGTH, 5.0, QUAD_LENGTH, 2 * PARABOLA_LENGTH, 0.0]  # closed forms above
+    np.testing.assert_allclose(segment_lengths(segs), want, rtol=1e-15)
+    assert segment_lengths([]).shape == (0,)
