@@ -8,6 +8,8 @@ pointer events in document coordinates and the active tool decides what they mea
 
 from __future__ import annotations
 
+import math
+
 from PySide6.QtCore import QPointF, QRectF, Qt, Signal
 from PySide6.QtGui import (
     QKeyEvent,
@@ -16,13 +18,23 @@ from PySide6.QtGui import (
     QPainterPath,
     QPaintEvent,
     QPen,
+    QPixmap,
     QResizeEvent,
     QWheelEvent,
 )
 from PySide6.QtWidgets import QSizePolicy, QWidget
 
 from outlinebench.app import style
-from outlinebench.app.canvas_painter import PaintStats, document_bounds, page_rect, paint_document
+from outlinebench.app.canvas_painter import (
+    PaintStats,
+    count_points_in_view,
+    document_bounds,
+    page_rect,
+    paint_background,
+    paint_document,
+    paint_outlines,
+    paint_selection,
+)
 from outlinebench.app.contour_graphics import GraphicsCache
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
@@ -57,6 +69,8 @@ class Canvas(QWidget):
         self._space_down = False
         self._last_pan = QPointF()
         self._fitted_once = False
+        self._last_doc: Document | None = None  # last document painted outside a gesture
+        self._backdrop: tuple | None = None  # (key, pixmap, marks) while a gesture runs
         self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
         self.setMouseTracking(True)
         self.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
@@ -110,23 +124,67 @@ class Canvas(QWidget):
             self.fit_to_outline()
 
     def paintEvent(self, event: QPaintEvent) -> None:  # noqa: N802 (Qt name)
+        doc = self.document
         p = QPainter(self)
         try:
-            paint_document(
-                p,
-                self.view,
-                self.document,
-                self.cache,
-                self.width(),
-                self.height(),
-                self.devicePixelRatioF(),
-                self._editor.selected_points(),
-                self._editor.hover,
-                self.stats,
-            )
+            live = self._live_outlines(doc)
+            if live is None:
+                self._backdrop = None
+                paint_document(
+                    p,
+                    self.view,
+                    doc,
+                    self.cache,
+                    self.width(),
+                    self.height(),
+                    self.devicePixelRatioF(),
+                    self._editor.selected_points(),
+                    self._editor.hover,
+                    self.stats,
+                )
+            else:
+                self._paint_with_backdrop(p, doc, live)
             self._paint_tool_overlay(p)
         finally:
             p.end()
+        if not self._editor.history.in_group:
+            self._last_doc = doc
+
+    def _live_outlines(self, doc: Document) -> set[int] | None:
+        """Outlines a gesture in progress has changed, or None when no gesture is running.
+
+        During a drag only these are repainted each frame; everything else comes from a
+        backdrop pixmap painted once per drag (and again if the view changes).
+        """
+        base = self._last_doc
+        if not self._editor.history.in_group or base is None:
+            return None
+        if len(base.outlines) != len(doc.outlines):
+            return None
+        pairs = zip(base.outlines, doc.outlines, strict=True)
+        return {i for i, (a, b) in enumerate(pairs) if a is not b}
+
+    def _paint_with_backdrop(self, p: QPainter, doc: Document, live: set[int]) -> None:
+        w, h, dpr = self.width(), self.height(), self.devicePixelRatioF()
+        v = self.view
+        key = (v.scale, v.offset_x, v.offset_y, w, h, dpr, frozenset(live), id(self._last_doc))
+        if self._backdrop is None or self._backdrop[0] != key:
+            base = self._last_doc
+            marks = count_points_in_view(v, doc, self.cache, w, h) <= style.MAX_MARKED_POINTS
+            pixmap = QPixmap(int(math.ceil(w * dpr)), int(math.ceil(h * dpr)))
+            pixmap.setDevicePixelRatio(dpr)
+            bp = QPainter(pixmap)
+            try:
+                paint_background(bp, v, doc, w, h, dpr)
+                still = set(range(len(doc.outlines))) - live
+                paint_outlines(bp, v, base, self.cache, w, h, outlines=still, marks=marks)
+            finally:
+                bp.end()
+            self._backdrop = (key, pixmap, marks)
+        _, pixmap, marks = self._backdrop
+        p.drawPixmap(0, 0, pixmap)
+        paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
+        paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)
 
     def _paint_tool_overlay(self, p: QPainter) -> None:
         ov = self._editor.overlay()

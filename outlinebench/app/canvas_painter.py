@@ -19,7 +19,17 @@ from outlinebench.app.contour_graphics import ContourGraphics, GraphicsCache, Jo
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
 
-__all__ = ["page_rect", "paint_document", "PaintStats", "document_bounds", "mark_path"]
+__all__ = [
+    "page_rect",
+    "paint_document",
+    "paint_background",
+    "paint_outlines",
+    "paint_selection",
+    "count_points_in_view",
+    "PaintStats",
+    "document_bounds",
+    "mark_path",
+]
 
 
 class PaintStats:
@@ -170,15 +180,22 @@ def paint_document(
     Parameters
     ----------
     selected : set of (outline, contour, segment, index)
-        Control points drawn as selected. An on-curve point is named by the segment it
-        starts (index 0), or for the end of an open contour by the last segment (index −1
-        of its control points, written as its real index).
+        Control points drawn as selected (canonical names, see
+        :func:`outlinebench.model.commands.canonical_ref`).
     hover : (outline, contour, segment, index) or None
         The point under the pointer.
     """
     stats = stats or PaintStats()
-    stats.contours_drawn = 0
-    stats.points_in_view = 0
+    paint_background(p, view, doc, width, height, dpr)
+    paint_outlines(p, view, doc, cache, width, height, stats=stats)
+    paint_selection(p, view, doc, selected, hover)
+    return stats
+
+
+def paint_background(
+    p: QPainter, view: ViewTransform, doc: Document, width: float, height: float, dpr: float
+) -> None:
+    """Desk, page with its shadow and edge, and the millimetre grid."""
     p.fillRect(QRectF(0, 0, width, height), style.DESK)
     page = page_rect(doc)
     if page is not None:
@@ -193,28 +210,76 @@ def paint_document(
         p.setBrush(Qt.BrushStyle.NoBrush)
         p.drawRect(QRectF(sx0, sy0, sx1 - sx0, sy1 - sy0))
 
-    # Visible contours (bounding boxes of control points contain the curves).
+
+def count_points_in_view(
+    view: ViewTransform, doc: Document, cache: GraphicsCache, width: float, height: float
+) -> int:
+    """On-curve points inside the view (decides whether marks are drawn)."""
+    return sum(int(v[4].sum()) for v in _visible(view, doc, cache, width, height, None))
+
+
+def _visible(
+    view: ViewTransform,
+    doc: Document,
+    cache: GraphicsCache,
+    width: float,
+    height: float,
+    outlines: set[int] | None,
+) -> list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]]:
+    visible = view.doc_rect(width, height)
     margin = (style.MARK_SIZE * 2) / view.scale
     vis = (visible[0] - margin, visible[1] - margin, visible[2] + margin, visible[3] + margin)
-    shown: list[tuple[int, int, ContourGraphics]] = []
+    out = []
     for oi, outline in enumerate(doc.outlines):
+        if outlines is not None and oi not in outlines:
+            continue
         for ci, contour in enumerate(outline.contours):
             if not contour.segments:
                 continue
             g = cache.get(contour)
-            if _intersects(g.bounds, vis):
-                shown.append((oi, ci, g))
-    stats.contours_drawn = len(shown)
+            # Bounding boxes of control points contain the curves (convex hull property).
+            if not _intersects(g.bounds, vis):
+                continue
+            scr = view.to_screen_array(g.on_curve)
+            inside = (
+                (scr[:, 0] >= -20)
+                & (scr[:, 0] <= width + 20)
+                & (scr[:, 1] >= -20)
+                & (scr[:, 1] <= height + 20)
+            )
+            out.append((oi, ci, g, scr, inside))
+    return out
 
-    # Outlines: fill closed contours per outline (even-odd, so counters stay open), then
-    # stroke. The fill is drawn without antialiasing: its edge lies under the antialiased
-    # stroke, and aliased filling is several times faster (benchmarks/bench_editor.py).
+
+def paint_outlines(
+    p: QPainter,
+    view: ViewTransform,
+    doc: Document,
+    cache: GraphicsCache,
+    width: float,
+    height: float,
+    *,
+    outlines: set[int] | None = None,
+    marks: bool | None = None,
+    stats: PaintStats | None = None,
+) -> PaintStats:
+    """Fill, stroke and mark the visible contours of the given outlines (default: all).
+
+    ``marks`` forces marks on or off; by default they are drawn when at most
+    :data:`style.MAX_MARKED_POINTS` on-curve points of these outlines are in view.
+    """
+    stats = stats or PaintStats()
+    shown = _visible(view, doc, cache, width, height, outlines)
+    stats.contours_drawn = len(shown)
+    # Fill closed contours per outline (even-odd, so counters stay open), then stroke. The
+    # fill is drawn without antialiasing: its edge lies under the antialiased stroke, and
+    # aliased filling is several times faster (benchmarks/bench_editor.py).
     p.save()
     p.setTransform(QTransform(view.scale, 0, 0, view.scale, view.offset_x, view.offset_y), False)
     p.setRenderHint(QPainter.RenderHint.Antialiasing, False)
     p.setPen(Qt.PenStyle.NoPen)
     p.setBrush(QBrush(style.OUTLINE_FILL))
-    for oi in sorted({oi for oi, _, _ in shown}):
+    for oi in sorted({v[0] for v in shown}):
         fill = cache.fill_path(doc.outlines[oi])
         if fill is not None:
             p.drawPath(fill)
@@ -225,28 +290,13 @@ def paint_document(
     pen.setCosmetic(True)
     p.setPen(pen)
     p.setBrush(Qt.BrushStyle.NoBrush)
-    for _, _, g in shown:
-        p.drawPath(g.path)
+    for v in shown:
+        p.drawPath(v[2].path)
     p.restore()
-
-    # How many on-curve points are in view decides whether marks are drawn.
-    in_view: list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]] = []
-    total = 0
-    for oi, ci, g in shown:
-        scr = view.to_screen_array(g.on_curve)
-        inside = (
-            (scr[:, 0] >= -20)
-            & (scr[:, 0] <= width + 20)
-            & (scr[:, 1] >= -20)
-            & (scr[:, 1] <= height + 20)
-        )
-        total += int(inside.sum())
-        in_view.append((oi, ci, g, scr, inside))
-    stats.points_in_view = total
-    stats.marks_drawn = total <= style.MAX_MARKED_POINTS
+    stats.points_in_view = sum(int(v[4].sum()) for v in shown)
+    stats.marks_drawn = stats.points_in_view <= style.MAX_MARKED_POINTS if marks is None else marks
     if stats.marks_drawn:
-        _paint_marks(p, view, in_view, width, height)
-    _paint_selection(p, view, doc, selected, hover)
+        _paint_marks(p, view, shown, width, height)
     return stats
 
 
@@ -292,7 +342,7 @@ def _paint_marks(
         p.drawPath(hollow[kind])
 
 
-def _paint_selection(
+def paint_selection(
     p: QPainter,
     view: ViewTransform,
     doc: Document,

@@ -132,67 +132,106 @@ class ContourGraphics:
     handle_ref: list[tuple[int, int]]
 
 
-def _mark_for(
-    incoming: NDArray[np.float64], outgoing: NDArray[np.float64], intent: str | None
-) -> JoinMark:
-    cos = float(np.clip(incoming @ outgoing, -1.0, 1.0))
-    angle = float(np.degrees(np.arccos(cos)))
-    kind = intent if intent is not None else ("smooth" if angle < SMOOTH_DISPLAY_DEG else "corner")
-    if kind == "smooth":
-        d = incoming + outgoing
-    else:
-        d = incoming - outgoing
-        if float(np.hypot(*d)) < 1e-6:  # a corner stated on a straight-through join
-            d = np.array([-incoming[1], incoming[0]])
-    n = float(np.hypot(d[0], d[1]))
-    direction = (float(d[0] / n), float(d[1] / n)) if n > _EPS else (1.0, 0.0)
-    return JoinMark(kind, intent is not None, direction)
+def _directions(
+    segs: tuple[NDArray[np.float64], ...],
+) -> tuple[NDArray, NDArray, NDArray, NDArray]:
+    """Unit start and end travel directions of every segment, ``(n, 2)`` each (as
+    :func:`end_directions`, vectorised over the contour), and the control points padded to
+    four per segment forwards and backwards, ``(n, 4, 2)`` each."""
+    n = len(segs)
+    fwd = np.empty((n, 4, 2))
+    bwd = np.empty((n, 4, 2))
+    for i, seg in enumerate(segs):
+        k = seg.shape[0]
+        fwd[i, :k] = seg
+        fwd[i, k:] = seg[-1]
+        bwd[i, :k] = seg[::-1]
+        bwd[i, k:] = seg[0]
+
+    def first_distinct(d: NDArray[np.float64]) -> NDArray[np.float64]:
+        norms = np.hypot(d[..., 0], d[..., 1])  # (n, 3)
+        ok = norms > _EPS
+        idx = np.argmax(ok, axis=1)
+        rows = np.arange(n)
+        pick = d[rows, idx]
+        length = norms[rows, idx]
+        good = ok[rows, idx]
+        out = np.zeros((n, 2))
+        out[good] = pick[good] / length[good, None]
+        return out
+
+    start = first_distinct(fwd[:, 1:] - fwd[:, :1])
+    end = first_distinct(bwd[:, :1] - bwd[:, 1:])
+    return start, end, fwd, bwd
+
+
+def _join_marks(
+    incoming: NDArray[np.float64], outgoing: NDArray[np.float64], intents: list[str | None]
+) -> list[JoinMark]:
+    """Marks of joins whose incoming end and outgoing start directions are given, ``(m, 2)``."""
+    if not len(intents):
+        return []
+    cos = np.clip(np.einsum("ij,ij->i", incoming, outgoing), -1.0, 1.0)
+    inferred_smooth = np.degrees(np.arccos(cos)) < SMOOTH_DISPLAY_DEG
+    stated = np.array([i is not None for i in intents])
+    smooth = np.where(stated, np.array([i == "smooth" for i in intents]), inferred_smooth)
+    d = np.where(smooth[:, None], incoming + outgoing, incoming - outgoing)
+    norm = np.hypot(d[:, 0], d[:, 1])
+    straight = ~smooth & (norm < 1e-6)  # a corner stated on a straight-through join
+    d[straight] = np.stack([-incoming[straight, 1], incoming[straight, 0]], axis=1)
+    norm = np.hypot(d[:, 0], d[:, 1])
+    ok = norm > _EPS
+    d[ok] /= norm[ok, None]
+    d[~ok] = (1.0, 0.0)
+    return [
+        JoinMark("smooth" if sm else "corner", bool(st), (float(x), float(y)))
+        for sm, st, (x, y) in zip(smooth.tolist(), stated.tolist(), d.tolist(), strict=True)
+    ]
 
 
 def build_graphics(contour: Contour) -> ContourGraphics:
     """Compute the drawing data of ``contour``."""
     segs = contour.segments
     n = len(segs)
-    allpts = np.concatenate(segs) if n else np.zeros((0, 2))
-    if n:
-        lo = allpts.min(axis=0)
-        hi = allpts.max(axis=0)
-        bounds = (float(lo[0]), float(lo[1]), float(hi[0]), float(hi[1]))
-    else:
-        bounds = (0.0, 0.0, 0.0, 0.0)
-    dirs = [end_directions(s) for s in segs]
+    if not n:
+        empty = np.zeros((0, 2))
+        return ContourGraphics(QPainterPath(), (0.0, 0.0, 0.0, 0.0), empty, [], empty, [], [])
+    allpts = np.concatenate(segs)
+    lo = allpts.min(axis=0)
+    hi = allpts.max(axis=0)
+    bounds = (float(lo[0]), float(lo[1]), float(hi[0]), float(hi[1]))
+    start, end, fwd, bwd = _directions(segs)
     on_curve = contour.on_curve_points()
-    marks: list[JoinMark] = []
-    point_kind: list[str] = []
-    for k in range(len(on_curve)):
-        if not contour.closed and k == 0:
-            d = dirs[0][0]
-            mark = JoinMark("start", True, (float(d[0]), float(d[1])))
-        elif not contour.closed and k == n:
-            d = dirs[-1][1]
-            mark = JoinMark("end", True, (float(d[0]), float(d[1])))
-        else:
-            j = (k - 1) % n  # join j is where segment j ends and segment j + 1 begins
-            mark = _mark_for(dirs[j][1], dirs[(j + 1) % n][0], contour.joins[j])
-        marks.append(mark)
-        point_kind.append(mark.kind)
-    lines = []
+    if contour.closed:
+        # join j (segment j → j + 1) sits at on-curve point j + 1 (mod n)
+        joins = _join_marks(end, np.roll(start, -1, axis=0), list(contour.joins))
+        marks = joins[-1:] + joins[:-1]
+    else:
+        joins = _join_marks(end[:-1], start[1:], list(contour.joins))
+        d0, d1 = start[0], end[-1]
+        marks = [
+            JoinMark("start", True, (float(d0[0]), float(d0[1]))),
+            *joins,
+            JoinMark("end", True, (float(d1[0]), float(d1[1]))),
+        ]
+    point_kind = [m.kind for m in marks]
+    count = len(on_curve)
+    sizes = np.array([seg.shape[0] for seg in segs])
+    curved = np.flatnonzero(sizes > 2)
+    # (on-curve point, handle) pairs: P0–P1 at each curved segment's start, then P(k-1)–P(k-2)
+    # at its end, interleaved in segment order.
+    handle_lines = np.empty((2 * len(curved), 2, 2))
+    handle_lines[0::2, 0] = fwd[curved, 0]
+    handle_lines[0::2, 1] = fwd[curved, 1]
+    handle_lines[1::2, 0] = bwd[curved, 0]
+    handle_lines[1::2, 1] = bwd[curved, 1]
     kinds = []
     refs = []
-    count = len(on_curve)
-    for i, s in enumerate(segs):
-        k = s.shape[0]
-        if k == 2:
-            continue
-        start_kind = point_kind[i]
-        end_kind = point_kind[(i + 1) % count] if count else "corner"
-        lines.append((s[0], s[1]))
-        kinds.append(start_kind)
+    for i in curved.tolist():
+        kinds.append(point_kind[i])
+        kinds.append(point_kind[(i + 1) % count])
         refs.append((i, 1))
-        lines.append((s[-1], s[-2]))
-        kinds.append(end_kind)
-        refs.append((i, k - 2))
-    handle_lines = np.array(lines, dtype=np.float64).reshape(-1, 2, 2)
+        refs.append((i, int(sizes[i]) - 2))
     return ContourGraphics(
         contour_path(contour), bounds, on_curve, marks, handle_lines, kinds, refs
     )

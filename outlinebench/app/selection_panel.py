@@ -174,7 +174,8 @@ class SelectionPanel(QWidget):
                 self._show_on_curve(doc, key, units)
             else:
                 self._show_handle(doc, key, units)
-            lengths = [segment_length(seg) for seg in contour.segments]
+            quick = ed.history.in_group  # a drag is in progress
+            lengths = [segment_length(seg, quick=quick) for seg in contour.segments]
             self.contour_info.setText(
                 f"{'closed' if contour.closed else 'open'}, {len(contour.segments)} segments, "
                 f"length {units.text(sum(lengths))}"
@@ -250,13 +251,13 @@ class SelectionPanel(QWidget):
         self.seg_in.setText(self._seg_text(contour, s, units))
         self.seg_out.setText("")
 
-    @staticmethod
-    def _seg_text(contour, index: int | None, units) -> str:
+    def _seg_text(self, contour, index: int | None, units) -> str:
         if index is None:
             return "—"
         seg = contour.segments[index]
         kind = {2: "line", 3: "quadratic", 4: "cubic"}[seg.shape[0]]
-        return f"{kind}, length {units.text(segment_length(seg))}"
+        length = segment_length(seg, quick=self._editor.history.in_group)
+        return f"{kind}, length {units.text(length)}"
 
     @staticmethod
     def _turn_text(doc, key) -> str:
