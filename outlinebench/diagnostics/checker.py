@@ -23,6 +23,8 @@ item at a time.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from itertools import compress
+from operator import is_not
 
 import numpy as np
 from numpy.typing import NDArray
@@ -237,9 +239,9 @@ class Checker:
             return None
         if len(doc.outlines) != len(old.outlines):
             return None
-        changed = [
-            i for i, (a, b) in enumerate(zip(doc.outlines, old.outlines, strict=True)) if a is not b
-        ]
+        # C-level loop: which outlines are other objects than last time
+        flags = map(is_not, doc.outlines, old.outlines)
+        changed = list(compress(range(len(doc.outlines)), flags))
         for i in changed:
             a, b = doc.outlines[i], old.outlines[i]
             if len(a.contours) != len(b.contours) or a.source_index != b.source_index:
@@ -264,7 +266,10 @@ class Checker:
         limits = self._limits
         assert limits is not None
         states = self._contours
-        number = [o.source_index if o.source_index >= 0 else i for i, o in enumerate(doc.outlines)]
+        outs = doc.outlines
+        number = {
+            i: outs[i].source_index if outs[i].source_index >= 0 else i for i in changed_outlines
+        }
 
         # 1. changed contours, and which of their segments are new objects
         dirty: list[tuple[int, int, Contour, _ContourState | None, dict[int, int]]] = []
@@ -521,7 +526,7 @@ class Checker:
         self,
         doc: Document,
         dirty_outlines: list[int],
-        number: list[int],
+        number: dict[int, int],
         changed_rows: dict[int, NDArray[np.intp]],
         joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]],
         limits: Limits,

@@ -36,7 +36,7 @@ from outlinebench.diagnostics.continuity import (
     turn_angles,
 )
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
-from outlinebench.diagnostics.segment_checks import Limits
+from outlinebench.diagnostics.segment_checks import Limits, hull_boxes
 from outlinebench.geometry import derivative_at, evaluate, intersections, split
 
 __all__ = [
@@ -520,11 +520,10 @@ def narrow_pairs(
     b0 = np.ones(live.size, bool)
     b1 = np.ones(live.size, bool)
     for level in range(levels + 1):
-        lo_a, hi_a = a.min(axis=1), a.max(axis=1)
-        lo_b, hi_b = b.min(axis=1), b.max(axis=1)
+        ba, bb = hull_boxes(a), hull_boxes(b)
         ok = (
-            (lo_a[:, 0] - pad <= hi_b[:, 0]) & (lo_b[:, 0] - pad <= hi_a[:, 0])
-            & (lo_a[:, 1] - pad <= hi_b[:, 1]) & (lo_b[:, 1] - pad <= hi_a[:, 1])
+            (ba[:, 0] - pad <= bb[:, 2]) & (bb[:, 0] - pad <= ba[:, 2])
+            & (ba[:, 1] - pad <= bb[:, 3]) & (bb[:, 1] - pad <= ba[:, 3])
         )  # fmt: skip
         at1 = (kind == 1) & a1 & b0
         at2 = (kind == 2) & a0 & b1

@@ -47,7 +47,14 @@ from outlinebench.geometry import (
 )
 from outlinebench.geometry.extrema import stationary_params
 
-__all__ = ["Limits", "SegmentTable", "segment_table", "monotone_mask", "segment_findings"]
+__all__ = [
+    "Limits",
+    "SegmentTable",
+    "hull_boxes",
+    "segment_table",
+    "monotone_mask",
+    "segment_findings",
+]
 
 FloatArray = NDArray[np.float64]
 
@@ -135,6 +142,17 @@ class SegmentTable:
         )
 
 
+def hull_boxes(cubics: FloatArray) -> FloatArray:
+    """Box (xmin, ymin, xmax, ymax) of each cubic's control points, shape (M, 4).
+
+    The curve lies inside (convex hull property). Written as element-wise minima of the four
+    points, which numpy runs several times faster than a reduction over the short middle axis.
+    """
+    lo = np.minimum(np.minimum(cubics[:, 0], cubics[:, 1]), np.minimum(cubics[:, 2], cubics[:, 3]))
+    hi = np.maximum(np.maximum(cubics[:, 0], cubics[:, 1]), np.maximum(cubics[:, 2], cubics[:, 3]))
+    return np.concatenate([lo, hi], axis=1)
+
+
 def segment_table(segments: Sequence[FloatArray]) -> SegmentTable:
     """Build the per-segment arrays for a list of segments of any degrees.
 
@@ -160,7 +178,7 @@ def segment_table(segments: Sequence[FloatArray]) -> SegmentTable:
     else:
         d0 = d1 = np.zeros((0, 2))
         k0 = k1 = np.zeros(0)
-    box = np.concatenate([cubics.min(axis=1), cubics.max(axis=1)], axis=1)
+    box = hull_boxes(cubics)
     return SegmentTable(
         cubics, degree, np.asarray(d0), np.asarray(d1), np.asarray(k0), np.asarray(k1), box
     )
