@@ -36,7 +36,9 @@ INTERSECTION_TOLERANCE = 1e-9
 # A piece whose control points lie within this fraction of the joint size from its chord is
 # treated as straight for the first guess (the guess is then polished by Newton's method).
 _FLAT = 1e-6
-# Two answers closer than this in both parameters are one intersection.
+# Two answers closer than this in both parameters are one intersection (at least; see
+# intersections(): √tolerance, since where two curves touch tangentially a distance
+# tolerance ε leaves the contact undetermined by ~√ε along them).
 _SAME_PARAM = 1e-7
 # More live pairs than this after subdivision means the segments share a stretch (overlap):
 # transversal crossings of two cubics (at most 9) never keep this many boxes alive.
@@ -113,34 +115,26 @@ def _endpoint_contacts(a: FloatArray, b: FloatArray, tolerance: float) -> FloatA
     return _dedupe(np.array(out).reshape(-1, 2), None, None)
 
 
-def _dedupe(cands: FloatArray, a: FloatArray | None, b: FloatArray | None) -> FloatArray:
+def _dedupe(
+    cands: FloatArray, a: FloatArray | None, b: FloatArray | None, same: float = _SAME_PARAM
+) -> FloatArray:
+    """One answer per intersection: candidates within ``same`` in both parameters merge.
+
+    The candidate with the smallest residual |A(s) − B(u)| of each group is kept (exact end
+    point matches have residual 0 and win).
+    """
     if cands.shape[0] == 0:
         return cands.reshape(0, 2)
     if a is not None:
         res = np.linalg.norm(evaluate(a, cands[:, 0]) - evaluate(b, cands[:, 1]), axis=-1)
     else:
         res = np.zeros(cands.shape[0])
-    order = np.lexsort((res, cands[:, 1], cands[:, 0]))
     kept: list[int] = []
-    for i in order:
-        if all(
-            abs(cands[i, 0] - cands[j, 0]) > _SAME_PARAM
-            or abs(cands[i, 1] - cands[j, 1]) > _SAME_PARAM
-            for j in kept
-        ):
+    for i in np.argsort(res, kind="stable"):
+        if all(np.abs(cands[i] - cands[j]).max() > same for j in kept):
             kept.append(int(i))
-        else:
-            # keep the better of the two (smaller residual)
-            for n, j in enumerate(kept):
-                close = (
-                    abs(cands[i, 0] - cands[j, 0]) <= _SAME_PARAM
-                    and abs(cands[i, 1] - cands[j, 1]) <= _SAME_PARAM
-                )
-                if close and res[i] < res[j]:
-                    kept[n] = int(i)
-                    break
-    out = cands[sorted(kept, key=lambda k: (cands[k, 0], cands[k, 1]))]
-    return out
+    out = cands[kept]
+    return out[np.lexsort((out[:, 1], out[:, 0]))]
 
 
 def _poly(c: FloatArray, t: FloatArray) -> FloatArray:
@@ -166,11 +160,20 @@ def _newton(a, b, s, u, iterations=40):
         r = _poly(ca, s) - _poly(cb, u)  # (N, 2)
         ja = _poly(dca, s)
         jb = -_poly(dcb, u)
-        det = _cross(ja, jb)
-        ok = np.abs(det) > 1e-300
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            ds = np.where(ok, _cross(r, jb) / np.where(ok, det, 1.0), 0.0)
-            du = np.where(ok, _cross(ja, r) / np.where(ok, det, 1.0), 0.0)
+        # Levenberg–Marquardt step (JᵀJ + λI) δ = Jᵀr with a tiny λ: Newton's step where the
+        # Jacobian [A′, −B′] is regular, a bounded step where the curves are tangent (there
+        # JᵀJ is singular and plain Newton stalls). Nocedal & Wright §10.3.
+        g11 = np.sum(ja * ja, axis=1)
+        g22 = np.sum(jb * jb, axis=1)
+        g12 = np.sum(ja * jb, axis=1)
+        lam = 1e-14 * (g11 + g22) + 1e-300
+        g11, g22 = g11 + lam, g22 + lam
+        r1 = np.sum(ja * r, axis=1)
+        r2 = np.sum(jb * r, axis=1)
+        det = g11 * g22 - g12 * g12
+        det = np.where(det > 0.0, det, np.inf)
+        ds = (g22 * r1 - g12 * r2) / det
+        du = (g11 * r2 - g12 * r1) / det
         s_new = np.clip(s - ds, 0.0, 1.0)
         u_new = np.clip(u - du, 0.0, 1.0)
         moved = max(np.abs(s_new - s).max(initial=0.0), np.abs(u_new - u).max(initial=0.0))
@@ -222,8 +225,11 @@ def intersections(
     once: each segment lies in the box of its control points, so pairs of pieces whose boxes
     are apart are dropped and the rest are halved until both pieces are straight within
     1e-6 of the joint size. The crossing of their chords is then polished by Newton's
-    method on A(s) − B(u) = 0 with the original segments, and answers closer than 1e-7 in
-    both parameters are merged. More answers than Bézout's bound deg(a)·deg(b), or more
+    method on A(s) − B(u) = 0 with the original segments (a Levenberg–Marquardt step where
+    they touch tangentially), and answers closer than √tolerance (3e-5 by default) in both
+    parameters are merged: near a tangential contact the points within the distance
+    tolerance spread over ~√tolerance of parameter. Coinciding end points (joins) are
+    reported exactly. More answers than Bézout's bound deg(a)·deg(b), or more
     live pairs than subdivision of crossings can produce, means a shared stretch. Two lines
     use :func:`line_intersection`. Work is done after moving and scaling both segments
     together to unit size.
@@ -269,9 +275,16 @@ def intersections(
             e = fb[:, 0] - fa[:, 0]
             den = _cross(da, db)
             ok = np.abs(den) > 1e-300
+            # Nearly parallel chords (the curves touch): start from the middle of piece a
+            # and its projection on chord b.
+            ok &= np.abs(den) > 1e-9 * np.linalg.norm(da, axis=1) * np.linalg.norm(db, axis=1)
+            nb2 = np.sum(db * db, axis=1)
+            proj = np.sum((fa[:, 0] + 0.5 * da - fb[:, 0]) * db, axis=1) / np.where(
+                nb2 > 0.0, nb2, np.inf
+            )
             with np.errstate(divide="ignore", invalid="ignore"):
                 s = np.where(ok, _cross(e, db) / np.where(ok, den, 1.0), 0.5)
-                u = np.where(ok, _cross(e, da) / np.where(ok, den, 1.0), 0.5)
+                u = np.where(ok, _cross(e, da) / np.where(ok, den, 1.0), proj)
             s, u = np.clip(s, 0.0, 1.0), np.clip(u, 0.0, 1.0)
             ga = ra[flat, 0] + s * (ra[flat, 1] - ra[flat, 0])
             gb = rb[flat, 0] + u * (rb[flat, 1] - rb[flat, 0])
@@ -296,15 +309,22 @@ def intersections(
         rb = np.concatenate([rbl, rbr, rbl, rbr])
     if overlap:
         return _endpoint_contacts(a0[None], b0[None], tolerance)
-    if not found_s:
+    # End points that coincide (a join between consecutive segments) are reported exactly.
+    ends = [
+        (ta, tb)
+        for ta in (0.0, 1.0)
+        for tb in (0.0, 1.0)
+        if np.hypot(*(a0[0 if ta == 0.0 else -1] - b0[0 if tb == 0.0 else -1])) <= tolerance
+    ]
+    if not found_s and not ends:
         return np.empty((0, 2))
-    s = np.concatenate(found_s)
-    u = np.concatenate(found_u)
+    s = np.concatenate(found_s) if found_s else np.empty(0)
+    u = np.concatenate(found_u) if found_u else np.empty(0)
     s, u = _newton(a0, b0, s, u)
     res = np.linalg.norm(evaluate(a0, s) - evaluate(b0, u), axis=-1)
     good = res <= tolerance
-    cands = np.stack([s[good], u[good]], axis=1)
-    out = _dedupe(cands, a0, b0)
+    cands = np.concatenate([np.array(ends).reshape(-1, 2), np.stack([s[good], u[good]], axis=1)])
+    out = _dedupe(cands, a0, b0, max(_SAME_PARAM, float(np.sqrt(tolerance))))
     if out.shape[0] > (a.shape[0] - 1) * (b.shape[0] - 1):
         # More common points than Bézout's bound deg(a)·deg(b) allows two different
         # polynomial curves: they share a stretch.

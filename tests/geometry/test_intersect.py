@@ -4,10 +4,11 @@ from __future__ import annotations
 
 import bezier
 import numpy as np
+import pytest
 import sympy
 from geometry_cases import EXACT_CUSP, loop_cubics, random_cubics
 
-from outlinebench.geometry.bezier import evaluate, reverse, subsegment
+from outlinebench.geometry.bezier import evaluate, reverse, split, subsegment
 from outlinebench.geometry.intersect import (
     intersections,
     line_intersection,
@@ -128,3 +129,24 @@ def test_self_intersection_closed_form_and_none():
     assert self_intersections(np.array([[0, 0], [1, 2], [2, 0.0]])).size == 0
     assert self_intersections(np.array([[0, 0], [3, 0], [-1, 0], [2, 0.0]])).size == 0
     assert self_intersections(np.full((4, 2), 2.0)).size == 0
+
+
+def test_smooth_join_is_reported_exactly():
+    # The two halves of a split meet only at the split point, tangentially (a G1 join):
+    # reported once, exactly as (1, 0) (de Casteljau halves share that point bit for bit).
+    a = np.array([[0, 0], [1, 2], [2, -1], [3, 1.0]])
+    left, right = split(a, 0.4)
+    np.testing.assert_array_equal(intersections(left, right), [[1.0, 0.0]])
+    b = np.array([[3, 1], [4, 3], [5, 0], [6, 1.0]])
+    np.testing.assert_array_equal(intersections(a, b), [[1.0, 0.0]])
+
+
+@pytest.mark.parametrize("gap", [0.0, 1e-12, -1e-12])
+def test_tangential_touch_within_tolerance_is_one_point(gap):
+    # The line y = 1 + gap touches the top (1, 1) of 4t(1 − t) at t = ½ (closed form); a gap
+    # far inside the distance tolerance still counts as one touching point.
+    q = np.array([[0, 0], [1, 2], [2, 0.0]])
+    got = intersections(q, np.array([[0, 1 + gap], [2, 1 + gap]]))
+    assert got.shape == (1, 2)
+    np.testing.assert_allclose(got, [[0.5, 0.5]], atol=1e-5)
+    assert intersections(q, np.array([[0, 1 + 1e-6], [2, 1 + 1e-6]])).size == 0
