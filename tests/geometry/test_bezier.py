@@ -217,3 +217,38 @@ def test_power_coefficients_reproduce_the_curve():
     par = np.array([[0.0, 0.0], [1 / 3, 0.0], [2 / 3, 1 / 3], [1.0, 1.0]])
     np.testing.assert_allclose(power_coefficients(par)[:, 1], [0, 0, 1, 0], atol=1e-15)
     assert power_coefficients(random_cubics(3)).shape == (3, 4, 2)
+
+
+def test_evaluate_and_split_against_mpmath_30_digits():
+    # Reference: de Casteljau in mpmath at 30 digits from the same float64 control points,
+    # on the seeded random, near-cusp, looping and inflected set.
+    import mpmath
+
+    def mp_casteljau(p, t):
+        with mpmath.workdps(30):
+            w = [[mpmath.mpf(float(v)) for v in row] for row in p]
+            t = mpmath.mpf(t)
+            left, right = [w[0]], [w[-1]]
+            while len(w) > 1:
+                w = [
+                    [(1 - t) * a + t * b for a, b in zip(w[i], w[i + 1], strict=True)]
+                    for i in range(len(w) - 1)
+                ]
+                left.append(w[0])
+                right.append(w[-1])
+            return (
+                np.array(left, dtype=float),
+                np.array(right[::-1], dtype=float),
+            )
+
+    for p in mixed_cubics(3):
+        scale = np.abs(p).max()
+        for t in (0.1, 0.37, 0.5, 0.93):
+            left, right = mp_casteljau(p, t)
+            np.testing.assert_allclose(evaluate(p, t), left[-1], rtol=0, atol=4e-16 * scale)
+            got_l, got_r = split(p, t)
+            np.testing.assert_allclose(got_l, left, rtol=0, atol=4e-16 * scale)
+            np.testing.assert_allclose(got_r, right, rtol=0, atol=4e-16 * scale)
+        ts = np.linspace(0, 1, 65)
+        want = np.array([mp_casteljau(p, t)[0][-1] for t in ts])
+        np.testing.assert_allclose(evaluate(p, ts), want, rtol=0, atol=4e-16 * scale)
