@@ -45,8 +45,8 @@ N_EVAL_CURVES = 1_000
 N_EVAL_POINTS = 1_000
 SVG_SUBSET = 500  # svgpathtools length is ~0.2 ms per curve: timed on a subset, scaled
 QUAD_SUBSET = 300  # scipy.integrate.quad with a Python integrand: subset, scaled
-MP_RANDOM = 120  # mpmath 30-digit references (about 20 ms each)
-MP_CUSP = 120
+MP_RANDOM = 60  # mpmath 30-digit references (about 20-100 ms each, by machine load)
+MP_CUSP = 60
 
 
 def best_of(fn, repeat=3):
