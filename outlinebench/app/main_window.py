@@ -334,6 +334,7 @@ class MainWindow(QMainWindow):
         act = self.act_tools.get(name)
         if act is not None and not act.isChecked():
             act.setChecked(True)
+        self._place_start_panel()
 
     def _on_pointer_moved(self, x: float, y: float) -> None:
         u = self.session.units
@@ -354,7 +355,11 @@ class MainWindow(QMainWindow):
         panel = getattr(self, "start_panel", None)
         if panel is None:
             return
-        empty = self.path is None and not self.session.document.outlines
+        empty = (
+            self.path is None
+            and not self.session.document.outlines
+            and self.session.tool_name != "draw"
+        )
         panel.setVisible(empty)
         if empty:
             panel.move(

@@ -208,12 +208,14 @@ class SelectionPanel(QWidget):
             ln.setEnabled(hk is not None)
             ang.setEnabled(hk is not None)
             if hk is None:
-                ln.setValue(0.0)
-                ang.setValue(0.0)
+                ln.setValue(ln.minimum())
+                ang.setValue(ang.minimum())
                 ln.setSpecialValueText("no handle (line)")
+                ang.setSpecialValueText("—")
                 continue
             length, angle = pk.polar(p, pk.point_at(doc, hk))
             ln.setSpecialValueText("")
+            ang.setSpecialValueText("")
             ln.setValue(units.show(length))
             ang.setValue(angle)
         self.turn.setText(self._turn_text(doc, key))

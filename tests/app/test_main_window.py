@@ -112,3 +112,75 @@ def test_standard_shortcuts(window):
         (window.act_zoom_in, sk.ZoomIn),
     ]:
         assert act.shortcut() == QKeySequence.keyBindings(key)[0]
+
+
+def test_closing_with_unsaved_changes_asks(window, monkeypatch):
+    window.session.set_point((0, 0, 0, 0), 11.0, 50.0)
+    answers = []
+    monkeypatch.setattr(window, "ask_save_changes", lambda: answers.append(1) or "cancel")
+    assert not window.close()
+    assert answers == [1] and window.isVisible()
+    monkeypatch.setattr(window, "ask_save_changes", lambda: "discard")
+    assert window.close()
+
+
+def test_edits_on_an_opened_file_undo_back_to_it(window, plate):
+    from qt_mouse import click, drag, screen
+
+    assert window.open_path(str(plate))
+    canvas, s = window.canvas, window.session
+    c = s.document.outlines[0].contours[0]
+    drag(canvas, screen(canvas, c.segments[2][1]), screen(canvas, c.segments[2][1]) + _pt(5, 9))
+    click(canvas, screen(canvas, c.segments[0][0]))
+    window.act_toggle_join.trigger()
+    window.act_degree[3].trigger()
+    window.act_close_contour.trigger()  # no-op on a closed contour: reported, not raised
+    assert window.isWindowModified()
+    while s.can_undo:
+        s.undo()
+    # Compared with a fresh read of the same file by the SVG reader.
+    assert documents_equal(s.document, io.read_svg(str(plate)).document)
+    assert not window.isWindowModified()
+
+
+def test_a_new_drawing_saves_and_reopens(qtbot, tmp_path, monkeypatch):
+    import numpy as np
+    from PySide6.QtCore import QSettings
+    from qt_mouse import click, drag
+
+    from outlinebench.app.main_window import MainWindow
+
+    if not hasattr(io, "write_svg"):
+        pytest.skip("the SVG writer is not in this tree yet")
+    win = MainWindow(QSettings(str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(win)
+    win.resize(900, 600)
+    win.show()
+    qtbot.waitExposed(win)
+    assert win.start_panel.isVisible()
+    win.act_tools["draw"].trigger()
+    assert not win.start_panel.isVisible()
+    canvas = win.canvas
+    a, b, c = canvas.to_screen(50, 50), canvas.to_screen(120, 40), canvas.to_screen(90, 120)
+    click(canvas, a)
+    drag(canvas, b, b + _pt(30, 10))
+    click(canvas, c)
+    click(canvas, a)
+    drawn = win.session.document
+    out = tmp_path / "new.svg"
+    monkeypatch.setattr(win, "choose_save_path", lambda: str(out))
+    assert win.save()
+    again = io.read_svg(str(out))
+    assert again.error is None
+    got = again.document.outlines[0].contours[0]
+    want = drawn.outlines[0].contours[0]
+    assert got.closed and got.joins == want.joins
+    for x, y in zip(got.segments, want.segments, strict=True):
+        np.testing.assert_array_equal(x, y)  # shortest round-trip number text: exact
+    assert again.document.mm_per_unit == pytest.approx(1.0)  # new drawings are in mm
+
+
+def _pt(x, y):
+    from PySide6.QtCore import QPointF
+
+    return QPointF(x, y)
