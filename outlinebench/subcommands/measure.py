@@ -71,8 +71,8 @@ def _joins(contour: Contour, f: float) -> list[dict[str, Any]]:
                 "intent": contour.joins[j],
                 "gap": gaps[j] * f,
                 "angle": float(angles[j]),
-                "curvature_before": float(k_in[j]) / f,
-                "curvature_after": float(k_out[j]) / f,
+                "curvature_before": float(k_in[j]) / f + 0.0,
+                "curvature_after": float(k_out[j]) / f + 0.0,
             }
         )
     return out

@@ -1,0 +1,162 @@
+"""``outlinebench check`` through its real entry points: exit codes, text lines, JSON schema,
+units, options and one-line errors on bad input."""
+
+import json
+import re
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from outlinebench.__main__ import main
+from outlinebench.diagnostics import KINDS
+
+ROOT = Path(__file__).resolve().parents[2]
+SAMPLES = ROOT / "samples"
+CLEAN = str(SAMPLES / "signshop-lettering.svg")
+DEFECTS = str(SAMPLES / "signshop-lettering-defects.svg")
+BRACKET = str(SAMPLES / "workshop-bracket.svg")
+BRACKET_DEFECTS = str(SAMPLES / "workshop-bracket-defects.svg")
+
+# "file: contour N, segment M: kind value at (x, y) [severity]" (issue text plus severity)
+LINE = re.compile(
+    r"^(?P<file>.+?): contour (?P<c>\d+)(, segment (?P<s>\d+))?: (?P<kind>[a-z-]+)"
+    r"(?P<value>.*) at \((?P<x>[-\d.e+]+), (?P<y>[-\d.e+]+)\) \[(error|warning|info)\]$"
+)
+
+
+def run(args, capsys):
+    code = main(["check", *args])
+    out = capsys.readouterr()
+    return code, out.out, out.err
+
+
+def test_clean_sample_exits_0_with_only_info(capsys):
+    code, out, err = run([CLEAN], capsys)
+    assert code == 0, out + err
+    lines = out.strip().splitlines()
+    assert all(LINE.match(x) for x in lines[:-1]), lines[:3]
+    assert "0 errors, 0 warnings" in lines[-1]
+
+
+def test_defects_sample_exits_1_and_has_every_kind(capsys):
+    code, out, err = run([DEFECTS, "--json"], capsys)
+    assert code == 1
+    data = json.loads(out)
+    assert isinstance(data, dict)
+    assert set(data) >= {"findings", "summary", "file", "units", "caution"}
+    kinds = {f["kind"] for f in data["findings"]}
+    assert kinds == set(KINDS)  # every kind is planted (samples/README.md)
+    for f in data["findings"]:
+        assert set(f) >= {"kind", "severity", "outline", "contour", "segment", "t", "x", "y",
+                          "value", "unit", "message"}  # fmt: skip
+        assert f["severity"] in ("error", "warning", "info")
+    s = data["summary"]
+    assert s["total"] == len(data["findings"]) and s["clean"] is False
+    assert s["errors"] + s["warnings"] + s["info"] == s["total"]
+
+
+def test_planted_defects_are_where_the_readme_says(capsys):
+    _, out, _ = run([DEFECTS, "--json"], capsys)
+    found = json.loads(out)["findings"]
+
+    def one(kind, **where):
+        hits = [f for f in found if f["kind"] == kind and all(f[k] == v for k, v in where.items())]
+        assert hits, (kind, where)
+        return hits[0]
+
+    # gap: letter H (outline 0, contour 0) stops 0.4 mm short of its start (10, 10)
+    g = one("gap", contour=0)
+    assert g["value"] == pytest.approx(0.4) and (g["x"], g["y"]) == (10.0, 10.0)
+    # tiny segment of 0.005 mm on H's right stem
+    assert one("tiny-segment", contour=0)["value"] == pytest.approx(0.005)
+    # corner against the stated smooth intent: A's join 1 at (92, 70), an error
+    c = one("corner", contour=1, segment=1)
+    assert c["severity"] == "error" and (c["x"], c["y"]) == (92.0, 70.0)
+    # cusp of the U at t = ½, at (240.5, 76) (construction in make_samples.py)
+    cu = one("cusp")
+    assert (cu["x"], cu["y"]) == pytest.approx((240.5, 76.0)) and cu["t"] == pytest.approx(0.5)
+    # R's counter winds like the R: wrong direction on contour 4, inside contour 3
+    assert one("wrong-direction", contour=4)["other_contour"] == 3
+
+
+def test_several_files_give_a_list_and_worst_exit_code(capsys):
+    code, out, _ = run([CLEAN, BRACKET, BRACKET_DEFECTS, "--json"], capsys)
+    data = json.loads(out)
+    assert [d["file"] for d in data] == [CLEAN, BRACKET, BRACKET_DEFECTS]
+    assert code == 1
+
+
+def test_unreadable_file_one_line_exit_2_others_checked(tmp_path, capsys):
+    bad = tmp_path / "broken.svg"
+    bad.write_text('<svg xmlns="http://www.w3.org/2000/svg"><path d="M 0 0 L 1 x"/></svg>')
+    missing = tmp_path / "missing.svg"
+    code, out, err = run([CLEAN, str(bad), str(missing)], capsys)
+    assert code == 2
+    err_lines = [x for x in err.splitlines() if x.startswith("outlinebench: error")]
+    assert len(err_lines) == 2
+    assert str(bad) in err_lines[0] and str(missing) in err_lines[1]
+    assert "Traceback" not in err
+    assert f"{CLEAN}: " in out  # the good file was still checked
+
+
+def test_real_entry_point_bad_input_no_traceback(tmp_path):
+    bad = tmp_path / "not-svg.svg"
+    bad.write_text("this is not xml")
+    res = subprocess.run(
+        [sys.executable, "-m", "outlinebench", "check", str(bad)],
+        capture_output=True, text=True, cwd=ROOT, timeout=60,
+    )  # fmt: skip
+    assert res.returncode == 2
+    assert len(res.stderr.strip().splitlines()) == 1 and str(bad) in res.stderr
+    assert "Traceback" not in res.stderr
+
+
+def test_real_entry_point_clean_and_defects():
+    res = subprocess.run(
+        [sys.executable, "-m", "outlinebench", "check", CLEAN, DEFECTS],
+        capture_output=True, text=True, cwd=ROOT, timeout=120,
+    )  # fmt: skip
+    assert res.returncode == 1, res.stderr
+    assert "checking [" not in res.stderr  # no progress bar when stderr is not a terminal
+
+
+def test_units_convert_positions_and_lengths(tmp_path, capsys):
+    # 100 mm wide, viewBox 1000 wide: one user unit is 0.1 mm (W3C SVG 1.1 §7.7 viewBox);
+    # an open line from (0,0) to (300,400): ends 500 user units = 50 mm apart
+    f = tmp_path / "scaled.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="100mm" '
+        'viewBox="0 0 1000 1000"><path d="M0,0 L300,400"/></svg>'
+    )
+    _, out, _ = run([str(f), "--json"], capsys)
+    user = json.loads(out)["findings"][0]
+    _, out, _ = run([str(f), "--json", "--units", "mm"], capsys)
+    mm = json.loads(out)
+    f_mm = mm["findings"][0]
+    assert user["kind"] == "open-contour" and user["value"] == pytest.approx(500.0)
+    assert f_mm["value"] == pytest.approx(50.0) and f_mm["unit"] == "mm"
+    assert mm["units"] == "mm"
+    _, out, _ = run([str(f), "--json", "--units", "in"], capsys)
+    assert json.loads(out)["findings"][0]["value"] == pytest.approx(50.0 / 25.4)  # 1 in = 25.4 mm
+
+
+def test_gap_and_angle_options(capsys):
+    # --gap 0.5 (mm, the file's user unit): H's 0.4 mm gap counts as joined
+    _, out, _ = run([DEFECTS, "--json", "--gap", "0.5"], capsys)
+    kinds = [f["kind"] for f in json.loads(out)["findings"]]
+    assert "gap" not in kinds
+    # --kink-angle 10 --corner-angle 20: the O's 3° kink is no longer a kink
+    _, out, _ = run([DEFECTS, "--json", "--kink-angle", "10", "--corner-angle", "20"], capsys)
+    kinks = [f for f in json.loads(out)["findings"] if f["kind"] == "kink"]
+    assert all(f["value"] >= 10 for f in kinks)
+    code, _, err = run([DEFECTS, "--kink-angle", "30", "--corner-angle", "20"], capsys)
+    assert code == 2 and "kink-angle" in err
+
+
+def test_bad_option_value_is_a_usage_error(capsys):
+    with pytest.raises(SystemExit) as exc:
+        main(["check", CLEAN, "--gap", "-1"])
+    assert exc.value.code == 2
+    assert "expected a number above 0" in capsys.readouterr().err

@@ -1,0 +1,91 @@
+"""``outlinebench measure``: lengths, areas, boxes and joins against svgpathtools and closed
+forms."""
+
+import json
+import math
+import re
+from pathlib import Path
+
+import pytest
+
+from outlinebench.__main__ import main
+
+ROOT = Path(__file__).resolve().parents[2]
+BRACKET = str(ROOT / "samples" / "workshop-bracket.svg")
+
+
+def measure(args, capsys):
+    code = main(["measure", *args])
+    out = capsys.readouterr()
+    return code, out.out, out.err
+
+
+def bracket_subpaths():
+    d = re.search(r' d="([^"]+)"', Path(BRACKET).read_text()).group(1)
+    return ["M" + part for part in d.split("M") if part.strip()]
+
+
+def test_lengths_and_areas_match_svgpathtools(capsys):
+    svgpathtools = pytest.importorskip("svgpathtools")
+    code, out, _ = measure([BRACKET, "--json"], capsys)
+    assert code == 0
+    data = json.loads(out)
+    contours = data["contours"]
+    subpaths = bracket_subpaths()
+    assert len(contours) == len(subpaths) == 4
+    for c, d in zip(contours, subpaths, strict=True):
+        ref = svgpathtools.parse_path(d)  # reference library
+        assert c["closed"] is True
+        assert c["length"] == pytest.approx(ref.length(), rel=1e-6)
+        assert c["area"] == pytest.approx(abs(ref.area()), rel=1e-9)
+        assert len(c["segments"]) == len(ref)
+        xmin, xmax, ymin, ymax = ref.bbox()
+        assert c["bbox"] == pytest.approx([xmin, ymin, xmax, ymax], abs=1e-9)
+    # a mounting hole of radius 4 drawn with four cubic quarter arcs: π r² within the known
+    # 0.03 % excess of the cubic circle (k = 4(√2 − 1)/3, closed form)
+    assert contours[1]["area"] == pytest.approx(math.pi * 16, rel=4e-4)
+    kinds = {s["kind"] for s in contours[0]["segments"]}
+    assert kinds == {"line", "cubic"}
+
+
+def test_units_and_joins(capsys):
+    _, out, _ = measure([BRACKET, "--json", "--joins"], capsys)
+    user = json.loads(out)
+    _, out, _ = measure([BRACKET, "--json", "--units", "in"], capsys)
+    inch = json.loads(out)
+    # the file is in mm (viewBox = width/height in mm), 1 in = 25.4 mm
+    assert inch["contours"][0]["length"] == pytest.approx(user["contours"][0]["length"] / 25.4)
+    assert inch["contours"][0]["area"] == pytest.approx(user["contours"][0]["area"] / 25.4**2)
+    joins = user["contours"][0]["joins"]
+    assert len(joins) == len(user["contours"][0]["segments"])  # closed: one join per segment
+    assert all(j["gap"] == 0.0 for j in joins)  # segments share end points exactly
+    # every join of the outline is tangent: straight sides run into quarter arcs
+    assert max(j["angle"] for j in joins) < 1e-6
+    # straight side into an arc of radius 6: κ 0 on one side; on the arc side the cubic
+    # quarter arc's end curvature, from κ(0) = (2/3)(P1−P0)×(P2−P1)/|P1−P0|³ (Farin) with
+    # P0 = (r, 0), P1 = (r, kr), P2 = (kr, r): κ = (2/3)(1 − k)/(k² r), about 2 % below 1/r
+    k = 4 * (math.sqrt(2) - 1) / 3
+    ks = sorted(abs(j["curvature_after"]) for j in joins)
+    assert ks[0] == 0.0
+    # (the file rounds control points to 4 decimals, hence rel=1e-4)
+    assert any(x == pytest.approx((2 / 3) * (1 - k) / (k * k * 6), rel=1e-4) for x in ks)
+
+
+def test_text_output_and_open_contour(tmp_path, capsys):
+    f = tmp_path / "open.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg" width="10mm" height="10mm" viewBox="0 0 10 10">'
+        '<path id="stroke" d="M0,0 L3,4"/></svg>'
+    )
+    code, out, _ = measure([str(f)], capsys)
+    assert code == 0
+    assert "contour 0 (outline 0, id stroke): open (ends 5 apart), length 5, area null" in out
+    _, out, _ = measure([str(f), "--json"], capsys)
+    c = json.loads(out)["contours"][0]
+    assert c["area"] is None and c["length"] == pytest.approx(5.0)  # 3-4-5 triangle
+
+
+def test_missing_file_exit_2_one_line(tmp_path, capsys):
+    code, out, err = measure([str(tmp_path / "nope.svg")], capsys)
+    assert code == 2 and out == ""
+    assert len(err.strip().splitlines()) == 1 and "nope.svg" in err
