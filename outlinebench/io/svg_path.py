@@ -23,6 +23,7 @@ import re
 import warnings
 from collections.abc import Sequence
 from dataclasses import dataclass, field
+from operator import itemgetter
 
 import numpy as np
 from numpy.typing import NDArray
@@ -71,8 +72,6 @@ for _ch in _COMMANDS:
 _CLASS[ord(",")] = 3
 _TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
 _NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
-# A "." after a "." or an exponent within one run of number characters.
-_SECOND_DOT_RE = re.compile(rb"[.eE][+-]?[0-9]*+\.")
 _DROP_WSP = str.maketrans("", "", _WSP)
 _IS_DIGIT = np.zeros(256, dtype=bool)
 _IS_DIGIT[ord("0") : ord("9") + 1] = True
@@ -145,29 +144,29 @@ def _separate(raw: bytes) -> bytes:
     """Put a space where one number ends and the next begins without a separator.
 
     The grammar's longest-match reading (SVG 1.1 §8.3.9) starts a new number at a sign that
-    does not follow an exponent's "e" ("1-2", "1e-2" stays), and at a "." when the number so
-    far already has a "." or an exponent (".5.5", "1e5.5"). Splitting there changes no valid
-    data's meaning, and invalid data stays invalid (it then fails a later check and goes to
-    the general lexer, which reports the error on the original text).
+    does not follow an exponent's "e" ("1-2"; "1e-2" stays whole), and at a "." when the
+    number so far already has a "." or an exponent (".5.5", "1e5.5"). Splitting there changes
+    no valid data's meaning, and invalid data stays invalid (it then fails a later check and
+    goes to the general lexer, which reports the error on the original text).
     """
-    if b"-" in raw or b"+" in raw:
-        raw = raw.replace(b"-", b" -").replace(b"+", b" +")
-        for glued in (b"e -", b"E -", b"e +", b"E +"):
-            if glued in raw:
-                raw = raw.replace(glued, glued[:1] + glued[2:])
-    if _SECOND_DOT_RE.search(raw) is None:
-        return raw
     codes = np.frombuffer(raw, dtype=np.uint8)
-    dots = np.flatnonzero(codes == ord("."))
+    cls = _CLASS[codes]
+    signs = np.flatnonzero((codes == ord("-")) | (codes == ord("+")))
+    signs = signs[signs > 0]
+    before = codes[signs - 1]
+    glued = signs[(cls[signs - 1] == 1) & (before != ord("e")) & (before != ord("E"))]
     markers = np.flatnonzero((codes == ord(".")) | (codes == ord("e")) | (codes == ord("E")))
-    idx = np.searchsorted(markers, dots) - 1
-    prev = markers[np.maximum(idx, 0)]
-    gaps = np.flatnonzero(_CLASS[codes] != 1)  # separator and command positions
-    same_number = np.searchsorted(gaps, dots) == np.searchsorted(gaps, prev)
-    split = dots[(idx >= 0) & same_number]
-    if not split.size:
+    dots = markers[:0]
+    if markers.size > 1:
+        gap = cls != 1
+        gap[glued] = True  # a glued sign begins a new number
+        runs = np.cumsum(gap, dtype=np.int32)
+        prev, cur = markers[:-1], markers[1:]
+        dots = cur[(codes[cur] == ord(".")) & (runs[cur] == runs[prev])]
+    if not glued.size and not dots.size:
         return raw
-    return np.insert(codes, split, ord(" ")).tobytes()
+    where = np.union1d(glued, dots) if glued.size and dots.size else glued if glued.size else dots
+    return np.insert(codes, where, ord(" ")).tobytes()
 
 
 def _lex_fast(d: str) -> _Tokens | None:
@@ -463,35 +462,32 @@ def _build(
     end = np.stack([X, Y], axis=1)
     p01 = np.stack([params[:, 0] + bx, params[:, 1] + by], axis=1)
     p23 = np.stack([params[:, 2] + bx, params[:, 3] + by], axis=1)
-    p45 = np.stack([params[:, 4] + bx, params[:, 5] + by], axis=1)
 
-    rows: list = [None] * n
+    # Segment arrays per kind; nseg[row] is how many segments a row makes (0, 1, or the
+    # pieces of an arc), which fixes each segment's place in the contour order.
+    nseg = np.zeros(n, dtype=np.int64)
+    kinds: list[tuple[NDArray[np.int64], NDArray[np.float64]]] = []
     # Lines: L, H, V, extra moveto pairs, and Z when it moves.
     line_rows = (cat == 1) | (is_z & ((SX != X) | (SY != Y)))
     idx = np.flatnonzero(line_rows)
     if idx.size:
-        segs = _freeze(_apply(np.stack([start[idx], end[idx]], axis=1), matrix))
-        list(map(rows.__setitem__, idx.tolist(), segs))
+        kinds.append((idx, _apply(np.stack([start[idx], end[idx]], axis=1), matrix)))
     # Cubics: C, S.
     is_c = cat == 2
     is_s = cat == 3
-    second = np.where(is_c[:, None], p23, p01)  # the second handle of C and S rows
-    first = p01.copy()
-    if is_s.any():
-        s_idx = np.flatnonzero(is_s)
-        prev_cubic = np.zeros(n, dtype=bool)
-        prev_cubic[1:] = is_c[:-1] | is_s[:-1]
-        refl = s_idx[prev_cubic[s_idx]]
-        first[s_idx] = start[s_idx]
-        first[refl] = 2.0 * start[refl] - second[refl - 1]
     cub_idx = np.flatnonzero(is_c | is_s)
     if cub_idx.size:
-        third = np.where(is_c[:, None], p45, end)
+        second = np.where(is_c[:, None], p23, p01)  # the second handle of C and S rows
+        first = p01.copy()
+        if is_s.any():
+            s_idx = np.flatnonzero(is_s)
+            prev_cubic = np.zeros(n, dtype=bool)
+            prev_cubic[1:] = is_c[:-1] | is_s[:-1]
+            refl = s_idx[prev_cubic[s_idx]]
+            first[s_idx] = start[s_idx]
+            first[refl] = 2.0 * start[refl] - second[refl - 1]
         segs = np.stack([start[cub_idx], first[cub_idx], second[cub_idx], end[cub_idx]], axis=1)
-        # C rows take their end from params (same values as `end`, kept for clarity).
-        del third
-        segs = _freeze(_apply(segs, matrix))
-        list(map(rows.__setitem__, cub_idx.tolist(), segs))
+        kinds.append((cub_idx, _apply(segs, matrix)))
     # Quadratics: Q, T (T reflects the previous Q/T control point, sequentially).
     is_q = cat == 4
     is_t = cat == 5
@@ -505,15 +501,16 @@ def _build(
                     ctrl[i] = 2.0 * start[i] - ctrl[i - 1]
                 else:
                     ctrl[i] = start[i]
-        segs = _freeze(
-            _apply(np.stack([start[quad_idx], ctrl[quad_idx], end[quad_idx]], 1), matrix)
-        )
-        list(map(rows.__setitem__, quad_idx.tolist(), segs))
+        segs = np.stack([start[quad_idx], ctrl[quad_idx], end[quad_idx]], axis=1)
+        kinds.append((quad_idx, _apply(segs, matrix)))
+    for rows_k, _ in kinds:
+        nseg[rows_k] = 1
     # Arcs: converted in the element's own coordinates, then mapped (affine maps are exact
     # on Bézier control points, so the arc's radii are never transformed).
-    arc_rows = np.flatnonzero(cat == 6)
-    multi = False
-    for i in arc_rows.tolist():
+    arc_rows: list[int] = []
+    arc_lines: list[int] = []
+    arc_cubics: list[NDArray[np.float64]] = []
+    for i in np.flatnonzero(cat == 6).tolist():
         p = params[i]
         x1, y1 = float(SX[i]), float(SY[i])
         res = arc_to_cubics(
@@ -527,38 +524,46 @@ def _build(
             counts_out["arc_omitted"] = counts_out.get("arc_omitted", 0) + 1
         elif res.kind == "line":
             counts_out["arc_zero_radius"] = counts_out.get("arc_zero_radius", 0) + 1
-            rows[i] = _freeze(_apply(np.array([[x1, y1], [X[i], Y[i]]]), matrix))
+            arc_lines.append(i)
+            nseg[i] = 1
         else:
             counts_out["arcs"] = counts_out.get("arcs", 0) + 1
-            rows[i] = tuple(_freeze(_apply(res.cubics, matrix)))
-            multi = True
+            arc_rows.append(i)
+            arc_cubics.append(res.cubics)
+            nseg[i] = len(res.cubics)
+    if arc_lines:
+        rows_l = np.array(arc_lines)
+        kinds.append((rows_l, _apply(np.stack([start[rows_l], end[rows_l]], axis=1), matrix)))
+    first_pos = np.cumsum(nseg) - nseg  # place of each row's first segment
+    total = int(nseg.sum())
+    pool: list[NDArray[np.float64]] = []
+    perm = np.empty(total, dtype=np.int64)
+    for rows_k, arr in kinds:
+        perm[first_pos[rows_k]] = len(pool) + np.arange(len(rows_k))
+        pool.extend(_freeze(arr))
+    if arc_rows:
+        arr = _freeze(_apply(np.concatenate(arc_cubics), matrix))
+        pieces = nseg[arc_rows]
+        where = np.repeat(first_pos[arc_rows], pieces) + (
+            np.arange(pieces.sum()) - np.repeat(np.cumsum(pieces) - pieces, pieces)
+        )
+        perm[where] = len(pool) + np.arange(len(arr))
+        pool.extend(arr)
+    ordered = itemgetter(*perm.tolist())(pool) if total > 1 else tuple(pool)
     # Contours: a moveto starts one, a closepath ends one (and the next command after it
     # starts a new one at the same first point, SVG 1.1 §8.3.3).
-    breaks = set(np.flatnonzero(cat == 0).tolist())
-    z_rows = np.flatnonzero(is_z).tolist()
-    breaks.update(z + 1 for z in z_rows)
-    breaks.add(n)
-    closed_after = set(z_rows)
-    order = sorted(breaks)
+    z_rows = np.flatnonzero(is_z)
+    breaks = np.union1d(np.flatnonzero(cat == 0), np.append(z_rows + 1, n))
+    closed_after = set(z_rows.tolist())
+    positions = np.append(first_pos, total)
     contours: list[Contour] = []
     a = 0
-    for b in order:
+    for b in breaks.tolist():
         if b <= a:
             continue
-        chunk = rows[a:b]
-        if multi:
-            segs_list = []
-            for s in chunk:
-                if s is None:
-                    continue
-                if isinstance(s, tuple):
-                    segs_list.extend(s)
-                else:
-                    segs_list.append(s)
-        else:
-            segs_list = [s for s in chunk if s is not None]
-        if segs_list:
-            contours.append(Contour(tuple(segs_list), (b - 1) in closed_after))
+        lo, hi = int(positions[a]), int(positions[b])
+        if hi > lo:
+            contours.append(Contour(ordered[lo:hi], (b - 1) in closed_after))
         a = b
     if tok.trailing_dot:
         counts_out["trailing_dot"] = tok.trailing_dot
