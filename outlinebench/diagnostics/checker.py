@@ -651,12 +651,17 @@ class Checker:
         direction: dict[int, list[Finding]] = {oi: [] for oi in dirty_outlines}
         cl = np.flatnonzero(closed)
         if cl.size > 1:
-            rows = np.concatenate([np.arange(cstart[c], cstart[c] + counts[c]) for c in cl])
+            cn = counts[cl]
+            rows = (
+                np.repeat(cstart[cl], cn)
+                + np.arange(int(cn.sum()))
+                - np.repeat(np.cumsum(cn) - cn, cn)
+            )
             samples = limits.samples
             poly = evaluate(table.cubics[rows], np.arange(samples) / samples).reshape(-1, 2)
             plen = counts[cl] * samples
             pstart = np.concatenate([[0], np.cumsum(plen)[:-1]]).astype(np.intp)
-            probes = poly[pstart + samples // 2]
+            probes = evaluate(table.cubics[cstart[cl]], 0.5)
             seg_start = np.concatenate([[0], np.cumsum(counts[cl])[:-1]]).astype(np.intp)
             areas = np.add.reduceat(segment_area_terms(table.cubics[rows]), seg_start)
             bmin = np.minimum.reduceat(table.box[rows, :2], seg_start)

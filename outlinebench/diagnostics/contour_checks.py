@@ -363,6 +363,7 @@ def wrong_direction_findings(
     areas : ndarray, shape (C,)
         Exact signed area of each contour.
     probes : ndarray, shape (C, 2)
+        The point of each contour used for containment (segment 0 at t = ½).
     outline, contour : ndarrays of int, shape (C,)
         Labels for the findings (outline index, global contour index).
 
@@ -383,7 +384,7 @@ def wrong_direction_findings(
         if a != 0.0 and b != 0.0 and (a > 0) == (b > 0):
             out.append(
                 Finding(
-                    "wrong-direction", ERROR, int(outline[i]), int(contour[i]), 0, 0.0,
+                    "wrong-direction", ERROR, int(outline[i]), int(contour[i]), 0, 0.5,
                     float(probes[i, 0]), float(probes[i, 1]), abs(a), "user^2",
                     f"contour lies inside contour {int(contour[j])} and winds the same way; "
                     "reverse it so the hole stays empty",

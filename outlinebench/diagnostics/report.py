@@ -132,6 +132,10 @@ def _value(f: Finding) -> str:
         if f.curvature_before is not None and f.curvature_after is not None:
             extra = f" (κ {_num(f.curvature_before)} → {_num(f.curvature_after)})"
         return f" {_num(f.value)}{extra}"
+    if f.unit == "user":
+        return f" {_num(f.value)}"  # document user units, named in the summary line
+    if f.unit == "user^2":
+        return f" {_num(f.value)} (area)"
     return f" {_num(f.value)} {f.unit}"
 
 
