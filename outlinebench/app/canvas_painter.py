@@ -284,8 +284,8 @@ def paint_outlines(
         if fill is not None:
             p.drawPath(fill)
     p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-    # A cosmetic 1-px pen: Qt's raster engine strokes it on a fast path (a 1.3-px pen is
-    # about ten times slower on 10,000 segments).
+    # A cosmetic 1-px pen (a hairline: one device pixel on any screen): Qt's raster engine
+    # strokes it on a fast path (a 1.3-px pen is about ten times slower on 10,000 segments).
     pen = QPen(style.OUTLINE, 1.0)
     pen.setCosmetic(True)
     p.setPen(pen)

@@ -126,6 +126,7 @@ class MainWindow(QMainWindow):
         self.session.selection_changed.connect(self._on_selection_changed)
         self.session.message.connect(self._show_message)
         self.session.tool_changed.connect(self._on_tool_changed)
+        self._on_tool_changed(self.session.tool_name)
         self.canvas.pointer_moved.connect(self._on_pointer_moved)
         self.canvas.view_changed.connect(self._on_view_changed)
         self.resize(1280, 800)
@@ -282,7 +283,10 @@ class MainWindow(QMainWindow):
         sb = self.statusBar()
         self.pos_label = QLabel("")
         self.zoom_label = QLabel("")
-        self.hint_label = QLabel(NAVIGATION_HINT)
+        self.tool_hint_label = QLabel("")
+        sb.addWidget(self.tool_hint_label, 1)
+        self.hint_label = QLabel("Ctrl+wheel: zoom · middle-drag / Space+drag: pan")
+        self.hint_label.setToolTip(NAVIGATION_HINT)
         self.hint_label.setStyleSheet("color: #5b6670;")
         sb.addPermanentWidget(self.hint_label)
         sb.addPermanentWidget(self.pos_label)
@@ -334,6 +338,7 @@ class MainWindow(QMainWindow):
         act = self.act_tools.get(name)
         if act is not None and not act.isChecked():
             act.setChecked(True)
+        self.tool_hint_label.setText(self.session.tool_hint())
         self._place_start_panel()
 
     def _on_pointer_moved(self, x: float, y: float) -> None:
@@ -437,6 +442,7 @@ class MainWindow(QMainWindow):
         self._partial = partial
         self.recent.add(self.path)
         self._update_title()
+        self._on_tool_changed(self.session.tool_name)  # units in the hint may have changed
         self.canvas.fit_to_outline()
         self._on_document_changed()
         self._on_view_changed()

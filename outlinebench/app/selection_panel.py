@@ -100,8 +100,10 @@ class SelectionPanel(QWidget):
         s = QFormLayout(self.segments_box)
         self.seg_in = QLabel("")
         self.seg_out = QLabel("")
-        s.addRow("Incoming", self.seg_in)
-        s.addRow("Outgoing", self.seg_out)
+        self.seg_in_label = QLabel("Incoming")
+        self.seg_out_label = QLabel("Outgoing")
+        s.addRow(self.seg_in_label, self.seg_in)
+        s.addRow(self.seg_out_label, self.seg_out)
         lay.addWidget(self.segments_box)
 
         self.contour_box = QGroupBox("Contour")
@@ -225,6 +227,9 @@ class SelectionPanel(QWidget):
         at_end = nk[3] != 0
         incoming = s if at_end else ((s - 1) % n if (s > 0 or contour.closed) else None)
         outgoing = None if at_end else s
+        self.segments_box.setTitle("Segments at this point")
+        self.seg_in_label.setText("Incoming")
+        self.seg_out_label.setText("Outgoing")
         self.seg_in.setText(self._seg_text(contour, incoming, units))
         self.seg_out.setText(self._seg_text(contour, outgoing, units))
 
@@ -250,6 +255,9 @@ class SelectionPanel(QWidget):
         self.turn.setText(self._turn_text(doc, owner))
         o, c, s, _ = key
         contour = doc.outlines[o].contours[c]
+        self.segments_box.setTitle("Segment of this handle")
+        self.seg_in_label.setText(f"Segment {s + 1}")
+        self.seg_out_label.setText("")
         self.seg_in.setText(self._seg_text(contour, s, units))
         self.seg_out.setText("")
 

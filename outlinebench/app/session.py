@@ -395,6 +395,23 @@ class EditorSession(QObject):
             self.set_selection([])
             self.message.emit(f"Deleted {len(todo)} contour(s)")
 
+    def tool_hint(self) -> str:
+        """One line telling what the mouse and keys do with the active tool."""
+        if self.tool_name == "select":
+            small, large = NUDGE_STEPS.get(self.units.name, (1.0, 10.0))
+            u = self.units.name
+            return (
+                "Click: select · Shift+click: add · drag on empty space: box · "
+                "Alt+drag handle: break smooth join · Ctrl+drag handle: equal handles · "
+                f"arrows: nudge {small:g} {u} (Shift: {large:g} {u})"
+            )
+        if self.tool_name == "insert":
+            return "Click on a segment to split it there; the shape does not change"
+        return (
+            "Click: corner point · press and drag: smooth point · click the first point: "
+            "close · Enter: finish open · Esc: cancel"
+        )
+
     # -- tools --------------------------------------------------------------------------
     def set_tool(self, name: str) -> None:
         if name not in TOOLS:

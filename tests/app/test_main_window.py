@@ -184,3 +184,26 @@ def _pt(x, y):
     from PySide6.QtCore import QPointF
 
     return QPointF(x, y)
+
+
+def test_entry_point_opens_the_file_and_runs(qtbot, plate, monkeypatch, tmp_path):
+    from PySide6.QtCore import QTimer
+    from PySide6.QtWidgets import QApplication
+
+    from outlinebench import __main__ as entry
+    from outlinebench.app import main_window
+
+    monkeypatch.setenv("HOME", str(tmp_path))  # recent-files settings stay in the sandbox
+    seen = []
+
+    def look_and_quit():
+        for w in QApplication.topLevelWidgets():
+            if isinstance(w, main_window.MainWindow):
+                seen.append((w.path, len(w.session.document.outlines)))
+                w.close()
+        QApplication.quit()
+
+    QTimer.singleShot(300, look_and_quit)
+    assert entry.main([str(plate)]) == 0
+    assert seen == [(str(plate), 2)]
+    assert main_window.run_editor(["a.svg", "b.svg"]) == 2  # one file at a time
