@@ -144,6 +144,7 @@ def curvature(points: ArrayLike, t: ArrayLike) -> FloatArray | float:
         kappa = np.where(
             scale[:, None] > 0.0, kappa / np.where(scale > 0.0, scale, 1.0)[:, None], 0.0
         )
+    kappa += 0.0  # −0.0 (from a zero cross product of negative sign) reads as 0.0
     out = unbatch(kappa, single, scalar_t)
     return float(out) if np.ndim(out) == 0 else out
 

@@ -273,3 +273,11 @@ def test_line_reversal_is_a_cusp_and_regular_curve_has_none():
     np.testing.assert_allclose(cusps(np.array([[0.0, 0.0], [2.0, 0.0], [1.0, 0.0]])), [2 / 3])
     assert cusps(PARABOLA).size == 0
     assert cusps(np.array([[0.0, 0.0], [1.0, 1.0]])).size == 0
+
+
+def test_straight_segments_have_positive_zero_curvature():
+    # A zero curvature is +0.0, never −0.0 (which reports print as "-0.0").
+    line_down = np.array([[0.0, 0.0], [1.0, -1.0], [2.0, -2.0], [3.0, -3.0]])
+    k = curvature(line_down, np.linspace(0, 1, 5))
+    assert np.all(k == 0.0) and not np.signbit(k).any()
+    assert not np.signbit(end_curvatures(line_down[::-1])[0])
