@@ -146,6 +146,12 @@ class ElementRef:
         Element coordinates to root user units.
     path_error : bool
         The element's path data had an error (only the part before it was read).
+    use_matrix : ndarray (3, 3) or None
+        For a ``use`` instance: the use element's own coordinates (its ``transform`` applied,
+        not its x/y) to root user units.
+    use_direct : bool
+        The ``use`` refers straight to this geometry element (no group, symbol or nested
+        use in between), so the writer can turn the use into a path when it is edited.
     """
 
     element: Any
@@ -153,6 +159,8 @@ class ElementRef:
     contours: tuple[Contour, ...]
     matrix: NDArray[np.float64]
     path_error: bool = False
+    use_matrix: NDArray[np.float64] | None = None
+    use_direct: bool = False
 
 
 @dataclass(eq=False)
@@ -460,7 +468,11 @@ class _Reader:
         uy = _length(el, "y", where, self.ppi)
         m = matrix @ translation(ux, uy)
         new_chain = chain + (id(el), id(target))
-        outer = use if use is not None else el
+        # The outermost use: (element, its coordinate system, refers straight to geometry?).
+        if use is None:
+            outer = (el, matrix, _local(target.tag) in _GEOMETRY)
+        else:
+            outer = (use[0], use[1], False)
         ttag = _local(target.tag)
         if ttag == "symbol":
             vb = parse_view_box(target.get("viewBox"), where)
@@ -505,11 +517,19 @@ class _Reader:
         contours = _read_joins(el, contours, where, self.notes)
         if m is not None and is_mirroring(m):
             self.count("mirror", describe(el, index))
-        ref = ElementRef(el, use, tuple(contours), m if m is not None else IDENTITY, path_error)
+        ref = ElementRef(
+            el,
+            use[0] if use is not None else None,
+            tuple(contours),
+            m if m is not None else IDENTITY,
+            path_error,
+            use[1] if use is not None else None,
+            bool(use[2]) if use is not None else False,
+        )
         self.outlines.append(
             Outline(
                 tuple(contours),
-                element_id=el.get("id") if use is None else use.get("id") or el.get("id"),
+                element_id=el.get("id") if use is None else use[0].get("id") or el.get("id"),
                 source_index=index,
                 tag=tag,
                 transform=m if m is not None else IDENTITY,

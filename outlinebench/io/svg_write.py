@@ -213,6 +213,17 @@ class _Splicer:
                 new = b"</" + self._renamed(m.group(1), rename_to)
                 self.edits.append((e, m.end(), new))
 
+    def raw_attr_names(self, el: Any) -> list[str]:
+        """Attribute names as written in the element's start tag (with their prefixes)."""
+        start = self.src.xml.spans[id(el)][0]
+        tag = self.data[start : self._tag_end(start)]
+        pos = _TAG_NAME_RE.match(tag).end()
+        names = []
+        while (a := _ATTR_RE.match(tag, pos)) is not None:
+            names.append(a.group(1).decode("ascii", "replace"))
+            pos = a.end()
+        return names
+
     @staticmethod
     def _renamed(raw: bytes, local: str) -> bytes:
         prefix, colon, _ = raw.rpartition(b":")
@@ -291,6 +302,34 @@ def _escape(text: str) -> str:
     )
 
 
+def _replace_use(sp: _Splicer, outline: Outline, ref: ElementRef) -> None:
+    """An edited instance of a use that refers straight to one shape becomes a path.
+
+    The use keeps its id, transform and every other attribute except the reference and
+    x/y/width/height; the referenced element's own plain presentation attributes (fill,
+    stroke, class, style, ...) are copied where the use does not set them, so the path looks
+    as the instance did. The referenced element and other uses of it are untouched.
+    """
+    assert ref.use_matrix is not None
+    contours = _element_contours(outline, ref.use_matrix)
+    values: dict[str, str | None] = {"d": format_path_data(contours)}
+    joins = joins_text(outline.contours)
+    if joins is not None:
+        values[sp.joins_attr()] = joins
+    skip = {"id", "d", "transform", *(_SHAPE_ATTRS.get(_local_name(ref.element.tag), ()))}
+    for name, value in ref.element.attrib.items():
+        if "{" not in name and name not in skip and ref.use.get(name) is None:
+            values[name] = _escape(value)
+    raw_names = sp.raw_attr_names(ref.use)
+    remove = [n for n in raw_names if n in ("x", "y", "width", "height", "href")]
+    remove += [n for n in raw_names if n.endswith(":href")]
+    sp.set_attrs(ref.use, values, remove=remove, rename_to="path")
+
+
+def _local_name(tag: str) -> str:
+    return tag.rpartition("}")[2]
+
+
 def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
     enc = src.xml.encoding
     if enc.startswith(("utf-16", "utf-32", "ucs")):
@@ -317,10 +356,15 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
         if _untouched(outline, ref):
             continue
         if ref.use is not None:
-            raise SvgWriteError(
-                f"{src.path or '<bytes>'}: outline {outline.source_index} is an instance of "
-                f"<use id={ref.use.get('id')!r}>; edit the element it refers to instead"
-            )
+            if not ref.use_direct or ref.use_matrix is None:
+                raise SvgWriteError(
+                    f"{src.path or '<bytes>'}: outline {outline.source_index} is part of a "
+                    f"group or symbol reused by <use id={ref.use.get('id')!r}>; edit the "
+                    "referenced element instead"
+                )
+            _replace_use(sp, outline, ref)
+            need_prefix = need_prefix or joins_text(outline.contours) is not None
+            continue
         tag = outline.tag
         joins = joins_text(outline.contours)
         values: dict[str, str | None] = {}

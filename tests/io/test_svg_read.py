@@ -308,3 +308,16 @@ def test_join_intent_is_read_from_our_attribute():
         "corner",
         "corner",
     )
+
+
+@pytest.mark.slow
+def test_a_ten_megabyte_path_attribute_reads_in_one_feed():
+    # The issue asks for tens of megabytes in one feed; 10 MB here keeps the suite quick.
+    n = 600_000
+    xy = np.arange(2 * n, dtype=np.float64).reshape(n, 2) / 8.0
+    d = "M0 0 " + " ".join(map("L{} {}".format, xy[:, 0].tolist(), xy[:, 1].tolist()))
+    assert len(d) > 10_000_000
+    res = read_svg(svg(f'<path id="long" d="{d}"/>'))
+    (c,) = res.document.outlines[0].contours
+    assert res.error is None and len(c.segments) == n
+    assert c.segments[-1][1].tolist() == xy[-1].tolist()

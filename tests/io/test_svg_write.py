@@ -156,12 +156,35 @@ def test_fresh_document_gets_a_minimal_root():
         assert np.array_equal(s, t)
 
 
-def test_edit_of_a_use_instance_is_refused_with_a_message():
-    doc = read_svg(DATA / "harbour_lane_sign.svg").document
-    i = [o.element_id for o in doc.outlines].index("wave2")
-    doc = doc.replace_contour(i, 0, moved(doc.outlines[i].contours[0]))
-    with pytest.raises(SvgWriteError, match="instance of <use"):
-        svg_bytes(doc)
+def test_edited_use_instance_becomes_a_path_and_groups_are_refused():
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink">'
+        b'<defs><rect id="tile" width="4" height="2" fill="teal"/>'
+        b'<g id="pair"><path d="M0 0 L1 0"/><path d="M0 1 L1 1"/></g></defs>'
+        b'<use id="one" xlink:href="#tile" x="10" transform="rotate(90)"/>'
+        b'<use id="two" href="#tile" x="20"/><use id="both" href="#pair"/></svg>'
+    )
+    doc = read_svg(data).document
+    one = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+    out = svg_bytes(one)
+    root = ET.fromstring(out)
+    kids = [e for e in root if not e.tag.endswith("defs")]
+    # The edited instance is a path with the use's id and transform and the tile's fill;
+    # the other use and the referenced rect are untouched.
+    assert kids[0].tag.endswith("path") and kids[0].get("id") == "one"
+    assert kids[0].get("transform") == "rotate(90)" and kids[0].get("fill") == "teal"
+    assert kids[0].get("x") is None and kids[0].get("{http://www.w3.org/1999/xlink}href") is None
+    assert kids[1].tag.endswith("use") and b'<rect id="tile"' in out
+    back = read_svg(out).document
+    np.testing.assert_allclose(
+        back.outlines[0].contours[0].segments[0],
+        one.outlines[0].contours[0].segments[0],
+        rtol=0,
+        atol=1e-12,
+    )
+    group = doc.replace_contour(2, 0, moved(doc.outlines[2].contours[0]))
+    with pytest.raises(SvgWriteError, match="group or symbol reused by <use"):
+        svg_bytes(group)
 
 
 # -- atomic saving ------------------------------------------------------------------------
