@@ -75,13 +75,16 @@ def _taylor_shift(coeffs: FloatArray, center: FloatArray) -> FloatArray:
 
 
 def _square(b: FloatArray) -> FloatArray:
-    """Coefficients of |B′|² from those of B′ (``(M, k, 2)`` → ``(M, 2k − 1)``)."""
+    """Coefficients of |B′|² from those of B′ (``(M, k, 2)`` → ``(M, 2k − 1)``).
+
+    The product of two polynomials: coefficient n collects b_i·b_j over i + j = n.
+    """
     k = b.shape[1]
-    sq = np.zeros((b.shape[0], 2 * k - 1))
-    for i in range(k):
-        for j in range(k):
-            sq[:, i + j] += b[:, i, 0] * b[:, j, 0] + b[:, i, 1] * b[:, j, 1]
-    return sq
+    outer = np.einsum("mid,mjd->mij", b, b).reshape(b.shape[0], k * k)
+    i, j = np.divmod(np.arange(k * k), k)
+    gather = np.zeros((k * k, 2 * k - 1))
+    gather[np.arange(k * k), i + j] = 1.0
+    return outer @ gather
 
 
 def _speed_function(hodo: FloatArray, curve_of: NDArray[np.intp], center: FloatArray):
@@ -141,9 +144,10 @@ def _speed_minimum(hodo: FloatArray) -> tuple[FloatArray, FloatArray]:
         gp = _horner(d2, tc)[:, 0]
         step = g / np.where(gp > 0.0, gp, np.inf)  # no step where |B′|² is not convex
         t_new = np.clip(t - step, 0.0, 1.0)
-        if np.array_equal(t_new, t):
-            break
+        moved = np.abs(t_new - t).max()
         t = t_new
+        if moved <= 4e-16:
+            break
     b = _taylor_shift(hodo, t)  # B′(t + u) = b0 + b1 u + …, b0 computed at t directly
     n1 = np.hypot(b[:, 0, 0], b[:, 0, 1])
     n2 = np.hypot(b[:, 1, 0], b[:, 1, 1])
