@@ -13,7 +13,7 @@ Two flatteners are provided:
 * :func:`flatten_uniform_wang` — uniform parameter steps whose count comes from Wang's
   formula; guaranteed by that formula, many more chords; the speed reference.
 
-:func:`max_deviation` measures the Hausdorff distance between a curve contour and any given
+:func:`polyline_deviation` measures the Hausdorff distance between a curve contour and any given
 polyline (for example one produced by other software), and where it occurs.
 
 References
@@ -47,7 +47,7 @@ __all__ = [
     "flatten_uniform_wang",
     "chord_bound",
     "optimal_chord_count",
-    "max_deviation",
+    "polyline_deviation",
     "Deviation",
 ]
 
@@ -58,9 +58,13 @@ FloatArray = NDArray[np.float64]
 # router, laser and vinyl cutter repeatability.
 DEFAULT_FLATTEN_TOLERANCE = 0.01
 
-# Accuracy of max_deviation, as a fraction of the measured scale (tolerance or size): the
+# Accuracy of polyline_deviation, as a fraction of the measured scale (tolerance or size): the
 # reported distance is within this of the true Hausdorff distance (Lipschitz bound, see there).
 DEVIATION_ACCURACY = 1e-3
+
+# Largest number of edge pieces refined per round when measuring a deviation; beyond it the
+# measurement stops and reports the accuracy it has proven (keeps the deviation command fast).
+_MAX_REFINE = 20_000
 
 # Number of parameter intervals per segment on which the chord density ∫ sqrt(|κ|) ds is
 # integrated (trapezoid rule). Only the placement of chords depends on it, never the
@@ -769,34 +773,17 @@ class Deviation:
     accuracy: float
 
 
-def _dense_params(cubics: FloatArray, spacing: float) -> tuple[np.ndarray, FloatArray]:
-    """Parameters with arc-length spacing ≤ spacing on every segment (speed bound)."""
-    d = cubics[:, 1:] - cubics[:, :-1]
-    # |B'| ≤ 3 max|P_{i+1} − P_i|, so Δt · 3 max|ΔP| bounds the arc between samples
-    vmax = 3.0 * np.max(np.hypot(d[..., 0], d[..., 1]), axis=1)
-    n = np.maximum(1, np.ceil(vmax / spacing)).astype(np.intp)
-    seg = np.repeat(np.arange(len(cubics)), n + 1)
-    k = np.arange(len(seg)) - np.repeat(np.cumsum(n + 1) - (n + 1), n + 1)
-    return seg, k / n[seg]
-
-
-def _densify_polyline(poly: FloatArray, closed: bool, spacing: float) -> FloatArray:
-    pts = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
-    if len(pts) < 2:
-        return pts
-    e = np.diff(pts, axis=0)
-    n = np.maximum(1, np.ceil(np.hypot(e[:, 0], e[:, 1]) / spacing)).astype(np.intp)
-    idx = np.repeat(np.arange(len(e)), n)
-    f = (np.arange(len(idx)) - np.repeat(np.cumsum(n) - n, n)) / n[idx]
-    return np.vstack([pts[idx] + f[:, None] * e[idx], pts[-1:]])
-
-
-def _nearest_on_edges(points: FloatArray, edges_a: FloatArray, edges_b: FloatArray):
-    """Distance from each point to the nearest of the edges, with the edge index."""
+def _edge_tree(chain: FloatArray):
     import shapely
 
-    lines = shapely.linestrings(np.stack([edges_a, edges_b], axis=1))
-    tree = shapely.STRtree(lines)
+    lines = shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1))
+    return shapely.STRtree(lines)
+
+
+def _distances(tree, points: FloatArray) -> tuple[FloatArray, np.ndarray]:
+    """Distance from each point to the nearest edge in the tree, with that edge's index."""
+    import shapely
+
     (pi, ei), dist = tree.query_nearest(
         shapely.points(points), return_distance=True, all_matches=False
     )
@@ -807,7 +794,60 @@ def _nearest_on_edges(points: FloatArray, edges_a: FloatArray, edges_b: FloatArr
     return out, which
 
 
-def max_deviation(
+def _directed_max(chain: FloatArray, tree, slack: float):
+    """Largest distance from the polyline ``chain`` (V, 2) to the edges in ``tree``.
+
+    Branch and bound on the 1-Lipschitz distance function: an edge piece of length ℓ whose
+    ends are at distances d₁, d₂ holds no point farther than (d₁ + d₂ + ℓ) / 2. Pieces whose
+    bound exceeds the best sample by more than ``slack`` are split until none does, so the
+    result is within ``slack`` below the true maximum.
+
+    The work is capped (:data:`_MAX_REFINE` pieces per round); the last value returned is
+    then the proven upper bound of the maximum, else the best sample plus at most ``slack``.
+
+    Returns (distance, point, edge index of chain, fraction along it, nearest edge in tree,
+    upper bound).
+    """
+    e = np.diff(chain, axis=0)
+    elen = np.hypot(e[:, 0], e[:, 1])
+    edge = np.arange(len(e))
+    f0 = np.zeros(len(e))
+    f1 = np.ones(len(e))
+    pts = np.vstack([chain[:-1], chain[-1:]])
+    d, w = _distances(tree, pts)
+    d0, d1 = d[:-1], d[1:]
+    i = int(np.argmax(d))
+    best = (float(d[i]), pts[i], min(i, len(e) - 1), 0.0 if i < len(e) else 1.0, int(w[i]))
+    bound = best[0]
+    for _ in range(200):
+        length = elen[edge] * (f1 - f0)
+        upper = 0.5 * (d0 + d1 + length)
+        keep = upper > best[0] + slack
+        bound = max(best[0], float(np.max(upper))) if len(upper) else best[0]
+        if not np.any(keep) or np.count_nonzero(keep) > _MAX_REFINE:
+            break
+        edge, f0, f1, d0, d1 = edge[keep], f0[keep], f1[keep], d0[keep], d1[keep]
+        parts = 8
+        frac = np.linspace(0.0, 1.0, parts + 1)
+        ff = f0[:, None] + (f1 - f0)[:, None] * frac  # (E, parts+1)
+        mid = ff[:, 1:-1]
+        mp = chain[edge][:, None, :] + mid[..., None] * e[edge][:, None, :]
+        md, mw = _distances(tree, mp.reshape(-1, 2))
+        md = md.reshape(mid.shape)
+        j = int(np.argmax(md))
+        if md.flat[j] > best[0]:
+            r, c = divmod(j, mid.shape[1])
+            best = (float(md.flat[j]), mp[r, c], int(edge[r]), float(mid[r, c]), int(mw[j]))
+        dd = np.concatenate([d0[:, None], md, d1[:, None]], axis=1)
+        edge = np.repeat(edge, parts)
+        f0 = ff[:, :-1].ravel()
+        f1 = ff[:, 1:].ravel()
+        d0 = dd[:, :-1].ravel()
+        d1 = dd[:, 1:].ravel()
+    return (*best, bound)
+
+
+def polyline_deviation(
     segments: Sequence[ArrayLike],
     polyline: ArrayLike,
     *,
@@ -842,12 +882,13 @@ def max_deviation(
     Notes
     -----
     The curve is replaced by a reference polyline R flattened with :func:`flatten_contours`
-    at accuracy δ/4 (guaranteed). Both R and the polyline are then sampled with arc-length
-    spacing ≤ δ/2 and each sample's distance to the other (exact distance to its edges,
-    shapely STRtree) is taken. Distance to a set is 1-Lipschitz along a path, so the largest
-    sampled distance is within δ/4 of the largest over the path; with the δ/4 of the
-    reference polyline the result is within δ of the Hausdorff distance. The maximum is
-    located at the worst sample.
+    at accuracy δ/4 (guaranteed), so any directed distance from or to the curve differs from
+    the one for R by at most δ/4. Each direction (R to the polyline, the polyline to R) is
+    then maximised by branch and bound: distance to a set is 1-Lipschitz along a path, so an
+    edge piece of length ℓ with end distances d₁, d₂ holds nothing beyond (d₁ + d₂ + ℓ) / 2;
+    pieces that could beat the best sample by more than δ/2 are split until none can. The
+    result is within δ of the Hausdorff distance; distances to edges are exact (shapely
+    STRtree nearest queries).
     """
     cub = _as_cubic_batch(list(segments))
     if len(cub) == 0:
@@ -863,45 +904,29 @@ def max_deviation(
         acc = DEVIATION_ACCURACY * float(tolerance)
     else:
         acc = DEVIATION_ACCURACY * max(size, 1e-12)
-    # keep the sample count sane on huge inputs: at most ~2e6 samples along the contour
-    d = cub[:, 1:] - cub[:, :-1]
-    length_bound = float(np.sum(np.hypot(d[..., 0], d[..., 1]))) + float(
-        np.sum(np.hypot(*np.diff(poly, axis=0).T))
-    )
-    acc = max(acc, 2.0 * length_bound / 2e6)
+    # never finer than the floating-point resolution of the coordinates allows
+    scale = max(float(np.max(np.abs(cub))), float(np.max(np.abs(poly))), 1.0)
+    acc = max(acc, 1e6 * _ROUNDING_MARGIN * scale)
     ref_seg, ref_t = _flatten_params(cub, acc / 4.0)
     coef = _power_coefficients(cub)
-    ref_pts = _vertices(cub, coef, ref_seg, ref_t)
-    ref_pts = np.vstack([ref_pts, cub[-1, 3]])
+    ref = np.vstack([_vertices(cub, coef, ref_seg, ref_t), cub[-1, 3]])
     ref_seg_v = np.append(ref_seg, len(cub) - 1)
     ref_t_v = np.append(ref_t, 1.0)
-    # samples of the reference with their (segment, t) by linear interpolation of t
-    spacing = acc / 2.0
-    e = np.diff(ref_pts, axis=0)
-    n = np.maximum(1, np.ceil(np.hypot(e[:, 0], e[:, 1]) / spacing)).astype(np.intp)
-    idx = np.repeat(np.arange(len(e)), n)
-    f = (np.arange(len(idx)) - np.repeat(np.cumsum(n) - n, n)) / n[idx]
-    curve_s = np.vstack([ref_pts[idx] + f[:, None] * e[idx], ref_pts[-1:]])
-    same = ref_seg_v[idx] == ref_seg_v[idx + 1]
-    t_next = np.where(same, ref_t_v[idx + 1], 1.0)
-    curve_t = np.append(ref_t_v[idx] + f * (t_next - ref_t_v[idx]), 1.0)
-    curve_seg = np.append(ref_seg_v[idx], len(cub) - 1)
+    if len(ref) == 1:
+        ref = np.vstack([ref, ref])
+    chain = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
+    if len(chain) == 1:
+        chain = np.vstack([chain, chain])
+    d1, p1, e1, f1, _, u1 = _directed_max(ref, _edge_tree(chain), acc / 2.0)
+    d2, p2, _, _, w2, u2 = _directed_max(chain, _edge_tree(ref), acc / 2.0)
+    # proven: the true value lies in [max(d1, d2) − δ/4, max(u1, u2) + δ/4]
+    acc = max(acc, max(u1, u2) - max(d1, d2) + acc / 4.0)
 
-    pclosed = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
-    if len(pclosed) == 1:
-        pclosed = np.vstack([pclosed, pclosed])
-    d1, _ = _nearest_on_edges(curve_s, pclosed[:-1], pclosed[1:])
-    poly_s = _densify_polyline(poly, closed, spacing)
-    d2, which = _nearest_on_edges(poly_s, ref_pts[:-1], ref_pts[1:])
-    i1 = int(np.argmax(d1))
-    i2 = int(np.argmax(d2))
-    if d1[i1] >= d2[i2]:
-        x, y = curve_s[i1]
-        return Deviation(
-            float(d1[i1]), float(x), float(y), "curve", int(curve_seg[i1]), float(curve_t[i1]), acc
-        )
-    x, y = poly_s[i2]
-    w = int(which[i2])
+    if d1 >= d2:
+        seg = int(ref_seg_v[e1])
+        t_next = ref_t_v[e1 + 1] if ref_seg_v[e1 + 1] == seg else 1.0
+        t = float(ref_t_v[e1] + f1 * (t_next - ref_t_v[e1]))
+        return Deviation(d1, float(p1[0]), float(p1[1]), "curve", seg, t, acc)
     return Deviation(
-        float(d2[i2]), float(x), float(y), "polyline", int(ref_seg_v[w]), float(ref_t_v[w]), acc
+        d2, float(p2[0]), float(p2[1]), "polyline", int(ref_seg_v[w2]), float(ref_t_v[w2]), acc
     )
