@@ -254,3 +254,53 @@ def test_middle_drag_pans(window):
     QApplication.sendEvent(canvas, ev)
     QTest.mouseRelease(canvas, Qt.MouseButton.MiddleButton, NO_MOD, QPoint(130, 90))
     assert (canvas.view.offset_x - ox, canvas.view.offset_y - oy) == pytest.approx((30, -10))
+
+
+def test_drag_frames_match_a_full_repaint(window, qtbot):
+    # During a drag the unchanged outlines come from a backdrop pixmap; the frame must look
+    # exactly like painting the same document from scratch.
+    from PySide6.QtGui import QImage
+
+    canvas, s = window.canvas, window.session
+    canvas.repaint()
+    c = s.document.outlines[0].contours[0]
+    a = screen(canvas, c.segments[1][1])
+    _send(canvas, QEvent.Type.MouseButtonPress, a)
+    for k in range(1, 4):
+        _send(canvas, QEvent.Type.MouseMove, a + QPointF(5 * k, 3 * k))
+        canvas.repaint()
+    assert s.history.in_group and canvas._backdrop is not None
+    during = canvas.grab().toImage().convertToFormat(QImage.Format.Format_RGB32)
+    canvas._last_doc = None  # no gesture base: paints everything from scratch
+    full = canvas.grab().toImage().convertToFormat(QImage.Format.Format_RGB32)
+    _send(canvas, QEvent.Type.MouseButtonRelease, a + QPointF(15, 9))
+    assert during == full
+
+
+def test_enter_finishes_an_open_contour_and_escape_cancels(window):
+    canvas, s = window.canvas, window.session
+    n = len(s.document.outlines)
+    window.act_tools["draw"].trigger()
+    click(canvas, screen(canvas, (20, 90)))
+    click(canvas, screen(canvas, (60, 95)))
+    canvas.setFocus()
+    QTest.keyClick(canvas, Qt.Key.Key_Return)
+    new = s.document.outlines[-1].contours[0]
+    assert len(s.document.outlines) == n + 1 and not new.closed
+    assert [seg.shape[0] for seg in new.segments] == [2]
+    click(canvas, screen(canvas, (20, 30)))
+    QTest.keyClick(canvas, Qt.Key.Key_Escape)
+    assert not s.tools["draw"].busy
+    assert len(s.document.outlines) == n + 1
+
+
+def test_space_drag_pans(window):
+    canvas = window.canvas
+    canvas.setFocus()
+    QTest.keyPress(canvas, Qt.Key.Key_Space)
+    ox = canvas.view.offset_x
+    before = window.session.document
+    drag(canvas, QPointF(200, 200), QPointF(260, 200))
+    QTest.keyRelease(canvas, Qt.Key.Key_Space)
+    assert canvas.view.offset_x - ox == pytest.approx(60.0)
+    assert window.session.document is before  # panning never edits
