@@ -207,3 +207,14 @@ def test_entry_point_opens_the_file_and_runs(qtbot, plate, monkeypatch, tmp_path
     assert entry.main([str(plate)]) == 0
     assert seen == [(str(plate), 2)]
     assert main_window.run_editor(["a.svg", "b.svg"]) == 2  # one file at a time
+
+
+def test_a_failed_save_is_shown_and_the_changes_kept(window, plate, tmp_path, monkeypatch):
+    assert window.open_path(str(plate))
+    window.session.set_point((0, 0, 0, 0), 12.0, 9.0)
+    target = tmp_path / "no-such-folder" / "plate.svg"
+    monkeypatch.setattr(window, "choose_save_path", lambda: str(target))
+    assert not window.save_as()
+    assert window.dialog_log[-1][0] == "Cannot save"
+    assert window.isWindowModified() and window.path == str(plate)
+    assert not target.exists()
