@@ -315,13 +315,14 @@ def _paint_marks(
     for _oi, _ci, g, scr, inside in in_view:
         if len(g.handle_lines):
             hl = g.handle_lines * view.scale + np.array([view.offset_x, view.offset_y])
-            for (a, b), kind in zip(hl, g.handle_kind, strict=True):
-                if not (-20 <= b[0] <= width + 20 and -20 <= b[1] <= height + 20) and not (
-                    -20 <= a[0] <= width + 20 and -20 <= a[1] <= height + 20
-                ):
-                    continue
-                lines[kind].append(QLineF(a[0], a[1], b[0], b[1]))
-                handles[kind].addEllipse(QPointF(b[0], b[1]), r, r)
+            near = (hl[..., 0] >= -20) & (hl[..., 0] <= width + 20)
+            near &= (hl[..., 1] >= -20) & (hl[..., 1] <= height + 20)
+            shown = np.flatnonzero(near.any(axis=1))  # either end of the handle line in view
+            kinds = g.handle_kind
+            for i, ((ax, ay), (bx, by)) in zip(shown.tolist(), hl[shown].tolist(), strict=True):
+                kind = kinds[i]
+                lines[kind].append(QLineF(ax, ay, bx, by))
+                handles[kind].addEllipse(QPointF(bx, by), r, r)
         for k in np.flatnonzero(inside):
             mark = g.marks[k]
             target = filled if mark.stated else hollow

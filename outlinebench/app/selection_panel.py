@@ -143,9 +143,10 @@ class SelectionPanel(QWidget):
         spins = (self.x, self.y, self.in_len, self.out_len)
         blockers = [QSignalBlocker(w) for w in (*spins, self.in_ang, self.out_ang, self.join)]
         try:
-            for w in spins:
-                w.setSuffix(f" {units.name}")
-                w.setDecimals(units.decimals)
+            if self.x.suffix() != f" {units.name}" or self.x.decimals() != units.decimals:
+                for w in spins:
+                    w.setSuffix(f" {units.name}")
+                    w.setDecimals(units.decimals)
             if key is None or not pk.exists(doc, key):
                 self.summary.setText(
                     f"{len(selected)} points selected."
