@@ -83,6 +83,9 @@ for _c, _n in _CAT.items():
     _CAT_LUT[ord(_c)] = _n
     _CAT_LUT[ord(_c.lower())] = _n
 
+# Path data up to this many characters is built sequentially (numpy's per-call cost would
+# dominate); longer data is built with whole-array operations.
+_SMALL = 2048
 # Levels of vectorised current-point resolution before falling back to one sequential pass.
 _RESOLVE_LEVELS = 12
 
@@ -570,6 +573,119 @@ def _build(
     return contours, counts_out
 
 
+def _build_small(
+    tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float
+) -> tuple[list[Contour], dict[str, int]]:
+    """Sequential twin of :func:`_build` for short data, where numpy's per-call cost
+    dominates. Same arithmetic in the same order, so the results are bit-identical (tested).
+    """
+    counts_out: dict[str, int] = {}
+    nums = tok.numbers.tolist()
+    by_kind: dict[int, list[list[list[float]]]] = {2: [], 3: [], 4: []}
+    order: list[tuple[int, int]] = []  # (kind, index) per segment, in path order
+    bounds: list[tuple[int, int, bool]] = []  # (first segment, end segment, closed)
+
+    def add(seg: list[list[float]]) -> None:
+        lst = by_kind[len(seg)]
+        order.append((len(seg), len(lst)))
+        lst.append(seg)
+
+    x = y = sx = sy = 0.0
+    sub_first = 0
+    prev_cat = -1
+    c2x = c2y = qx = qy = 0.0  # last cubic second handle, last quadratic control point
+    k = 0
+    first_row = True
+    for code, count in zip(tok.commands, tok.counts.tolist(), strict=True):
+        letter = chr(code)
+        up = letter.upper()
+        rel = letter != up
+        arity = _ARITY[up]
+        groups = count // arity if arity else 1
+        for g in range(groups):
+            p = nums[k : k + arity]
+            k += arity
+            r = rel and not first_row
+            first_row = False
+            bx, by = (x, y) if r else (0.0, 0.0)
+            cat = _CAT[up]
+            if cat == 0 and g > 0:
+                cat = 1
+            x0, y0 = x, y
+            if up in "ML":
+                x, y = (x + p[0], y + p[1]) if r else (p[0], p[1])
+            elif up == "H":
+                x, y = (x + p[0] if r else p[0]), y + 0.0
+            elif up == "V":
+                x, y = x + 0.0, (y + p[0] if r else p[0])
+            elif up == "Z":
+                x, y = sx + 0.0, sy + 0.0
+            else:
+                ix = {"C": 4, "S": 2, "Q": 2, "T": 0, "A": 5}[up]
+                x, y = (x + p[ix], y + p[ix + 1]) if r else (p[ix], p[ix + 1])
+            if cat == 0:
+                if len(order) > sub_first:
+                    bounds.append((sub_first, len(order), False))
+                sub_first = len(order)
+                sx, sy = x, y
+            elif cat == 1:
+                add([[x0, y0], [x, y]])
+            elif cat == 2:
+                h1 = [p[0] + bx, p[1] + by]
+                c2x, c2y = p[2] + bx, p[3] + by
+                add([[x0, y0], h1, [c2x, c2y], [x, y]])
+            elif cat == 3:
+                if prev_cat in (2, 3):
+                    h1 = [2.0 * x0 - c2x, 2.0 * y0 - c2y]
+                else:
+                    h1 = [x0, y0]
+                c2x, c2y = p[0] + bx, p[1] + by
+                add([[x0, y0], h1, [c2x, c2y], [x, y]])
+            elif cat == 4:
+                qx, qy = p[0] + bx, p[1] + by
+                add([[x0, y0], [qx, qy], [x, y]])
+            elif cat == 5:
+                if prev_cat in (4, 5):
+                    qx, qy = 2.0 * x0 - qx, 2.0 * y0 - qy
+                else:
+                    qx, qy = x0, y0
+                add([[x0, y0], [qx, qy], [x, y]])
+            elif cat == 6:
+                res = arc_to_cubics(x0, y0, p[0], p[1], p[2], p[3] != 0.0, p[4] != 0.0, x, y,
+                                    tolerance)  # fmt: skip
+                if res.negative_radius:
+                    counts_out["arc_negative_radius"] = counts_out.get("arc_negative_radius", 0) + 1
+                if res.radii_scaled:
+                    counts_out["arc_radii_scaled"] = counts_out.get("arc_radii_scaled", 0) + 1
+                if res.kind == "none":
+                    counts_out["arc_omitted"] = counts_out.get("arc_omitted", 0) + 1
+                elif res.kind == "line":
+                    counts_out["arc_zero_radius"] = counts_out.get("arc_zero_radius", 0) + 1
+                    add([[x0, y0], [x, y]])
+                else:
+                    counts_out["arcs"] = counts_out.get("arcs", 0) + 1
+                    for piece in res.cubics.tolist():
+                        add(piece)
+            else:  # Z
+                if x0 != x or y0 != y:
+                    add([[x0, y0], [x, y]])
+                if len(order) > sub_first:
+                    bounds.append((sub_first, len(order), True))
+                sub_first = len(order)
+            prev_cat = cat
+    if len(order) > sub_first:
+        bounds.append((sub_first, len(order), False))
+    views: dict[int, list[NDArray[np.float64]]] = {}
+    for kind, segs in by_kind.items():
+        if segs:
+            views[kind] = list(_freeze(_apply(np.array(segs, dtype=np.float64), matrix)))
+    ordered = [views[kind][i] for kind, i in order]
+    contours = [Contour(tuple(ordered[a:b]), closed) for a, b, closed in bounds]
+    if tok.trailing_dot:
+        counts_out["trailing_dot"] = tok.trailing_dot
+    return contours, counts_out
+
+
 def read_path_data(
     d: str,
     *,
@@ -593,8 +709,12 @@ def read_path_data(
     PathData
         Contours and, when the data is bad, the error (never raised).
     """
-    tok = _lex(d)
-    contours, counts = _build(tok, matrix, tolerance)
+    if len(d) <= _SMALL:
+        tok = _lex_general(d)
+        contours, counts = _build_small(tok, matrix, tolerance)
+    else:
+        tok = _lex(d)
+        contours, counts = _build(tok, matrix, tolerance)
     return PathData(contours, tok.error, counts)
 
 
