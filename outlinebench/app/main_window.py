@@ -20,8 +20,9 @@ from PySide6.QtWidgets import (
     QVBoxLayout,
 )
 
-from outlinebench.app import dialogs
+from outlinebench.app import dialogs, style
 from outlinebench.app.canvas import Canvas
+from outlinebench.app.canvas_painter import count_points_in_view
 from outlinebench.app.icons import icon
 from outlinebench.app.selection_panel import SelectionPanel
 from outlinebench.app.session import TOOLS, EditorSession
@@ -350,7 +351,13 @@ class MainWindow(QMainWindow):
     def _on_view_changed(self) -> None:
         u = self.session.units
         # Zoom shown as screen pixels per displayed unit.
-        self.zoom_label.setText(f"{self.canvas.view.scale / u.factor:.3g} px/{u.name}")
+        text = f"{self.canvas.view.scale / u.factor:.3g} px/{u.name}"
+        c = self.canvas
+        shown = count_points_in_view(c.view, c.document, c.cache, c.width(), c.height())
+        if shown > style.MAX_MARKED_POINTS:
+            # Marks are left out at this density (see style.MAX_MARKED_POINTS).
+            text += f" · {shown} points in view, marks hidden: zoom in to see them"
+        self.zoom_label.setText(text)
         self._place_start_panel()
 
     def _show_message(self, text: str) -> None:
