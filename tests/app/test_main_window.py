@@ -218,3 +218,23 @@ def test_a_failed_save_is_shown_and_the_changes_kept(window, plate, tmp_path, mo
     assert window.dialog_log[-1][0] == "Cannot save"
     assert window.isWindowModified() and window.path == str(plate)
     assert not target.exists()
+
+
+def test_start_panel_offers_the_bundled_samples(qtbot, tmp_path):
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QPushButton
+
+    from outlinebench.app.main_window import MainWindow, sample_files
+
+    win = MainWindow(QSettings(str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(win)
+    win.show()
+    qtbot.waitExposed(win)
+    samples = sample_files()
+    buttons = [b for b in win.start_panel.findChildren(QPushButton) if b.toolTip()]
+    assert [b.toolTip() for b in buttons] == [str(p) for p in samples]
+    if not samples:
+        pytest.skip("no samples/ folder in this checkout")
+    buttons[0].click()
+    assert win.path == str(samples[0])
+    assert not win.start_panel.isVisible()
