@@ -1,0 +1,163 @@
+"""``outlinebench offset FILE --distance d --tolerance ε``: tool-radius offsets of every contour.
+
+Closed contours move outward for d > 0 and inward for d < 0; open contours move to the side
+of the normal (T_y, −T_x) (left of the direction of travel as seen on an SVG page). Corners
+turning away from the tool get round joins; loops are cut away
+(:func:`outlinebench.geometry.offset_contour`). The places where the tool cannot fit are
+reported as findings: ``tool-does-not-fit`` (a bend toward the tool on a radius smaller than
+|d|: warning; a sharp corner toward the tool, which the tool rounds to radius |d|: info) and
+``vanishes`` (a part or the whole contour narrower than the tool: error). ``--json`` prints the
+offset contours as polylines (``{"closed", "points"}``) with the findings; ``-o OUT.svg``
+writes the polylines as a cut file, atomically, with the cutting caution. Exit code 0 when no
+finding of warning level or worse, 1 otherwise, 2 for unreadable input.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import sys
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding, is_problem
+from outlinebench.geometry.offset import DEFAULT_OFFSET_TOLERANCE, offset_contour
+from outlinebench.subcommands._common import (
+    LENGTH_UNITS,
+    positive_float,
+    read_document,
+    unit_factor,
+    write_json,
+)
+from outlinebench.subcommands.flatten import CUT_CAUTION_TEXT, cut_file_bytes, write_atomic
+
+__all__ = ["NAME", "HELP", "add_arguments", "run"]
+
+NAME = "offset"
+HELP = "offset outlines by a tool radius and report where the tool cannot fit"
+
+
+def _finite_float(text: str) -> float:
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not math.isfinite(v):
+        raise argparse.ArgumentTypeError(f"expected a finite number, got {text!r}")
+    return v
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``outlinebench offset``."""
+    parser.add_argument("file", metavar="FILE", help="SVG file to offset")
+    parser.add_argument(
+        "--distance",
+        type=_finite_float,
+        required=True,
+        metavar="D",
+        help="offset distance in --units (the tool radius); > 0 outward for closed contours",
+    )
+    parser.add_argument(
+        "--tolerance",
+        type=positive_float,
+        default=DEFAULT_OFFSET_TOLERANCE,
+        metavar="EPS",
+        help=f"largest distance of the result from the exact offset, in --units "
+        f"(default {DEFAULT_OFFSET_TOLERANCE})",
+    )
+    parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
+    parser.add_argument("--json", action="store_true", help="print JSON instead of text")
+    parser.add_argument(
+        "--units",
+        choices=LENGTH_UNITS,
+        default="user",
+        help="unit of distance, tolerance and output: the SVG root's user units (default) "
+        "or mm, in, pt, px",
+    )
+
+
+def run(args: argparse.Namespace) -> int:
+    """Offset every contour of ``args.file``; exit 1 when the tool does not fit somewhere."""
+    doc, notes = read_document(args.file)
+    for note in notes:
+        print(f"outlinebench: {args.file}: {note}", file=sys.stderr)
+    f = unit_factor(doc, args.units)
+    d_user = args.distance / f
+    tol_user = args.tolerance / f
+    contours: list[dict[str, Any]] = []
+    findings: list[Finding] = []
+    for ref in doc.contour_refs():
+        res = offset_contour(ref.contour.segments, ref.contour.closed, d_user, tol_user)
+        for c in res.contours:
+            contours.append(
+                {
+                    "outline": ref.outline,
+                    "contour": ref.global_index,
+                    "closed": c.closed,
+                    "points": c.polyline,
+                }
+            )
+        for p in res.problems:
+            if p.kind == "vanishes":
+                severity = ERROR
+            elif p.radius == 0.0:
+                severity = INFO
+            else:
+                severity = WARNING
+            outline = doc.outlines[ref.outline].source_index
+            findings.append(
+                Finding(
+                    kind=p.kind,
+                    severity=severity,
+                    outline=outline if outline >= 0 else ref.outline,
+                    contour=ref.global_index,
+                    segment=p.segment,
+                    t=p.t,
+                    x=p.x * f,
+                    y=p.y * f,
+                    value=None if p.radius is None else p.radius * f,
+                    unit=args.units,
+                    message=p.message,
+                    limit=abs(args.distance),
+                )
+            )
+    if args.output:
+        comment = (
+            f"Offset of {Path(args.file).name} by {args.distance:g} {args.units} with "
+            f"tolerance {args.tolerance:g} {args.units}, by outlinebench; "
+            f"{sum(is_problem(x) for x in findings)} places where the tool does not fit."
+        )
+        data = cut_file_bytes(
+            doc, [c["points"] for c in contours], [c["closed"] for c in contours], comment
+        )
+        write_atomic(args.output, data)
+    if args.json:
+        write_json(
+            {
+                "file": str(args.file),
+                "units": args.units,
+                "distance": args.distance,
+                "tolerance": args.tolerance,
+                "caution": CUT_CAUTION_TEXT,
+                "contours": [
+                    {**c, "points": (np.asarray(c["points"]) * f).tolist()} for c in contours
+                ],
+                "findings": [x.to_dict() for x in findings],
+            }
+        )
+    else:
+        for x in findings:
+            print(
+                f"{args.file}: contour {x.contour}, segment {x.segment}: {x.kind} at "
+                f"({x.x:.6g}, {x.y:.6g}) [{x.severity}]: {x.message}"
+            )
+        print(
+            f"{args.file}: {len(contours)} offset contours, {len(findings)} findings "
+            f"({sum(is_problem(x) for x in findings)} of warning level or worse)"
+        )
+        if args.output:
+            print(f"wrote {args.output}")
+        print(CUT_CAUTION_TEXT)
+    return 1 if any(is_problem(x) for x in findings) else 0
