@@ -50,8 +50,26 @@ from outlinebench.geometry.curvature import (
 )
 from outlinebench.geometry.extrema import bounding_box, extrema_params
 from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.flatten import (
+    DEFAULT_FLATTEN_TOLERANCE,
+    Deviation,
+    chord_bound,
+    flatten_contour,
+    flatten_contours,
+    flatten_uniform_wang,
+    optimal_chord_count,
+    polyline_deviation,
+)
 from outlinebench.geometry.intersect import intersections, line_intersection, self_intersections
 from outlinebench.geometry.nearest import distance_to, nearest_point
+from outlinebench.geometry.offset import (
+    DEFAULT_OFFSET_TOLERANCE,
+    OffsetContour,
+    OffsetProblem,
+    OffsetResult,
+    offset_contour,
+    offset_contours,
+)
 from outlinebench.geometry.quadrature import gauss_legendre
 
 __all__ = [
@@ -95,4 +113,18 @@ __all__ = [
     "fit_chain",
     "fit_cubic",
     "max_deviation",
+    "DEFAULT_FLATTEN_TOLERANCE",
+    "Deviation",
+    "chord_bound",
+    "flatten_contour",
+    "flatten_contours",
+    "flatten_uniform_wang",
+    "optimal_chord_count",
+    "polyline_deviation",
+    "DEFAULT_OFFSET_TOLERANCE",
+    "OffsetContour",
+    "OffsetProblem",
+    "OffsetResult",
+    "offset_contour",
+    "offset_contours",
 ]
