@@ -304,3 +304,30 @@ def test_space_drag_pans(window):
     QTest.keyRelease(canvas, Qt.Key.Key_Space)
     assert canvas.view.offset_x - ox == pytest.approx(60.0)
     assert window.session.document is before  # panning never edits
+
+
+def test_contour_and_segment_menu_edits(window):
+    s = window.session
+    messages = []
+    s.message.connect(messages.append)
+    s.set_selection([(1, 0, 0, 0)])  # the open stroke
+    window.act_close_contour.trigger()
+    stroke = s.document.outlines[1].contours[0]
+    # SetClosed adds a line from the end (170, 60) back to the start (110, 20).
+    assert stroke.closed and len(stroke.segments) == 3
+    np.testing.assert_array_equal(stroke.segments[-1], [[170, 60], [110, 20]])
+    s.set_selection([(1, 0, 2, 0)])  # start of that new line
+    window.act_degree[3].trigger()
+    line_as_cubic = s.document.outlines[1].contours[0].segments[2]
+    # Exact degree elevation of a line: control points at thirds (Farin §6.1, closed form).
+    np.testing.assert_allclose(
+        line_as_cubic, [[170, 60], [150, 140 / 3], [130, 100 / 3], [110, 20]]
+    )
+    assert "at most 0.000 mm" in messages[-1]
+    s.set_selection([(0, 0, 1, 0)])
+    window.act_degree[1].trigger()  # a quarter-ellipse-like cubic cannot become a line
+    assert "not done" in messages[-1]
+    assert s.document.outlines[0].contours[0].segments[1].shape == (4, 2)
+    window.act_delete_contour.trigger()
+    assert s.document.outlines[0].contours == ()
+    assert s.undo_label == "Delete contour"
