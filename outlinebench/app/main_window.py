@@ -286,7 +286,7 @@ class MainWindow(QMainWindow):
         self.zoom_label = QLabel("")
         self.tool_hint_label = QLabel("")
         sb.addWidget(self.tool_hint_label, 1)
-        self.hint_label = QLabel("Ctrl+wheel: zoom · middle-drag / Space+drag: pan")
+        self.hint_label = QLabel("Ctrl+wheel: zoom · Space/middle-drag: pan")
         self.hint_label.setToolTip(NAVIGATION_HINT)
         self.hint_label.setStyleSheet("color: #5b6670;")
         sb.addPermanentWidget(self.hint_label)

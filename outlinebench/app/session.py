@@ -402,8 +402,8 @@ class EditorSession(QObject):
             u = self.units.name
             return (
                 "Click: select · Shift+click: add · drag on empty space: box · "
-                "Alt+drag handle: break smooth join · Ctrl+drag handle: equal handles · "
-                f"arrows: nudge {small:g} {u} (Shift: {large:g} {u})"
+                "Alt+drag handle: make corner · Ctrl+drag handle: equal handles · "
+                f"arrows: {small:g} {u} (Shift {large:g} {u})"
             )
         if self.tool_name == "insert":
             return "Click on a segment to split it there; the shape does not change"
