@@ -26,7 +26,7 @@ from outlinebench.app import point_keys as pk
 from outlinebench.app.legend import MarkKey
 from outlinebench.app.lengths import segment_length
 
-__all__ = ["SelectionPanel", "ANGLE_DECIMALS"]
+__all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS"]
 
 ANGLE_DECIMALS = 3  # degrees shown to 0.001°
 _BIG = 1e9
@@ -38,8 +38,17 @@ _JOIN_CHOICES = [
 ]
 
 
+class NumberField(QDoubleSpinBox):
+    """A number field that the mouse wheel never changes (scrolling the panel must not edit
+    the drawing); values are typed, or stepped with the arrow keys when focused."""
+
+    def wheelEvent(self, event) -> None:  # noqa: N802 (Qt name)
+        event.ignore()
+
+
 def _spin(suffix: str, decimals: int, lo: float = -_BIG, hi: float = _BIG) -> QDoubleSpinBox:
-    box = QDoubleSpinBox()
+    box = NumberField()
+    box.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
     box.setRange(lo, hi)
     box.setDecimals(decimals)
     box.setSuffix(f" {suffix}")

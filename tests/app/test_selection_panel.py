@@ -93,3 +93,27 @@ def test_choosing_join_intent_pushes_a_command(window):
     panel.join.activated.emit(idx)
     assert s.document.outlines[0].contours[0].joins[2] == "smooth"
     assert s.undo_label == "Make join smooth"
+
+
+def test_the_wheel_over_a_number_field_does_not_edit(window):
+    from PySide6.QtCore import QPoint, QPointF
+    from PySide6.QtGui import QWheelEvent
+    from PySide6.QtWidgets import QApplication
+
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])
+    before = s.document
+    field = window.panel.x
+    pos = QPointF(field.width() / 2, field.height() / 2)
+    ev = QWheelEvent(
+        pos,
+        field.mapToGlobal(pos),
+        QPoint(0, 0),
+        QPoint(0, 120),
+        Qt.MouseButton.NoButton,
+        Qt.KeyboardModifier.NoModifier,
+        Qt.ScrollPhase.NoScrollPhase,
+        False,
+    )
+    QApplication.sendEvent(field, ev)
+    assert s.document is before
