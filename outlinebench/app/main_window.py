@@ -133,6 +133,7 @@ class MainWindow(QMainWindow):
         self.resize(1280, 800)
         self._update_title()
         self._on_document_changed()
+        self._on_selection_changed()
 
     # -- actions ------------------------------------------------------------------------
     def _action(self, text, slot, shortcut=None, icon_name=None, tip=None) -> QAction:

@@ -238,3 +238,11 @@ def test_start_panel_offers_the_bundled_samples(qtbot, tmp_path):
     buttons[0].click()
     assert win.path == str(samples[0])
     assert not win.start_panel.isVisible()
+
+
+def test_point_actions_follow_the_selection(window):
+    s = window.session
+    s.set_selection([])
+    assert not window.act_toggle_join.isEnabled() and not window.act_delete.isEnabled()
+    s.set_selection([(0, 0, 1, 0)])
+    assert window.act_toggle_join.isEnabled() and window.act_delete.isEnabled()
