@@ -76,6 +76,18 @@ class SelectionPanel(QWidget):
         self.summary.setWordWrap(True)
         lay.addWidget(self.summary)
 
+        self.box_group = QGroupBox("All selected points")
+        b = QFormLayout(self.box_group)
+        self.box_left = _spin("", 3)
+        self.box_top = _spin("", 3)
+        self.box_size = QLabel("")
+        b.addRow("Left edge", self.box_left)
+        b.addRow("Top edge", self.box_top)
+        b.addRow("Box size", self.box_size)
+        for w in (self.box_left, self.box_top):
+            w.setToolTip("Type a value to move every selected point together")
+        lay.addWidget(self.box_group)
+
         self.point_box = QGroupBox("Point")
         f = QFormLayout(self.point_box)
         self.x = _spin("", 3)
@@ -127,6 +139,8 @@ class SelectionPanel(QWidget):
         kl.addWidget(MarkKey())
         lay.addWidget(key_box)
 
+        self.box_left.valueChanged.connect(lambda _v: self._commit_box())
+        self.box_top.valueChanged.connect(lambda _v: self._commit_box())
         self.x.valueChanged.connect(lambda _v: self._commit_xy())
         self.y.valueChanged.connect(lambda _v: self._commit_xy())
         self.join.activated.connect(self._commit_join)
@@ -138,6 +152,7 @@ class SelectionPanel(QWidget):
         editor.changed.connect(self._on_selection_changed)
         editor.selection_changed.connect(self._on_selection_changed)
         self._shown_key: pk.Key | None = None
+        self._box: tuple[float, float] | None = None
         self._handle_keys: tuple[pk.Key | None, pk.Key | None] = (None, None)
         self._on_selection_changed()
 
@@ -149,8 +164,9 @@ class SelectionPanel(QWidget):
         key = ed.primary
         selected = ed.selected_points()
         self._shown_key = key
-        spins = (self.x, self.y, self.in_len, self.out_len)
+        spins = (self.x, self.y, self.in_len, self.out_len, self.box_left, self.box_top)
         blockers = [QSignalBlocker(w) for w in (*spins, self.in_ang, self.out_ang, self.join)]
+        self._show_box(doc, selected, units)
         try:
             if self.x.suffix() != f" {units.name}" or self.x.decimals() != units.decimals:
                 for w in spins:
@@ -194,6 +210,22 @@ class SelectionPanel(QWidget):
             )
         finally:
             del blockers
+
+    def _show_box(self, doc, selected, units) -> None:
+        """The bounding box of all selected points (shown when more than one is selected)."""
+        self._box = None
+        pts = [pk.point_at(doc, k) for k in selected if pk.exists(doc, k)]
+        self.box_group.setVisible(len(pts) > 1)
+        if len(pts) < 2:
+            return
+        arr = np.array(pts)
+        lo, hi = arr.min(axis=0), arr.max(axis=0)
+        self._box = (float(lo[0]), float(lo[1]))
+        self.box_group.setTitle(f"All {len(pts)} selected points")
+        self.box_left.setValue(units.show(self._box[0]))
+        self.box_top.setValue(units.show(self._box[1]))
+        w, h = units.show(float(hi[0] - lo[0])), units.show(float(hi[1] - lo[1]))
+        self.box_size.setText(f"{w:.{units.decimals}f} × {h:.{units.decimals}f} {units.name}")
 
     def _clear(self) -> None:
         for w in (self.x, self.y, self.in_len, self.in_ang, self.out_len, self.out_ang):
@@ -305,6 +337,14 @@ class SelectionPanel(QWidget):
             return
         u = self._editor.units
         self._editor.set_point(key, u.parse(self.x.value()), u.parse(self.y.value()))
+
+    def _commit_box(self) -> None:
+        if self._box is None:
+            return
+        u = self._editor.units
+        dx = u.parse(self.box_left.value()) - self._box[0]
+        dy = u.parse(self.box_top.value()) - self._box[1]
+        self._editor.move_selection(dx, dy)
 
     def _commit_join(self, index: int) -> None:
         key = self._shown_key

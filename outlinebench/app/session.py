@@ -249,6 +249,11 @@ class EditorSession(QObject):
     def set_point(self, key: pk.Key, x: float, y: float) -> None:
         self.do(cmds.SetPoint(cmds.PointRef(*key), (x, y)))
 
+    def move_selection(self, dx: float, dy: float) -> None:
+        """Move every selected point by (dx, dy) document units, as one command."""
+        if self.selection.refs and (dx or dy):
+            self.do(cmds.MovePoints(self.selection.refs, (dx, dy)))
+
     def set_handle_polar(self, key: pk.Key, length: float, angle_deg: float) -> None:
         """Put a handle at ``length`` and on-screen ``angle_deg`` from its on-curve point."""
         doc = self.document

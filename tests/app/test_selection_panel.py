@@ -117,3 +117,21 @@ def test_the_wheel_over_a_number_field_does_not_edit(window):
     )
     QApplication.sendEvent(field, ev)
     assert s.document is before
+
+
+def test_several_points_show_their_box_and_move_together(window):
+    panel = window.panel
+    s = window.session
+    # (90, 50) and (60, 50) and (20, 75): box 20..90 × 50..75 user units (0.5 mm each).
+    s.set_selection([(0, 0, 2, 0), (0, 0, 3, 0), (0, 0, 4, 0)])
+    assert not panel.box_group.isHidden()
+    assert panel.box_left.value() == pytest.approx(20 * MM)
+    assert panel.box_top.value() == pytest.approx(50 * MM)
+    assert panel.box_size.text() == f"{70 * MM:.3f} × {25 * MM:.3f} mm"
+    _type(panel.box_left, "15")  # 15 mm = 30 units: everything moves by +10 units in x
+    c = s.document.outlines[0].contours[0]
+    assert tuple(c.segments[2][0]) == (100.0, 50.0)
+    assert tuple(c.segments[4][0]) == (30.0, 75.0)
+    assert s.undo_label == "Move points"
+    s.set_selection([(0, 0, 2, 0)])
+    assert panel.box_group.isHidden()
