@@ -17,6 +17,7 @@ from PySide6.QtWidgets import (
     QLabel,
     QMainWindow,
     QPushButton,
+    QScrollArea,
     QVBoxLayout,
 )
 
@@ -116,7 +117,15 @@ class MainWindow(QMainWindow):
         self.panel = SelectionPanel(self.session, self)
         dock = QDockWidget("Selection", self)
         dock.setObjectName("selectionDock")
-        dock.setWidget(self.panel)
+        scroll = QScrollArea()  # the panel scrolls on short screens instead of growing the window
+        scroll.setWidgetResizable(True)
+        scroll.setFrameShape(QFrame.Shape.NoFrame)
+        scroll.setWidget(self.panel)
+        scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        scroll.setMinimumWidth(
+            self.panel.sizeHint().width() + scroll.verticalScrollBar().sizeHint().width() + 4
+        )
+        dock.setWidget(scroll)
         dock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
         self.addDockWidget(Qt.DockWidgetArea.RightDockWidgetArea, dock)
         self._build_actions()
