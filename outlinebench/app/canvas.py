@@ -9,6 +9,7 @@ pointer events in document coordinates and the active tool decides what they mea
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 from PySide6.QtCore import QPointF, QRectF, Qt, Signal
 from PySide6.QtGui import (
@@ -39,6 +40,9 @@ from outlinebench.app.contour_graphics import GraphicsCache
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
 
+if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
+    from outlinebench.app.session import EditorSession
+
 __all__ = ["Canvas", "WHEEL_ZOOM_PER_NOTCH", "WHEEL_PAN_PX_PER_NOTCH"]
 
 # Zoom factor per wheel notch (120 units of angleDelta, the Qt QWheelEvent convention).
@@ -59,7 +63,7 @@ class Canvas(QWidget):
     view_changed = Signal()
     pointer_moved = Signal(float, float)  # document coordinates
 
-    def __init__(self, editor, parent: QWidget | None = None) -> None:
+    def __init__(self, editor: EditorSession, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._editor = editor
         self.view = ViewTransform()

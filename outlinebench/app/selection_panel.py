@@ -9,6 +9,7 @@ directly.
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
 from PySide6.QtCore import QSignalBlocker, Qt
@@ -25,6 +26,9 @@ from PySide6.QtWidgets import (
 from outlinebench.app import point_keys as pk
 from outlinebench.app.legend import MarkKey
 from outlinebench.app.lengths import segment_length
+
+if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
+    from outlinebench.app.session import EditorSession
 
 __all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS"]
 
@@ -67,7 +71,7 @@ class SelectionPanel(QWidget):
     editor : EditorSession
     """
 
-    def __init__(self, editor, parent: QWidget | None = None) -> None:
+    def __init__(self, editor: EditorSession, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._editor = editor
         self.setMinimumWidth(300)
