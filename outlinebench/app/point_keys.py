@@ -11,6 +11,8 @@ import math
 
 import numpy as np
 
+from outlinebench.model.commands import PointRef, canonical_ref
+from outlinebench.model.commands import is_on_curve as model_is_on_curve
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -40,14 +42,8 @@ def exists(doc: Document, key: Key) -> bool:
 
 
 def normalize(doc: Document, key: Key) -> Key:
-    """The canonical name of a control point (an on-curve end → start of the next segment)."""
-    o, c, s, i = key
-    contour = doc.outlines[o].contours[c]
-    n = len(contour.segments)
-    k = contour.segments[s].shape[0]
-    if i == k - 1 and (s < n - 1 or contour.closed):
-        return (o, c, (s + 1) % n, 0)
-    return key
+    """The canonical name of a control point (as `model.commands.canonical_ref`)."""
+    return tuple(canonical_ref(doc, PointRef(*key)))
 
 
 def point_at(doc: Document, key: Key) -> np.ndarray:
@@ -56,8 +52,8 @@ def point_at(doc: Document, key: Key) -> np.ndarray:
 
 
 def is_on_curve(doc: Document, key: Key) -> bool:
-    o, c, s, i = key
-    return i == 0 or i == doc.outlines[o].contours[c].segments[s].shape[0] - 1
+    """Whether the point lies on the curve (a segment end point)."""
+    return model_is_on_curve(doc, PointRef(*key))
 
 
 def join_of(doc: Document, key: Key) -> int | None:
