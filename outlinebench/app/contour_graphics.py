@@ -14,6 +14,7 @@ from numpy.typing import NDArray
 from PySide6.QtCore import QPointF, Qt
 from PySide6.QtGui import QPainterPath
 
+from outlinebench.model.commands import SMOOTH_ANGLE_TOLERANCE_DEG
 from outlinebench.model.document import Contour, Outline
 
 __all__ = [
@@ -26,8 +27,9 @@ __all__ = [
 ]
 
 # A join without a stated intent is drawn as smooth when its tangents differ by less than this
-# many degrees (display only; the checks use their own documented tolerances).
-SMOOTH_DISPLAY_DEG = 0.5
+# many degrees: the model's own threshold, so the mark shows what a handle drag will do (turn
+# the opposite handle with it, or not). The checks use their own documented tolerances.
+SMOOTH_DISPLAY_DEG = SMOOTH_ANGLE_TOLERANCE_DEG
 
 _EPS = 1e-12
 
