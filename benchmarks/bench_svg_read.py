@@ -31,7 +31,8 @@ from outlinebench.io import read_svg
 from outlinebench.io.svg_path import read_path_data
 
 N_SEGMENTS = 200_000
-REPEAT = 2
+REPEAT = 2  # runs per round (best kept)
+ROUNDS = 3  # interleaved rounds of ours / svgpathtools
 
 
 def separated_path(n: int, rng: np.random.Generator) -> str:
@@ -105,7 +106,7 @@ def run(label: str, d: str, folder: Path) -> list[float]:
     )
     for name, (ours_fn, spt_fn, se_fn) in cases.items():
         t_ours = t_spt = float("inf")
-        for _ in range(2):  # interleaved rounds
+        for _ in range(ROUNDS):  # interleaved, so load changes hit every reader alike
             t_ours = min(t_ours, best_of(ours_fn))
             t_spt = min(t_spt, best_of(spt_fn))
         t_se = timed(se_fn)  # the slowest by far: timed once

@@ -70,6 +70,7 @@ for _ch in "0123456789.+-eE":
 for _ch in _COMMANDS:
     _CLASS[ord(_ch)] = 2
 _CLASS[ord(",")] = 3
+_CLASS_TABLE = bytes(_CLASS.astype(np.uint8).tolist())
 _TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
 _NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
 _DROP_WSP = str.maketrans("", "", _WSP)
@@ -82,6 +83,15 @@ _CAT_LUT = np.full(256, -1, dtype=np.int64)
 for _c, _n in _CAT.items():
     _CAT_LUT[ord(_c)] = _n
     _CAT_LUT[ord(_c.lower())] = _n
+
+# Column of the end point's x and y among a row's parameters, by upper-case command letter;
+# H and V give one coordinate (the other column is ignored), Z none (column 0, ignored).
+_END_X_LUT = np.zeros(128, dtype=np.int64)
+_END_Y_LUT = np.zeros(128, dtype=np.int64)
+for _letters, _ix, _iy in (("MLT", 0, 1), ("C", 4, 5), ("SQ", 2, 3), ("A", 5, 6), ("HV", 0, 0)):
+    for _c in _letters:
+        _END_X_LUT[ord(_c)] = _ix
+        _END_Y_LUT[ord(_c)] = _iy
 
 # Path data up to this many characters is built sequentially (numpy's per-call cost would
 # dominate); longer data is built with whole-array operations.
@@ -153,7 +163,7 @@ def _separate(raw: bytes) -> bytes:
     goes to the general lexer, which reports the error on the original text).
     """
     codes = np.frombuffer(raw, dtype=np.uint8)
-    cls = _CLASS[codes]
+    cls = np.frombuffer(raw.translate(_CLASS_TABLE), dtype=np.uint8)
     signs = np.flatnonzero((codes == ord("-")) | (codes == ord("+")))
     signs = signs[signs > 0]
     before = codes[signs - 1]
@@ -185,12 +195,23 @@ def _lex_fast(d: str) -> _Tokens | None:
         return None if raw.strip() else _Tokens(b"", np.zeros(0, np.int64), np.zeros(0))
     if commands[0] not in b"Mm":
         return None
-    raw = _separate(raw)
+    tok = _lex_bytes(raw, commands)
+    if tok is None:
+        # Numbers run together ("1-2", ".5.5"): separate them and try once more.
+        spaced = _separate(raw)
+        if spaced is not raw:
+            tok = _lex_bytes(spaced, commands)
+    return tok
+
+
+def _lex_bytes(raw: bytes, commands: bytes) -> _Tokens | None:
+    """The fast lexer proper, on ASCII bytes starting with a moveto."""
     codes = np.frombuffer(raw, dtype=np.uint8)
-    cls = _CLASS[codes]
-    sig = cls[cls != 0]
-    is_comma = sig == 3
-    if is_comma.any():
+    # Byte classes by bytes.translate (C speed; a numpy table lookup is several times slower).
+    cls = np.frombuffer(raw.translate(_CLASS_TABLE), dtype=np.uint8)
+    if b"," in raw:
+        sig = np.frombuffer(raw.translate(_CLASS_TABLE, _WSP.encode()), dtype=np.uint8)
+        is_comma = sig == 3
         is_cmd = sig == 2
         if is_comma[0] or is_comma[-1]:
             return None
@@ -433,16 +454,13 @@ def _build(
         params[mask, j] = tok.numbers[row_num[mask] + j]
     upper = row_code & ~0x20
     # End point of every row, per axis: (value, depends on previous row?).
-    ex = np.zeros(n)
-    ey = np.zeros(n)
-    for letters, ix, iy in (("MLT", 0, 1), ("C", 4, 5), ("SQ", 2, 3), ("A", 5, 6)):
-        mask = np.isin(upper, [ord(c) for c in letters])
-        ex[mask] = params[mask, ix]
-        ey[mask] = params[mask, iy]
+    rows = np.arange(n)
+    ex = params[rows, _END_X_LUT[upper]]
+    ey = params[rows, _END_Y_LUT[upper]]
     is_h = upper == ord("H")
     is_v = upper == ord("V")
-    ex[is_h] = params[is_h, 0]
-    ey[is_v] = params[is_v, 0]
+    ex[is_v] = 0.0
+    ey[is_h] = 0.0
     prev = np.arange(n) - 1
     dep_x = np.where(rel | is_v, prev, -1)
     dep_y = np.where(rel | is_h, prev, -1)

@@ -395,7 +395,16 @@ class _Reader:
                     except SvgReadError as exc:
                         self.notes.append(ReadNote("error", f"{exc}; element skipped", "svg"))
                         continue
-                for child in reversed(list(el)):
+                children = list(el)
+                if tag == "switch":
+                    # SVG 1.1 §5.8.2: only the first child whose conditions hold is rendered;
+                    # we support no extensions and take any language.
+                    children = [
+                        c
+                        for c in children
+                        if isinstance(c.tag, str) and c.get("requiredExtensions") is None
+                    ][:1]
+                for child in reversed(children):
                     stack.append((child, matrix, hidden_here, chain, use))
                 continue
             if tag == "use":

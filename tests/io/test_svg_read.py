@@ -321,3 +321,14 @@ def test_a_ten_megabyte_path_attribute_reads_in_one_feed():
     (c,) = res.document.outlines[0].contours
     assert res.error is None and len(c.segments) == n
     assert c.segments[-1][1].tolist() == xy[-1].tolist()
+
+
+def test_switch_renders_its_first_child_only():
+    # SVG 1.1 §5.8.2 (conditional processing): the first direct child that passes.
+    res = read_svg(
+        svg(
+            '<switch><path id="ext" requiredExtensions="urn:x" d="M0 0 L1 0"/>'
+            '<path id="a" d="M0 0 L2 0"/><path id="b" d="M0 0 L3 0"/></switch>'
+        )
+    )
+    assert [o.element_id for o in res.document.outlines] == ["a"]
