@@ -110,17 +110,24 @@ class Contour:
 
         End points are made to coincide exactly: each segment's first point is set to the
         previous segment's last point (and, when closed, the last segment's end to the first
-        segment's start), after checking they agree within 1e-9 of the coordinates' size.
+        segment's start), after checking they agree within 1e-9 of the contour's size.
         """
         segs = [as_control_points(s) for s in segments]
         count = len(segs)
+        if count:
+            every = np.concatenate(segs)
+            # Allowed mismatch: 1e-9 of the contour's size (at least 1e-9 unit), plus a few
+            # units in the last place of its largest coordinate, so rounding far from the
+            # origin is tolerated but a real gap is not hidden there.
+            size = float(np.max(np.ptp(every, axis=0)))
+            far = float(np.max(np.abs(every)))
+            snap = 1e-9 * max(1.0, size) + 8.0 * float(np.spacing(far))
         for i in range(count - 1 + (1 if closed and count else 0)):
             a, b = segs[i], segs[(i + 1) % count]
-            scale = max(1.0, float(np.max(np.abs(a[-1]))))
-            if np.max(np.abs(a[-1] - b[0])) > 1e-9 * scale:
+            if np.max(np.abs(a[-1] - b[0])) > snap:
                 raise InvalidGeometryError(
-                    f"segment {i} ends at {tuple(a[-1])} but segment {(i + 1) % count} starts "
-                    f"at {tuple(b[0])}"
+                    f"segment {i} ends at ({a[-1][0]:.17g}, {a[-1][1]:.17g}) but segment "
+                    f"{(i + 1) % count} starts at ({b[0][0]:.17g}, {b[0][1]:.17g})"
                 )
             b[0] = a[-1]
         frozen = []
