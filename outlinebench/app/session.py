@@ -214,9 +214,6 @@ class EditorSession(QObject):
         except OutlinebenchError as exc:
             self.message.emit(f"{label}: not done — {exc}")
             return []
-        finally:
-            # Closing a group records the step without a document change of its own.
-            self.changed.emit()
         return done
 
     def undo(self) -> None:
@@ -467,10 +464,6 @@ class EditorSession(QObject):
             repaint = True
         if tool.message:
             self.message.emit(tool.message)
-        if kind == "release" and not self.history.in_group:
-            # A finished gesture closes its history group without a document change; undo
-            # and redo become available again.
-            self.changed.emit()
         if repaint:
             canvas.update()
             if kind != "move" or button == "none":

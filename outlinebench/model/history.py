@@ -15,7 +15,8 @@ Commands done inside a group are applied at once (observers see every intermedia
 document, so a drag repaints live) and recorded as one :class:`CommandGroup` when the
 outermost group ends. Consecutive mergeable commands (moves of the same points) merge into
 one step, both inside a group and between separate ``do`` calls (nudging), but never across
-a group boundary or the save point.
+a group boundary or the save point. Closing (or aborting) the outermost group notifies the
+observers once more, so that a window can enable its undo and redo commands again.
 """
 
 from __future__ import annotations
@@ -140,21 +141,50 @@ class History:
         Raises
         ------
         CommandError
-            From the command; the document and history are then unchanged.
+            From the command; or the command object was already applied to another
+            document (a command records the documents before and after it, so one object
+            cannot stand for two steps: make a new one). The document and history are then
+            unchanged.
         """
         old = self._doc
+        if command._before is not None and command._before is not old:
+            raise CommandError(
+                f"'{command.label}' was already applied to another document; "
+                "make a new command for a new edit"
+            )
         new = command.apply(old)
         self._doc = new
-        self._redo.clear()
         if self._group_stack:
+            # The redo stack is cleared when the group ends with something done, so an
+            # aborted gesture keeps it.
             cmds = self._group_commands
             if not (cmds and cmds[-1].merge(command)):
                 cmds.append(command)
         else:
+            self._redo.clear()
             top = self._undo[-1] if self._undo else None
             if top is None or self._last_merge_barrier or not top.merge(command):
                 self._undo.append(command)
             self._last_merge_barrier = False
+        self._notify(old, new)
+        return new
+
+    def _step(self, back: bool) -> Document:
+        """Undo (``back``) or redo one step: move it between the stacks and notify."""
+        verb, source, target = (
+            ("undo", self._undo, self._redo) if back else ("redo", self._redo, self._undo)
+        )
+        if self._group_stack:
+            raise CommandError(f"cannot {verb} while an edit is in progress")
+        if not source:
+            raise CommandError(f"nothing to {verb}")
+        cmd = source[-1]
+        old = self._doc
+        new = cmd.revert(old) if back else cmd.apply(old)
+        source.pop()
+        target.append(cmd)
+        self._doc = new
+        self._last_merge_barrier = True
         self._notify(old, new)
         return new
 
@@ -166,17 +196,7 @@ class History:
         CommandError
             Nothing to undo, or a gesture group is open.
         """
-        if self._group_stack:
-            raise CommandError("cannot undo while an edit is in progress")
-        if not self._undo:
-            raise CommandError("nothing to undo")
-        cmd = self._undo.pop()
-        old = self._doc
-        self._doc = cmd.revert(old)
-        self._redo.append(cmd)
-        self._last_merge_barrier = True
-        self._notify(old, self._doc)
-        return self._doc
+        return self._step(back=True)
 
     def redo(self) -> Document:
         """Do again the last step taken back.
@@ -186,17 +206,7 @@ class History:
         CommandError
             Nothing to redo, or a gesture group is open.
         """
-        if self._group_stack:
-            raise CommandError("cannot redo while an edit is in progress")
-        if not self._redo:
-            raise CommandError("nothing to redo")
-        cmd = self._redo.pop()
-        old = self._doc
-        self._doc = cmd.apply(old)
-        self._undo.append(cmd)
-        self._last_merge_barrier = True
-        self._notify(old, self._doc)
-        return self._doc
+        return self._step(back=False)
 
     # -- gestures ------------------------------------------------------------------------
     def begin_group(self, label: str) -> None:
@@ -207,7 +217,12 @@ class History:
         self._group_stack.append(label)
 
     def end_group(self) -> None:
-        """Close a gesture group; the outermost one records one step (if anything was done)."""
+        """Close a gesture group; the outermost one records one step (if anything was done).
+
+        Closing the outermost group notifies the observers with ``(document, document)``
+        (the same object twice: nothing new to draw, but undo and redo are available
+        again), after the edits done inside it were each notified as they happened.
+        """
         if not self._group_stack:
             raise CommandError("no edit group is open")
         label = self._group_stack.pop()
@@ -217,16 +232,22 @@ class History:
         start = self._group_start
         self._group_commands = []
         self._group_start = None
-        if not cmds:
-            return
-        assert start is not None
-        group = CommandGroup(label, cmds)
-        group._record(start, self._doc)
-        self._undo.append(group)
-        self._last_merge_barrier = True
+        if cmds:
+            assert start is not None
+            group = CommandGroup(label, cmds)
+            group._record(start, self._doc)
+            self._undo.append(group)
+            self._redo.clear()
+            self._last_merge_barrier = True
+        self._notify(self._doc, self._doc)
 
     def abort_group(self) -> None:
-        """Close every open group and take back what was done in it (a cancelled gesture)."""
+        """Close every open group and take back what was done in it (a cancelled gesture).
+
+        The redo stack is kept. Observers are notified with ``(edited, start)`` when
+        something was taken back, otherwise with ``(document, document)`` as in
+        :meth:`end_group`.
+        """
         if not self._group_stack:
             raise CommandError("no edit group is open")
         self._group_stack.clear()
@@ -234,15 +255,14 @@ class History:
         start = self._group_start
         self._group_commands = []
         self._group_start = None
-        if not cmds:
-            return
         old = self._doc
-        doc = old
-        for cmd in reversed(cmds):
-            doc = cmd.revert(doc)
-        assert start is not None
-        self._doc = start
-        self._notify(old, start)
+        if cmds:
+            doc = old
+            for cmd in reversed(cmds):
+                doc = cmd.revert(doc)
+            assert start is not None
+            self._doc = start
+        self._notify(old, self._doc)
 
     @contextmanager
     def group(self, label: str) -> Iterator[History]:

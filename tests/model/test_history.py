@@ -176,7 +176,9 @@ def test_group_makes_a_drag_one_step_and_merges_moves():
     with h.group("Drag handles"):
         for _ in range(10):
             h.do(MovePoints([handle], (0.5, 0.25)))
-    assert len(seen) == 10  # observers see every intermediate document
+    # Observers see every intermediate document, then the group's end (same object twice).
+    assert len(seen) == 11
+    assert seen[-1][0] is seen[-1][1] is seen[-2][1]
     assert h.undo_label == "Drag handles" and h.can_undo
     group = h._undo[-1]
     assert len(group.commands) == 1  # ten moves of the same point merged
@@ -258,3 +260,67 @@ def test_unsubscribe_and_reset():
     other = Document()
     h.reset(other)
     assert h.document is other and not h.can_undo and not h.is_dirty
+
+
+def test_regression_aborted_gesture_keeps_the_redo_stack():
+    # Defect: an aborted drag cleared the redo stack although the document ended as it was.
+    # Expected from the undo model itself: a cancelled gesture changes nothing (common
+    # practice, no source).
+    start = sample_doc()
+    h = History(start)
+    h.do(ReverseContour(0, 0))
+    h.undo()
+    assert h.can_redo
+    h.begin_group("Drag")
+    h.do(MovePoints([PointRef(0, 0, 1, 0)], (0.5, 0.0)))
+    h.abort_group()
+    assert h.document is start and h.can_redo and h.redo_label == "Reverse contour"
+    # A gesture that is finished is a new edit and does clear it.
+    with h.group("Drag"):
+        h.do(MovePoints([PointRef(0, 0, 1, 0)], (0.5, 0.0)))
+    assert not h.can_redo
+
+
+def test_regression_closing_a_group_notifies_so_undo_becomes_available():
+    # Defect: end_group recorded the step silently, so a window kept its undo command
+    # disabled after a drag. Expected: one notification when the outermost group closes,
+    # after which can_undo is True; aborting notifies with the restored document.
+    start = sample_doc()
+    h = History(start)
+    seen = []
+    h.subscribe(lambda old, new: seen.append((old, new, h.can_undo)))
+    h.begin_group("Outer")
+    h.begin_group("Inner")
+    h.do(MovePoints([PointRef(0, 0, 1, 0)], (0.5, 0.0)))
+    h.end_group()
+    assert len(seen) == 1 and seen[0][2] is False  # inside a group undo is refused
+    h.end_group()
+    assert len(seen) == 2 and seen[1][0] is seen[1][1] is h.document and seen[1][2] is True
+    h.begin_group("Cancelled")
+    h.do(MovePoints([PointRef(0, 0, 1, 0)], (0.5, 0.0)))
+    edited = h.document
+    h.abort_group()
+    assert seen[-1][:2] == (edited, seen[1][1]) and seen[-1][2] is True
+    h.begin_group("Empty")
+    h.end_group()
+    assert len(seen) == 5 and seen[-1][0] is seen[-1][1]
+
+
+def test_regression_reusing_an_applied_command_is_refused():
+    # Defect: doing one command object twice, then undoing three times, failed on the third
+    # undo because the object only remembered its second application. Expected: the second
+    # do is refused and leaves history and document as they were (one object = one step).
+    start = sample_doc()
+    h = History(start)
+    cmd = MovePoints([PointRef(0, 0, 1, 0)], (0.1, 0.0))
+    h.do(cmd)
+    h.do(SetJoinIntent(0, 0, 0, "corner"))
+    before = h.document
+    with pytest.raises(CommandError, match="already applied"):
+        h.do(cmd)
+    assert h.document is before and len(h._undo) == 2
+    h.undo()
+    h.undo()
+    assert h.document is start
+    h.redo()  # redo applies the same object to the same document again: allowed
+    assert h.can_redo
