@@ -4,6 +4,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from outlinebench.diagnostics import CheckSettings, check_document
 from outlinebench.diagnostics.continuity import (
@@ -163,3 +165,31 @@ def test_degenerate_handle_tangent_comes_from_next_point():
     assert of_kind(found, "kink") == [] and of_kind(found, "corner") == []
     (h,) = of_kind(found, "degenerate-handle")
     assert (h.segment, h.t, h.value) == (1, 0.0, 0.0)
+
+
+_coord = st.floats(-50, 50, allow_nan=False)
+_len = st.floats(0.5, 20, allow_nan=False)
+
+
+@settings(max_examples=25)
+@given(
+    st.floats(0, 2 * math.pi), _len, _len, _coord, _coord, _coord, _coord, _coord, _coord,
+    _coord, _coord,
+)  # fmt: skip
+def test_collinear_handles_make_a_g1_join(theta, l1, l2, ax, ay, bx, by, cx, cy, dx, dy):
+    # property: handles on opposite sides of the join along one direction u give equal unit
+    # tangents (Farin: G1 condition for Bézier joins), so the join is never a kink or corner;
+    # the curvatures reported match svgpathtools on both sides
+    svgpathtools = pytest.importorskip("svgpathtools")
+    u = np.array([math.cos(theta), math.sin(theta)])
+    j = np.array([3.0, -2.0])
+    a = [(ax, ay), (bx, by), tuple(j - l1 * u), tuple(j)]
+    b = [tuple(j), tuple(j + l2 * u), (cx, cy), (dx, dy)]
+    # (only the join inside the contour: random ends may also meet each other)
+    found = [f for f in check_document(doc_of(Contour.from_points([a, b]))) if f.join == 0]
+    assert not [f for f in found if f.kind in ("kink", "corner")]
+    for f in of_kind(found, "curvature-jump"):
+        ca = svgpathtools.CubicBezier(*(complex(*p) for p in a))
+        cb = svgpathtools.CubicBezier(*(complex(*p) for p in b))
+        assert abs(f.curvature_before) == pytest.approx(ca.curvature(1.0), rel=1e-6, abs=1e-9)
+        assert abs(f.curvature_after) == pytest.approx(cb.curvature(0.0), rel=1e-6, abs=1e-9)
