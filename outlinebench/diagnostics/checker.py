@@ -620,6 +620,13 @@ class Checker:
             sel = (i != j) & ~(changed[j] & (j < i))
             i, j = np.minimum(i[sel], j[sel]), np.maximum(i[sel], j[sel])
         if i.size:
+            # a segment within the gap tolerance in both directions is reported as tiny; it
+            # touches its neighbours everywhere, so it takes no part in crossings
+            size = np.maximum(table.box[:, 2] - table.box[:, 0], table.box[:, 3] - table.box[:, 1])
+            big = size > limits.gap
+            sel = big[i] & big[j]
+            i, j = i[sel], j[sel]
+        if i.size:
             n_of = counts[contour_of]
             closed_of = np.array([st.contour.closed for st in cs])[contour_of]
             same = contour_of[i] == contour_of[j]

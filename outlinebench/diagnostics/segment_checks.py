@@ -61,6 +61,9 @@ FloatArray = NDArray[np.float64]
 # Step in t on each side of a cusp used to measure how far the tangent turns there.
 _CUSP_PROBE = 1e-4
 
+# Parameters this close to 0 or 1 count as the segment's end.
+_END_PARAM = 1e-6
+
 
 @dataclass(frozen=True, slots=True)
 class Limits:
@@ -330,6 +333,8 @@ def segment_findings(
             )  # fmt: skip
         if seg.shape[0] == 4:
             for t1, t2 in self_intersections(seg):
+                if t1 <= _END_PARAM and t2 >= 1.0 - _END_PARAM:
+                    continue  # the segment's own ends meet: a join, not a loop crossing
                 x, y = evaluate(seg, t1)
                 turn = turn_angles(derivative_at(seg, t1)[None], derivative_at(seg, t2)[None])
                 angle = float(min(turn[0], 180.0 - turn[0]))  # acute angle between branches

@@ -129,3 +129,18 @@ def test_settings_are_used():
     assert [f.kind for f in check_document(doc, CheckSettings(kink_angle=5.0))] == ["open-contour"]
     with pytest.raises(ValueError, match="kink angle"):
         CheckSettings(kink_angle=20.0, corner_angle=10.0)
+
+
+def test_degenerate_contours_give_no_false_crossings():
+    # an empty contour, a closed contour of one looping segment (its ends are its only join),
+    # and a zero-length segment (tiny, not crossing its neighbour): common practice, no source
+    loop = Contour.from_points([[(0, 0), (10, 10), (-10, 10), (0, 0)]], closed=True)
+    zero = Contour.from_points([[(40, 0), (40, 0)], [(40, 0), (50, 0)]])
+    doc = doc_of((Contour((), False), loop), zero)
+    found = check_document(doc)
+    assert not [f for f in found if f.kind == "self-intersection"]
+    assert [f.segment for f in found if f.kind == "tiny-segment"] == [0]
+    # the loop's join turns 90° (tangents (1,1) and (1,−1) directions: closed form)
+    (c,) = [f for f in found if f.kind == "corner"]
+    assert c.value == pytest.approx(90.0)
+    assert check_document(Document()) == []
