@@ -15,9 +15,10 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry._batch import as_batch, normalized
 from outlinebench.geometry.bezier import power_coefficients
-from outlinebench.geometry.quadrature import integrate_intervals
+from outlinebench.geometry.quadrature import check_tolerance, integrate_intervals
 
 __all__ = [
     "ARC_LENGTH_TOLERANCE",
@@ -85,6 +86,20 @@ def _square(b: FloatArray) -> FloatArray:
     gather = np.zeros((k * k, 2 * k - 1))
     gather[np.arange(k * k), i + j] = 1.0
     return outer @ gather
+
+
+def _checked(points: ArrayLike, tolerance: float) -> tuple[FloatArray, bool, float]:
+    """Batch view of the points, whether one segment was given, and the checked tolerance.
+
+    The quadrature refines until its error estimate meets the tolerance; a NaN or infinite
+    control point, or a tolerance that is not a finite number above 0, would make that never
+    happen, so both are refused here with a clear message.
+    """
+    tol = check_tolerance(tolerance)
+    pts, single = as_batch(points)
+    if not np.isfinite(pts).all():
+        raise InvalidGeometryError("control points must be finite numbers (found NaN or inf)")
+    return pts, single, tol
 
 
 def _speed_function(hodo: FloatArray, curve_of: NDArray[np.intp], center: FloatArray):
@@ -175,7 +190,6 @@ def _start_intervals(
     lo: FloatArray, hi: FloatArray, tmin: FloatArray, width: FloatArray
 ) -> tuple[NDArray[np.intp], FloatArray, FloatArray]:
     """Starting intervals of every query: [lo, hi] cut at tmin and graded towards it."""
-    n = lo.size
     graded = (width < _MAX_WIDTH) & (width >= _MIN_WIDTH) & (tmin > lo) & (tmin < hi)
     # Queries without a narrow dip: [lo, hi], cut once at tmin when it is inside.
     plain = np.flatnonzero(~graded)
@@ -198,7 +212,6 @@ def _start_intervals(
         owners.append(np.broadcast_to(rows[:, None], valid.shape)[valid])
         a.append(left[valid])
         b.append(right[valid])
-    del n
     return np.concatenate(owners), np.concatenate(a), np.concatenate(b)
 
 
@@ -244,6 +257,11 @@ def arc_length(
         The length; with ``return_error``, a pair (length, estimated relative error). 0 for a
         segment whose points all coincide.
 
+    Raises
+    ------
+    InvalidGeometryError
+        A control point is not finite, or ``tolerance`` is not a finite number above 0.
+
     Notes
     -----
     L = ∫₀¹ |B′(t)| dt. Lines: |P1 − P0|. Curves: 21-point Gauss–Kronrod with its embedded
@@ -266,7 +284,7 @@ def arc_length(
     >>> arc_length(np.zeros((4, 2)))
     0.0
     """
-    pts, single = as_batch(points)
+    pts, single, tolerance = _checked(points, tolerance)
     q, scale = normalized(pts)
     m = pts.shape[0]
     values, errors = _lengths(q, np.arange(m), np.zeros(m), np.ones(m), tolerance)
@@ -335,11 +353,17 @@ def arc_length_between(
     float or ndarray
         Non-negative lengths, in the broadcast shape.
 
+    Raises
+    ------
+    InvalidGeometryError
+        A control point or parameter is not finite, or ``tolerance`` is not a finite number
+        above 0.
+
     Notes
     -----
     ∫ |B′(t)| dt over [min(t0, t1), max(t0, t1)], computed as in :func:`arc_length`.
     """
-    pts, single = as_batch(points)
+    pts, single, tolerance = _checked(points, tolerance)
     q, scale = normalized(pts)
     m = pts.shape[0]
     if single:
@@ -352,6 +376,8 @@ def arc_length_between(
         )
         shape = t0b.shape
         curve_of = idx.ravel().astype(np.intp)
+    if not (np.isfinite(t0b).all() and np.isfinite(t1b).all()):
+        raise InvalidGeometryError("parameters t0 and t1 must be finite numbers")
     values, _ = _lengths(q, curve_of, t0b.ravel(), t1b.ravel(), tolerance)
     out = (values * scale[curve_of]).reshape(shape)
     return float(out) if out.ndim == 0 else out
@@ -377,6 +403,13 @@ def param_at_length(
     float or ndarray, shape (S,)
         0 for a segment of length 0.
 
+    Raises
+    ------
+    InvalidGeometryError
+        ``points`` is a batch (M, K, 2) (one segment is expected: each would need its own
+        lengths), a control point or length is not finite, or ``tolerance`` is not a finite
+        number above 0.
+
     Notes
     -----
     Solves F(t) = L(0, t) − s = 0 with Newton's method, F′ = |B′(t)|, inside a bracket
@@ -389,11 +422,16 @@ def param_at_length(
     >>> param_at_length(np.array([[0.0, 0.0], [4.0, 0.0]]), 1.0)
     0.25
     """
-    pts, _ = as_batch(points)
-    pts = pts[:1]
+    pts, single, tolerance = _checked(points, tolerance)
+    if not single:
+        raise InvalidGeometryError(
+            f"param_at_length takes one segment (K, 2), got a batch of shape {pts.shape}"
+        )
     q, scale = normalized(pts)
     scalar = np.ndim(s) == 0
     s_arr = np.atleast_1d(np.asarray(s, dtype=np.float64)).ravel()
+    if not np.isfinite(s_arr).all():
+        raise InvalidGeometryError("lengths s must be finite numbers")
     if scale[0] == 0.0:
         out = np.zeros_like(s_arr)
         return float(out[0]) if scalar else out

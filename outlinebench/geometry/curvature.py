@@ -22,6 +22,7 @@ import numpy as np
 from numpy.polynomial import polynomial as P
 from numpy.typing import ArrayLike, NDArray
 
+from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry._batch import as_batch, as_params, normalized, unbatch
 from outlinebench.geometry.bezier import derivative, evaluate, power_coefficients
 
@@ -279,6 +280,14 @@ def _real_roots_in(coeffs: FloatArray, lo: float, hi: float, imag_tol: float = 1
     return np.sort(r[(r >= lo) & (r <= hi)])
 
 
+def _one_segment(points: ArrayLike, name: str) -> FloatArray:
+    """``(1, K, 2)`` view of one segment; a batch is refused (its answers would be lost)."""
+    pts, single = as_batch(points)
+    if not single:
+        raise InvalidGeometryError(f"{name} takes one segment (K, 2), got shape {pts.shape}")
+    return pts
+
+
 def inflections(points: ArrayLike) -> FloatArray:
     """Parameters in (0, 1) where the curvature of one segment changes sign.
 
@@ -293,13 +302,19 @@ def inflections(points: ArrayLike) -> FloatArray:
         B′ × B″ is constant). Double roots (a cusp, or curvature touching zero without
         changing sign) are not inflections and are left out; so are straight segments.
 
+    Raises
+    ------
+    InvalidGeometryError
+        ``points`` is a batch (M, K, 2): each segment has its own number of answers, so
+        call once per segment.
+
     Notes
     -----
     With a = P1 − P0, b = P2 − 2P1 + P0, c = P3 − 3P2 + 3P1 − P0 one has B′/3 = a + 2bt + ct²
     and B″/6 = b + ct, so B′ × B″ ∝ (b × c) t² + (a × c) t + (a × b) (Stone & DeRose 1989).
     Its simple roots in (0, 1) are returned.
     """
-    pts, _ = as_batch(points)
+    pts = _one_segment(points, "inflections")
     q, scale = normalized(pts)
     q = q[0]
     if q.shape[0] < 4 or scale[0] == 0.0:
@@ -344,6 +359,11 @@ def cusps(points: ArrayLike, tolerance: float | None = None) -> FloatArray:
         radius 0). Ends are not reported: a zero-length end handle is a degenerate handle,
         not a turn-back inside the segment.
 
+    Raises
+    ------
+    InvalidGeometryError
+        ``points`` is a batch (M, K, 2): call once per segment.
+
     Notes
     -----
     Local minima of the speed are the roots of d|B′|²/dt = 2 B′·B″ (a cubic polynomial for a
@@ -352,7 +372,7 @@ def cusps(points: ArrayLike, tolerance: float | None = None) -> FloatArray:
     has tip radius 0; one where B′ = B″ = 0 (the curve P + D3 h³/6) does not turn back and is
     skipped.
     """
-    pts, _ = as_batch(points)
+    pts = _one_segment(points, "cusps")
     q, scale = normalized(pts)
     q = q[0]
     size = float(scale[0])

@@ -16,6 +16,7 @@ from geometry_cases import (
 from hypothesis import given
 from hypothesis import strategies as st
 
+from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.arclength import (
     ARC_LENGTH_TOLERANCE,
     arc_length,
@@ -154,3 +155,31 @@ def test_segment_lengths_of_mixed_degrees_keep_order():
     want = [PARABOLA_LENGTH, 5.0, QUAD_LENGTH, 2 * PARABOLA_LENGTH, 0.0]  # closed forms above
     np.testing.assert_allclose(segment_lengths(segs), want, rtol=1e-15)
     assert segment_lengths([]).shape == (0,)
+
+
+def test_regression_invalid_tolerance_or_nan_point_is_a_clear_error():
+    # Defect: these died with MemoryError after minutes of halving (review item 1).
+    # Expected: InvalidGeometryError at once (errors.py: bad input value).
+    for bad in (0.0, -1.0, float("nan")):
+        with pytest.raises(InvalidGeometryError, match="tolerance"):
+            arc_length(PARABOLA, tolerance=bad)
+        with pytest.raises(InvalidGeometryError, match="tolerance"):
+            arc_length_between(PARABOLA, 0.0, 0.5, tolerance=bad)
+        with pytest.raises(InvalidGeometryError, match="tolerance"):
+            param_at_length(PARABOLA, 1.0, tolerance=bad)
+    nan_point = np.array([[0.0, 0.0], [1.0, np.nan], [2.0, 0.0]])
+    with pytest.raises(InvalidGeometryError, match="finite"):
+        arc_length(nan_point)
+    with pytest.raises(InvalidGeometryError, match="finite"):
+        arc_length_between(PARABOLA, 0.0, np.nan)
+    # A tolerance below float64's reach is worked to the floor instead (PARABOLA_LENGTH is
+    # the closed form ∫₀¹ √(1 + 4x²) dx).
+    assert arc_length(PARABOLA, tolerance=1e-300) == pytest.approx(PARABOLA_LENGTH, rel=1e-14)
+
+
+def test_regression_param_at_length_refuses_a_batch():
+    # Defect: a batch silently used its first segment only. Expected: an error naming the
+    # shape, since each segment would need its own lengths.
+    batch = np.array([[[0.0, 0.0], [1.0, 0.0]], [[0.0, 0.0], [10.0, 0.0]]])
+    with pytest.raises(InvalidGeometryError, match="one segment"):
+        param_at_length(batch, 0.5)

@@ -10,6 +10,7 @@ from geometry_cases import EXACT_CUSP, mixed_cubics, mp_curvature, near_cusp_cub
 from hypothesis import given
 from hypothesis import strategies as st
 
+from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.bezier import derivative, evaluate, reverse
 from outlinebench.geometry.curvature import (
     curvature,
@@ -281,3 +282,13 @@ def test_straight_segments_have_positive_zero_curvature():
     k = curvature(line_down, np.linspace(0, 1, 5))
     assert np.all(k == 0.0) and not np.signbit(k).any()
     assert not np.signbit(end_curvatures(line_down[::-1])[0])
+
+
+def test_regression_inflections_and_cusps_refuse_a_batch():
+    # Defect: a batch silently gave the answers of its first segment only. Expected: an
+    # error, since each segment has its own number of answers.
+    batch = np.stack([EXACT_CUSP, EXACT_CUSP + 1.0])
+    with pytest.raises(InvalidGeometryError, match="one segment"):
+        inflections(batch)
+    with pytest.raises(InvalidGeometryError, match="one segment"):
+        cusps(batch)
