@@ -20,8 +20,10 @@ from outlinebench.diagnostics.continuity import turn_angles
 from outlinebench.geometry import (
     KIND_BY_DEGREE,
     arc_length,
+    bounding_box,
     end_curvatures,
     end_tangents,
+    signed_area,
 )
 from outlinebench.model.document import Contour, Document
 from outlinebench.subcommands._common import LENGTH_UNITS, read_document, unit_factor, write_json
@@ -102,26 +104,34 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
     :func:`outlinebench.geometry.signed_area` (Green's theorem), boxes from
     :func:`outlinebench.geometry.bounding_box` (end points and interior extrema).
     """
-    # NOTE: imported here until the geometry package exports them at import time.
-    from outlinebench.geometry import bounding_box, signed_area
-
     f = unit_factor(doc, unit)
     contours = []
     total_len = 0.0
     total_segs = 0
+    # every segment's length and tight box at once, one batch per degree
+    segments = [s for ref in doc.contour_refs() for s in ref.contour.segments]
+    seg_len = np.zeros(len(segments))
+    seg_box = np.zeros((len(segments), 4))
+    degree = np.array([s.shape[0] - 1 for s in segments], dtype=np.intp)
+    for deg in (1, 2, 3):
+        rows = np.flatnonzero(degree == deg)
+        if rows.size:
+            batch = np.stack([segments[r] for r in rows])
+            seg_len[rows] = arc_length(batch)
+            seg_box[rows] = bounding_box(batch)
+    first = 0
     for ref in doc.contour_refs():
         c = ref.contour
         outline = doc.outlines[ref.outline]
-        seg_rows = []
-        boxes = []
-        length = 0.0
-        for s in c.segments:
-            sl = float(arc_length(s))
-            length += sl
-            seg_rows.append({"kind": KIND_BY_DEGREE[s.shape[0] - 1], "length": sl * f})
-            boxes.append(bounding_box(s))
-        if boxes:
-            b = np.array(boxes, dtype=float)
+        n = len(c.segments)
+        lens = seg_len[first : first + n]
+        seg_rows = [
+            {"kind": KIND_BY_DEGREE[int(d)], "length": float(v) * f}
+            for d, v in zip(degree[first : first + n], lens, strict=True)
+        ]
+        length = float(lens.sum())
+        if n:
+            b = seg_box[first : first + n]
             bbox: list[float] | None = [
                 float(b[:, 0].min()) * f,
                 float(b[:, 1].min()) * f,
@@ -130,6 +140,7 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
             ]
         else:
             bbox = None
+        first += n
         area = (
             abs(float(signed_area(list(c.segments)))) * f * f if c.closed and c.segments else None
         )
