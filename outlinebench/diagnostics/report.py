@@ -147,7 +147,9 @@ def format_finding(label: str, f: Finding) -> str:
     return f"{label}: {where}: {f.kind}{_value(f)} at ({_num(f.x)}, {_num(f.y)}) [{f.severity}]"
 
 
-def text_report(label: str, findings: Sequence[Finding], *, unit: str = "user") -> str:
+def text_report(
+    label: str, findings: Sequence[Finding], *, unit: str = "user", show_info: bool = True
+) -> str:
     """One line per finding in document order, then a summary line.
 
     Parameters
@@ -157,8 +159,12 @@ def text_report(label: str, findings: Sequence[Finding], *, unit: str = "user") 
     findings : sequence of Finding
     unit : str
         The length unit the findings are in, named in the summary.
+    show_info : bool
+        List info findings (intended corners, straight-into-curve joins, ...) too; the summary
+        counts them either way.
     """
-    lines = [format_finding(label, f) for f in sort_findings(findings)]
+    shown = findings if show_info else [f for f in findings if is_problem(f)]
+    lines = [format_finding(label, f) for f in sort_findings(shown)]
     s = summarize(findings)
     if s["total"] == 0:
         lines.append(f"{label}: no findings")

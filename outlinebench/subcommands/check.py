@@ -1,10 +1,11 @@
 """``outlinebench check FILE...``: report every continuity break and other finding.
 
-One line per finding (``file: contour N, segment M: kind value at (x, y) [severity]``) and a
-summary per file, or with ``--json`` one object per file (a list for several files). Exit code
-0 when nothing of warning level or worse is found, 1 when something is, 2 when a file cannot be
-read (one line on stderr naming it; the other files are still checked). Several files are
-checked in parallel on all cores.
+One line per finding of warning level or worse (``file: contour N, segment M: kind value at
+(x, y) [severity]``; ``--all`` adds the info ones) and a summary per file, or with ``--json``
+one object per file listing every finding (a list for several files). Exit code 0 when
+nothing of warning level or worse is found, 1 when something is, 2 when a file cannot be read
+(one line on stderr naming it; the other files are still checked). Several files are checked
+in parallel on all cores.
 """
 
 from __future__ import annotations
@@ -44,7 +45,15 @@ HELP = "find gaps, kinks, corners, curvature jumps, cusps, self-intersections an
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``outlinebench check``."""
     parser.add_argument("files", nargs="+", metavar="FILE", help="SVG files to check")
-    parser.add_argument("--json", action="store_true", help="print JSON instead of text")
+    parser.add_argument(
+        "--json", action="store_true", help="print JSON instead of text (lists every finding)"
+    )
+    parser.add_argument(
+        "--all",
+        action="store_true",
+        help="list info findings (intended corners, straight-into-curve joins, ...) in the "
+        "text report too; the summary always counts them",
+    )
     parser.add_argument(
         "--gap",
         type=positive_float,
@@ -138,7 +147,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
     if options["json"]:
         out["json"] = json_report(path, shown, unit=unit)
     else:
-        out["text"] = text_report(path, shown, unit=unit)
+        out["text"] = text_report(path, shown, unit=unit, show_info=options["all"])
     return out
 
 
@@ -155,7 +164,15 @@ def run(args: argparse.Namespace) -> int:
     """Check every file; exit code 0 clean, 1 findings of warning level or worse, 2 bad input."""
     options = {
         k: getattr(args, k)
-        for k in ("json", "gap", "gap_search", "kink_angle", "corner_angle", "curvature_jump")
+        for k in (
+            "json",
+            "all",
+            "gap",
+            "gap_search",
+            "kink_angle",
+            "corner_angle",
+            "curvature_jump",
+        )
     }
     options["units"] = args.units
     if options["kink_angle"] >= options["corner_angle"]:

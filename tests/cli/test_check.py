@@ -160,3 +160,11 @@ def test_bad_option_value_is_a_usage_error(capsys):
         main(["check", CLEAN, "--gap", "-1"])
     assert exc.value.code == 2
     assert "expected a number above 0" in capsys.readouterr().err
+
+
+def test_text_lists_info_only_with_all(capsys):
+    _, out, _ = run([BRACKET_DEFECTS], capsys)
+    assert "[info]" not in out and "[warning]" in out and "[error]" in out
+    assert "14 info" in out.splitlines()[-1]  # still counted in the summary
+    _, out_all, _ = run([BRACKET_DEFECTS, "--all"], capsys)
+    assert out_all.count("[info]") == 14
