@@ -139,6 +139,10 @@ def _value(f: Finding) -> str:
     return f" {_num(f.value)} {f.unit}"
 
 
+def _count(n: int, word: str) -> str:
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
+
+
 def format_finding(label: str, f: Finding) -> str:
     """``label: contour N, segment M: kind value at (x, y) [severity]`` (one line)."""
     where = f"contour {f.contour}"
@@ -170,12 +174,10 @@ def text_report(
         lines.append(f"{label}: no findings")
     else:
         kinds = ", ".join(f"{k} {n}" for k, n in s["by_kind"].items())
+        where = "lengths in user units" if unit == "user" else f"lengths in {unit}"
         lines.append(
-            f"{label}: {s['total']} findings: {s['errors']} errors, {s['warnings']} warnings, "
-            f"{s['info']} info ({kinds}); lengths in {unit} units"
-            if unit == "user"
-            else f"{label}: {s['total']} findings: {s['errors']} errors, {s['warnings']} "
-            f"warnings, {s['info']} info ({kinds}); lengths in {unit}"
+            f"{label}: {_count(s['total'], 'finding')}: {_count(s['errors'], 'error')}, "
+            f"{_count(s['warnings'], 'warning')}, {s['info']} info ({kinds}); {where}"
         )
     return "\n".join(lines)
 
