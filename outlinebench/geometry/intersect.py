@@ -116,12 +116,19 @@ def _endpoint_contacts(a: FloatArray, b: FloatArray, tolerance: float) -> FloatA
 
 
 def _dedupe(
-    cands: FloatArray, a: FloatArray | None, b: FloatArray | None, same: float = _SAME_PARAM
+    cands: FloatArray,
+    a: FloatArray | None,
+    b: FloatArray | None,
+    same: float = _SAME_PARAM,
+    limit: int | None = None,
 ) -> FloatArray:
     """One answer per intersection: candidates within ``same`` in both parameters merge.
 
     The candidate with the smallest residual |A(s) − B(u)| of each group is kept (exact end
-    point matches have residual 0 and win).
+    point matches have residual 0 and win). Each kept answer removes its neighbours in one
+    numpy step, so the cost is (answers × candidates), not candidates². With ``limit``, the
+    search stops as soon as more than ``limit`` answers are kept (the caller then knows the
+    segments overlap) and returns those.
     """
     if cands.shape[0] == 0:
         return cands.reshape(0, 2)
@@ -129,11 +136,15 @@ def _dedupe(
         res = np.linalg.norm(evaluate(a, cands[:, 0]) - evaluate(b, cands[:, 1]), axis=-1)
     else:
         res = np.zeros(cands.shape[0])
-    kept: list[int] = []
-    for i in np.argsort(res, kind="stable"):
-        if all(np.abs(cands[i] - cands[j]).max() > same for j in kept):
-            kept.append(int(i))
-    out = cands[kept]
+    rest = cands[np.argsort(res, kind="stable")]
+    kept: list[FloatArray] = []
+    while rest.shape[0]:
+        best = rest[0]
+        kept.append(best)
+        if limit is not None and len(kept) > limit:
+            break
+        rest = rest[np.abs(rest - best).max(axis=1) > same]
+    out = np.array(kept)
     return out[np.lexsort((out[:, 1], out[:, 0]))]
 
 
@@ -198,6 +209,29 @@ def _piece_flat(p: FloatArray) -> FloatArray:
     return d.max(axis=1)
 
 
+def _on_one_line(a: FloatArray, b: FloatArray, tolerance: float) -> bool:
+    """Whether every control point of both (unit-sized) segments lies on one line.
+
+    Each segment must be flat in the sense of :func:`_piece_flat` (no handle beyond its
+    chord's ends) within ``tolerance`` and longer than ``tolerance``; the line is the one
+    through the two end points farthest apart, and every control point must lie within
+    ``tolerance`` of it.
+    """
+    if _piece_flat(a[None])[0] > tolerance or _piece_flat(b[None])[0] > tolerance:
+        return False
+    if min(np.ptp(a, axis=0).max(), np.ptp(b, axis=0).max()) <= tolerance:
+        return False  # a segment shrunk to a point meets the other once, not along a stretch
+    ends = np.stack([a[0], a[-1], b[0], b[-1]])
+    gaps = np.linalg.norm(ends[:, None, :] - ends[None, :, :], axis=-1)
+    i, j = np.unravel_index(int(np.argmax(gaps)), gaps.shape)
+    direction = ends[j] - ends[i]
+    length = float(np.hypot(*direction))
+    if length == 0.0:
+        return True
+    dist = np.abs(_cross(np.concatenate([a, b]) - ends[i], direction)) / length
+    return bool(dist.max() <= tolerance)
+
+
 def intersections(
     a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE
 ) -> FloatArray:
@@ -231,8 +265,9 @@ def intersections(
     tolerance spread over ~√tolerance of parameter. Coinciding end points (joins) are
     reported exactly. More answers than Bézout's bound deg(a)·deg(b), or more
     live pairs than subdivision of crossings can produce, means a shared stretch. Two lines
-    use :func:`line_intersection`. Work is done after moving and scaling both segments
-    together to unit size.
+    use :func:`line_intersection`; two straight segments (any degree) on one line are
+    answered by the end points of each lying on the other, before any subdivision. Work is
+    done after moving and scaling both segments together to unit size.
     """
     a = np.asarray(a, dtype=np.float64)
     b = np.asarray(b, dtype=np.float64)
@@ -249,6 +284,11 @@ def intersections(
     if size == 0.0:
         return np.array([[0.0, 0.0]])
     a0, b0 = (a - origin) / size, (b - origin) / size
+    if _on_one_line(a0, b0, tolerance):
+        # Both straight on one line: they overlap along a stretch, touch, or miss; the ends
+        # of each lying on the other say which (subdivision would see one flat pair with
+        # parallel chords and could report only one point).
+        return _endpoint_contacts(a0[None], b0[None], tolerance)
     pa, pb = a0[None], b0[None]
     ra = np.array([[0.0, 1.0]])
     rb = np.array([[0.0, 1.0]])
@@ -324,8 +364,9 @@ def intersections(
     res = np.linalg.norm(evaluate(a0, s) - evaluate(b0, u), axis=-1)
     good = res <= tolerance
     cands = np.concatenate([np.array(ends).reshape(-1, 2), np.stack([s[good], u[good]], axis=1)])
-    out = _dedupe(cands, a0, b0, max(_SAME_PARAM, float(np.sqrt(tolerance))))
-    if out.shape[0] > (a.shape[0] - 1) * (b.shape[0] - 1):
+    bound = (a.shape[0] - 1) * (b.shape[0] - 1)
+    out = _dedupe(cands, a0, b0, max(_SAME_PARAM, float(np.sqrt(tolerance))), limit=bound)
+    if out.shape[0] > bound:
         # More common points than Bézout's bound deg(a)·deg(b) allows two different
         # polynomial curves: they share a stretch.
         return _endpoint_contacts(a0[None], b0[None], tolerance)

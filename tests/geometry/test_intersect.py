@@ -150,3 +150,59 @@ def test_tangential_touch_within_tolerance_is_one_point(gap):
     assert got.shape == (1, 2)
     np.testing.assert_allclose(got, [[0.5, 0.5]], atol=1e-5)
     assert intersections(q, np.array([[0, 1 + 1e-6], [2, 1 + 1e-6]])).size == 0
+
+
+def test_regression_straight_segments_overlapping_on_one_line():
+    # Defect: a straight (collinear) cubic or quadratic overlapping another straight segment
+    # gave one point, or a false middle point, instead of the ends of the shared stretch.
+    # Expected by closed form: these have uniform speed, x(t) = 3t (cubic with controls at
+    # 0, 1, 2, 3; quadratic with 0, 1.5, 3), so the stretch ends follow from x alone.
+    sc = np.array([[0, 0], [1, 0], [2, 0], [3, 0.0]])
+    np.testing.assert_allclose(
+        intersections(sc, np.array([[1.5, 0], [4.5, 0.0]])), [[0.5, 0], [1, 0.5]], atol=1e-12
+    )
+    np.testing.assert_allclose(intersections(sc, sc + [1.5, 0]), [[0.5, 0], [1, 0.5]], atol=1e-12)
+    quad = np.array([[0, 0], [1.5, 0], [3, 0.0]])
+    np.testing.assert_allclose(
+        intersections(quad, np.array([[1, 0], [2, 0.0]])), [[1 / 3, 0], [2 / 3, 1]], atol=1e-12
+    )
+    np.testing.assert_allclose(intersections(sc, sc), [[0, 0], [1, 1]], atol=1e-12)
+    # Uneven speed on a slanted line: x(t) = 6t(1−t)² + 7.5t²(1−t) + 3t³ reaches 1 at the
+    # root of that cubic (numpy's polynomial roots as the reference); (3, 3) is the line's
+    # middle (tb = 0.5).
+    uneven = np.array([[0, 0], [2, 2], [2.5, 2.5], [3, 3.0]])
+    roots = np.roots([1.5, -4.5, 6.0, -1.0])  # 1.5t³ − 4.5t² + 6t − 1 = 0, expanded by hand
+    ta = float(roots[np.abs(roots.imag) < 1e-12].real[0])
+    np.testing.assert_allclose(
+        intersections(uneven, np.array([[1, 1], [5, 5.0]])), [[ta, 0], [1, 0.5]], atol=1e-9
+    )
+    # On one line but apart: nothing; touching end to end: one point.
+    assert intersections(sc, sc + [3.5, 0]).size == 0
+    np.testing.assert_allclose(intersections(sc, sc + [3, 0]), [[1, 0]], atol=1e-12)
+    # Parallel lines apart are not on one line: nothing.
+    assert intersections(sc, sc + [0, 1e-3]).size == 0
+
+
+def test_regression_overlap_of_curves_is_fast():
+    # Defect: the merging of candidate answers compared every pair in Python (~3 s here).
+    # The answer is the closed form of subsegment: the stretch [0.2, 0.7] of a is all of b.
+    # Speed is not asserted (tests never assert times); the work is bounded by counting the
+    # answers kept, which may not exceed Bézout's bound + 1 before the overlap is declared.
+    import outlinebench.geometry.intersect as mod
+
+    a = np.array([[0, 0], [1, 2], [2, -1], [3, 1.0]])
+    kept_sizes = []
+    original = mod._dedupe
+
+    def counting(*args, **kwargs):
+        out = original(*args, **kwargs)
+        kept_sizes.append(out.shape[0])
+        return out
+
+    mod._dedupe = counting
+    try:
+        got = intersections(a, subsegment(a, 0.2, 0.7))
+    finally:
+        mod._dedupe = original
+    np.testing.assert_allclose(got, [[0.2, 0], [0.7, 1]], atol=1e-12)
+    assert max(kept_sizes) <= 3 * 3 + 1
