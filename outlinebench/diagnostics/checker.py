@@ -40,6 +40,7 @@ from outlinebench.diagnostics.contour_checks import (
     OpenEnd,
     containment_pairs,
     crossing_findings,
+    lines_may_meet,
     narrow_pairs,
     open_end_findings,
     overlapping_pairs,
@@ -642,7 +643,17 @@ class Checker:
                 for q in np.flatnonzero(joined == 0).tolist():
                     if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
                         joined[q] = 3
-            survive = narrow_pairs(table.cubics[i], table.cubics[j], joined, limits.gap)
+            survive = np.ones(i.size, dtype=bool)
+            lines = (table.degree[i] == 1) & (table.degree[j] == 1) & (joined != 3)
+            if lines.any():
+                survive[lines] = lines_may_meet(
+                    table.cubics[i[lines]], table.cubics[j[lines]], joined[lines]
+                )
+            curves = np.flatnonzero(~lines)
+            if curves.size:
+                survive[curves] = narrow_pairs(
+                    table.cubics[i[curves]], table.cubics[j[curves]], joined[curves], limits.gap
+                )
             for q in np.flatnonzero(survive).tolist():
                 ra, rb = int(i[q]), int(j[q])
                 sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]

@@ -49,6 +49,7 @@ __all__ = [
     "wrong_direction_findings",
     "overlapping_pairs",
     "joins_monotone",
+    "lines_may_meet",
     "narrow_pairs",
     "crossing_findings",
 ]
@@ -469,6 +470,45 @@ def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:
     ta = d[:, 2] / np.maximum(np.linalg.norm(d[:, 2], axis=1, keepdims=True), 1e-300)
     tb = d[:, 3] / np.maximum(np.linalg.norm(d[:, 3], axis=1, keepdims=True), 1e-300)
     return along(chord) | along(ta + tb)
+
+
+def lines_may_meet(
+    cub_a: FloatArray, cub_b: FloatArray, joined: NDArray[np.int8]
+) -> NDArray[np.bool_]:
+    """Which pairs of straight segments may meet anywhere except at their join.
+
+    Parameters
+    ----------
+    cub_a, cub_b : ndarray, shape (P, 4, 2)
+        Lines in cubic form (only the end points are used).
+    joined : ndarray of int8, shape (P,)
+        As in :func:`narrow_pairs` (1 or 2: neighbours sharing an end point; 0: not joined).
+
+    Returns
+    -------
+    ndarray of bool, shape (P,)
+
+    Notes
+    -----
+    Two segments cross or touch only if neither lies strictly on one side of the other's
+    line (orientation test with cross products, e.g. Cormen et al., *Introduction to
+    Algorithms*, §33.1). Neighbours meet elsewhere only if the second turns straight back
+    along the first (parallel and opposite).
+    """
+    p1, p2 = cub_a[:, 0], cub_a[:, 3]
+    q1, q2 = cub_b[:, 0], cub_b[:, 3]
+    d1, d2 = p2 - p1, q2 - q1
+
+    def cross(u: FloatArray, v: FloatArray) -> FloatArray:
+        return u[:, 0] * v[:, 1] - u[:, 1] * v[:, 0]
+
+    o1, o2 = cross(d1, q1 - p1), cross(d1, q2 - p1)
+    o3, o4 = cross(d2, p1 - q1), cross(d2, p2 - q1)
+    apart = (o1 * o2 > 0.0) | (o3 * o4 > 0.0)
+    n1 = np.hypot(d1[:, 0], d1[:, 1])
+    n2 = np.hypot(d2[:, 0], d2[:, 1])
+    back = (np.einsum("ij,ij->i", d1, d2) < 0.0) & (np.abs(cross(d1, d2)) <= 1e-12 * n1 * n2)
+    return np.where(joined == 0, ~apart, back)
 
 
 def narrow_pairs(

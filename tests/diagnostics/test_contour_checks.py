@@ -136,3 +136,28 @@ def test_settings_scale_with_the_document_unit():
     assert of_kind(check_document(doc_of(c, mm_per_unit=1.0)), "gap")
     assert not of_kind(check_document(doc_of(c, mm_per_unit=0.01)), "gap")
     assert not of_kind(check_document(doc_of(c), CheckSettings(gap_mm=0.5)), "gap")
+
+
+def test_line_folding_back_on_itself():
+    # (0,0)→(10,0)→(5,0): the second line runs back over the first (construction): a 180°
+    # corner at (10, 0) and an overlap reported as a self-intersection reaching (5, 0)
+    found = check_document(doc_of(polygon([(0, 0), (10, 0), (5, 0), (5, 5)], closed=False)))
+    assert [f.value for f in of_kind(found, "corner")][0] == pytest.approx(180.0)
+    hits = of_kind(found, "self-intersection")
+    assert hits and all((f.x, f.y) == pytest.approx((5.0, 0.0)) for f in hits)
+
+
+def test_lines_may_meet_matches_shapely():
+    # reference library: shapely LineString.intersects on random non-neighbouring lines
+    pytest.importorskip("shapely")
+    from shapely.geometry import LineString
+
+    from outlinebench.diagnostics.contour_checks import lines_may_meet
+    from outlinebench.geometry import to_cubic
+
+    rng = np.random.default_rng(2)
+    a = rng.uniform(0, 10, size=(300, 2, 2))
+    b = rng.uniform(0, 10, size=(300, 2, 2))
+    got = lines_may_meet(to_cubic(a), to_cubic(b), np.zeros(300, dtype=np.int8))
+    ref = [LineString(p).intersects(LineString(q)) for p, q in zip(a, b, strict=True)]
+    assert got.tolist() == ref
