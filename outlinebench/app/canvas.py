@@ -11,8 +11,9 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING
 
-from PySide6.QtCore import QPointF, QRectF, Qt, Signal
+from PySide6.QtCore import QEvent, QPointF, QRectF, Qt, Signal
 from PySide6.QtGui import (
+    QHelpEvent,
     QKeyEvent,
     QMouseEvent,
     QPainter,
@@ -23,7 +24,7 @@ from PySide6.QtGui import (
     QResizeEvent,
     QWheelEvent,
 )
-from PySide6.QtWidgets import QSizePolicy, QWidget
+from PySide6.QtWidgets import QSizePolicy, QToolTip, QWidget
 
 from outlinebench.app import style
 from outlinebench.app.canvas_painter import (
@@ -32,23 +33,29 @@ from outlinebench.app.canvas_painter import (
     document_bounds,
     page_rect,
     paint_background,
-    paint_document,
     paint_outlines,
     paint_selection,
+    visible_contours,
 )
 from outlinebench.app.contour_graphics import GraphicsCache
-from outlinebench.app.view_transform import ViewTransform
+from outlinebench.app.curvature_comb import MAX_COMB_SEGMENTS, CombCache, paint_comb
+from outlinebench.app.finding_marks import finding_at, paint_finding_marks
+from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
+from outlinebench.diagnostics import Finding
 from outlinebench.model.document import Document
 
 if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
     from outlinebench.app.session import EditorSession
 
-__all__ = ["Canvas", "WHEEL_ZOOM_PER_NOTCH", "WHEEL_PAN_PX_PER_NOTCH"]
+__all__ = ["Canvas", "WHEEL_ZOOM_PER_NOTCH", "WHEEL_PAN_PX_PER_NOTCH", "PLACE_MIN_PX"]
 
 # Zoom factor per wheel notch (120 units of angleDelta, the Qt QWheelEvent convention).
 WHEEL_ZOOM_PER_NOTCH = 1.2
 # Scroll distance per wheel notch, logical px.
 WHEEL_PAN_PX_PER_NOTCH = 60.0
+# Showing a finding zooms in until its size (a gap's width, a tiny segment's length) spans
+# at least this many logical px, so a 0.005 mm defect becomes visible.
+PLACE_MIN_PX = 48.0
 
 
 class Canvas(QWidget):
@@ -75,6 +82,14 @@ class Canvas(QWidget):
         self._fitted_once = False
         self._last_doc: Document | None = None  # last document painted outside a gesture
         self._backdrop: tuple | None = None  # (key, pixmap, marks) while a gesture runs
+        # Overlays: finding marks (the findings the list shows) and the curvature comb.
+        self.finding_marks: list[Finding] = []
+        self.current_finding: Finding | None = None
+        self.comb_on = False
+        self.comb_scale = 1.0  # tooth length = comb_scale · κ (document units²)
+        self.comb_cache = CombCache()
+        self.comb_teeth = 0  # teeth drawn in the last frame
+        self.comb_hidden = False  # too many segments in view for a comb
         self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
         self.setMouseTracking(True)
         self.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
@@ -90,7 +105,33 @@ class Canvas(QWidget):
 
     def _on_document_changed(self) -> None:
         doc = self.document
-        self.cache.prune({id(c) for o in doc.outlines for c in o.contours})
+        live = {id(c) for o in doc.outlines for c in o.contours}
+        self.cache.prune(live)
+        self.comb_cache.prune(live)
+        self.update()
+
+    def set_finding_marks(self, findings: list[Finding], current: Finding | None = None) -> None:
+        """Findings to mark on the canvas (user units) and the one picked in the list."""
+        self.finding_marks = findings
+        self.current_finding = current
+        self.update()
+
+    def set_comb(self, on: bool, scale: float | None = None) -> None:
+        """Show or hide the curvature comb; ``scale`` in document units² (tooth = scale·κ)."""
+        self.comb_on = on
+        if scale is not None:
+            self.comb_scale = float(scale)
+        self._backdrop = None
+        self.update()
+
+    def show_place(self, x: float, y: float, size: float | None = None) -> None:
+        """Centre document point (x, y); zoom in until ``size`` spans :data:`PLACE_MIN_PX`."""
+        v = self.view
+        if size is not None and size > 0 and size * v.scale < PLACE_MIN_PX:
+            v.scale = min(PLACE_MIN_PX / size, MAX_SCALE)
+        v.offset_x = self.width() / 2 - x * v.scale
+        v.offset_y = self.height() / 2 - y * v.scale
+        self.view_changed.emit()
         self.update()
 
     # -- view ---------------------------------------------------------------------------
@@ -134,18 +175,13 @@ class Canvas(QWidget):
             live = self._live_outlines(doc)
             if live is None:
                 self._backdrop = None
-                paint_document(
-                    p,
-                    self.view,
-                    doc,
-                    self.cache,
-                    self.width(),
-                    self.height(),
-                    self.devicePixelRatioF(),
-                    self._editor.selected_points(),
-                    self._editor.hover,
-                    self.stats,
-                )
+                w, h = self.width(), self.height()
+                paint_background(p, self.view, doc, w, h, self.devicePixelRatioF())
+                self._paint_comb(p, doc, None)
+                paint_outlines(p, self.view, doc, self.cache, w, h, stats=self.stats)
+                paint_finding_marks(p, self.view, self.finding_marks, w, h, self.current_finding)
+                sel = self._editor.selected_points()
+                paint_selection(p, self.view, doc, sel, self._editor.hover)
             else:
                 self._paint_with_backdrop(p, doc, live)
             self._paint_tool_overlay(p)
@@ -172,6 +208,7 @@ class Canvas(QWidget):
         w, h, dpr = self.width(), self.height(), self.devicePixelRatioF()
         v = self.view
         key = (v.scale, v.offset_x, v.offset_y, w, h, dpr, frozenset(live), id(self._last_doc))
+        key += (self.comb_on, self.comb_scale)
         if self._backdrop is None or self._backdrop[0] != key:
             base = self._last_doc
             marks = count_points_in_view(v, doc, self.cache, w, h) <= style.MAX_MARKED_POINTS
@@ -181,14 +218,47 @@ class Canvas(QWidget):
             try:
                 paint_background(bp, v, doc, w, h, dpr)
                 still = set(range(len(doc.outlines))) - live
+                self._paint_comb(bp, base, still)
                 paint_outlines(bp, v, base, self.cache, w, h, outlines=still, marks=marks)
             finally:
                 bp.end()
             self._backdrop = (key, pixmap, marks)
         _, pixmap, marks = self._backdrop
         p.drawPixmap(0, 0, pixmap)
+        self._paint_comb(p, doc, live)
         paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
+        paint_finding_marks(p, v, self.finding_marks, w, h, self.current_finding)
         paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)
+
+    def _paint_comb(self, p: QPainter, doc: Document, outlines: set[int] | None) -> None:
+        """The comb of the visible contours of ``outlines`` (default all), under the outline."""
+        if not self.comb_on:
+            self.comb_teeth, self.comb_hidden = 0, False
+            return
+        w, h = self.width(), self.height()
+        shown = visible_contours(self.view, doc, self.cache, w, h, outlines)
+        n = sum(len(doc.outlines[oi].contours[ci].segments) for oi, ci, *_ in shown)
+        self.comb_hidden = n > MAX_COMB_SEGMENTS
+        if self.comb_hidden:
+            self.comb_teeth = 0
+            return
+        pairs = [(oi, ci) for oi, ci, *_ in shown]
+        self.comb_teeth = paint_comb(p, self.view, doc, pairs, self.comb_cache, self.comb_scale)
+
+    def event(self, event: QEvent) -> bool:
+        if event.type() == QEvent.Type.ToolTip:
+            assert isinstance(event, QHelpEvent)
+            hits = finding_at(self.view, self.finding_marks, event.pos().x(), event.pos().y())
+            if hits:
+                lines = [f"<b>{f.kind}</b> ({f.severity}): {f.message}" for f in hits[:6]]
+                if len(hits) > 6:
+                    lines.append(f"… and {len(hits) - 6} more here")
+                QToolTip.showText(event.globalPos(), "<br>".join(lines), self)
+            else:
+                QToolTip.hideText()
+                event.ignore()
+            return True
+        return super().event(event)
 
     def _paint_tool_overlay(self, p: QPainter) -> None:
         ov = self._editor.overlay()

@@ -26,6 +26,7 @@ __all__ = [
     "paint_outlines",
     "paint_selection",
     "count_points_in_view",
+    "visible_contours",
     "PaintStats",
     "document_bounds",
     "mark_path",
@@ -249,6 +250,19 @@ def _visible(
             )
             out.append((oi, ci, g, scr, inside))
     return out
+
+
+def visible_contours(
+    view: ViewTransform,
+    doc: Document,
+    cache: GraphicsCache,
+    width: float,
+    height: float,
+    outlines: set[int] | None = None,
+) -> list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]]:
+    """Contours whose control-point box meets the view: ``(outline, contour, graphics,
+    on-curve points on screen, which of them are inside)``."""
+    return _visible(view, doc, cache, width, height, outlines)
 
 
 def paint_outlines(

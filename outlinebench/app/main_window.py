@@ -5,29 +5,41 @@
 
 from __future__ import annotations
 
+import math
 import sys
 from pathlib import Path
 
+import numpy as np
 from PySide6.QtCore import QSettings, Qt, QTimer
 from PySide6.QtGui import QAction, QActionGroup, QCloseEvent, QKeySequence
 from PySide6.QtWidgets import (
     QApplication,
+    QDialog,
     QDockWidget,
     QFrame,
+    QHBoxLayout,
     QLabel,
     QMainWindow,
     QPushButton,
     QScrollArea,
+    QSlider,
     QVBoxLayout,
+    QWidget,
+    QWidgetAction,
 )
 
 from outlinebench.app import dialogs, style
 from outlinebench.app.canvas import Canvas
 from outlinebench.app.canvas_painter import count_points_in_view
+from outlinebench.app.curvature_comb import auto_comb_scale
+from outlinebench.app.findings_panel import FindingsPanel
 from outlinebench.app.icons import icon
+from outlinebench.app.live_findings import LiveFindings, place_of
 from outlinebench.app.selection_panel import SelectionPanel
 from outlinebench.app.session import TOOLS, EditorSession
 from outlinebench.app.settings import RecentFiles
+from outlinebench.app.tolerances_dialog import TolerancesDialog
+from outlinebench.diagnostics import Finding
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model.document import Document
 
@@ -38,6 +50,11 @@ NAVIGATION_HINT = (
     "Middle-drag or Space+drag: pan"
 )
 
+
+# The comb scale slider: position k multiplies the automatic scale by 2^(k/2), from 1/16 to 16.
+COMB_STEPS = 8
+# Starting width of the findings dock, logical px: severity, kind, place and value columns.
+FINDINGS_DOCK_WIDTH = 450
 
 # A new drawing: a landscape A4 sheet in millimetres (ISO 216: 297 mm × 210 mm).
 NEW_PAGE_MM = (297.0, 210.0)
@@ -128,6 +145,22 @@ class MainWindow(QMainWindow):
         dock.setWidget(scroll)
         dock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
         self.addDockWidget(Qt.DockWidgetArea.RightDockWidgetArea, dock)
+        # Findings: checked live after every edit, listed in a dock on the left.
+        self.live = LiveFindings(self.session, parent=self)
+        self.findings_panel = FindingsPanel(self.live, lambda: self.session.units, self)
+        fdock = QDockWidget("Findings", self)
+        fdock.setObjectName("findingsDock")
+        fdock.setWidget(self.findings_panel)
+        fdock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
+        self.addDockWidget(Qt.DockWidgetArea.LeftDockWidgetArea, fdock)
+        self.resizeDocks([fdock], [FINDINGS_DOCK_WIDTH], Qt.Orientation.Horizontal)
+        self.findings_dock = fdock
+        self.current_finding: Finding | None = None
+        self._comb_base: float | None = None  # automatic comb scale of the open document
+        self.live.updated.connect(self._on_findings_updated)
+        self.findings_panel.filter_changed.connect(lambda _on: self._on_findings_updated())
+        self.findings_panel.picked.connect(self.show_finding)
+        self.findings_panel.settings_requested.connect(self.edit_tolerances)
         self._build_actions()
         self._build_menus_and_toolbar()
         self._build_status_bar()
@@ -208,6 +241,35 @@ class MainWindow(QMainWindow):
             "Zoom &out", lambda: self.canvas.zoom(1 / 1.5), sk.ZoomOut, "zoom-out"
         )
         self.act_fit = self._action("&Fit to outline", self.canvas.fit_to_outline, "F", "fit")
+        self.act_marks = self._action(
+            "Finding &marks",
+            lambda on: self._on_findings_updated(),
+            "Ctrl+Shift+M",
+            tip="Frame each finding on the canvas (diamond: error, square: warning, dotted: info)",
+        )
+        self.act_marks.setCheckable(True)
+        self.act_marks.setChecked(True)
+        self.act_comb = self._action(
+            "Curvature &comb",
+            self.set_comb_visible,
+            "Ctrl+Shift+K",
+            tip="Teeth of length proportional to curvature on the side each curve bends; a step "
+            "where two segments meet is a curvature jump",
+        )
+        self.act_comb.setCheckable(True)
+        self.act_comb_longer = self._action(
+            "Comb teeth longer",
+            lambda: self.comb_slider.setValue(self.comb_slider.value() + 1),
+            "]",
+        )
+        self.act_comb_shorter = self._action(
+            "Comb teeth shorter",
+            lambda: self.comb_slider.setValue(self.comb_slider.value() - 1),
+            "[",
+        )
+        self.act_tolerances = self._action(
+            "Check &tolerances…", self.edit_tolerances, tip="Gap, kink, corner and curvature limits"
+        )
         self.tool_group = QActionGroup(self)
         self.tool_group.setExclusive(True)
         self.act_tools: dict[str, QAction] = {}
@@ -247,6 +309,15 @@ class MainWindow(QMainWindow):
         m_view = mb.addMenu("&View")
         for a in (self.act_zoom_in, self.act_zoom_out, self.act_fit):
             m_view.addAction(a)
+        m_view.addSeparator()
+        m_view.addAction(self.act_marks)
+        m_view.addAction(self.act_comb)
+        m_view.addAction(self._comb_scale_action())
+        m_view.addAction(self.act_comb_longer)
+        m_view.addAction(self.act_comb_shorter)
+        m_view.addSeparator()
+        m_view.addAction(self.act_tolerances)
+        m_view.addAction(self.findings_dock.toggleViewAction())
         m_tools = mb.addMenu("&Tools")
         for a in self.act_tools.values():
             m_tools.addAction(a)
@@ -302,6 +373,117 @@ class MainWindow(QMainWindow):
         sb.addPermanentWidget(self.hint_label)
         sb.addPermanentWidget(self.pos_label)
         sb.addPermanentWidget(self.zoom_label)
+
+    def _comb_scale_action(self) -> QWidgetAction:
+        """A "Comb scale" slider inside the View menu."""
+        box = QWidget()
+        lay = QHBoxLayout(box)
+        lay.setContentsMargins(28, 2, 8, 2)
+        lay.addWidget(QLabel("Comb scale"))
+        self.comb_slider = QSlider(Qt.Orientation.Horizontal)
+        self.comb_slider.setRange(-COMB_STEPS, COMB_STEPS)
+        self.comb_slider.setValue(0)
+        self.comb_slider.setMinimumWidth(120)
+        self.comb_slider.setToolTip("Length of the comb teeth, relative to the automatic scale")
+        self.comb_slider.valueChanged.connect(lambda _v: self._apply_comb())
+        lay.addWidget(self.comb_slider)
+        self.comb_label = QLabel("×1")
+        self.comb_label.setMinimumWidth(44)
+        lay.addWidget(self.comb_label)
+        act = QWidgetAction(self)
+        act.setDefaultWidget(box)
+        return act
+
+    # -- overlays -----------------------------------------------------------------------
+    def set_comb_visible(self, on: bool) -> None:
+        if self.act_comb.isChecked() != on:
+            self.act_comb.setChecked(on)
+        self._apply_comb()
+
+    def comb_scale(self) -> float:
+        """Tooth length per unit of curvature now in use (document units²)."""
+        if self._comb_base is None:
+            self._comb_base = auto_comb_scale(self.session.document)
+        return self._comb_base * 2.0 ** (self.comb_slider.value() / 2.0)
+
+    def _apply_comb(self) -> None:
+        on = self.act_comb.isChecked()
+        factor = 2.0 ** (self.comb_slider.value() / 2.0)
+        self.comb_label.setText(f"×{factor:.3g}")
+        self.canvas.set_comb(on, self.comb_scale() if on else None)
+        if on:
+            u = self.session.units
+            r = 10.0 / u.factor  # a radius of 10 display units, in user units
+            tooth = u.text(self.comb_scale() / r)
+            self._show_message(
+                f"Curvature comb ×{factor:.3g}: a radius of 10 {u.name} gets teeth {tooth} long"
+                + (" · too many segments in view: zoom in" if self.canvas.comb_hidden else "")
+            )
+
+    def _on_findings_updated(self) -> None:
+        cur = self.current_finding
+        if cur is not None:
+            cur = next(
+                (
+                    f
+                    for f in self.live.findings
+                    if (f.kind, f.contour, f.segment, f.join) == (cur.kind, cur.contour,
+                                                                 cur.segment, cur.join)
+                ),
+                None,
+            )  # fmt: skip
+            self.current_finding = cur
+        marks = self.findings_panel.shown_findings() if self.act_marks.isChecked() else []
+        self.canvas.set_finding_marks(marks, cur if self.act_marks.isChecked() else None)
+
+    def show_finding(self, f: Finding) -> None:
+        """Select the point nearest to a finding, centre it, and zoom in if it is tiny."""
+        doc = self.session.document
+        self.current_finding = f
+        place = place_of(doc, f)
+        if place is not None:
+            oi, ci = place
+            contour = doc.outlines[oi].contours[ci]
+            if f.segment is not None and 0 <= f.segment < len(contour.segments):
+                candidates = [f.segment]
+                if f.join is not None:  # the join's point starts the next segment
+                    candidates = [(f.segment + 1) % len(contour.segments)]
+            else:
+                candidates = list(range(len(contour.segments)))
+            best, best_d = None, math.inf
+            for s in candidates:
+                seg = contour.segments[s]
+                for i in (0, seg.shape[0] - 1):
+                    d = float(np.hypot(seg[i, 0] - f.x, seg[i, 1] - f.y))
+                    if d < best_d:
+                        best, best_d = (oi, ci, s, i), d
+            if best is not None:
+                self.session.set_selection([best], best)
+        size = f.value if f.unit == "user" and f.value else None
+        self.canvas.show_place(f.x, f.y, size)
+        self._on_findings_updated()
+        u = self.session.units
+        self._show_message(
+            f"{f.kind} ({f.severity}) at x {u.show(f.x):.{u.decimals}f}, "
+            f"y {u.show(f.y):.{u.decimals}f} {u.name}: {f.message}"
+        )
+
+    def edit_tolerances(self) -> bool:
+        """Ask for new check tolerances; True when they were changed."""
+        dlg = TolerancesDialog(self.live.settings, self.session.units, self)
+        if self.run_dialog(dlg) != QDialog.DialogCode.Accepted:
+            return False
+        self.live.set_settings(dlg.result_settings())
+        s = self.live.settings
+        self._show_message(
+            f"Checked again: gap {s.gap_mm:g} mm, kink {s.kink_angle:g}°, corner "
+            f"{s.corner_angle:g}°, curvature jump {s.curvature_jump * 100:g} %"
+        )
+        return True
+
+    def run_dialog(self, dialog: QDialog) -> int:
+        """Run a modal dialog (tests replace this to fill it in)."""
+        return dialog.exec()
 
     def _fill_samples_menu(self) -> None:
         self.menu_samples.clear()
@@ -455,6 +637,10 @@ class MainWindow(QMainWindow):
         ):
             return False
         self.session.load(result.document)
+        self.current_finding = None
+        self._comb_base = None  # the new drawing gets its own automatic comb scale
+        if self.act_comb.isChecked():
+            self._apply_comb()
         self.path = str(path)
         self._partial = partial
         self.recent.add(self.path)

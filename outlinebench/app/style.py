@@ -9,6 +9,17 @@ Marks (sizes in logical pixels, independent of zoom):
 * handles — hollow dots in their join's colour, joined to their on-curve point by a thin line
   of the same colour, so a smooth join reads as one straight teal bar through the point;
 * selected points — an amber ring; the point under the pointer — a thin ring.
+
+Findings (from :mod:`outlinebench.diagnostics`) are frames drawn AROUND the place, so the
+join mark inside stays readable; the frame's shape tells the severity even without colour:
+
+* error — a diamond frame, crimson, with a faint crimson wash;
+* warning — a square frame, ochre;
+* info — a small dotted square, slate grey (hidden with the info filter);
+* the finding picked in the findings list — the same frame drawn again, larger and doubled.
+
+Curvature comb: olive teeth (normals of length scale·κ, on the side the curve bends) and a
+darker olive line through their tips; a step in that line at a join is a curvature jump.
 """
 
 from __future__ import annotations
@@ -37,6 +48,14 @@ __all__ = [
     "HANDLE_RADIUS",
     "PICK_RADIUS_PX",
     "MAX_MARKED_POINTS",
+    "FINDING_ERROR",
+    "FINDING_WARNING",
+    "FINDING_INFO",
+    "FINDING_COLOURS",
+    "FINDING_WASH",
+    "FINDING_SIZE",
+    "COMB_TOOTH",
+    "COMB_EDGE",
 ]
 
 DESK = QColor("#e4e1d8")  # around the page
@@ -64,3 +83,13 @@ PICK_RADIUS_PX = 7.0  # how close the pointer must be to pick a point, logical p
 # Above this many on-curve points in view, marks are left out (only the outline and the
 # selection are drawn) so that painting stays within one frame; zooming in brings them back.
 MAX_MARKED_POINTS = 1500
+
+FINDING_ERROR = QColor("#c3122f")  # crimson: redder and darker than the corner rust
+FINDING_WARNING = QColor("#a87400")  # ochre: darker and browner than the selection amber
+FINDING_INFO = QColor("#6f7a86")  # slate grey: present but quiet
+FINDING_COLOURS = {"error": FINDING_ERROR, "warning": FINDING_WARNING, "info": FINDING_INFO}
+FINDING_WASH = QColor(195, 18, 47, 36)  # inside an error's diamond
+FINDING_SIZE = {"error": 11.0, "warning": 9.0, "info": 6.0}  # half-width of the frame, px
+
+COMB_TOOTH = QColor(128, 142, 52, 150)  # the normals
+COMB_EDGE = QColor("#5b6b12")  # the line through the tips

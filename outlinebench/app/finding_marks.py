@@ -1,0 +1,157 @@
+"""Finding marks on the canvas: a frame around each finding's place, shaped by severity.
+
+The shapes and colours are set out in :mod:`outlinebench.app.style`: a crimson diamond for
+errors, an ochre square for warnings, a small dotted grey square for info. They are frames
+around the place, so the join mark at the centre stays visible, and the severity reads from
+the shape alone (for colour-blind users and grey-scale prints). The findings list uses the
+same drawing for its icons, and the canvas key shows all three.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+import numpy as np
+from PySide6.QtCore import QPointF, QRectF, Qt
+from PySide6.QtGui import QColor, QIcon, QPainter, QPainterPath, QPen, QPixmap, QPolygonF
+
+from outlinebench.app import style
+from outlinebench.app.view_transform import ViewTransform
+from outlinebench.diagnostics import Finding
+
+__all__ = [
+    "frame_path",
+    "paint_finding_marks",
+    "paint_frame",
+    "finding_icon",
+    "finding_at",
+    "HIT_RADIUS_PX",
+]
+
+# The pointer within this many logical px of a finding's place shows its tooltip.
+HIT_RADIUS_PX = 12.0
+
+
+def frame_path(path: QPainterPath, x: float, y: float, severity: str, grow: float = 0.0) -> None:
+    """Add the frame of one finding mark centred on screen point (x, y) to ``path``."""
+    s = style.FINDING_SIZE.get(severity, 6.0) + grow
+    if severity == "error":
+        path.addPolygon(
+            QPolygonF(
+                [
+                    QPointF(x, y - s * 1.25),
+                    QPointF(x + s * 1.25, y),
+                    QPointF(x, y + s * 1.25),
+                    QPointF(x - s * 1.25, y),
+                    QPointF(x, y - s * 1.25),
+                ]
+            )
+        )
+        path.closeSubpath()
+    else:
+        path.addRect(QRectF(x - s, y - s, 2 * s, 2 * s))
+
+
+def _pen(severity: str, width: float | None = None) -> QPen:
+    colour = style.FINDING_COLOURS.get(severity, style.FINDING_INFO)
+    if severity == "info":
+        pen = QPen(colour, width or 1.2, Qt.PenStyle.DotLine)
+    else:
+        pen = QPen(colour, width or (2.2 if severity == "error" else 1.8))
+    pen.setJoinStyle(Qt.PenJoinStyle.MiterJoin)
+    return pen
+
+
+def paint_frame(p: QPainter, x: float, y: float, severity: str) -> None:
+    """One finding mark (for the key and the list icons)."""
+    path = QPainterPath()
+    frame_path(path, x, y, severity)
+    p.setPen(_pen(severity))
+    p.setBrush(style.FINDING_WASH if severity == "error" else Qt.BrushStyle.NoBrush)
+    p.drawPath(path)
+
+
+def paint_finding_marks(
+    p: QPainter,
+    view: ViewTransform,
+    findings: Sequence[Finding],
+    width: float,
+    height: float,
+    current: Finding | None = None,
+) -> int:
+    """Frame every finding whose place is in view; returns how many were drawn.
+
+    Less serious findings are drawn first so an error's frame lies on top where they share
+    a place. ``current`` (the finding picked in the list) is drawn larger and doubled.
+    """
+    if not findings and current is None:
+        return 0
+    xy = np.array([(f.x, f.y) for f in findings], dtype=float).reshape(-1, 2)
+    scr = view.to_screen_array(xy)
+    m = 2 * max(style.FINDING_SIZE.values())
+    inside = (scr[:, 0] >= -m) & (scr[:, 0] <= width + m)
+    inside &= (scr[:, 1] >= -m) & (scr[:, 1] <= height + m)
+    paths = {sev: QPainterPath() for sev in ("info", "warning", "error")}
+    for k in np.flatnonzero(inside).tolist():
+        f = findings[k]
+        frame_path(paths.get(f.severity, paths["info"]), scr[k, 0], scr[k, 1], f.severity)
+    p.save()
+    p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+    for sev, path in paths.items():
+        if path.isEmpty():
+            continue
+        p.setBrush(style.FINDING_WASH if sev == "error" else Qt.BrushStyle.NoBrush)
+        if sev != "info":  # a paper-coloured halo keeps the frame readable over the outline
+            p.setPen(QPen(style.PAPER, 4.2 if sev == "error" else 3.8))
+            p.drawPath(path)
+        p.setPen(_pen(sev))
+        p.drawPath(path)
+    if current is not None:
+        x, y = view.to_screen(current.x, current.y)
+        ring = QPainterPath()
+        frame_path(ring, x, y, current.severity, grow=5.0)
+        frame_path(ring, x, y, current.severity, grow=8.0)
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        p.setPen(_pen(current.severity, 1.6))
+        p.drawPath(ring)
+    p.restore()
+    return int(inside.sum())
+
+
+def finding_at(
+    view: ViewTransform, findings: Sequence[Finding], sx: float, sy: float
+) -> list[Finding]:
+    """Findings whose mark is within :data:`HIT_RADIUS_PX` of screen point (sx, sy),
+    most serious first."""
+    if not findings:
+        return []
+    xy = np.array([(f.x, f.y) for f in findings], dtype=float)
+    scr = view.to_screen_array(xy)
+    d = np.hypot(scr[:, 0] - sx, scr[:, 1] - sy)
+    near = np.flatnonzero(d <= HIT_RADIUS_PX)
+    rank = {"error": 0, "warning": 1, "info": 2}
+    return sorted((findings[k] for k in near.tolist()), key=lambda f: rank.get(f.severity, 3))
+
+
+_ICONS: dict[str, QIcon] = {}
+
+
+def finding_icon(severity: str) -> QIcon:
+    """The severity's mark as a small icon (cached)."""
+    icon = _ICONS.get(severity)
+    if icon is None:
+        size = 20
+        pix = QPixmap(size * 2, size * 2)
+        pix.setDevicePixelRatio(2.0)
+        pix.fill(QColor(0, 0, 0, 0))
+        p = QPainter(pix)
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        # Scaled so every severity's frame fills the icon alike (half-width 7 px).
+        half = style.FINDING_SIZE.get(severity, 6.0) * (1.25 if severity == "error" else 1.0)
+        p.translate(size / 2, size / 2)
+        p.scale(7.0 / half, 7.0 / half)
+        paint_frame(p, 0.0, 0.0, severity)
+        p.end()
+        icon = QIcon(pix)
+        _ICONS[severity] = icon
+    return icon

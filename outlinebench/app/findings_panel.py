@@ -1,0 +1,267 @@
+"""The findings list beside the canvas: every finding of the open document, live.
+
+One row per finding — severity (with its canvas mark as icon), kind, where (contour, segment
+or join), the measured value with its unit in the document's units, and the position. Rows
+are sorted by severity (errors first), then in document order; clicking a column header sorts
+by that column instead. A count line sums up the document, and "Show info" hides or shows the
+info-level findings (on the canvas too). Clicking a row asks the window to show that place.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from typing import Any
+
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt, Signal
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QCheckBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QPushButton,
+    QTreeView,
+    QVBoxLayout,
+    QWidget,
+)
+
+from outlinebench.app.finding_marks import finding_icon
+from outlinebench.app.live_findings import LiveFindings
+from outlinebench.app.units import DisplayUnits
+from outlinebench.diagnostics import KINDS, Finding, convert_units, summarize
+from outlinebench.diagnostics.findings import SEVERITY_RANK
+
+__all__ = ["FindingsModel", "FindingsPanel", "value_text", "where_text", "COLUMNS"]
+
+COLUMNS = ("Severity", "Kind", "Where", "Value", "Position")
+_Index = QModelIndex | QPersistentModelIndex
+
+
+def _num(v: float, decimals: int) -> str:
+    if not math.isfinite(v):
+        return "∞" if v > 0 else "−∞"
+    return f"{v:.{decimals}f}"
+
+
+def value_text(f: Finding, units: DisplayUnits) -> str:
+    """The measured value with its unit, for a finding already converted to ``units``."""
+    if f.value is None:
+        return ""
+    if f.unit == "degrees":
+        return f"{_num(f.value, 2)}°"
+    if f.unit == "relative":
+        text = f"{f.value * 100:.1f} %"
+        if f.curvature_before is not None and f.curvature_after is not None:
+            text += f"  (κ {f.curvature_before:.4g} → {f.curvature_after:.4g} per {units.name})"
+        return text
+    if f.unit == units.name:
+        return f"{_num(f.value, units.decimals)} {units.name}"
+    if f.unit == f"{units.name}^2":
+        return f"{_num(f.value, units.decimals)} {units.name}² (area)"
+    return f"{f.value:.4g} {f.unit}"
+
+
+def where_text(f: Finding) -> str:
+    """ "contour 3, join 2" / "contour 3, segment 1" / "contour 3"."""
+    text = f"contour {f.contour}"
+    if f.join is not None:
+        text += f", join {f.join}"
+    elif f.segment is not None:
+        text += f", segment {f.segment}"
+    if f.other_contour is not None and f.other_contour != f.contour:
+        text += f" ↔ contour {f.other_contour}"
+    return text
+
+
+def _order_key(f: Finding) -> tuple:
+    return (
+        SEVERITY_RANK.get(f.severity, 3),
+        f.contour,
+        -1 if f.segment is None else f.segment,
+        -1.0 if f.t is None else f.t,
+        KINDS.index(f.kind) if f.kind in KINDS else len(KINDS),
+    )
+
+
+class FindingsModel(QAbstractTableModel):
+    """Table of findings (already converted to display units), sortable by any column."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self.rows: list[tuple[Finding, Finding]] = []  # (converted, original)
+        self.units: DisplayUnits | None = None
+        self._sort = (0, Qt.SortOrder.AscendingOrder)
+
+    def set_findings(
+        self, shown: Sequence[Finding], original: Sequence[Finding], units: DisplayUnits
+    ) -> None:
+        self.beginResetModel()
+        self.units = units
+        self.rows = list(zip(shown, original, strict=True))
+        self._apply_sort()
+        self.endResetModel()
+
+    # -- Qt model interface -------------------------------------------------------------
+    def rowCount(self, parent: _Index = QModelIndex()) -> int:  # noqa: N802, B008
+        return 0 if parent.isValid() else len(self.rows)
+
+    def columnCount(self, parent: _Index = QModelIndex()) -> int:  # noqa: N802, B008
+        return 0 if parent.isValid() else len(COLUMNS)
+
+    def headerData(self, section: int, orientation, role: int = Qt.ItemDataRole.DisplayRole):  # noqa: N802
+        if orientation == Qt.Orientation.Horizontal and role == Qt.ItemDataRole.DisplayRole:
+            return COLUMNS[section]
+        return None
+
+    def data(self, index: _Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if not index.isValid():
+            return None
+        f, _orig = self.rows[index.row()]
+        col = index.column()
+        if role == Qt.ItemDataRole.DisplayRole:
+            return self.cell_text(f, col)
+        if role == Qt.ItemDataRole.DecorationRole and col == 0:
+            return finding_icon(f.severity)
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return f"{f.kind} ({f.severity}): {f.message}"
+        return None
+
+    def cell_text(self, f: Finding, col: int) -> str:
+        units = self.units
+        assert units is not None
+        if col == 0:
+            return f.severity
+        if col == 1:
+            return f.kind
+        if col == 2:
+            return where_text(f)
+        if col == 3:
+            return value_text(f, units)
+        return f"{f.x:.{units.decimals}f}, {f.y:.{units.decimals}f}"
+
+    def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
+        self.layoutAboutToBeChanged.emit()
+        self._sort = (column, order)
+        self._apply_sort()
+        self.layoutChanged.emit()
+
+    def _apply_sort(self) -> None:
+        column, order = self._sort
+        if column == 0:
+            key = lambda r: _order_key(r[0])  # noqa: E731
+        elif column == 3:
+            key = lambda r: (r[0].unit, r[0].value if r[0].value is not None else -1.0)  # noqa: E731
+        elif column == 4:
+            key = lambda r: (r[0].y, r[0].x)  # noqa: E731
+        else:
+            key = lambda r: (self.cell_text(r[0], column), _order_key(r[0]))  # noqa: E731
+        self.rows.sort(key=key, reverse=order == Qt.SortOrder.DescendingOrder)
+
+    def finding(self, row: int) -> Finding:
+        """The original finding (user units) of a row."""
+        return self.rows[row][1]
+
+
+class FindingsPanel(QWidget):
+    """Count line, "Show info" filter, tolerance button and the sortable list.
+
+    Parameters
+    ----------
+    live : LiveFindings
+        Where the findings come from.
+    units : callable returning DisplayUnits
+        The document's display units (they change when another file is opened).
+
+    Signals
+    -------
+    picked(object)
+        A finding (user units) was clicked or chosen with the keyboard.
+    filter_changed(bool)
+        "Show info" was toggled.
+    settings_requested
+        The tolerance button was pressed.
+    """
+
+    picked = Signal(object)
+    filter_changed = Signal(bool)
+    settings_requested = Signal()
+
+    def __init__(self, live: LiveFindings, units, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self._live = live
+        self._units = units
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(6, 6, 6, 6)
+        self.summary = QLabel("")
+        self.summary.setWordWrap(True)
+        lay.addWidget(self.summary)
+        row = QHBoxLayout()
+        self.show_info = QCheckBox("Show info")
+        self.show_info.setToolTip(
+            "Info findings are notes, not problems (for example corners the file does not "
+            "mark smooth); shown here and on the canvas when ticked"
+        )
+        self.show_info.setChecked(False)
+        self.show_info.toggled.connect(self._on_filter)
+        row.addWidget(self.show_info)
+        row.addStretch(1)
+        self.tolerances = QPushButton("Tolerances…")
+        self.tolerances.setToolTip("Gap, kink angle, corner angle and curvature jump limits")
+        self.tolerances.clicked.connect(self.settings_requested.emit)
+        row.addWidget(self.tolerances)
+        lay.addLayout(row)
+        self.model = FindingsModel(self)
+        self.view = QTreeView()
+        self.view.setRootIsDecorated(False)
+        self.view.setUniformRowHeights(True)
+        self.view.setAlternatingRowColors(True)
+        self.view.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.view.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+        self.view.setModel(self.model)
+        self.view.setSortingEnabled(True)
+        self.view.sortByColumn(0, Qt.SortOrder.AscendingOrder)
+        header = self.view.header()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        for col, width in enumerate((74, 118, 122, 112, 100)):
+            self.view.setColumnWidth(col, width)
+        self.view.clicked.connect(self._on_row)
+        self.view.activated.connect(self._on_row)
+        lay.addWidget(self.view, 1)
+        live.updated.connect(self.refresh)
+        self.refresh()
+
+    @property
+    def info_shown(self) -> bool:
+        return self.show_info.isChecked()
+
+    def shown_findings(self) -> list[Finding]:
+        """The findings the filter lets through (user units)."""
+        fs = self._live.findings
+        return list(fs) if self.info_shown else [f for f in fs if f.severity != "info"]
+
+    def _on_filter(self, checked: bool) -> None:
+        self.refresh()
+        self.filter_changed.emit(checked)
+
+    def refresh(self) -> None:
+        units: DisplayUnits = self._units()
+        original = self.shown_findings()
+        shown = convert_units(original, units.factor, units.name)
+        self.model.set_findings(shown, original, units)
+        s = summarize(self._live.findings)
+        info = f"{s['info']} info" + ("" if self.info_shown else " (hidden)")
+        if s["total"] == 0:
+            text = "<b>No findings</b> with the current tolerances"
+        else:
+            text = (
+                f"<b>{s['errors']} errors · {s['warnings']} warnings</b> · {info}"
+                f"<br><span style='color:#5b6670'>lengths in {units.name}</span>"
+            )
+        if self._live.error:
+            text += f"<br><span style='color:#c3122f'>Check failed: {self._live.error}</span>"
+        self.summary.setText(text)
+
+    def _on_row(self, index: QModelIndex) -> None:
+        if index.isValid():
+            self.picked.emit(self.model.finding(index.row()))

@@ -1,0 +1,126 @@
+"""The findings of the open document, kept up to date after every edit and during drags.
+
+:class:`LiveFindings` listens to the session's ``changed`` signal and hands each new document
+to an incremental :class:`outlinebench.diagnostics.Checker`, which recomputes only the
+contours and segments an edit replaced (the model keeps untouched ones as the same objects).
+A small edit therefore costs a fraction of a millisecond; a check that took longer than
+:data:`LIVE_BUDGET_MS` is not repeated on every mouse move but at most once per
+:data:`THROTTLE_MS`, so a drag stays smooth on large documents.
+"""
+
+from __future__ import annotations
+
+import time
+from typing import TYPE_CHECKING
+
+from PySide6.QtCore import QObject, QTimer, Signal
+
+from outlinebench.diagnostics import Checker, CheckSettings, Finding
+from outlinebench.errors import OutlinebenchError
+from outlinebench.model.document import Document
+
+if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
+    from outlinebench.app.session import EditorSession
+
+__all__ = ["LiveFindings", "LIVE_BUDGET_MS", "THROTTLE_MS", "place_of"]
+
+# A check that took at most this long is redone on every change (a drag's mouse moves
+# included); one that took longer is redone at most every THROTTLE_MS. 8 ms is half a frame
+# at 60 frames per second (benchmarks/bench_editor.py measures the drag update).
+LIVE_BUDGET_MS = 8.0
+THROTTLE_MS = 60
+
+
+def place_of(doc: Document, finding: Finding) -> tuple[int, int] | None:
+    """(outline index, contour index within it) of a finding's contour, or None when the
+    document has no such contour (the finding is stale)."""
+    k = finding.contour
+    for oi, outline in enumerate(doc.outlines):
+        n = len(outline.contours)
+        if k < n:
+            return oi, k
+        k -= n
+    return None
+
+
+class LiveFindings(QObject):
+    """Findings of ``session.document``, in user units, recomputed incrementally.
+
+    Parameters
+    ----------
+    session : EditorSession
+    settings : CheckSettings, optional
+        Tolerances (default: the diagnostics defaults).
+
+    Signals
+    -------
+    updated
+        ``findings`` (or ``error``) changed.
+
+    Attributes
+    ----------
+    findings : list of Finding
+        As :func:`outlinebench.diagnostics.check_document` returns them (user units).
+    document : Document or None
+        The document they belong to.
+    error : str or None
+        Why the last check failed (the findings are then those of the last good check).
+    last_ms : float
+        Wall time of the last check, milliseconds.
+    """
+
+    updated = Signal()
+
+    def __init__(
+        self, session: EditorSession, settings: CheckSettings | None = None, parent=None
+    ) -> None:
+        super().__init__(parent)
+        self._session = session
+        self._checker = Checker(settings)
+        self.findings: list[Finding] = []
+        self.document: Document | None = None
+        self.error: str | None = None
+        self.last_ms = 0.0
+        self.checks_run = 0
+        self._timer = QTimer(self)
+        self._timer.setSingleShot(True)
+        self._timer.setInterval(THROTTLE_MS)
+        self._timer.timeout.connect(self.refresh)
+        session.changed.connect(self._on_document_changed)
+        self.refresh()
+
+    @property
+    def settings(self) -> CheckSettings:
+        return self._checker.settings
+
+    def set_settings(self, settings: CheckSettings) -> None:
+        """Check again from scratch with other tolerances."""
+        self._checker = Checker(settings)
+        self.refresh()
+
+    def _on_document_changed(self) -> None:
+        if self._session.document is self.document:
+            return
+        if self.last_ms <= LIVE_BUDGET_MS:
+            self.refresh()
+        elif not self._timer.isActive():
+            self._timer.start()
+
+    def refresh(self) -> None:
+        """Check the session's document now."""
+        self._timer.stop()
+        doc = self._session.document
+        t0 = time.perf_counter()
+        try:
+            self.findings = self._checker.update(doc)
+            self.error = None
+        except OutlinebenchError as exc:  # a check that cannot run is shown, not raised
+            self.error = str(exc)
+            self._checker = Checker(self._checker.settings)
+        except Exception as exc:  # noqa: BLE001 — a fault in a check must not end the editing
+            self.error = f"internal error in the checks ({type(exc).__name__}: {exc})"
+            self._checker = Checker(self._checker.settings)
+        self.last_ms = (time.perf_counter() - t0) * 1e3
+        self.checks_run += 1
+        self.document = doc
+        self.updated.emit()
