@@ -162,8 +162,9 @@ def open_end_findings(
     Returns
     -------
     findings : list of Finding
-        ``gap`` (error), ``open-contour`` (warning, or info when its own ends meet), and the
-        join findings of ends that meet within the gap tolerance.
+        ``gap`` (error), ``open-contour`` (warning, or info when both its ends meet an end:
+        its own other end, or those of other open contours in a chain), and the join findings
+        of ends that meet within the gap tolerance.
     joined : list of (OpenEnd, OpenEnd)
         Pairs of ends that count as joined (the intersection test ignores them).
 
@@ -194,7 +195,7 @@ def open_end_findings(
     else:
         nearest, dist = np.array([0]), np.array([np.inf])
     seen: set[tuple[int, int]] = set()
-    own_closed: set[int] = set()
+    ends_joined: dict[int, int] = {}  # contour -> how many of its ends meet another end
     for i in range(n):
         j = int(nearest[i])
         if i == j or dist[i] > limits.gap_search:
@@ -219,8 +220,8 @@ def open_end_findings(
             )  # fmt: skip
             continue
         joined.append((a, b))
-        if a.contour == b.contour:
-            own_closed.add(a.contour)
+        ends_joined[a.contour] = ends_joined.get(a.contour, 0) + 1
+        ends_joined[b.contour] = ends_joined.get(b.contour, 0) + 1
         # arrive along a, leave along b (reversing the direction of a start)
         d_in = np.array(a.direction) * (1.0 if a.end == 1 else -1.0)
         k_in = a.curvature if a.end == 1 else -a.curvature
@@ -232,17 +233,22 @@ def open_end_findings(
         )  # fmt: skip
         if f is not None:
             findings.append(f)
+    end_point = {(e.contour, e.end): e.point for e in ends}
     for e in ends:
         if e.end != 0:
             continue
-        partner = next(x for x in ends if x.contour == e.contour and x.end == 1)
-        span = float(np.hypot(partner.point[0] - e.point[0], partner.point[1] - e.point[1]))
-        if e.contour in own_closed:
+        q = end_point[(e.contour, 1)]
+        span = float(np.hypot(q[0] - e.point[0], q[1] - e.point[1]))
+        if ends_joined.get(e.contour, 0) >= 2:
+            own = span <= limits.gap
             findings.append(
                 Finding(
                     "open-contour", INFO, e.outline, e.contour, None, None, e.point[0],
                     e.point[1], span, "user",
-                    "contour has no close command but its ends meet; close it to be sure",
+                    "contour has no close command but its ends meet; close it to be sure"
+                    if own
+                    else "open contour whose ends meet other open contours' ends; join them "
+                    "into one closed contour to be sure",
                 )
             )  # fmt: skip
         else:

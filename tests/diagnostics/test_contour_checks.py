@@ -161,3 +161,13 @@ def test_lines_may_meet_matches_shapely():
     got = lines_may_meet(to_cubic(a), to_cubic(b), np.zeros(300, dtype=np.int8))
     ref = [LineString(p).intersects(LineString(q)) for p, q in zip(a, b, strict=True)]
     assert got.tolist() == ref
+
+
+def test_open_contours_chained_into_a_loop_are_info():
+    # two open halves of a square whose ends meet exactly: a closed chain, so "open" is only
+    # info; both meeting points are 90° corners (construction)
+    a = polygon([(0, 0), (10, 0), (10, 10)], closed=False)
+    b = polygon([(10, 10), (0, 10), (0, 0)], closed=False)
+    found = check_document(doc_of(a, b))
+    assert [f.severity for f in of_kind(found, "open-contour")] == ["info", "info"]
+    assert len(of_kind(found, "corner")) == 4 and of_kind(found, "gap") == []
