@@ -73,6 +73,7 @@ _CLASS[ord(",")] = 3
 _CLASS_TABLE = bytes(_CLASS.astype(np.uint8).tolist())
 _TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
 _NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
+_GLUED_RE = re.compile(rb"[0-9.][-+]")  # a sign right after a number: no separator
 _DROP_WSP = str.maketrans("", "", _WSP)
 _IS_DIGIT = np.zeros(256, dtype=bool)
 _IS_DIGIT[ord("0") : ord("9") + 1] = True
@@ -195,9 +196,12 @@ def _lex_fast(d: str) -> _Tokens | None:
         return None if raw.strip() else _Tokens(b"", np.zeros(0, np.int64), np.zeros(0))
     if commands[0] not in b"Mm":
         return None
+    if _GLUED_RE.search(raw, 0, 4096):
+        # The start already shows numbers run together ("1-2"): separate them first.
+        return _lex_bytes(_separate(raw), commands)
     tok = _lex_bytes(raw, commands)
     if tok is None:
-        # Numbers run together ("1-2", ".5.5"): separate them and try once more.
+        # Numbers run together later on ("1-2", ".5.5"): separate them and try once more.
         spaced = _separate(raw)
         if spaced is not raw:
             tok = _lex_bytes(spaced, commands)
