@@ -1,4 +1,12 @@
-"""Findings (G0/G1/G2 breaks, cusps, ...) computed from the model, incrementally (no Qt)."""
+"""Findings (G0/G1/G2 breaks, cusps, ...) computed from the model, incrementally (no Qt).
+
+>>> from outlinebench.model import Document
+>>> check_document(Document())           # a whole document at once
+[]
+>>> checker = Checker(CheckSettings())   # or, in an editor, after every edit:
+>>> checker.update(Document())           # recomputes only what changed since the last call
+[]
+"""
 
 from outlinebench.diagnostics.checker import Checker, check_document
 from outlinebench.diagnostics.findings import (

@@ -5,6 +5,15 @@ A finding names its kind (``gap``, ``kink``, ...), a severity (``error``, ``warn
 measured (``value`` with its ``unit``). Checks return findings and never print; reports
 (:mod:`outlinebench.diagnostics.report`) turn them into text or JSON.
 
+Severities
+----------
+error: gap, cusp, self-intersection, wrong-direction, and a kink or corner at a join the file
+marks smooth. warning: kink, curvature-jump between two curved pieces, open-contour,
+tiny-segment, degenerate-handle. info: corner, curvature-jump where a straight piece runs
+into a curve (both configurable in :class:`~outlinebench.diagnostics.CheckSettings`),
+missing-extremum, and an open contour whose ends all meet other ends. ``check`` exits with 1
+when anything of warning level or worse is found.
+
 Numbering
 ---------
 ``outline`` is the index of the SVG element the outline came from
