@@ -144,3 +144,16 @@ def test_degenerate_contours_give_no_false_crossings():
     (c,) = [f for f in found if f.kind == "corner"]
     assert c.value == pytest.approx(90.0)
     assert check_document(Document()) == []
+
+
+def test_opening_and_closing_a_contour_incrementally():
+    doc = _sample_doc()
+    ch = Checker()
+    ch.update(doc)
+    c = doc.contour(1, 0)  # the circle
+    opened = Contour(c.segments, False)
+    doc2 = doc.replace_contour(1, 0, opened)
+    assert as_set(ch.update(doc2)) == as_set(check_document(doc2))
+    assert ch.last_segments_computed == 0  # same segment objects, only joins and ends redone
+    assert any(f.kind == "open-contour" for f in ch.findings)
+    assert as_set(ch.update(doc)) == as_set(check_document(doc))
