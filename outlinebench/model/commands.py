@@ -99,6 +99,13 @@ SMOOTH_ANGLE_TOLERANCE_DEG = 1.0
 DEGREE_LOWERING_TOLERANCE = 0.01
 # Samples (uniform in t) used for the least-squares degree lowering.
 _LOWERING_SAMPLES = 65
+# A handle typed next to a smooth join with a line still counts as on the line's direction
+# when it is within this fraction of the line's length (at least 1 unit) of it: rounding of
+# typed coordinates, not a kink.
+_ON_LINE_RELATIVE = 1e-9
+# Units in the last place searched around each inner coordinate when looking for a
+# lower-degree segment that elevates to exactly the given control points.
+_EXACT_LOWERING_ULPS = 4
 
 
 class PointRef(NamedTuple):
@@ -490,14 +497,20 @@ def _move_in_contour(
             p = pos(("n", node))
             hp = segs[s][i]
             if opp_key is None:
-                # The other side is a line: keep the handle on the line's direction.
+                # The other side is a line: keep the handle on the line's direction. A handle
+                # given exact coordinates (SetPoint) keeps them; if they leave the line's
+                # direction the join becomes a corner, so the stated intent stays true.
                 far = other_seg[0] if side == "start" else other_seg[-1]
                 d = p - far
                 dn = math.hypot(d[0], d[1])
                 if dn > 0.0:
                     u = d / dn
                     along = max(0.0, float(np.dot(hp - p, u)))
-                    segs[s][i] = p + along * u
+                    on_line = p + along * u
+                    if h not in targets:
+                        segs[s][i] = on_line
+                    elif math.hypot(*(hp - on_line)) > _ON_LINE_RELATIVE * max(1.0, dn):
+                        joins[j] = "corner"
                 continue
             if symmetric:
                 segs[opp_key[1]][opp_key[2]] = 2.0 * p - hp
@@ -624,7 +637,10 @@ class SetPoint(Command):
 
     Notes
     -----
-    Handles follow the rules of :class:`MovePoints` (smooth joins stay collinear).
+    Other handles follow the rules of :class:`MovePoints` (smooth joins stay collinear). A
+    handle set next to a smooth join whose other side is a line is not projected onto the
+    line's direction (it gets exactly ``xy``); when ``xy`` leaves that direction the join's
+    intent becomes corner.
     """
 
     label = "Set point"
@@ -750,6 +766,13 @@ class DeletePoint(Command):
             raise CommandError(
                 "a contour of one segment cannot lose a point; delete the contour instead"
             )
+        if c.closed and n == 2:
+            # One cubic from a point back to itself, keeping both end tangents, collapses
+            # when the tangents are parallel (a smooth start) and is rarely what was meant.
+            raise CommandError(
+                "a closed contour of two segments cannot lose a point (one segment cannot "
+                "close on itself with both tangents kept); delete the contour instead"
+            )
         segs = list(c.segments)
         joins = list(c.joins)
         if not c.closed and node in (0, n):
@@ -786,6 +809,45 @@ class DeletePoint(Command):
             )
         new = replace(c, segments=tuple(new_segs), joins=tuple(new_joins))
         return doc.replace_contour(self.ref.outline, self.ref.contour, new)
+
+
+def _exact_lower(seg: FloatArray, degree: int) -> FloatArray | None:
+    """A segment of ``degree`` whose exact elevation is bit for bit ``seg``, or None.
+
+    Inverting elevation (Farin §6.1) from the start, Q_i = (n P_i − i Q_{i−1}) / (n − i), or
+    from the end, gives the lower-degree points up to rounding; the values within
+    :data:`_EXACT_LOWERING_ULPS` units in the last place of either (and of their mean) are
+    tried, each coordinate on its own (elevation does not mix x and y). Where several fit,
+    the one with the shortest decimal form is kept.
+    """
+    if degree == 1:
+        q = np.array([seg[0], seg[-1]])
+    else:  # cubic to quadratic: one inner point
+        ahead = (3.0 * seg[1] - seg[0]) / 2.0
+        back = (3.0 * seg[2] - seg[3]) / 2.0
+        if np.max(np.abs(ahead - back)) > 64.0 * np.spacing(np.max(np.abs(seg))):
+            return None  # the two inversions disagree beyond rounding: not an elevation
+        q = np.array([seg[0], ahead, seg[-1]])
+        for d in (0, 1):
+            fits = []
+            for guess in (ahead[d], back[d], 0.5 * (ahead[d] + back[d])):
+                for k in range(-_EXACT_LOWERING_ULPS, _EXACT_LOWERING_ULPS + 1):
+                    v = float(guess)
+                    for _ in range(abs(k)):
+                        v = float(np.nextafter(v, math.copysign(math.inf, k)))
+                    q[1, d] = v
+                    e = elevate(q)
+                    if e[1, d] == seg[1, d] and e[2, d] == seg[2, d]:
+                        fits.append(v)
+            if not fits:
+                return None
+            # Several values may elevate to the same bits: the shortest decimal is the one
+            # most likely typed or read from a file.
+            q[1, d] = min(fits, key=lambda v: (len(repr(v)), abs(v - ahead[d])))
+    e = q
+    while e.shape[0] < seg.shape[0]:
+        e = elevate(e)
+    return q if np.array_equal(e, seg) else None
 
 
 def _lower(seg: FloatArray, degree: int) -> FloatArray:
@@ -829,9 +891,11 @@ class ChangeDegree(Command):
 
     Notes
     -----
-    Elevation is exact (Farin §6.1). Lowering is a least-squares fit with end points kept,
-    in the same parametrisation (Farin §6.3 discusses degree reduction); a segment that is an
-    elevated lower-degree one is recovered exactly.
+    Elevation is exact (Farin §6.1). Lowering first looks for a lower-degree segment whose
+    elevation is bit for bit the given one (nearly every segment made by elevating; a few
+    leave no such preimage after rounding) and takes it, with deviation 0. Otherwise it is a
+    least-squares fit with end points kept, in the same parametrisation (Farin §6.3 discusses
+    degree reduction), whose deviation is measured.
     """
 
     def __init__(
@@ -860,6 +924,9 @@ class ChangeDegree(Command):
             new = seg
             while new.shape[0] - 1 < self.degree:
                 new = elevate(new)
+            self.deviation = 0.0
+        elif (exact := _exact_lower(seg, self.degree)) is not None:
+            new = exact
             self.deviation = 0.0
         else:
             new = _lower(seg, self.degree)
@@ -905,12 +972,26 @@ class SetJoinIntent(Command):
         return doc.replace_contour(self.outline, self.contour, c.with_segments(c.segments, joins))
 
 
+def _closing_snap(segments: Sequence[FloatArray]) -> float:
+    """Largest end-to-start distance treated as rounding when closing a contour.
+
+    The rule of :meth:`Contour.from_points`: 1e-9 of the contour's size (at least 1e-9 unit)
+    plus 8 units in the last place of its largest coordinate.
+    """
+    every = np.concatenate(segments)
+    size = float(np.max(np.ptp(every, axis=0)))
+    far = float(np.max(np.abs(every)))
+    return 1e-9 * max(1.0, size) + 8.0 * float(np.spacing(far))
+
+
 class SetClosed(Command):
     """Close or open a contour.
 
-    Closing a contour whose ends do not coincide exactly adds a line segment from its end to
-    its start; the new joins have no stated intent. Opening keeps every segment (the join at
-    the start point is removed).
+    Closing a contour whose ends do not coincide adds a line segment from its end to its
+    start; the new joins have no stated intent. Ends apart by no more than rounding (the
+    tolerance :meth:`Contour.from_points` uses to make ends coincide) are made to coincide
+    instead, by moving the last segment's end onto the start. Opening keeps every segment
+    (the join at the start point is removed).
     """
 
     def __init__(self, outline: int, contour: int, closed: bool) -> None:
@@ -933,7 +1014,15 @@ class SetClosed(Command):
             start, end = c.segments[0][0], c.segments[-1][-1]
             segs = c.segments
             joins = c.joins
-            if not np.array_equal(start, end):
+            if np.array_equal(start, end):
+                pass
+            elif float(np.max(np.abs(end - start))) <= _closing_snap(segs):
+                # Ends apart by rounding only: move the end onto the start instead of
+                # adding a line a few ulps long.
+                last = segs[-1].copy()
+                last[-1] = start
+                segs = segs[:-1] + (_freeze(last),)
+            else:
                 segs = segs + (_freeze(np.array([end, start])),)
                 joins = joins + (None,)
             new = Contour(segs, True, joins + (None,))

@@ -432,14 +432,88 @@ def test_quadratic_handle_turns_its_smooth_neighbours_on_both_sides():
         assert abs(u[0] * v[1] - u[1] * v[0]) < 1e-9 and np.dot(u, v) < 0
 
 
-def test_delete_point_of_a_two_segment_closed_contour_gives_a_closed_cubic():
+def test_regression_delete_point_of_a_two_segment_closed_contour_is_refused():
+    # Defect: the fit of one cubic from a point back to itself with both (here parallel)
+    # tangents kept collapsed the contour to a line (deviation = the whole width). Expected:
+    # a CommandError telling the user to delete the contour; the document is unchanged.
     segs = [
         [[0.0, 0.0], [0.0, 10.0], [20.0, 10.0], [20.0, 0.0]],
         [[20.0, 0.0], [20.0, -10.0], [0.0, -10.0], [0.0, 0.0]],
     ]
     doc = Document((Outline((Contour.from_points(segs, closed=True),)),))
-    cmd = DeletePoint(PointRef(0, 0, 1, 0))
-    c = cmd.apply(doc).contour(0, 0)
-    assert c.closed and len(c.segments) == 1 and len(c.joins) == 1
-    np.testing.assert_array_equal(c.segments[0][0], c.segments[0][-1])
-    assert np.isfinite(cmd.deviation) and cmd.deviation > 0
+    for node in (0, 1):
+        with pytest.raises(CommandError, match="delete the contour instead"):
+            DeletePoint(PointRef(0, 0, node, 0)).apply(doc)
+    lines = Contour.from_points([[[0.0, 0.0], [1.0, 0.0]], [[1.0, 0.0], [0.0, 0.0]]], closed=True)
+    with pytest.raises(CommandError, match="delete the contour instead"):
+        DeletePoint(PointRef(0, 0, 1, 0)).apply(Document((Outline((lines,)),)))
+
+
+def test_regression_set_point_puts_a_handle_next_to_a_line_exactly():
+    # Defect: SetPoint projected a handle next to a smooth join with a line onto the line's
+    # direction, so (3, 0.5) became (3, 0) despite the documented "gets exactly these values".
+    # Expected: exactly the typed values; the join, no longer smooth, is marked corner. A
+    # value on the line's direction keeps the smooth intent.
+    segs = [[[0.0, 0.0], [2.0, 0.0]], [[2.0, 0.0], [3.0, 0.0], [4.0, 1.0], [4.0, 2.0]]]
+    doc = Document((Outline((Contour.from_points(segs, joins=("smooth",)),)),))
+    new = SetPoint(PointRef(0, 0, 1, 1), (3.0, 0.5)).apply(doc)
+    assert tuple(seg(new, 1)[1]) == (3.0, 0.5)
+    assert new.contour(0, 0).joins == ("corner",)
+    along = SetPoint(PointRef(0, 0, 1, 1), (3.5, 0.0)).apply(doc)
+    assert tuple(seg(along, 1)[1]) == (3.5, 0.0)
+    assert along.contour(0, 0).joins == ("smooth",)
+    # Dragging (MovePoints) still keeps the handle on the line (module rules).
+    moved = MovePoints([PointRef(0, 0, 1, 1)], (0.0, 0.5)).apply(doc)
+    assert tuple(seg(moved, 1)[1]) == (3.0, 0.0) and moved.contour(0, 0).joins == ("smooth",)
+
+
+def test_regression_closing_ends_apart_by_rounding_adds_no_segment():
+    # Defect: ends 1e-13 apart got a line 1e-13 long. Expected (the rule of
+    # Contour.from_points, 1e-9 of the contour's size): the last end moves onto the start.
+    open_c = Contour.from_points(
+        [[[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]], [[0.0, 1.0], [0.0, 1e-13]]]
+    )
+    doc = Document((Outline((open_c,)),))
+    c = SetClosed(0, 0, True).apply(doc).contour(0, 0)
+    assert c.closed and len(c.segments) == 2 and len(c.joins) == 2
+    np.testing.assert_array_equal(c.segments[-1], [[0.0, 1.0], [0.0, 0.0]])
+    assert c.segments[0] is open_c.segments[0]  # untouched segment shared
+    # A real gap (1e-6 of a unit-sized contour) still gets its line.
+    gap = Contour.from_points([[[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1e-6]]])
+    c2 = SetClosed(0, 0, True).apply(Document((Outline((gap,)),))).contour(0, 0)
+    assert len(c2.segments) == 2
+
+
+def test_regression_lowering_an_elevated_segment_is_bit_exact():
+    # Defect: lowering to_cubic(quad) gave 0.9999999999999999 for 1. Expected: the original
+    # quadratic bit for bit (degree elevation, Farin §6.1, inverted exactly), deviation 0.
+    # Random quadratics with up to 3 decimals (typed coordinates): the elevation of nearly
+    # all has an exact preimage; all of these do (checked, not assumed: elevate(result)).
+    from outlinebench.geometry.bezier import elevate, to_cubic
+
+    rng = np.random.default_rng(7)
+    quads = [np.array([[0.0, 0.0], [1.0, 3.0], [3.0, 1.0]])]
+    quads += [rng.uniform(-100, 100, (3, 2)).round(3) for _ in range(40)]
+    exact = 0
+    for q in quads:
+        cubic = to_cubic(q)
+        doc = Document((Outline((Contour.from_points([cubic]),)),))
+        cmd = ChangeDegree(SegmentRef(0, 0, 0), 2, tolerance=1e-9)
+        low = seg(cmd.apply(doc), 0)
+        if np.array_equal(elevate(low), cubic):
+            exact += 1
+            assert cmd.deviation == 0.0
+            np.testing.assert_array_equal(low, q)
+        else:
+            assert cmd.deviation <= 1e-9
+    assert exact >= 0.9 * len(quads)
+    first = ChangeDegree(SegmentRef(0, 0, 0), 2)
+    lowered = seg(
+        first.apply(Document((Outline((Contour.from_points([to_cubic(quads[0])]),)),))), 0
+    )
+    assert lowered.tolist() == [[0.0, 0.0], [1.0, 3.0], [3.0, 1.0]]
+    # A line elevated to a cubic comes back as the line.
+    line = np.array([[0.5, 0.25], [7.0, -3.0]])
+    doc = Document((Outline((Contour.from_points([to_cubic(line)]),)),))
+    cmd = ChangeDegree(SegmentRef(0, 0, 0), 1)
+    assert seg(cmd.apply(doc), 0).tolist() == line.tolist() and cmd.deviation == 0.0
