@@ -3,9 +3,10 @@
 :class:`LiveFindings` listens to the session's ``changed`` signal and hands each new document
 to an incremental :class:`outlinebench.diagnostics.Checker`, which recomputes only the
 contours and segments an edit replaced (the model keeps untouched ones as the same objects).
-A small edit therefore costs a fraction of a millisecond; a check that took longer than
-:data:`LIVE_BUDGET_MS` is not repeated on every mouse move but at most once per
-:data:`THROTTLE_MS`, so a drag stays smooth on large documents.
+A small edit therefore costs a fraction of a millisecond. During a drag, a check that took
+longer than :data:`LIVE_BUDGET_MS` is not repeated on every mouse move but at most once per
+:data:`THROTTLE_MS`, so the drag stays smooth on large documents; when the gesture ends the
+document is checked at once.
 """
 
 from __future__ import annotations
@@ -101,7 +102,9 @@ class LiveFindings(QObject):
     def _on_document_changed(self) -> None:
         if self._session.document is self.document:
             return
-        if self.last_ms <= LIVE_BUDGET_MS:
+        # Outside a gesture (an edit, undo, a file opened) the check runs at once; during a
+        # drag it runs at once when the last check was quick, else at most every THROTTLE_MS.
+        if not self._session.history.in_group or self.last_ms <= LIVE_BUDGET_MS:
             self.refresh()
         elif not self._timer.isActive():
             self._timer.start()

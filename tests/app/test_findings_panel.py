@@ -1,0 +1,209 @@
+"""Findings list: the planted defects of a sample, live findings while dragging, clicking a row."""
+
+import json
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+pytest.importorskip("PySide6")
+
+from PySide6.QtCore import QEvent, QPointF, Qt  # noqa: E402
+from PySide6.QtTest import QTest  # noqa: E402
+from qt_mouse import _send, screen  # noqa: E402
+
+from outlinebench.cli import main as cli_main  # noqa: E402
+from outlinebench.diagnostics import CheckSettings, check_document  # noqa: E402
+from outlinebench.io import load_svg  # noqa: E402
+from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+
+SAMPLE = Path(__file__).resolve().parents[2] / "samples" / "signshop-lettering-defects.svg"
+
+
+def _key(f):
+    # Identity of a finding for comparing lists (value rounded: the CLI prints JSON floats).
+    return (f["kind"], f["severity"], f["contour"], f["segment"], round(f["value"] or 0.0, 9))
+
+
+def _cli_findings(capsys, path, *extra):
+    """The command-line checker's findings of ``path`` (the outside reference)."""
+    code = cli_main(["check", "--json", *extra, str(path)])
+    assert code in (0, 1)
+    out = json.loads(capsys.readouterr().out)
+    report = out[0] if isinstance(out, list) else out
+    if "files" in report:
+        report = report["files"][0]
+    return report["findings"]
+
+
+@pytest.fixture
+def sample_window(window):
+    assert window.open_path(str(SAMPLE))
+    return window
+
+
+def test_sample_lists_every_planted_defect(sample_window, capsys):
+    win = sample_window
+    panel = win.findings_panel
+    reference = _cli_findings(capsys, SAMPLE)
+    # The same file read with outlinebench.io and checked directly agrees with the CLI.
+    direct = check_document(load_svg(SAMPLE))
+    assert sorted(_key(f._asdict()) for f in direct) == sorted(_key(f) for f in reference)
+    # Info hidden (the default): exactly the warnings and errors, errors listed first.
+    problems = [f for f in reference if f["severity"] != "info"]
+    rows = [panel.model.finding(r) for r in range(panel.model.rowCount())]
+    assert sorted(_key(f._asdict()) for f in rows) == sorted(_key(f) for f in problems)
+    severities = [f.severity for f in rows]
+    assert severities == sorted(severities, key=["error", "warning"].index)
+    # The planted defects are all there (samples/README.md lists them).
+    kinds = {f.kind for f in rows}
+    planted = {"gap", "kink", "cusp", "self-intersection", "wrong-direction", "tiny-segment"}
+    planted |= {"degenerate-handle", "curvature-jump", "open-contour"}
+    assert planted <= kinds
+    # The count line sums up every finding, hidden info ones included.
+    n_err = sum(f["severity"] == "error" for f in reference)
+    n_warn = sum(f["severity"] == "warning" for f in reference)
+    n_info = sum(f["severity"] == "info" for f in reference)
+    text = panel.summary.text()
+    assert f"{n_err} errors" in text and f"{n_warn} warnings" in text and f"{n_info} info" in text
+    # Show info: every finding of the CLI is listed.
+    panel.show_info.setChecked(True)
+    rows = [panel.model.finding(r) for r in range(panel.model.rowCount())]
+    assert sorted(_key(f._asdict()) for f in rows) == sorted(_key(f) for f in reference)
+    # The canvas frames what the list shows.
+    assert len(win.canvas.finding_marks) == len(reference)
+
+
+def test_values_are_shown_in_the_document_units(sample_window, capsys):
+    panel = sample_window.findings_panel
+    reference = _cli_findings(capsys, SAMPLE, "--units", "mm")
+    gap_ref = next(f for f in reference if f["kind"] == "gap")
+    row = next(r for r in range(panel.model.rowCount()) if panel.model.rows[r][0].kind == "gap")
+    text = panel.model.cell_text(panel.model.rows[row][0], 3)
+    # width="370mm" on a 370-unit viewBox: 1 user unit = 1 mm (SVG 1.1 §7.10).
+    number, unit = text.split()
+    assert unit == "mm"
+    assert float(number) == pytest.approx(gap_ref["value"], abs=5e-4)  # shown to 0.001 mm
+    kink = next(r for r in range(panel.model.rowCount()) if panel.model.rows[r][0].kind == "kink")
+    assert panel.model.cell_text(panel.model.rows[kink][0], 3).endswith("°")
+
+
+def test_clicking_a_finding_selects_and_centres_its_place(sample_window, qtbot):
+    win = sample_window
+    panel, canvas, s = win.findings_panel, win.canvas, win.session
+    model = panel.model
+    row = next(r for r in range(model.rowCount()) if model.finding(r).kind == "tiny-segment")
+    f = model.finding(row)
+    index = model.index(row, 1)
+    rect = panel.view.visualRect(index)
+    QTest.mouseClick(panel.view.viewport(), Qt.MouseButton.LeftButton, pos=rect.center())
+    assert win.current_finding == f
+    # The selected point is the on-curve point of that segment nearest to the finding.
+    (key,) = s.selected_points()
+    oi, ci, si, i = key
+    doc = s.document
+    pt = doc.outlines[oi].contours[ci].segments[si][i]
+    seg = doc.outlines[0].contours[0].segments[f.segment]  # contour 0 is letter H
+    ends = [seg[0], seg[-1]]
+    nearest = min(ends, key=lambda p: math.hypot(p[0] - f.x, p[1] - f.y))
+    np.testing.assert_allclose(pt, nearest)
+    # Centred: the canvas centre shows the finding's place.
+    cx, cy = canvas.to_doc(QPointF(canvas.width() / 2, canvas.height() / 2))
+    assert cx == pytest.approx(f.x, abs=1e-9) and cy == pytest.approx(f.y, abs=1e-9)
+    # Tiny (0.005 mm long): zoomed in until it spans PLACE_MIN_PX on screen.
+    from outlinebench.app.canvas import PLACE_MIN_PX
+
+    assert f.value * canvas.view.scale >= PLACE_MIN_PX - 1e-9
+    # The picked finding is drawn doubled on the canvas.
+    assert canvas.current_finding == f
+
+
+def _s_curve_document() -> Document:
+    """An invented Harbour Lane Signs swash: a line running into a cubic, tangent at (40, 50)
+    (both leave along +x), no join intent stated. mm, 1 unit = 1 mm."""
+    c = Contour.from_points(
+        [[[0, 50], [40, 50]], [[40, 50], [60, 50], [80, 30], [80, 10]]],
+        closed=False,
+        joins=(None,),
+    )
+    return Document(
+        (Outline((c,), "swash", 0),),
+        width_mm=120.0,
+        height_mm=80.0,
+        view_box=(0.0, 0.0, 120.0, 80.0),
+        mm_per_unit=1.0,
+        units="mm",
+    )
+
+
+def test_dragging_a_point_opens_a_kink_live(window, qtbot):
+    win, canvas, s = window, window.canvas, window.session
+    s.load(_s_curve_document())
+    canvas.fit_to_outline()
+    assert not [f for f in win.live.findings if f.kind == "kink"]
+    start = screen(canvas, (0.0, 50.0))
+    end = start + QPointF(0.0, 12.0)  # down: the line now arrives at (40, 50) slanted
+    _send(canvas, QEvent.Type.MouseButtonPress, start)
+    for k in range(1, 5):
+        _send(canvas, QEvent.Type.MouseMove, start + (end - start) * (k / 4))
+    # Still dragging: the kink is already listed and framed on the canvas.
+    assert s.history.in_group
+    qtbot.waitUntil(lambda: any(f.kind == "kink" for f in win.live.findings), timeout=2000)
+    kink = next(f for f in win.live.findings if f.kind == "kink")
+    assert kink in win.canvas.finding_marks
+    assert any(model_f.kind == "kink" for model_f, _ in win.findings_panel.model.rows)
+    # Its angle, measured independently: the turn between the line's direction and the
+    # cubic's first handle, atan2 of the cross and dot products (closed form).
+    c = s.document.outlines[0].contours[0]
+    a = c.segments[0][1] - c.segments[0][0]
+    b = c.segments[1][1] - c.segments[1][0]
+    turn = math.degrees(abs(math.atan2(a[0] * b[1] - a[1] * b[0], float(np.dot(a, b)))))
+    assert 0.5 < turn < 10.0  # between the default kink and corner angles
+    assert kink.value == pytest.approx(turn, abs=1e-9)
+    assert (kink.x, kink.y) == pytest.approx((40.0, 50.0))
+    _send(canvas, QEvent.Type.MouseButtonRelease, end)
+    # Undoing the drag removes the finding again.
+    s.undo()
+    qtbot.waitUntil(lambda: not any(f.kind == "kink" for f in win.live.findings), timeout=2000)
+
+
+def test_tolerances_dialog_checks_again(sample_window, monkeypatch):
+    win = sample_window
+
+    def fill(dialog):
+        dialog.kink.setValue(4.0)  # the O's 3.04° kink is now below the limit
+        dialog.accept()
+        return dialog.result()
+
+    monkeypatch.setattr(win, "run_dialog", fill)
+    assert win.edit_tolerances()
+    ref = check_document(load_svg(SAMPLE), CheckSettings(kink_angle=4.0))
+    assert sorted(win.live.findings) == sorted(ref)
+    assert win.live.settings.kink_angle == 4.0
+
+    def defaults(dialog):
+        dialog.show_settings(CheckSettings())
+        dialog.corner.setValue(0.2)  # not above the kink angle: refused, stays open
+        dialog.accept()
+        assert "kink angle < corner angle" in dialog.error_label.text()
+        dialog.reject()
+        return dialog.result()
+
+    monkeypatch.setattr(win, "run_dialog", defaults)
+    assert not win.edit_tolerances()
+    assert win.live.settings.kink_angle == 4.0
+
+
+def test_hovering_a_finding_mark_names_its_kind(sample_window, qtbot):
+    from PySide6.QtGui import QHelpEvent
+    from PySide6.QtWidgets import QApplication, QToolTip
+
+    canvas = sample_window.canvas
+    f = next(f for f in canvas.finding_marks if f.kind == "cusp")
+    pos = screen(canvas, (f.x, f.y)).toPoint()
+    ev = QHelpEvent(QEvent.Type.ToolTip, pos, canvas.mapToGlobal(pos))
+    QApplication.sendEvent(canvas, ev)
+    qtbot.waitUntil(QToolTip.isVisible, timeout=2000)
+    assert "cusp" in QToolTip.text() and "error" in QToolTip.text()
+    QToolTip.hideText()
