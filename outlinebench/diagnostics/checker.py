@@ -59,7 +59,10 @@ from outlinebench.model.document import Contour, Document
 
 __all__ = ["check_document", "Checker"]
 
-_EMPTY: tuple = ()
+# Above this many changed segments, candidate pairs come from a sort-and-sweep over all
+# segments of the changed outlines rather than from comparing each changed segment's box with
+# every other one (which costs changed × all).
+_SWEEP_THRESHOLD = 256
 
 
 # Marks "every segment of the contour changed" in the map of changed rows.
@@ -603,7 +606,7 @@ class Checker:
                             f = f._replace(segment=sa, other_segment=sb)
                     kept[oi].append((ia, ib, f))
 
-        if changed.all() or changed.sum() > 256:
+        if changed.all() or changed.sum() > _SWEEP_THRESHOLD:
             i, j = overlapping_pairs(table.box, group, limits.gap)
             sel = changed[i] | changed[j]
             i, j = i[sel], j[sel]
