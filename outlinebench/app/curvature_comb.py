@@ -52,7 +52,7 @@ __all__ = [
 # Wanted distance between neighbouring teeth on screen, logical px (one tooth every few
 # pixels reads as a continuous comb without merging into a solid area). Common practice,
 # no source.
-TOOTH_SPACING_PX = 6.0
+TOOTH_SPACING_PX = 8.0
 # Samples per segment: at least both ends and the middle, at most 65 (powers of two plus one,
 # so the samples of a coarser level are a subset of the finer one's).
 MIN_TEETH = 3
@@ -67,7 +67,7 @@ MAX_COMB_SEGMENTS = 4000
 # of |κ| over segment ends) this fraction of a typical contour's size (median diagonal of the
 # contours' boxes). Our choice, no source: long enough to see a 5 % jump, short enough not
 # to cover neighbouring letters.
-AUTO_TOOTH_FRACTION = 0.15
+AUTO_TOOTH_FRACTION = 0.1
 
 FloatArray = NDArray[np.float64]
 

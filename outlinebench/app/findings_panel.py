@@ -1,7 +1,7 @@
 """The findings list beside the canvas: every finding of the open document, live.
 
-One row per finding — severity (with its canvas mark as icon), kind, where (contour, segment
-or join), the measured value with its unit in the document's units, and the position. Rows
+One row per finding — severity (with its canvas mark as icon), kind, contour, place in it
+(segment or join), the measured value with its unit in the document's units, and the position. Rows
 are sorted by severity (errors first), then in document order; clicking a column header sorts
 by that column instead. A count line sums up the document, and "Show info" hides or shows the
 info-level findings (on the canvas too). Clicking a row asks the window to show that place.
@@ -34,7 +34,7 @@ from outlinebench.diagnostics.findings import SEVERITY_RANK
 
 __all__ = ["FindingsModel", "FindingsPanel", "value_text", "where_text", "COLUMNS"]
 
-COLUMNS = ("Severity", "Kind", "Where", "Value", "Position")
+COLUMNS = ("Severity", "Kind", "Contour", "Place", "Value", "Position")
 _Index = QModelIndex | QPersistentModelIndex
 
 
@@ -44,31 +44,34 @@ def _num(v: float, decimals: int) -> str:
     return f"{v:.{decimals}f}"
 
 
-def value_text(f: Finding, units: DisplayUnits) -> str:
-    """The measured value with its unit, for a finding already converted to ``units``."""
+def value_text(f: Finding, units: DisplayUnits, detail: bool = True) -> str:
+    """The measured value with its unit, for a finding already converted to ``units``
+    (with ``detail``, a curvature jump also gives κ on both sides)."""
     if f.value is None:
         return ""
     if f.unit == "degrees":
         return f"{_num(f.value, 2)}°"
     if f.unit == "relative":
         text = f"{f.value * 100:.1f} %"
-        if f.curvature_before is not None and f.curvature_after is not None:
+        if detail and f.curvature_before is not None and f.curvature_after is not None:
             text += f"  (κ {f.curvature_before:.4g} → {f.curvature_after:.4g} per {units.name})"
         return text
     if f.unit == units.name:
         return f"{_num(f.value, units.decimals)} {units.name}"
     if f.unit == f"{units.name}^2":
-        return f"{_num(f.value, units.decimals)} {units.name}² (area)"
+        return f"{_num(f.value, units.decimals)} {units.name}²" + (" (area)" if detail else "")
     return f"{f.value:.4g} {f.unit}"
 
 
 def where_text(f: Finding) -> str:
-    """ "contour 3, join 2" / "contour 3, segment 1" / "contour 3"."""
-    text = f"contour {f.contour}"
+    """The place within the contour: "join 2", "segment 1", "whole contour", plus the other
+    contour of a gap or crossing between two contours."""
     if f.join is not None:
-        text += f", join {f.join}"
+        text = f"join {f.join}"
     elif f.segment is not None:
-        text += f", segment {f.segment}"
+        text = f"segment {f.segment}"
+    else:
+        text = "whole contour"
     if f.other_contour is not None and f.other_contour != f.contour:
         text += f" ↔ contour {f.other_contour}"
     return text
@@ -124,7 +127,15 @@ class FindingsModel(QAbstractTableModel):
         if role == Qt.ItemDataRole.DecorationRole and col == 0:
             return finding_icon(f.severity)
         if role == Qt.ItemDataRole.ToolTipRole:
-            return f"{f.kind} ({f.severity}): {f.message}"
+            units = self.units
+            assert units is not None
+            return (
+                f"<b>{f.kind}</b> ({f.severity}): {f.message}<br>measured "
+                f"{value_text(f, units)} at x {f.x:.{units.decimals}f}, "
+                f"y {f.y:.{units.decimals}f} {units.name}"
+            )
+        if role == Qt.ItemDataRole.TextAlignmentRole and col in (2, 4):
+            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
         return None
 
     def cell_text(self, f: Finding, col: int) -> str:
@@ -135,9 +146,11 @@ class FindingsModel(QAbstractTableModel):
         if col == 1:
             return f.kind
         if col == 2:
-            return where_text(f)
+            return str(f.contour)
         if col == 3:
-            return value_text(f, units)
+            return where_text(f)
+        if col == 4:
+            return value_text(f, units, detail=False)
         return f"{f.x:.{units.decimals}f}, {f.y:.{units.decimals}f}"
 
     def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
@@ -150,9 +163,11 @@ class FindingsModel(QAbstractTableModel):
         column, order = self._sort
         if column == 0:
             key = lambda r: _order_key(r[0])  # noqa: E731
-        elif column == 3:
-            key = lambda r: (r[0].unit, r[0].value if r[0].value is not None else -1.0)  # noqa: E731
+        elif column == 2:
+            key = lambda r: (r[0].contour, _order_key(r[0]))  # noqa: E731
         elif column == 4:
+            key = lambda r: (r[0].unit, r[0].value if r[0].value is not None else -1.0)  # noqa: E731
+        elif column == 5:
             key = lambda r: (r[0].y, r[0].x)  # noqa: E731
         else:
             key = lambda r: (self.cell_text(r[0], column), _order_key(r[0]))  # noqa: E731
@@ -223,7 +238,7 @@ class FindingsPanel(QWidget):
         self.view.sortByColumn(0, Qt.SortOrder.AscendingOrder)
         header = self.view.header()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        for col, width in enumerate((74, 118, 122, 112, 100)):
+        for col, width in enumerate((82, 114, 54, 98, 80, 110)):
             self.view.setColumnWidth(col, width)
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)

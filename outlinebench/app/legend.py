@@ -1,4 +1,5 @@
 """A key to the canvas marks, drawn with the same code that draws them on the canvas."""
+# Rows: join marks, handles and selection; then finding frames by severity; then the comb.
 
 from __future__ import annotations
 
@@ -9,6 +10,7 @@ from PySide6.QtWidgets import QWidget
 from outlinebench.app import style
 from outlinebench.app.canvas_painter import mark_path
 from outlinebench.app.contour_graphics import JoinMark
+from outlinebench.app.finding_marks import paint_frame
 
 __all__ = ["MarkKey"]
 
@@ -20,6 +22,10 @@ _ROWS = [
     ("end", True, "End of an open contour"),
     ("handle", True, "Handle, in the colour of its join"),
     ("selected", True, "Selected point"),
+    ("error", True, "Error found here (diamond)"),
+    ("warning", True, "Warning found here (square)"),
+    ("info", True, "Note found here (dotted; Show info)"),
+    ("comb", True, "Curvature comb; a step = G2 break"),
 ]
 _ROW_H = 22
 
@@ -40,7 +46,13 @@ class MarkKey(QWidget):
         for row, (kind, stated, text) in enumerate(_ROWS):
             y = 4 + row * _ROW_H + _ROW_H / 2
             x = 18.0
-            if kind == "handle":
+            if kind in ("error", "warning", "info"):
+                paint_frame(p, x, y, kind)
+                p.setPen(QPen(style.OUTLINE, 1.0))
+                p.drawPoint(QPointF(x, y))
+            elif kind == "comb":
+                self._paint_comb_sample(p, x, y)
+            elif kind == "handle":
                 colour = style.SMOOTH
                 p.setPen(QPen(colour, 1.0))
                 p.drawLine(QPointF(x - 12, y), QPointF(x + 8, y))
@@ -79,3 +91,18 @@ class MarkKey(QWidget):
             p.setPen(self.palette().color(self.foregroundRole()))
             p.drawText(QPointF(48, y + 5), text)
         p.end()
+
+    @staticmethod
+    def _paint_comb_sample(p: QPainter, x: float, y: float) -> None:
+        """A straight stroke with a comb whose teeth double in length at the middle: the
+        step a curvature jump (G2 break) makes."""
+        x0, xm, x1, base = x - 14.0, x + 1.0, x + 16.0, y + 6.0
+        p.setPen(QPen(style.COMB_TOOTH, 1.0))
+        for k in range(11):
+            sx = x0 + (x1 - x0) * k / 10
+            p.drawLine(QPointF(sx, base), QPointF(sx, base - (4.0 if sx < xm else 10.0)))
+        p.setPen(QPen(style.COMB_EDGE, 1.3))
+        p.drawLine(QPointF(x0, base - 4.0), QPointF(xm, base - 4.0))
+        p.drawLine(QPointF(xm, base - 10.0), QPointF(x1, base - 10.0))
+        p.setPen(QPen(style.OUTLINE, 1.0))
+        p.drawLine(QPointF(x0, base), QPointF(x1, base))

@@ -54,7 +54,7 @@ NAVIGATION_HINT = (
 # The comb scale slider: position k multiplies the automatic scale by 2^(k/2), from 1/16 to 16.
 COMB_STEPS = 8
 # Starting width of the findings dock, logical px: severity, kind, place and value columns.
-FINDINGS_DOCK_WIDTH = 450
+FINDINGS_DOCK_WIDTH = 470
 
 # A new drawing: a landscape A4 sheet in millimetres (ISO 216: 297 mm × 210 mm).
 NEW_PAGE_MM = (297.0, 210.0)

@@ -138,7 +138,7 @@ class SelectionPanel(QWidget):
         c.addRow(self.contour_info)
         lay.addWidget(self.contour_box)
         lay.addStretch(1)
-        key_box = QGroupBox("How points are drawn")
+        key_box = QGroupBox("How points and findings are drawn")
         kl = QVBoxLayout(key_box)
         kl.addWidget(MarkKey())
         lay.addWidget(key_box)

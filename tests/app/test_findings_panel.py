@@ -13,11 +13,13 @@ from PySide6.QtCore import QEvent, QPointF, Qt  # noqa: E402
 from PySide6.QtTest import QTest  # noqa: E402
 from qt_mouse import _send, screen  # noqa: E402
 
+from outlinebench.app.findings_panel import COLUMNS  # noqa: E402
 from outlinebench.cli import main as cli_main  # noqa: E402
 from outlinebench.diagnostics import CheckSettings, check_document  # noqa: E402
 from outlinebench.io import load_svg  # noqa: E402
 from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
 
+VALUE = COLUMNS.index("Value")
 SAMPLE = Path(__file__).resolve().parents[2] / "samples" / "signshop-lettering-defects.svg"
 
 
@@ -80,13 +82,13 @@ def test_values_are_shown_in_the_document_units(sample_window, capsys):
     reference = _cli_findings(capsys, SAMPLE, "--units", "mm")
     gap_ref = next(f for f in reference if f["kind"] == "gap")
     row = next(r for r in range(panel.model.rowCount()) if panel.model.rows[r][0].kind == "gap")
-    text = panel.model.cell_text(panel.model.rows[row][0], 3)
+    text = panel.model.cell_text(panel.model.rows[row][0], VALUE)
     # width="370mm" on a 370-unit viewBox: 1 user unit = 1 mm (SVG 1.1 §7.10).
     number, unit = text.split()
     assert unit == "mm"
     assert float(number) == pytest.approx(gap_ref["value"], abs=5e-4)  # shown to 0.001 mm
     kink = next(r for r in range(panel.model.rowCount()) if panel.model.rows[r][0].kind == "kink")
-    assert panel.model.cell_text(panel.model.rows[kink][0], 3).endswith("°")
+    assert panel.model.cell_text(panel.model.rows[kink][0], VALUE).endswith("°")
 
 
 def test_clicking_a_finding_selects_and_centres_its_place(sample_window, qtbot):
