@@ -379,7 +379,7 @@ def offset_contour(
                         tj,
                         float(p[0]),
                         float(p[1]),
-                        rad,
+                        float(rad),
                         f"segment {i} bends toward the tool on radius {rad:.4g}, smaller than "
                         f"the tool radius {r:.4g}: the tool cannot follow it",
                     )

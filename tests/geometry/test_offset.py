@@ -1,0 +1,200 @@
+"""Tests of outlinebench.geometry.offset against analytic offsets and shapely measurements."""
+
+import math
+
+import bezier
+import numpy as np
+import pytest
+import shapely
+
+from outlinebench.errors import InvalidGeometryError
+from outlinebench.geometry.offset import offset_contour
+
+# Radial error of the cubic quarter circle with handle 4/3·tan(π/8): 2.73e-4 of the radius
+# (Dokken, Dæhlen, Lyche & Mørken 1990). Our "circles" are such cubics, so an analytic
+# comparison must allow it (scaled by the radius) on top of the offset tolerance.
+QUARTER_ARC_ERROR = 2.73e-4
+
+
+def arc(cx, cy, r, a0, a1):
+    """One cubic arc of a circle from angle a0 to a1 (|a1 − a0| ≤ π/2)."""
+    k = 4 / 3 * math.tan((a1 - a0) / 4) * r
+    p0 = np.array([cx + r * math.cos(a0), cy + r * math.sin(a0)])
+    p3 = np.array([cx + r * math.cos(a1), cy + r * math.sin(a1)])
+    d0 = np.array([-math.sin(a0), math.cos(a0)])
+    d3 = np.array([-math.sin(a1), math.cos(a1)])
+    return np.array([p0, p0 + k * d0, p3 - k * d3, p3])
+
+
+def circle(r, cx=0.0, cy=0.0):
+    segs = [arc(cx, cy, r, i * math.pi / 2, (i + 1) * math.pi / 2) for i in range(4)]
+    segs[-1][3] = segs[0][0]
+    return segs
+
+
+def rounded_rect(x0, y0, x1, y1, rc):
+    """Counter-clockwise rounded rectangle: lines and quarter-circle cubics."""
+    segs = [
+        np.array([[x0 + rc, y0], [x1 - rc, y0]], dtype=float),
+        arc(x1 - rc, y0 + rc, rc, -math.pi / 2, 0),
+        np.array([[x1, y0 + rc], [x1, y1 - rc]], dtype=float),
+        arc(x1 - rc, y1 - rc, rc, 0, math.pi / 2),
+        np.array([[x1 - rc, y1], [x0 + rc, y1]], dtype=float),
+        arc(x0 + rc, y1 - rc, rc, math.pi / 2, math.pi),
+        np.array([[x0, y1 - rc], [x0, y0 + rc]], dtype=float),
+        arc(x0 + rc, y0 + rc, rc, math.pi, 1.5 * math.pi),
+    ]
+    for i in range(len(segs)):
+        segs[i][0] = segs[i - 1][-1]
+    return segs
+
+
+def slotted_block():
+    """A letter-like block 40 × 50 with a slot 4 wide cut from the top, its end a half circle
+    of radius 2 about (20, 12). Clockwise in y-up axes."""
+    segs = [
+        np.array([[0.0, 0.0], [0.0, 50.0]]),
+        np.array([[0.0, 50.0], [18.0, 50.0]]),
+        np.array([[18.0, 50.0], [18.0, 12.0]]),
+        arc(20, 12, 2, math.pi, 1.5 * math.pi),
+        arc(20, 12, 2, 1.5 * math.pi, 2 * math.pi),
+        np.array([[22.0, 12.0], [22.0, 50.0]]),
+        np.array([[22.0, 50.0], [40.0, 50.0]]),
+        np.array([[40.0, 50.0], [40.0, 0.0]]),
+        np.array([[40.0, 0.0], [0.0, 0.0]]),
+    ]
+    for i in range(len(segs)):
+        segs[i][0] = segs[i - 1][-1]
+    return segs
+
+
+def dense(segments, n=400):
+    """Samples of cubic/line segments by the `bezier` reference library."""
+    out = []
+    for s in segments:
+        c = bezier.Curve.from_nodes(np.asarray(s, dtype=float).T)
+        out.append(c.evaluate_multi(np.linspace(0, 1, n)).T)
+    return np.vstack(out)
+
+
+def result_samples(res):
+    return np.vstack(
+        [dense(c.segments, 200) for c in res.contours] + [c.polyline for c in res.contours]
+    )
+
+
+@pytest.mark.parametrize("d", [2.0, -3.0, 0.5])
+def test_circle_offset_is_the_circle_of_radius_r_plus_d(d):
+    # Closed form: the offset of a circle of radius r is the concentric circle of radius r + d.
+    r, eps = 10.0, 0.01
+    res = offset_contour(circle(r), True, d, eps)
+    assert len(res.contours) == 1 and res.contours[0].closed
+    assert res.problems == []
+    pts = result_samples(res)
+    radius = np.hypot(pts[:, 0], pts[:, 1])
+    allow = eps + QUARTER_ARC_ERROR * r + 1e-9
+    assert np.max(np.abs(radius - (r + d))) <= allow
+
+
+def test_circle_shrunk_past_its_centre_vanishes():
+    # The tool (radius 12) is wider than the circle (radius 10): nothing is left.
+    res = offset_contour(circle(10.0), True, -12.0, 0.01)
+    assert res.contours == []
+    assert "vanishes" in [p.kind for p in res.problems]
+    bends = [p for p in res.problems if p.kind == "tool-does-not-fit"]
+    # the cubic quarter circle's curvature radius varies within about 1 % of r (its κ is not
+    # constant; computed from the control points, from memory ≈ 0.8 %)
+    assert bends and all(p.radius == pytest.approx(10.0, rel=2e-2) for p in bends)
+
+
+@pytest.mark.parametrize("d", [3.0, -3.0])
+def test_rounded_rectangle_offset_matches_the_analytic_offset(d):
+    # Closed form: a rectangle with corner radius rc is the Minkowski sum of the inner box
+    # [5, 35] × [5, 15] and a disc of radius rc = 5; its offset by d is the same box with a
+    # disc of radius rc + d. shapely buffers the box with 512 segments per quarter (polygon
+    # error rc·(1 − cos(π/2048)) < 1e-5).
+    eps = 0.01
+    res = offset_contour(rounded_rect(0, 0, 40, 20, 5), True, d, eps)
+    assert len(res.contours) == 1
+    analytic = shapely.box(5, 5, 35, 15).buffer(5 + d, quad_segs=512).exterior
+    pts = result_samples(res)
+    err = shapely.distance(shapely.points(pts), analytic)
+    assert np.max(err) <= eps + QUARTER_ARC_ERROR * 5 + 1e-5
+    # and the whole analytic boundary is covered (the other direction of Hausdorff)
+    back = shapely.distance(
+        shapely.points(np.asarray(analytic.coords)), shapely.LinearRing(res.contours[0].polyline)
+    )
+    assert np.max(back) <= eps + QUARTER_ARC_ERROR * 5 + 1e-5
+
+
+@pytest.mark.parametrize(
+    "shape,closed,d",
+    [
+        ("rounded", True, 2.5),
+        ("rounded", True, -4.0),
+        ("slot", True, 1.5),
+        ("slot", True, 3.0),
+        ("slot", True, -5.0),
+        ("wave", False, 2.0),
+        ("wave", False, -2.0),
+    ],
+)
+def test_every_point_of_the_offset_is_at_distance_d(shape, closed, d):
+    # The defining property of an offset (measured with shapely on dense `bezier` samples):
+    # every point of the result lies |d| ± ε from the original outline.
+    eps = 0.01
+    segs = {
+        "rounded": rounded_rect(0, 0, 40, 20, 5),
+        "slot": slotted_block(),
+        "wave": [np.array([[0, 0], [10, 20], [20, -20], [30, 0]], float)],
+    }[shape]
+    res = offset_contour(segs, closed, d, eps)
+    assert res.contours
+    orig = shapely.LineString(dense(segs, 2000))
+    pts = result_samples(res)
+    dist = shapely.distance(shapely.points(pts), orig)
+    assert np.max(np.abs(dist - abs(d))) <= eps + 1e-6
+
+
+def test_slot_narrower_than_the_tool_is_reported_with_its_place():
+    # The slot is 4 wide with a half-round end of radius 2; a tool of radius 3 (diameter 6)
+    # fits neither the slot nor its end. Expected places from the construction above.
+    res = offset_contour(slotted_block(), True, 3.0, 0.01)
+    bends = [p for p in res.problems if p.kind == "tool-does-not-fit" and p.radius]
+    assert bends, res.problems
+    for p in bends:
+        assert math.hypot(p.x - 20, p.y - 12) == pytest.approx(2.0, abs=2 * QUARTER_ARC_ERROR * 2)
+        assert p.radius == pytest.approx(2.0, rel=1e-2)
+    gone = [p for p in res.problems if p.kind == "vanishes"]
+    assert gone, res.problems
+    for p in gone:
+        assert 18 - 1e-9 <= p.x <= 22 + 1e-9 and 12 <= p.y <= 50
+    # the result keeps out of the slot: nothing of it is nearer the slot's walls than 3 − ε
+    for c in res.contours:
+        assert not np.any(
+            (c.polyline[:, 0] > 15.5) & (c.polyline[:, 0] < 24.5) & (c.polyline[:, 1] < 50)
+        )
+
+
+def test_slot_wider_than_the_tool_is_followed():
+    # A tool of radius 1.5 fits the slot of width 4 and its end of radius 2: no problem on
+    # the bends (sharp corners at the slot's mouth do turn toward the tool).
+    res = offset_contour(slotted_block(), True, 1.5, 0.01)
+    assert [p for p in res.problems if p.kind == "vanishes"] == []
+    assert all(p.radius == 0.0 for p in res.problems)
+    assert len(res.contours) == 1
+
+
+def test_open_line_moves_to_the_right_in_y_up_axes():
+    # Documented side for open contours: the normal (T_y, −T_x).
+    res = offset_contour([[[0.0, 0.0], [10.0, 0.0]]], False, 2.0, 0.01)
+    (c,) = res.contours
+    assert not c.closed
+    assert np.allclose(c.polyline, [[0, -2], [10, -2]])
+
+
+def test_bad_input_raises():
+    with pytest.raises(InvalidGeometryError, match="tolerance must be > 0"):
+        offset_contour(circle(1.0), True, 1.0, 0.0)
+    with pytest.raises(InvalidGeometryError, match="finite"):
+        offset_contour(circle(1.0), True, math.inf, 0.1)
