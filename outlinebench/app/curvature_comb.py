@@ -23,10 +23,10 @@ from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
-from PySide6.QtCore import QByteArray, QDataStream
-from PySide6.QtGui import QPainter, QPainterPath, QPen
+from PySide6.QtGui import QPainter, QPen
 
 from outlinebench.app import style
+from outlinebench.app.array_paths import lines_path
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.geometry.bezier import evaluate, to_cubic
 from outlinebench.geometry.curvature import curvature, end_curvatures, unit_normal
@@ -46,7 +46,6 @@ __all__ = [
     "auto_comb_scale",
     "CombCache",
     "paint_comb",
-    "lines_path",
 ]
 
 # Wanted distance between neighbouring teeth on screen, logical px (one tooth every few
@@ -196,48 +195,6 @@ class CombCache:
     def prune(self, live: set[int]) -> None:
         for k in [k for k in self._items if k not in live]:
             del self._items[k]
-
-
-def lines_path(
-    starts: FloatArray, ends: FloatArray | None = None, breaks: NDArray[np.bool_] | None = None
-) -> QPainterPath:
-    """A QPainterPath built from arrays in one step.
-
-    ``lines_path(a, b)`` holds the separate lines a[i]–b[i]; ``lines_path(p, None, breaks)``
-    is a polyline through p that starts a new piece where ``breaks`` is True.
-
-    Notes
-    -----
-    The elements are written in QPainterPath's QDataStream format (an int32 count, then per
-    element an int32 type — 0 move, 1 line — and two float64 coordinates, big-endian; Qt
-    documentation "Serializing Qt Data Types") and read back by Qt, instead of one Python
-    call per element: ten times faster for thousands of teeth. pyqtgraph's ``arrayToQPath``
-    uses the same technique.
-    """
-    if ends is not None:
-        n = starts.shape[0]
-        arr = np.empty(2 * n, dtype=[("c", ">i4"), ("x", ">f8"), ("y", ">f8")])
-        arr["c"][0::2] = 0
-        arr["c"][1::2] = 1
-        arr["x"][0::2], arr["y"][0::2] = starts[:, 0], starts[:, 1]
-        arr["x"][1::2], arr["y"][1::2] = ends[:, 0], ends[:, 1]
-    else:
-        n = starts.shape[0]
-        arr = np.empty(n, dtype=[("c", ">i4"), ("x", ">f8"), ("y", ">f8")])
-        arr["c"] = 1
-        if n:
-            arr["c"][0] = 0
-        if breaks is not None:
-            arr["c"][breaks] = 0
-        arr["x"], arr["y"] = starts[:, 0], starts[:, 1]
-    path = QPainterPath()
-    if arr.size == 0:
-        return path
-    head = np.array([arr.size], dtype=">i4").tobytes()
-    tail = np.array([0], dtype=">i4").tobytes()  # fill rule: odd-even
-    stream = QDataStream(QByteArray(head + arr.tobytes() + tail))
-    stream >> path  # noqa: B015 (Qt's stream operator reads into path)
-    return path
 
 
 def paint_comb(

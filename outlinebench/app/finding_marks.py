@@ -16,6 +16,7 @@ from PySide6.QtCore import QPointF, QRectF, Qt
 from PySide6.QtGui import QColor, QIcon, QPainter, QPainterPath, QPen, QPixmap, QPolygonF
 
 from outlinebench.app import style
+from outlinebench.app.array_paths import frames_path
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.diagnostics import Finding
 
@@ -26,10 +27,14 @@ __all__ = [
     "finding_icon",
     "finding_at",
     "HIT_RADIUS_PX",
+    "DENSE_FINDING_MARKS",
 ]
 
 # The pointer within this many logical px of a finding's place shows its tooltip.
 HIT_RADIUS_PX = 12.0
+# Above this many frames in view they are drawn plainly (no antialiasing, no halo): 400
+# frames drawn fully take about 5 ms (benchmarks/bench_editor.py), a third of a frame.
+DENSE_FINDING_MARKS = 400
 
 
 def frame_path(path: QPainterPath, x: float, y: float, severity: str, grow: float = 0.0) -> None:
@@ -71,6 +76,25 @@ def paint_frame(p: QPainter, x: float, y: float, severity: str) -> None:
     p.drawPath(path)
 
 
+_POSITIONS: list = [None, None, None]  # [findings list, (N, 2) positions, severities]
+
+
+def _positions(findings: Sequence[Finding]) -> tuple[np.ndarray, np.ndarray]:
+    """Positions and severities as arrays, kept for the last list seen (every frame of a
+    view change paints the same list)."""
+    if _POSITIONS[0] is not findings:
+        xy = np.array([(f.x, f.y) for f in findings], dtype=float).reshape(-1, 2)
+        sev = np.array([f.severity for f in findings], dtype=object)
+        _POSITIONS[:] = [findings, xy, sev]
+    return _POSITIONS[1], _POSITIONS[2]
+
+
+def _frame_polygon(x: float, y: float, severity: str, grow: float = 0.0) -> QPolygonF:
+    path = QPainterPath()
+    frame_path(path, x, y, severity, grow)
+    return path.toFillPolygon()
+
+
 def paint_finding_marks(
     p: QPainter,
     view: ViewTransform,
@@ -82,40 +106,65 @@ def paint_finding_marks(
     """Frame every finding whose place is in view; returns how many were drawn.
 
     Less serious findings are drawn first so an error's frame lies on top where they share
-    a place. ``current`` (the finding picked in the list) is drawn larger and doubled.
+    a place. ``current`` (the finding picked in the list) is drawn larger and doubled. Above
+    :data:`DENSE_FINDING_MARKS` frames in view they are drawn as plain 1-px outlines (no
+    antialiasing, wash or halo), so painting stays within a frame.
+
+    Notes
+    -----
+    Each frame is drawn as its own polygon: Qt strokes one path of thousands of overlapping
+    antialiased frames about twenty times slower than the same frames one by one
+    (benchmarks/bench_editor.py).
     """
     if not findings and current is None:
         return 0
-    xy = np.array([(f.x, f.y) for f in findings], dtype=float).reshape(-1, 2)
+    xy, sev_of = _positions(findings)
     scr = view.to_screen_array(xy)
     m = 2 * max(style.FINDING_SIZE.values())
     inside = (scr[:, 0] >= -m) & (scr[:, 0] <= width + m)
     inside &= (scr[:, 1] >= -m) & (scr[:, 1] <= height + m)
-    paths = {sev: QPainterPath() for sev in ("info", "warning", "error")}
-    for k in np.flatnonzero(inside).tolist():
-        f = findings[k]
-        frame_path(paths.get(f.severity, paths["info"]), scr[k, 0], scr[k, 1], f.severity)
+    shown = np.flatnonzero(inside)
     p.save()
-    p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-    for sev, path in paths.items():
-        if path.isEmpty():
-            continue
-        p.setBrush(style.FINDING_WASH if sev == "error" else Qt.BrushStyle.NoBrush)
-        if sev != "info":  # a paper-coloured halo keeps the frame readable over the outline
-            p.setPen(QPen(style.PAPER, 4.2 if sev == "error" else 3.8))
-            p.drawPath(path)
-        p.setPen(_pen(sev))
-        p.drawPath(path)
+    if len(shown) > DENSE_FINDING_MARKS:
+        # Plain 1-px frames, all of a severity in one path built from arrays.
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, False)
+        p.setBrush(Qt.BrushStyle.NoBrush)
+        for sev in ("info", "warning", "error"):
+            rows = shown[sev_of[shown] == sev]
+            if rows.size:
+                half = style.FINDING_SIZE[sev] * (1.25 if sev == "error" else 1.0)
+                pen = QPen(style.FINDING_COLOURS[sev], 1.0)
+                pen.setCosmetic(True)
+                p.setPen(pen)
+                p.drawPath(frames_path(scr[rows], half, sev == "error"))
+    else:
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        by_sev: dict[str, list[QPolygonF]] = {"info": [], "warning": [], "error": []}
+        for k in shown.tolist():
+            sev = findings[k].severity
+            sev = sev if sev in by_sev else "info"
+            by_sev[sev].append(_frame_polygon(scr[k, 0], scr[k, 1], sev))
+        for sev, polys in by_sev.items():
+            if not polys:
+                continue
+            if sev != "info":  # a paper halo keeps the frame readable over the outline
+                p.setPen(QPen(style.PAPER, 4.2 if sev == "error" else 3.8))
+                p.setBrush(Qt.BrushStyle.NoBrush)
+                for poly in polys:
+                    p.drawPolygon(poly)
+            p.setPen(_pen(sev))
+            p.setBrush(style.FINDING_WASH if sev == "error" else Qt.BrushStyle.NoBrush)
+            for poly in polys:
+                p.drawPolygon(poly)
     if current is not None:
         x, y = view.to_screen(current.x, current.y)
-        ring = QPainterPath()
-        frame_path(ring, x, y, current.severity, grow=5.0)
-        frame_path(ring, x, y, current.severity, grow=8.0)
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
         p.setBrush(Qt.BrushStyle.NoBrush)
         p.setPen(_pen(current.severity, 1.6))
-        p.drawPath(ring)
+        p.drawPolygon(_frame_polygon(x, y, current.severity, 5.0))
+        p.drawPolygon(_frame_polygon(x, y, current.severity, 8.0))
     p.restore()
-    return int(inside.sum())
+    return int(len(shown))
 
 
 def finding_at(

@@ -10,11 +10,11 @@ svgpathtools = pytest.importorskip("svgpathtools")
 
 from PySide6.QtGui import QImage  # noqa: E402
 
+from outlinebench.app.array_paths import lines_path  # noqa: E402
 from outlinebench.app.curvature_comb import (  # noqa: E402
     MAX_TEETH,
     MIN_TEETH,
     comb_tips,
-    lines_path,
     sample_comb,
     teeth_per_segment,
 )
