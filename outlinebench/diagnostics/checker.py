@@ -23,7 +23,7 @@ item at a time.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from itertools import compress
+from itertools import chain, compress
 from operator import is_not
 
 import numpy as np
@@ -108,7 +108,7 @@ class _ContourState:
 class _OutlineState:
     hits: list[tuple[int, int, Finding]]  # (id of segment a, id of segment b, finding)
     direction: list[Finding]
-    block: list[Finding]
+    block: list[Finding] | None  # contour findings, then hits and direction (None: not built)
 
 
 def check_document(doc: Document, settings: CheckSettings | None = None) -> list[Finding]:
@@ -464,14 +464,31 @@ class Checker:
         if full:
             flat: list[Finding] = []
             lens = np.zeros(n_out + 1, dtype=np.intp)
-            for oi, o in enumerate(self._outlines):
-                flat.extend(o.block)
-                lens[oi] = len(o.block)
+            per_contour = np.fromiter(
+                (len(st.findings) for st in states), dtype=np.intp, count=len(states)
+            )
+            owner = np.repeat(np.arange(n_out), [len(o.contours) for o in doc.outlines])
+            lens[:n_out] = np.bincount(owner, weights=per_contour, minlength=n_out)
+            extra = [oi for oi, o in enumerate(self._outlines) if o.hits or o.direction]
+            if not extra:
+                flat.extend(chain.from_iterable(st.findings for st in states))
+            else:
+                for oi, o in enumerate(self._outlines):
+                    lo = self._first[oi]
+                    for st in states[lo : lo + len(doc.outlines[oi].contours)]:
+                        flat.extend(st.findings)
+                    flat.extend(f for _, _, f in o.hits)
+                    flat.extend(o.direction)
+                    lens[oi] += len(o.hits) + len(o.direction)
             flat.extend(self._gap_findings)
             lens[n_out] = len(self._gap_findings)
             self._flat, self._lens = flat, lens
         elif dirty_outlines or gaps_changed:
-            blocks = {oi: self._outlines[oi].block for oi in dirty_outlines}
+            blocks = {}
+            for oi in dirty_outlines:
+                o = self._outlines[oi]
+                o.block = self._block(oi, o.hits, o.direction, len(doc.outlines[oi].contours))
+                blocks[oi] = o.block
             if gaps_changed:
                 blocks[n_out] = self._gap_findings
             starts = np.concatenate([[0], np.cumsum(self._lens)]).tolist()
@@ -558,8 +575,7 @@ class Checker:
         counts = np.array([len(st.contour.segments) for st in cs], dtype=np.intp)
         if not cs or counts.sum() == 0:
             for oi in dirty_outlines:
-                n = len(doc.outlines[oi].contours)
-                self._outlines[oi] = _OutlineState([], [], self._block(oi, [], [], n))
+                self._outlines[oi] = _OutlineState([], [], None)
             return
         table = whole if whole is not None else SegmentTable.concat([st.table for st in cs])
         m = len(table)
@@ -710,8 +726,7 @@ class Checker:
 
         for oi in dirty_outlines:
             hits = kept[oi]
-            block = self._block(oi, hits, direction[oi], len(doc.outlines[oi].contours))
-            self._outlines[oi] = _OutlineState(hits, direction[oi], block)
+            self._outlines[oi] = _OutlineState(hits, direction[oi], None)
 
     def _block(
         self, oi: int, hits: list[tuple[int, int, Finding]], direction: list[Finding], n: int
