@@ -13,6 +13,7 @@ expansion, DTD retrieval).
 
 from __future__ import annotations
 
+import re
 import xml.etree.ElementTree as ET
 from dataclasses import dataclass, field
 from typing import Any
@@ -163,8 +164,6 @@ def parse_xml(
     if head.startswith((b"\xff\xfe", b"\xfe\xff")) or (len(head) > 1 and head[1:2] == b"\x00"):
         encoding = "utf-16"
     else:
-        import re
-
         m = re.match(
             rb"<\?xml[^>]*encoding=[\"']([A-Za-z0-9._-]+)[\"']", head.lstrip(b"\xef\xbb\xbf")
         )

@@ -52,7 +52,6 @@ _SKIP_WSP = re.compile(r"[ \t\r\n\f]*+")
 _ARGS_RE = re.compile(rf"[ \t\r\n\f]*+(?:(?>{_NUM})[ \t\r\n\f]*+(?:,[ \t\r\n\f]*+)?+)*+")
 _SPLIT_RE = re.compile(r"([MmZzLlHhVvCcSsQqTtAa])")
 _TOKEN_RE = re.compile(r"[^ \t\r\n\f,]{1,16}")
-_ODD_DOT_RE = re.compile(r"[0-9]\.(?![0-9])")
 
 _ARITY = {"M": 2, "L": 2, "H": 1, "V": 1, "C": 6, "S": 4, "Q": 4, "T": 2, "A": 7, "Z": 0}
 _ARITY_LUT = np.zeros(256, dtype=np.int64)

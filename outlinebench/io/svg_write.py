@@ -35,6 +35,7 @@ from outlinebench.io.svg_read import (
     SvgSource,
     read_svg,
 )
+from outlinebench.io.svg_transform import parse_transform
 from outlinebench.model.document import IDENTITY, Contour, Document, Outline
 
 __all__ = ["CUT_CAUTION", "svg_bytes", "write_svg", "polylines_svg", "joins_text"]
@@ -341,8 +342,6 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
     root_matrix = np.eye(3)
     root = src.xml.root
     if root.get("transform"):
-        from outlinebench.io.svg_transform import parse_transform
-
         root_matrix = parse_transform(root.get("transform"))
     written_old: list[tuple[int, Outline]] = []
     new: list[Outline] = []

@@ -253,3 +253,25 @@ def test_polyline_points_round_trip_exactly(points):
     segs = doc.outlines[0].contours[0].segments
     got = [segs[0][0].tolist()] + [s[1].tolist() for s in segs]
     assert got == [[x + 0.0, y + 0.0] for x, y in points]
+
+
+@pytest.mark.parametrize(
+    "head",
+    [b"\xef\xbb\xbf", b'<?xml version="1.0" encoding="ISO-8859-1"?>\r\n'],
+    ids=["utf8-bom", "latin1-crlf"],
+)
+def test_splicing_keeps_byte_offsets_with_boms_and_other_encodings(head):
+    # Expat's byte offsets count every byte, so a BOM, CRLF line ends and non-ASCII text
+    # before the element must not shift the splice.
+    text = "Kestrel \u00e5 \u00e9".encode("latin-1" if b"ISO" in head else "utf-8")
+    data = (
+        head
+        + b'<svg xmlns="http://www.w3.org/2000/svg">\r\n<text>'
+        + text
+        + b'</text>\r\n<path id="p" d="M0 0 L1 1"/>\r\n</svg>\r\n'
+    )
+    doc = read_svg(data).document
+    doc = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+    out = svg_bytes(doc)
+    assert out.startswith(head) and text in out
+    assert b'<path id="p" d="M0.125 0 L1.125 1"/>\r\n</svg>\r\n' in out
