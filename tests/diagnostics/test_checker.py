@@ -5,10 +5,10 @@ import math
 
 import numpy as np
 import pytest
+from diag_docs import circle, doc_of, polygon
 
 from outlinebench.diagnostics import Checker, CheckSettings, check_document
 from outlinebench.model.document import Contour, Document, frozen_points
-from tests.diagnostics._docs import circle, doc_of, polygon
 
 
 def as_set(findings):

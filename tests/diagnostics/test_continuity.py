@@ -4,6 +4,7 @@ import math
 
 import numpy as np
 import pytest
+from diag_docs import doc_of, of_kind, polygon
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -20,7 +21,6 @@ from outlinebench.diagnostics.continuity import (
     turn_angles,
 )
 from outlinebench.model.document import Contour
-from tests.diagnostics._docs import doc_of, of_kind, polygon
 
 # y = x² on [0, 1] as a cubic (kurbo's test curve; Farin: degree elevation of the quadratic
 # (0,0),(1/2,0),(1,1)), and on [1, 2]: quadratic (1,1),(3/2,2),(2,4) elevated.

@@ -4,11 +4,11 @@ import math
 
 import numpy as np
 import pytest
+from diag_docs import circle, doc_of, kinds, of_kind, polygon
 
 from outlinebench.diagnostics import CheckSettings, check_document
 from outlinebench.diagnostics.contour_checks import point_in_polygon
 from outlinebench.model.document import Contour
-from tests.diagnostics._docs import circle, doc_of, kinds, of_kind, polygon
 
 
 def test_gap_to_own_start_of_known_size():

@@ -4,6 +4,7 @@ import json
 import math
 
 import pytest
+from diag_docs import doc_of, polygon
 
 from outlinebench.diagnostics import (
     CAUTION,
@@ -15,7 +16,6 @@ from outlinebench.diagnostics import (
     text_report,
 )
 from outlinebench.diagnostics.report import format_finding
-from tests.diagnostics._docs import doc_of, polygon
 
 
 def _findings():

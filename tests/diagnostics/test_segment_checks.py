@@ -2,11 +2,11 @@
 
 import numpy as np
 import pytest
+from diag_docs import circle, doc_of, of_kind
 
 from outlinebench.diagnostics import check_document
 from outlinebench.diagnostics.segment_checks import monotone_mask
 from outlinebench.model.document import Contour
-from tests.diagnostics._docs import circle, doc_of, of_kind
 
 
 def cusp_cubic(t0: float, p0=(0.0, 0.0), a=(1.0, 0.0), b=(0.0, 3.0)):
