@@ -19,6 +19,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry.bezier import derivative, evaluate
+from outlinebench.geometry.nearest import nearest_point
 
 __all__ = [
     "FIT_SAMPLES_PER_SEGMENT",
@@ -26,7 +27,6 @@ __all__ = [
     "FIT_MAX_ITERATIONS",
     "FIT_PARAMETER_TOLERANCE",
     "DEVIATION_SAMPLES_PER_SEGMENT",
-    "NEAREST_SEED_SAMPLES",
     "end_directions",
     "sample_chain",
     "chord_length_params",
@@ -51,10 +51,6 @@ FIT_PARAMETER_TOLERANCE = 1e-14
 # Points sampled (uniformly in t) on each segment when measuring the deviation of two curves;
 # the maximum between samples is missed by at most (spacing)² × curvature / 8.
 DEVIATION_SAMPLES_PER_SEGMENT = 200
-# Seed samples per segment for the global nearest-point search before Newton refinement.
-NEAREST_SEED_SAMPLES = 64
-
-_NEWTON_STEPS = 8
 
 
 def _first_direction(points: FloatArray) -> FloatArray | None:
@@ -333,18 +329,13 @@ def fit_chain(
     return cubic
 
 
-def nearest_params(
-    segment: FloatArray, queries: ArrayLike, *, seeds: int = NEAREST_SEED_SAMPLES
-) -> tuple[FloatArray, FloatArray]:
+def nearest_params(segment: FloatArray, queries: ArrayLike) -> tuple[FloatArray, FloatArray]:
     """Parameter and distance of the nearest point of one segment to each query point.
 
     Parameters
     ----------
     segment : ndarray, shape (K, 2)
     queries : array_like, shape (Q, 2)
-    seeds : int
-        Uniform seed samples; the best seed is refined by Newton-Raphson steps on
-        f(t) = (B(t) − p)·B′(t), clamped to [0, 1].
 
     Returns
     -------
@@ -352,34 +343,11 @@ def nearest_params(
 
     Notes
     -----
-    Global as long as the seed spacing separates the local minima (common practice, no
-    source); end points are always candidates.
+    The global nearest point of :func:`outlinebench.geometry.nearest.nearest_point` (all
+    roots of the stationarity polynomial, then both ends), for all queries at once.
     """
     q = np.asarray(queries, dtype=np.float64).reshape(-1, 2)
-    ts = np.linspace(0.0, 1.0, seeds + 1)
-    samples = evaluate(segment, ts)
-    d2 = np.sum((q[:, None, :] - samples[None, :, :]) ** 2, axis=2)
-    best = np.argmin(d2, axis=1)
-    t = ts[best]
-    if segment.shape[0] > 1:
-        d1c = derivative(segment, 1)
-        d2c = derivative(segment, 2)
-        for _ in range(_NEWTON_STEPS):
-            diff = evaluate(segment, t) - q
-            v1 = evaluate(d1c, t)
-            v2 = evaluate(d2c, t)
-            num = np.sum(diff * v1, axis=1)
-            den = np.sum(v1 * v1, axis=1) + np.sum(diff * v2, axis=1)
-            ok = den > 1e-300
-            step = np.zeros_like(t)
-            step[ok] = num[ok] / den[ok]
-            t = np.clip(t - step, 0.0, 1.0)
-    dist = np.hypot(*(evaluate(segment, t) - q).T)
-    # Newton may wander off a better seed; keep whichever is nearer.
-    seed_dist = np.sqrt(d2[np.arange(len(q)), best])
-    worse = seed_dist < dist
-    t[worse] = ts[best[worse]]
-    dist[worse] = seed_dist[worse]
+    t, dist, _ = nearest_point(segment, q)
     return t, dist
 
 
@@ -415,10 +383,12 @@ def max_deviation(
 
     Notes
     -----
-    Each curve is sampled densely and every sample's nearest point on the other curve is
-    found exactly up to Newton convergence (:func:`nearest_params`). The result is a lower
-    bound of the Hausdorff distance that misses the true maximum by at most about
-    h²κ/8 for sample spacing h (common practice, no source).
+    Each curve is sampled densely (uniformly in t) and each sample's distance to the other
+    curve is computed with the global nearest point (:func:`nearest_params`, to rounding).
+    The maximum over samples is therefore at most the true two-sided maximum (a lower bound
+    of the Hausdorff distance, up to rounding); it misses the maximum between two samples by
+    at most about h²κ/8 for sample spacing h along the curve and curvature κ of the
+    distance profile there (the sagitta of a chord; common practice, no source).
     """
     pa = sample_chain(list(segments_a), samples_per_segment)
     pb = sample_chain(list(segments_b), samples_per_segment)

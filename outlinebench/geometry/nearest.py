@@ -28,40 +28,96 @@ FloatArray = NDArray[np.float64]
 _IMAG_TOLERANCE = 1e-5
 
 
-def _nearest_one(pts: FloatArray, p: FloatArray) -> tuple[float, float, FloatArray]:
+def _real_roots(coeffs: FloatArray) -> FloatArray:
+    """Roots of many polynomials of one degree, non-real ones replaced by 0, shape (N, D).
+
+    ``coeffs`` (N, D + 1), lowest power first, leading coefficients non-zero. The roots are
+    the eigenvalues of each companion matrix, computed for all rows in one call.
+    """
+    n, k = coeffs.shape
+    deg = k - 1
+    monic = coeffs[:, :-1] / coeffs[:, -1:]
+    comp = np.zeros((n, deg, deg))
+    if deg > 1:
+        comp[:, np.arange(1, deg), np.arange(deg - 1)] = 1.0
+    comp[:, :, -1] = -monic
+    roots = np.linalg.eigvals(comp)
+    return np.where(np.abs(roots.imag) <= _IMAG_TOLERANCE, roots.real, 0.0)
+
+
+def _nearest_many(pts: FloatArray, qs: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Nearest points of one segment to each of N query points: (t, distance, point)."""
+    m = qs.shape[0]
     scale = float(segment_scale(pts[None])[0])
-    cands = [0.0, 1.0]
-    if scale > 0.0 and pts.shape[0] > 2:
-        q = (pts - p) / scale  # the query point at the origin, unit size
+    if scale == 0.0 or m == 0:
+        t = np.zeros((m, 1))
+    elif pts.shape[0] == 2:
+        # A line: the projection of each query point, clipped (closed form); inside the
+        # segment the distance is |(p − P0) × d| / |d|, exact 0 for a point on the line.
+        d = pts[1] - pts[0]
+        rel = qs - pts[0]
+        t = np.clip(rel @ d / float(d @ d), 0.0, 1.0)
+        on = evaluate(pts, t)
+        dist = np.hypot(on[:, 0] - qs[:, 0], on[:, 1] - qs[:, 1])
+        inside = (t > 0.0) & (t < 1.0)
+        perp = np.abs(rel[:, 0] * d[1] - rel[:, 1] * d[0]) / float(np.hypot(d[0], d[1]))
+        dist = np.where(inside, perp, dist)
+        return t, dist, on
+    else:
+        q = (pts - pts[0]) / scale  # unit size, starting at the origin
+        r = (qs - pts[0]) / scale
         c = power_coefficients(q)
         d = P.polyder(c, axis=0)
-        f = P.polyadd(P.polymul(c[:, 0], d[:, 0]), P.polymul(c[:, 1], d[:, 1]))
-        f = np.trim_zeros(f, "b")
-        if f.size > 1 and np.any(f != 0.0):
-            roots = P.polyroots(f)
-            roots = roots[np.abs(roots.imag) <= _IMAG_TOLERANCE].real
-            t = np.clip(roots, 0.0, 1.0)
-            # Two Newton steps on f = (B − p)·B′, f′ = |B′|² + (B − p)·B″, to polish.
+        # f(t) = (B − p)·B′ = B·B′ − p·B′: the first part is shared by all queries.
+        shared = P.polyadd(P.polymul(c[:, 0], d[:, 0]), P.polymul(c[:, 1], d[:, 1]))
+        shared = np.trim_zeros(shared, "b")
+        ends = np.stack([np.zeros(m), np.ones(m)], axis=1)
+        if shared.size > 1:
+            f = np.zeros((m, max(shared.size, d.shape[0])))
+            f[:, : shared.size] = shared
+            f[:, : d.shape[0]] -= r @ d.T
+            f = f[:, : shared.size]  # p·B′ has a lower degree than B·B′
+            t = np.clip(_real_roots(f), 0.0, 1.0)
+            # Two Newton steps on f, f′ = |B′|² + (B − p)·B″, to polish.
             dd = P.polyder(d, axis=0)
-            for _ in range(2):
-                b0 = P.polyval(t, c).T if t.size else np.zeros((0, 2))
-                b1 = P.polyval(t, d).T if t.size else np.zeros((0, 2))
-                b2 = P.polyval(t, dd).T if t.size else np.zeros((0, 2))
-                fv = np.sum(b0 * b1, axis=1)
-                fp = np.sum(b1 * b1, axis=1) + np.sum(b0 * b2, axis=1)
-                with np.errstate(divide="ignore", invalid="ignore"):
-                    step = np.where(fp > 0.0, fv / np.where(fp > 0.0, fp, 1.0), 0.0)
-                t = np.clip(t - step, 0.0, 1.0)
-            cands.extend(t.tolist())
-    elif scale > 0.0:
-        # A line: the projection of p, clipped (closed form).
-        d = pts[1] - pts[0]
-        cands.append(float(np.clip(np.dot(p - pts[0], d) / np.dot(d, d), 0.0, 1.0)))
-    ts = np.array(sorted(set(cands)))
-    pts_on = evaluate(pts, ts)
-    dist = np.hypot(pts_on[:, 0] - p[0], pts_on[:, 1] - p[1])
-    i = int(np.argmin(dist))  # the smallest t among equal distances (ts is sorted)
-    return float(ts[i]), float(dist[i]), pts_on[i]
+            t = _polish(c, d, dd, r, t)
+            t = np.concatenate([ends, t], axis=1)
+        else:
+            t = ends
+    # Distances at every candidate, in the caller's coordinates; ties go to the smallest t.
+    t = np.sort(t, axis=1)
+    on = evaluate(pts, t.ravel()).reshape(m, t.shape[1], 2)
+    dist = np.hypot(on[:, :, 0] - qs[:, None, 0], on[:, :, 1] - qs[:, None, 1])
+    i = np.argmin(dist, axis=1)
+    rows = np.arange(m)
+    return t[rows, i], dist[rows, i], on[rows, i]
+
+
+def _polish(c: FloatArray, d: FloatArray, dd: FloatArray, r: FloatArray, t: FloatArray):
+    """Two Newton steps on f(t) = (B(t) − p)·B′(t) for each query's candidate parameters.
+
+    ``c, d, dd``: power coefficients of B, B′, B″ (unit-sized); ``r`` (N, 2) the queries in
+    the same coordinates; ``t`` (N, C).
+    """
+    for _ in range(2):
+        b0 = _power_values(c, t) - r[:, None, :]
+        b1 = _power_values(d, t)
+        b2 = _power_values(dd, t)
+        fv = np.sum(b0 * b1, axis=2)
+        fp = np.sum(b1 * b1, axis=2) + np.sum(b0 * b2, axis=2)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = np.where(fp > 0.0, fv / np.where(fp > 0.0, fp, 1.0), 0.0)
+        t = np.clip(t - step, 0.0, 1.0)
+    return t
+
+
+def _power_values(coeffs: FloatArray, t: FloatArray) -> FloatArray:
+    """Σ c_k t^k for coefficients (k, 2) at parameters of any shape → shape + (2,)."""
+    v = np.zeros(t.shape + (2,)) + coeffs[-1]
+    for j in range(coeffs.shape[0] - 2, -1, -1):
+        v *= t[..., None]
+        v += coeffs[j]
+    return v
 
 
 def nearest_point(points: ArrayLike, p: ArrayLike):
@@ -95,12 +151,9 @@ def nearest_point(points: ArrayLike, p: ArrayLike):
     """
     pts = np.asarray(points, dtype=np.float64)
     q = np.asarray(p, dtype=np.float64)
+    t, dist, point = _nearest_many(pts, q.reshape(-1, 2))
     if q.ndim == 1:
-        return _nearest_one(pts, q)
-    res = [_nearest_one(pts, row) for row in q.reshape(-1, 2)]
-    t = np.array([r[0] for r in res])
-    dist = np.array([r[1] for r in res])
-    point = np.array([r[2] for r in res]).reshape(-1, 2)
+        return float(t[0]), float(dist[0]), point[0]
     return t, dist, point
 
 

@@ -54,8 +54,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from outlinebench.errors import CommandError, InvalidGeometryError
-from outlinebench.geometry.bezier import evaluate
-from outlinebench.geometry.fit import nearest_params
+from outlinebench.geometry.nearest import nearest_point
 from outlinebench.model.commands import (
     AddContour,
     InsertPoint,
@@ -358,22 +357,27 @@ def nearest_segment(doc: Document, xy: Iterable[float], radius: float) -> Segmen
     -----
     Segments whose control-point bounding box is farther than ``radius`` are skipped (a
     Bézier segment lies in the convex hull of its control points, Farin §4.3); the rest are
-    searched with :func:`outlinebench.geometry.fit.nearest_params` (dense seeds, then
-    Newton-Raphson).
+    visited nearest box first, each searched globally with
+    :func:`outlinebench.geometry.nearest.nearest_point`, and a segment whose box is farther
+    than the best distance found so far is skipped too.
     """
     p = np.asarray(list(xy), dtype=np.float64)
     idx = _index(doc)
-    near = np.all((idx.lo - radius <= p) & (p <= idx.hi + radius), axis=1)
+    # Distance from p to each box (0 inside it): a lower bound of the distance to the segment.
+    gap = np.maximum(np.maximum(idx.lo - p, p - idx.hi), 0.0)
+    box_dist = np.hypot(gap[:, 0], gap[:, 1])
+    near = np.flatnonzero(box_dist <= radius)
     best: SegmentHit | None = None
-    for k in np.flatnonzero(near):
+    limit = radius
+    for k in near[np.argsort(box_dist[near], kind="stable")]:
+        if box_dist[k] > limit:
+            break
         o, c, s = int(idx.seg_outline[k]), int(idx.seg_contour[k]), int(idx.seg_number[k])
         seg = doc.outlines[o].contours[c].segments[s]
-        t, d = nearest_params(seg, p[None, :])
-        dist = float(d[0])
-        if dist <= radius and (best is None or dist < best.distance):
-            tt = float(t[0])
-            q = evaluate(seg, tt)
-            best = SegmentHit(o, c, s, tt, (float(q[0]), float(q[1])), dist)
+        t, dist, q = nearest_point(seg, p)
+        if dist <= limit and (best is None or dist < best.distance):
+            best = SegmentHit(o, c, s, t, (float(q[0]), float(q[1])), dist)
+            limit = dist
     return best
 
 

@@ -242,3 +242,38 @@ def test_selection_prune_after_undo_of_an_insert():
     sel.prune(h.document)
     # Names that still exist stay (pruning checks existence only); the other is dropped.
     assert sel.refs == (PointRef(0, 0, 2, 0),) and sel.primary == PointRef(0, 0, 2, 0)
+
+
+def test_regression_nearest_segment_is_global_near_a_cusp():
+    # Defect: hover and pick used a 64-seed local search, which here (a query between the
+    # two branches of a near-cusp cubic) found a point 4.4e-4 too far, on the wrong branch.
+    # Expected: scipy's bounded Brent minimum around the best of 20001 samples.
+    from scipy.optimize import minimize_scalar
+
+    cubic = np.array(
+        [
+            [-0.00020368345729456308, 0.0009018455896572225],
+            [0.999164475163246, 0.9991867518597877],
+            [0.0012641417299067655, 0.9983223650105039],
+            [0.9995419399768671, 0.000482468795810782],
+        ]
+    )
+    q = np.array([0.49985275141384133, 0.7445299140819821])
+    grid = np.linspace(0, 1, 20001)
+    k = int(np.argmin(np.hypot(*(evaluate(cubic, grid) - q).T)))
+    ref = minimize_scalar(
+        lambda s: float(np.hypot(*(evaluate(cubic, s) - q))),
+        bounds=(grid[k - 1], grid[k + 1]),
+        method="bounded",
+        options={"xatol": 1e-13},
+    )
+    doc = Document((Outline((Contour.from_points([cubic]),)),))
+    hit = nearest_segment(doc, q, 0.5)
+    assert hit.distance <= ref.fun + 1e-12
+    assert hit.t == pytest.approx(ref.x, abs=1e-6)
+    # The nearer of two segments wins even when the farther one's box is visited first.
+    far = np.array([[0.4, 0.7], [0.6, 0.7]])  # a line 0.045 below q, inside the cubic's box
+    doc2 = Document((Outline((Contour.from_points([cubic]), Contour.from_points([far]))),))
+    hit2 = nearest_segment(doc2, q, 0.5)
+    best = min(ref.fun, 0.7445299140819821 - 0.7)
+    assert hit2.distance == pytest.approx(best, abs=1e-12)
