@@ -42,6 +42,7 @@ __all__ = [
     "CombSamples",
     "sample_comb",
     "teeth_per_segment",
+    "as_cubics",
     "comb_tips",
     "auto_comb_scale",
     "CombCache",
@@ -95,30 +96,49 @@ class CombSamples:
     t: FloatArray
 
 
-def teeth_per_segment(segments: Sequence[FloatArray], px_per_unit: float) -> NDArray[np.intp]:
+def as_cubics(segments: Sequence[FloatArray] | FloatArray) -> FloatArray:
+    """The segments as one ``(M, 4, 2)`` batch of cubics, elevated exactly in batches of equal
+    degree (:func:`outlinebench.geometry.bezier.to_cubic`)."""
+    if isinstance(segments, np.ndarray) and segments.ndim == 3:
+        return to_cubic(segments)
+    out = np.empty((len(segments), 4, 2))
+    sizes = np.array([s.shape[0] for s in segments], dtype=np.intp)
+    for k in np.unique(sizes).tolist():
+        rows = np.flatnonzero(sizes == k)
+        out[rows] = to_cubic(np.stack([segments[r] for r in rows.tolist()]).astype(float))
+    return out
+
+
+def teeth_per_segment(
+    segments: Sequence[FloatArray] | FloatArray, px_per_unit: float
+) -> NDArray[np.intp]:
     """Samples per segment for a zoom of ``px_per_unit``: one every :data:`TOOTH_SPACING_PX`
-    along the control polygon (an upper bound of the arc length, Farin §5.5), rounded up to
-    2^k + 1 and kept within [:data:`MIN_TEETH`, :data:`MAX_TEETH`]."""
-    lengths = np.array(
-        [float(np.hypot(*np.diff(s, axis=0).T).sum()) for s in segments], dtype=float
-    )
+    along the cubic control polygon (an upper bound of the arc length, Farin §5.5), rounded
+    up to 2^k + 1 and kept within [:data:`MIN_TEETH`, :data:`MAX_TEETH`]."""
+    cubic = as_cubics(segments)
+    if cubic.shape[0] == 0:
+        return np.zeros(0, dtype=np.intp)
+    d = np.diff(cubic, axis=1)
+    lengths = np.hypot(d[..., 0], d[..., 1]).sum(axis=1)
     want = np.maximum(lengths * px_per_unit / TOOTH_SPACING_PX, 1.0)
     k = np.ceil(np.log2(want))
     n = (2.0 ** np.clip(k, 1, math.log2(MAX_TEETH - 1))).astype(np.intp) + 1
     return np.clip(n, MIN_TEETH, MAX_TEETH)
 
 
-def sample_comb(segments: Sequence[FloatArray], teeth: NDArray[np.intp]) -> CombSamples:
+def sample_comb(
+    segments: Sequence[FloatArray] | FloatArray, teeth: NDArray[np.intp]
+) -> CombSamples:
     """Points, normals and curvature at ``teeth[i]`` evenly spaced parameters of segment i.
 
-    Segments are elevated exactly to cubics (:func:`outlinebench.geometry.bezier.to_cubic`)
-    and evaluated in one batch per sample count.
+    Segments are elevated exactly to cubics (:func:`as_cubics`) and evaluated in one batch
+    per sample count.
     """
     m = len(segments)
     if m == 0:
         z = np.zeros((0, 2))
         return CombSamples(z, z, np.zeros(0), np.zeros(0, dtype=np.intp), np.zeros(0))
-    cubic = np.stack([to_cubic(np.asarray(s, dtype=float)) for s in segments])
+    cubic = as_cubics(segments)
     teeth = np.asarray(teeth, dtype=np.intp)
     counts = teeth
     offsets = np.concatenate([[0], np.cumsum(counts)])
@@ -187,8 +207,8 @@ class CombCache:
         hit = self._items.get(id(contour))
         if hit is not None and hit[0] is contour and hit[1] == lvl:
             return hit[2]
-        segs = contour.segments
-        samples = sample_comb(segs, teeth_per_segment(segs, 2.0 ** (lvl + 1)))
+        cubic = as_cubics(contour.segments)
+        samples = sample_comb(cubic, teeth_per_segment(cubic, 2.0 ** (lvl + 1)))
         self._items[id(contour)] = (contour, lvl, samples)
         return samples
 
@@ -237,7 +257,10 @@ def paint_comb(
     p.setPen(pen)
     p.drawPath(lines_path(base, tips))
     p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-    edge = QPen(style.COMB_EDGE, 1.3)
+    # A cosmetic 1-px pen: Qt strokes it on its fast path (a 1.3-px pen took 20 ms for the
+    # line through 3,600 tips, benchmarks/bench_editor.py).
+    edge = QPen(style.COMB_EDGE, 1.0)
+    edge.setCosmetic(True)
     p.setPen(edge)
     p.drawPath(lines_path(tips, None, breaks))
     p.restore()

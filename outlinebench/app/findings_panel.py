@@ -10,10 +10,18 @@ info-level findings (on the canvas too). Clicking a row asks the window to show 
 from __future__ import annotations
 
 import math
+import time
 from collections.abc import Sequence
 from typing import Any
 
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt, Signal
+from PySide6.QtCore import (
+    QAbstractTableModel,
+    QModelIndex,
+    QPersistentModelIndex,
+    Qt,
+    QTimer,
+    Signal,
+)
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QCheckBox,
@@ -32,8 +40,18 @@ from outlinebench.app.units import DisplayUnits
 from outlinebench.diagnostics import KINDS, Finding, convert_units, summarize
 from outlinebench.diagnostics.findings import SEVERITY_RANK
 
-__all__ = ["FindingsModel", "FindingsPanel", "value_text", "where_text", "COLUMNS"]
+__all__ = [
+    "FindingsModel",
+    "FindingsPanel",
+    "value_text",
+    "where_text",
+    "COLUMNS",
+    "LIST_THROTTLE_MS",
+]
 
+# While a drag runs, the list is rebuilt at most this often (milliseconds); sorting and
+# converting thousands of findings on every mouse move would slow the drag.
+LIST_THROTTLE_MS = 150
 COLUMNS = ("Severity", "Kind", "Contour", "Place", "Value", "Position")
 _Index = QModelIndex | QPersistentModelIndex
 
@@ -243,7 +261,23 @@ class FindingsPanel(QWidget):
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)
         lay.addWidget(self.view, 1)
-        live.updated.connect(self.refresh)
+        self._timer = QTimer(self)
+        self._timer.setSingleShot(True)
+        self._timer.setInterval(LIST_THROTTLE_MS)
+        self._timer.timeout.connect(self.refresh)
+        self._last_refresh = 0.0
+        live.updated.connect(self._on_updated)
+        self.refresh()
+
+    def _on_updated(self) -> None:
+        # During a drag the list follows at most every LIST_THROTTLE_MS (the canvas frames
+        # follow every check); the timer brings it up to date after the last move.
+        if self._live.in_gesture and (time.perf_counter() - self._last_refresh) * 1e3 < (
+            LIST_THROTTLE_MS
+        ):
+            if not self._timer.isActive():
+                self._timer.start()
+            return
         self.refresh()
 
     @property
@@ -260,6 +294,8 @@ class FindingsPanel(QWidget):
         self.filter_changed.emit(checked)
 
     def refresh(self) -> None:
+        self._timer.stop()
+        self._last_refresh = time.perf_counter()
         units: DisplayUnits = self._units()
         original = self.shown_findings()
         shown = convert_units(original, units.factor, units.name)

@@ -83,6 +83,7 @@ class LiveFindings(QObject):
         self.error: str | None = None
         self.last_ms = 0.0
         self.checks_run = 0
+        self._gesture_ms: float | None = None  # last check time during the current drag
         self._timer = QTimer(self)
         self._timer.setSingleShot(True)
         self._timer.setInterval(THROTTLE_MS)
@@ -103,11 +104,22 @@ class LiveFindings(QObject):
         if self._session.document is self.document:
             return
         # Outside a gesture (an edit, undo, a file opened) the check runs at once; during a
-        # drag it runs at once when the last check was quick, else at most every THROTTLE_MS.
-        if not self._session.history.in_group or self.last_ms <= LIVE_BUDGET_MS:
+        # drag it runs at once while the drag's checks are quick, else at most every
+        # THROTTLE_MS. (The first check of a drag always runs: the check of a whole file
+        # that came before says nothing about the cost of one contour.)
+        if not self.in_gesture:
+            self._gesture_ms = None
             self.refresh()
+        elif self._gesture_ms is None or self._gesture_ms <= LIVE_BUDGET_MS:
+            self.refresh()
+            self._gesture_ms = self.last_ms
         elif not self._timer.isActive():
             self._timer.start()
+
+    @property
+    def in_gesture(self) -> bool:
+        """A drag (one undo step being recorded) is under way."""
+        return self._session.history.in_group
 
     def refresh(self) -> None:
         """Check the session's document now."""
