@@ -10,7 +10,15 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-__all__ = ["as_batch", "as_params", "unbatch", "segment_scale", "normalized"]
+__all__ = [
+    "as_batch",
+    "as_params",
+    "unbatch",
+    "segment_scale",
+    "normalized",
+    "cross",
+    "horner",
+]
 
 FloatArray = NDArray[np.float64]
 
@@ -54,3 +62,26 @@ def normalized(pts: FloatArray) -> tuple[FloatArray, FloatArray]:
     safe = np.where(scale > 0.0, scale, 1.0)
     q = (pts - pts[:, :1, :]) / safe[:, None, None]
     return q, scale
+
+
+def cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """z-component of the cross product of 2-vectors on the last axis: a_x b_y − a_y b_x."""
+    return a[..., 0] * b[..., 1] - a[..., 1] * b[..., 0]
+
+
+def horner(coeffs: np.ndarray, t: np.ndarray) -> np.ndarray:
+    """Σ_j coeffs[j] t^j by Horner's scheme; ``coeffs`` (k, …) broadcasts against ``t``.
+
+    For instance monomial coefficients ``(k, 2)`` of one curve at parameters ``(N,)``:
+    ``horner(c[:, None, :], t[:, None])`` → ``(N, 2)``; per-row coefficients ``(N, k)`` at
+    per-row parameters ``(N, m)``: ``horner(c.T[:, :, None], t)`` → ``(N, m)``.
+    """
+    k = coeffs.shape[0]
+    if k == 1:
+        return np.zeros(np.broadcast_shapes(coeffs.shape[1:], np.shape(t))) + coeffs[0]
+    v = coeffs[-1] * t
+    v += coeffs[-2]
+    for j in range(k - 3, -1, -1):
+        v *= t
+        v += coeffs[j]
+    return v

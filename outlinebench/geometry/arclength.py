@@ -16,7 +16,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import InvalidGeometryError
-from outlinebench.geometry._batch import as_batch, normalized
+from outlinebench.geometry._batch import as_batch, horner, normalized
 from outlinebench.geometry.bezier import power_coefficients
 from outlinebench.geometry.quadrature import check_tolerance, integrate_intervals
 
@@ -49,15 +49,7 @@ _MAX_NEWTON = 60
 
 def _horner(coeffs: FloatArray, t: FloatArray) -> FloatArray:
     """Σ c_j tʲ for per-row coefficients ``(N, k)`` at per-row points ``(N, m)``."""
-    k = coeffs.shape[1]
-    if k == 1:
-        return np.zeros(t.shape) + coeffs[:, :1]
-    v = coeffs[:, -1, None] * t
-    v += coeffs[:, -2, None]
-    for j in range(k - 3, -1, -1):
-        v *= t
-        v += coeffs[:, j, None]
-    return v
+    return horner(coeffs.T[:, :, None], t)
 
 
 def _taylor_shift(coeffs: FloatArray, center: FloatArray) -> FloatArray:

@@ -23,7 +23,7 @@ from numpy.polynomial import polynomial as P
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import InvalidGeometryError
-from outlinebench.geometry._batch import as_batch, as_params, normalized, unbatch
+from outlinebench.geometry._batch import as_batch, as_params, cross, normalized, unbatch
 from outlinebench.geometry.bezier import derivative, evaluate, power_coefficients
 
 __all__ = [
@@ -55,10 +55,6 @@ CUSP_RELATIVE_TOLERANCE = 1e-9
 _PARALLEL_TOLERANCE = 1e-12
 
 
-def _cross(a: FloatArray, b: FloatArray) -> FloatArray:
-    return a[..., 0] * b[..., 1] - a[..., 1] * b[..., 0]
-
-
 def _derivatives(q: FloatArray, tt: FloatArray) -> list[FloatArray]:
     """B′, B″, B‴ of the batch q at tt, each ``(M, T, 2)`` (zero above the degree).
 
@@ -85,16 +81,16 @@ def _derivatives(q: FloatArray, tt: FloatArray) -> list[FloatArray]:
 
 def _curvature_normalized(q: FloatArray, tt: FloatArray) -> FloatArray:
     d1, d2, d3 = _derivatives(q, tt)
-    cross = _cross(d1, d2)
+    c12 = cross(d1, d2)
     denom = np.sum(d1 * d1, axis=-1) ** 1.5
     regular = denom > 0.0
     with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
-        kappa = np.where(regular, cross / np.where(regular, denom, 1.0), 0.0)
+        kappa = np.where(regular, c12 / np.where(regular, denom, 1.0), 0.0)
     if not regular.all():
         # B′ = 0 at t. Near t, B′ ≈ D2·h + D3·h²/2, so κ ≈ (D2 × D3) / (2 |D2|³ |h|): it grows
         # without bound with the sign of D2 × D3 on both sides, unless D2 ∥ D3 (the curve is
         # straight there, κ = 0). With D2 = 0 too the curve is P + D3 h³/6, straight: κ = 0.
-        c23 = _cross(d2, d3)
+        c23 = cross(d2, d3)
         n2 = np.linalg.norm(d2, axis=-1)
         n3 = np.linalg.norm(d3, axis=-1)
         turning = (n2 > 0.0) & (np.abs(c23) > _PARALLEL_TOLERANCE * n2 * n3)
@@ -241,8 +237,25 @@ def end_tangents(
     B′(0) = n(P1 − P0), B′(1) = n(Pn − Pn−1) (Farin §4.5); see :func:`unit_tangent` for the
     fallback.
     """
-    both = unit_tangent(points, np.array([0.0, 1.0]), tolerance)
-    return both[..., 0, :], both[..., 1, :]
+    pts, single = as_batch(points)
+    q, _ = normalized(pts)
+    k = q.shape[1]
+    ends = np.zeros((2, q.shape[0], 2))  # start and end directions
+    found = np.zeros((2, q.shape[0]), dtype=bool)
+    for p in range(1, k):
+        # D_p at t = 0 and t = 1 are the first and last hodograph points (Farin §4.5); the
+        # direction of arrival at t = 1 is (−1)^{p−1} D_p, as in unit_tangent.
+        h = derivative(q, p)
+        dp = np.stack([h[:, 0], h[:, -1] * (-1.0 if p % 2 == 0 else 1.0)])
+        norm = np.hypot(dp[..., 0], dp[..., 1])
+        use = ~found & (norm > tolerance)
+        ends = np.where(use[..., None], dp / np.where(norm > 0.0, norm, 1.0)[..., None], ends)
+        found |= use
+        if found.all():
+            break
+    if single:
+        return ends[0, 0], ends[1, 0]
+    return ends[0], ends[1]
 
 
 def end_curvatures(points: ArrayLike) -> tuple[FloatArray | float, FloatArray | float]:
@@ -322,7 +335,7 @@ def inflections(points: ArrayLike) -> FloatArray:
     a = q[1] - q[0]
     b = q[2] - 2.0 * q[1] + q[0]
     c = q[3] - 3.0 * q[2] + 3.0 * q[1] - q[0]
-    qa, qb, qc = _cross(b, c), _cross(a, c), _cross(a, b)  # qa t² + qb t + qc
+    qa, qb, qc = cross(b, c), cross(a, c), cross(a, b)  # qa t² + qb t + qc
     big = max(abs(qa), abs(qb), abs(qc))
     if big <= _PARALLEL_TOLERANCE:
         return np.empty(0)  # straight: every control point on one line

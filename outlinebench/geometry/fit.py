@@ -19,6 +19,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry.bezier import derivative, evaluate
+from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.nearest import nearest_point
 
 __all__ = [
@@ -53,17 +54,6 @@ FIT_PARAMETER_TOLERANCE = 1e-14
 DEVIATION_SAMPLES_PER_SEGMENT = 200
 
 
-def _first_direction(points: FloatArray) -> FloatArray | None:
-    """Unit direction from points[0] to the first control point that differs from it."""
-    p0 = points[0]
-    for q in points[1:]:
-        d = q - p0
-        n = float(np.hypot(d[0], d[1]))
-        if n > 0.0:
-            return d / n
-    return None
-
-
 def end_directions(segments: Sequence[FloatArray]) -> tuple[FloatArray, FloatArray]:
     """Unit tangent at the start of a chain and unit vector *into* the chain at its end.
 
@@ -82,17 +72,19 @@ def end_directions(segments: Sequence[FloatArray]) -> tuple[FloatArray, FloatArr
     Notes
     -----
     The direction of B′(0) is that of P₁ − P₀, or of the first non-zero Pᵢ − P₀ when the
-    leading handles coincide (Farin, *Curves and Surfaces for CAGD*, §5.3).
+    leading handles coincide (Farin, *Curves and Surfaces for CAGD*, §5.3); both ends come
+    from :func:`~outlinebench.geometry.curvature.end_tangents`.
     """
     first, last = segments[0], segments[-1]
-    t1 = _first_direction(first)
-    t2 = _first_direction(last[::-1])
+    t1, _ = end_tangents(first)
+    _, arrive = end_tangents(last)
+    t2 = -arrive
     chord = last[-1] - first[0]
     cn = float(np.hypot(chord[0], chord[1]))
     chord_dir = chord / cn if cn > 0.0 else np.array([1.0, 0.0])
-    if t1 is None:
+    if not t1.any():
         t1 = chord_dir
-    if t2 is None:
+    if not t2.any():
         t2 = -chord_dir
     return t1, t2
 

@@ -15,7 +15,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from outlinebench.geometry._batch import segment_scale
+from outlinebench.geometry._batch import cross, horner, segment_scale
 from outlinebench.geometry.bezier import evaluate, power_coefficients, split
 
 __all__ = [
@@ -44,10 +44,6 @@ _SAME_PARAM = 1e-7
 # transversal crossings of two cubics (at most 9) never keep this many boxes alive.
 _MAX_PAIRS = 4096
 _MAX_DEPTH = 64
-
-
-def _cross(a: FloatArray, b: FloatArray) -> FloatArray:
-    return a[..., 0] * b[..., 1] - a[..., 1] * b[..., 0]
 
 
 def line_intersection(a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE):
@@ -79,11 +75,11 @@ def line_intersection(a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTIO
         return np.array([[0.0, 0.0]])
     a0, b0 = (a - origin) / size, (b - origin) / size
     da, db, e = a0[1] - a0[0], b0[1] - b0[0], b0[0] - a0[0]
-    den = float(_cross(da, db))
+    den = float(cross(da, db))
     la, lb = float(np.hypot(*da)), float(np.hypot(*db))
     if abs(den) > tolerance * max(la * lb, 1e-300):
-        s = float(_cross(e, db)) / den
-        u = float(_cross(e, da)) / den
+        s = float(cross(e, db)) / den
+        u = float(cross(e, da)) / den
         slack_a = tolerance / la if la > 0 else 0.0
         slack_b = tolerance / lb if lb > 0 else 0.0
         if -slack_a <= s <= 1 + slack_a and -slack_b <= u <= 1 + slack_b:
@@ -150,11 +146,7 @@ def _dedupe(
 
 def _poly(c: FloatArray, t: FloatArray) -> FloatArray:
     """Σ c_k t^k for monomial coefficients ``(k, 2)`` at ``(N,)`` parameters → ``(N, 2)``."""
-    v = np.broadcast_to(c[-1], (t.size, 2)).copy()
-    for j in range(c.shape[0] - 2, -1, -1):
-        v *= t[:, None]
-        v += c[j]
-    return v
+    return horner(c[:, None, :], t[:, None])
 
 
 def _newton(a, b, s, u, iterations=40):
@@ -199,7 +191,7 @@ def _piece_flat(p: FloatArray) -> FloatArray:
     chord = p[:, -1] - p[:, 0]
     n = np.linalg.norm(chord, axis=-1)
     rel = p - p[:, :1]
-    dist_line = np.abs(_cross(rel, chord[:, None, :])) / np.where(n > 0, n, 1.0)[:, None]
+    dist_line = np.abs(cross(rel, chord[:, None, :])) / np.where(n > 0, n, 1.0)[:, None]
     dist_pt = np.linalg.norm(rel, axis=-1)
     d = np.where(n[:, None] > 0, dist_line, dist_pt)
     # a handle beyond the chord's ends is not flat either
@@ -228,7 +220,7 @@ def _on_one_line(a: FloatArray, b: FloatArray, tolerance: float) -> bool:
     length = float(np.hypot(*direction))
     if length == 0.0:
         return True
-    dist = np.abs(_cross(np.concatenate([a, b]) - ends[i], direction)) / length
+    dist = np.abs(cross(np.concatenate([a, b]) - ends[i], direction)) / length
     return bool(dist.max() <= tolerance)
 
 
@@ -313,7 +305,7 @@ def intersections(
             fa, fb = pa[flat], pb[flat]
             da, db = fa[:, -1] - fa[:, 0], fb[:, -1] - fb[:, 0]
             e = fb[:, 0] - fa[:, 0]
-            den = _cross(da, db)
+            den = cross(da, db)
             ok = np.abs(den) > 1e-300
             # Nearly parallel chords (the curves touch): start from the middle of piece a
             # and its projection on chord b.
@@ -323,8 +315,8 @@ def intersections(
                 nb2 > 0.0, nb2, np.inf
             )
             with np.errstate(divide="ignore", invalid="ignore"):
-                s = np.where(ok, _cross(e, db) / np.where(ok, den, 1.0), 0.5)
-                u = np.where(ok, _cross(e, da) / np.where(ok, den, 1.0), proj)
+                s = np.where(ok, cross(e, db) / np.where(ok, den, 1.0), 0.5)
+                u = np.where(ok, cross(e, da) / np.where(ok, den, 1.0), proj)
             s, u = np.clip(s, 0.0, 1.0), np.clip(u, 0.0, 1.0)
             ga = ra[flat, 0] + s * (ra[flat, 1] - ra[flat, 0])
             gb = rb[flat, 0] + u * (rb[flat, 1] - rb[flat, 0])
@@ -409,11 +401,11 @@ def self_intersections(points: ArrayLike, tolerance: float = INTERSECTION_TOLERA
     q = (pts - pts[0]) / size
     c = power_coefficients(q)
     c1, c2, c3 = c[1], c[2], c[3]
-    k32 = float(_cross(c3, c2))
+    k32 = float(cross(c3, c2))
     n3 = float(c3 @ c3)
     if abs(k32) <= 1e-14 or n3 <= 1e-28:
         return np.empty((0, 2))
-    sigma = -float(_cross(c3, c1)) / k32
+    sigma = -float(cross(c3, c1)) / k32
     pi = sigma * sigma + (float(c3 @ c2) * sigma + float(c3 @ c1)) / n3
     disc = sigma * sigma - 4.0 * pi
     if disc <= 0.0:

@@ -14,7 +14,7 @@ import numpy as np
 from numpy.polynomial import polynomial as P
 from numpy.typing import ArrayLike, NDArray
 
-from outlinebench.geometry._batch import segment_scale
+from outlinebench.geometry._batch import horner, segment_scale
 from outlinebench.geometry.bezier import evaluate, power_coefficients
 
 __all__ = ["nearest_point", "distance_to"]
@@ -100,24 +100,15 @@ def _polish(c: FloatArray, d: FloatArray, dd: FloatArray, r: FloatArray, t: Floa
     the same coordinates; ``t`` (N, C).
     """
     for _ in range(2):
-        b0 = _power_values(c, t) - r[:, None, :]
-        b1 = _power_values(d, t)
-        b2 = _power_values(dd, t)
+        b0 = horner(c[:, None, None, :], t[..., None]) - r[:, None, :]
+        b1 = horner(d[:, None, None, :], t[..., None])
+        b2 = horner(dd[:, None, None, :], t[..., None])
         fv = np.sum(b0 * b1, axis=2)
         fp = np.sum(b1 * b1, axis=2) + np.sum(b0 * b2, axis=2)
         with np.errstate(divide="ignore", invalid="ignore"):
             step = np.where(fp > 0.0, fv / np.where(fp > 0.0, fp, 1.0), 0.0)
         t = np.clip(t - step, 0.0, 1.0)
     return t
-
-
-def _power_values(coeffs: FloatArray, t: FloatArray) -> FloatArray:
-    """Σ c_k t^k for coefficients (k, 2) at parameters of any shape → shape + (2,)."""
-    v = np.zeros(t.shape + (2,)) + coeffs[-1]
-    for j in range(coeffs.shape[0] - 2, -1, -1):
-        v *= t[..., None]
-        v += coeffs[j]
-    return v
 
 
 def nearest_point(points: ArrayLike, p: ArrayLike):

@@ -48,6 +48,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import CommandError, InvalidGeometryError
 from outlinebench.geometry.bezier import KIND_BY_DEGREE, bernstein_matrix, elevate, split
+from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.fit import (
     FIT_SAMPLES_PER_SEGMENT,
     fit_chain,
@@ -371,24 +372,18 @@ def _freeze(a: FloatArray) -> FloatArray:
 # -- moving points --------------------------------------------------------------------------
 
 
-def _first_dir(points: FloatArray) -> FloatArray | None:
-    p0 = points[0]
-    for q in points[1:]:
-        d = q - p0
-        n = math.hypot(d[0], d[1])
-        if n > 0.0:
-            return d / n
-    return None
-
-
 def _tangents_agree(incoming: FloatArray, outgoing: FloatArray) -> bool:
-    """Whether the end direction of ``incoming`` and start of ``outgoing`` agree (G1)."""
-    a = _first_dir(incoming[::-1])
-    b = _first_dir(outgoing)
-    if a is None or b is None:
+    """Whether the end direction of ``incoming`` and start of ``outgoing`` agree (G1).
+
+    Directions from :func:`~outlinebench.geometry.curvature.end_tangents` (the first
+    non-zero derivative where a handle lies on its point); a segment shrunk to a point has
+    none and never agrees.
+    """
+    _, a = end_tangents(incoming)
+    b, _ = end_tangents(outgoing)
+    if not (a.any() and b.any()):
         return False
-    # a points back into the incoming segment; smooth when b ≈ −a.
-    cos = float(-(a[0] * b[0] + a[1] * b[1]))
+    cos = float(a[0] * b[0] + a[1] * b[1])
     return cos >= math.cos(math.radians(SMOOTH_ANGLE_TOLERANCE_DEG))
 
 

@@ -298,3 +298,25 @@ def test_regression_inflections_and_cusps_refuse_a_batch():
         inflections(batch)
     with pytest.raises(InvalidGeometryError, match="one segment"):
         cusps(batch)
+
+
+def test_end_tangents_equal_unit_tangent_at_the_ends():
+    # end_tangents computes the ends from the hodograph end points directly (it is used on
+    # every handle drag); unit_tangent at t = 0 and 1 is the definition it must match,
+    # including the fallbacks for handles on their points (Farin §4.5).
+    cases = [
+        np.array([[0.0, 0.0], [0.0, 0.0], [1.0, 1.0], [2.0, 0.0]]),
+        np.array([[0.0, 0.0], [0.0, 0.0], [0.0, 0.0], [2.0, 1.0]]),
+        np.array([[0.0, 0.0], [1.0, 2.0], [3.0, 1.0], [3.0, 1.0]]),
+        np.array([[1.0, 1.0], [1.0, 1.0], [1.0, 1.0], [1.0, 1.0]]),
+        EXACT_CUSP,
+        *mixed_cubics(6),
+    ]
+    for p in cases:
+        start, end = end_tangents(p)
+        np.testing.assert_allclose(start, unit_tangent(p, 0.0), atol=1e-15)
+        np.testing.assert_allclose(end, unit_tangent(p, 1.0), atol=1e-15)
+    batch = np.stack(cases)
+    start, end = end_tangents(batch)
+    np.testing.assert_allclose(start, unit_tangent(batch, 0.0), atol=1e-15)
+    np.testing.assert_allclose(end, unit_tangent(batch, 1.0), atol=1e-15)
