@@ -321,10 +321,13 @@ def _paint_marks(
     width: float,
     height: float,
 ) -> None:
+    # Each mark and handle is drawn as its own shape: Qt strokes one path of many
+    # overlapping antialiased shapes several times slower than the same shapes one by one
+    # (benchmarks/bench_editor.py, "zoomed 4×").
     lines: dict[str, list[QLineF]] = {"smooth": [], "corner": [], "start": [], "end": []}
-    handles: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
-    filled: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
-    hollow: dict[str, QPainterPath] = {k: QPainterPath() for k in lines}
+    handles: dict[str, list[QPointF]] = {k: [] for k in lines}
+    filled: dict[str, list[QPainterPath]] = {k: [] for k in lines}
+    hollow: dict[str, list[QPainterPath]] = {k: [] for k in lines}
     r = style.HANDLE_RADIUS
     for _oi, _ci, g, scr, inside in in_view:
         if len(g.handle_lines):
@@ -336,11 +339,12 @@ def _paint_marks(
             for i, ((ax, ay), (bx, by)) in zip(shown.tolist(), hl[shown].tolist(), strict=True):
                 kind = kinds[i]
                 lines[kind].append(QLineF(ax, ay, bx, by))
-                handles[kind].addEllipse(QPointF(bx, by), r, r)
+                handles[kind].append(QPointF(bx, by))
         for k in np.flatnonzero(inside):
             mark = g.marks[k]
-            target = filled if mark.stated else hollow
-            mark_path(target[mark.kind], float(scr[k, 0]), float(scr[k, 1]), mark)
+            path = QPainterPath()
+            mark_path(path, float(scr[k, 0]), float(scr[k, 1]), mark)
+            (filled if mark.stated else hollow)[mark.kind].append(path)
     for kind, colour in style.JOIN_COLOURS.items():
         pen = QPen(colour, 1.0)
         p.setPen(pen)
@@ -348,13 +352,16 @@ def _paint_marks(
     for kind, colour in style.JOIN_COLOURS.items():
         p.setPen(QPen(colour, 1.4))
         p.setBrush(style.PAPER)
-        p.drawPath(handles[kind])
+        for c in handles[kind]:
+            p.drawEllipse(c, r, r)
         p.setPen(QPen(colour.darker(130), 1.0))
         p.setBrush(colour)
-        p.drawPath(filled[kind])
+        for path in filled[kind]:
+            p.drawPath(path)
         p.setPen(QPen(colour, 1.6))
         p.setBrush(style.PAPER)
-        p.drawPath(hollow[kind])
+        for path in hollow[kind]:
+            p.drawPath(path)
 
 
 def paint_selection(
