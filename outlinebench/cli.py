@@ -15,6 +15,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import importlib.util
+import os
 import sys
 from collections.abc import Sequence
 from types import ModuleType
@@ -75,6 +76,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     except OutlinebenchError as exc:
         print(f"outlinebench: error: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT
+    except BrokenPipeError:
+        # The reader of our output went away (``outlinebench measure f.svg | head``): not an
+        # input error. Point stdout at devnull so the interpreter's final flush stays quiet,
+        # and exit 1 as the Python documentation on SIGPIPE recommends.
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return EXIT_FINDINGS
     except OSError as exc:
         where = f"{exc.filename}: " if exc.filename else ""
         print(f"outlinebench: error: {where}{exc.strerror or exc}", file=sys.stderr)
