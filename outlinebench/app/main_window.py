@@ -267,6 +267,15 @@ class MainWindow(QMainWindow):
             lambda: self.comb_slider.setValue(self.comb_slider.value() - 1),
             "[",
         )
+        self.act_next_finding = self._action(
+            "&Next finding",
+            lambda: self.step_finding(1),
+            "N",
+            tip="Show the next finding of the list on the canvas",
+        )
+        self.act_prev_finding = self._action(
+            "&Previous finding", lambda: self.step_finding(-1), "Shift+N"
+        )
         self.act_tolerances = self._action(
             "Check &tolerances…", self.edit_tolerances, tip="Gap, kink, corner and curvature limits"
         )
@@ -316,6 +325,8 @@ class MainWindow(QMainWindow):
         m_view.addAction(self.act_comb_longer)
         m_view.addAction(self.act_comb_shorter)
         m_view.addSeparator()
+        m_view.addAction(self.act_next_finding)
+        m_view.addAction(self.act_prev_finding)
         m_view.addAction(self.act_tolerances)
         m_view.addAction(self.findings_dock.toggleViewAction())
         m_tools = mb.addMenu("&Tools")
@@ -422,16 +433,16 @@ class MainWindow(QMainWindow):
 
     def _on_findings_updated(self) -> None:
         cur = self.current_finding
-        if cur is not None:
-            cur = next(
-                (
-                    f
-                    for f in self.live.findings
-                    if (f.kind, f.contour, f.segment, f.join) == (cur.kind, cur.contour,
-                                                                 cur.segment, cur.join)
-                ),
-                None,
-            )  # fmt: skip
+        if cur is not None and cur not in self.live.findings:
+            # After an edit the picked finding is the one of the same kind and place nearest
+            # to where it was (its value and position may have changed), or gone.
+            same = [
+                f
+                for f in self.live.findings
+                if (f.kind, f.contour, f.segment, f.join) == (cur.kind, cur.contour,
+                                                             cur.segment, cur.join)
+            ]  # fmt: skip
+            cur = min(same, key=lambda f: math.hypot(f.x - cur.x, f.y - cur.y), default=None)
             self.current_finding = cur
         marks = self.findings_panel.shown_findings() if self.act_marks.isChecked() else []
         self.canvas.set_finding_marks(marks, cur if self.act_marks.isChecked() else None)
@@ -467,6 +478,22 @@ class MainWindow(QMainWindow):
             f"{f.kind} ({f.severity}) at x {u.show(f.x):.{u.decimals}f}, "
             f"y {u.show(f.y):.{u.decimals}f} {u.name}: {f.message}"
         )
+
+    def step_finding(self, step: int) -> Finding | None:
+        """Show the finding ``step`` rows after (or before) the current one in the list's
+        order, wrapping around; None when the list is empty."""
+        model = self.findings_panel.model
+        n = model.rowCount()
+        if n == 0:
+            self._show_message("No findings to show")
+            return None
+        rows = [model.finding(r) for r in range(n)]
+        cur = self.current_finding
+        at = rows.index(cur) if cur in rows else (-1 if step > 0 else 0)
+        row = (at + step) % n
+        self.findings_panel.view.setCurrentIndex(model.index(row, 0))
+        self.show_finding(rows[row])
+        return rows[row]
 
     def edit_tolerances(self) -> bool:
         """Ask for new check tolerances; True when they were changed."""
@@ -549,6 +576,8 @@ class MainWindow(QMainWindow):
         if shown > style.MAX_MARKED_POINTS:
             # Marks are left out at this density (see style.MAX_MARKED_POINTS).
             text += f" · {shown} points in view, marks hidden: zoom in to see them"
+        if c.comb_on and c.comb_hidden:
+            text += " · too many segments in view for the curvature comb: zoom in"
         self.zoom_label.setText(text)
         self._place_start_panel()
 

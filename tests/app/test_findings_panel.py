@@ -213,3 +213,62 @@ def test_hovering_a_finding_mark_names_its_kind(sample_window, qtbot):
     qtbot.waitUntil(QToolTip.isVisible, timeout=2000)
     assert "cusp" in QToolTip.text() and "error" in QToolTip.text()
     QToolTip.hideText()
+
+
+def test_next_finding_walks_the_list_in_order(sample_window):
+    win = sample_window
+    model = win.findings_panel.model
+    order = [model.finding(r) for r in range(model.rowCount())]
+    seen = [win.step_finding(1) for _ in range(len(order) + 1)]
+    assert seen[:-1] == order and seen[-1] == order[0]  # wraps around
+    assert win.step_finding(-1) == order[-1]
+    assert win.canvas.current_finding == order[-1]
+
+
+def test_marks_are_hit_where_the_findings_are(sample_window):
+    from outlinebench.app.finding_marks import HIT_RADIUS_PX, finding_at
+
+    canvas = sample_window.canvas
+    marks = canvas.finding_marks
+    gap = next(f for f in marks if f.kind == "gap")
+    sx, sy = canvas.view.to_screen(gap.x, gap.y)
+    hits = finding_at(canvas.view, marks, sx + 3.0, sy - 3.0)
+    assert gap in hits
+    assert hits[0].severity == "error"  # most serious first
+    far = finding_at(canvas.view, marks, sx + 3 * HIT_RADIUS_PX, sy + 3 * HIT_RADIUS_PX)
+    assert gap not in far
+
+
+def test_many_findings_are_painted_plainly_and_all_counted(window):
+    # 500 invented findings in a grid: above DENSE_FINDING_MARKS, painted from arrays.
+    from PySide6.QtGui import QImage, QPainter
+
+    from outlinebench.app.finding_marks import DENSE_FINDING_MARKS, paint_finding_marks
+    from outlinebench.diagnostics import Finding
+
+    fs = [
+        Finding("kink", "warning", 0, 0, 0, 1.0, 10 + (k % 25) * 7, 5 + (k // 25) * 4, 2.0,
+                "degrees", "kink")
+        for k in range(500)
+    ]  # fmt: skip
+    assert len(fs) > DENSE_FINDING_MARKS
+    canvas = window.canvas
+    img = QImage(canvas.size(), QImage.Format.Format_ARGB32)
+    img.fill(0)
+    p = QPainter(img)
+    drawn = paint_finding_marks(p, canvas.view, fs, canvas.width(), canvas.height())
+    p.end()
+    inside = [
+        f for f in fs
+        if -30 <= canvas.view.to_screen(f.x, f.y)[0] <= canvas.width() + 30
+        and -30 <= canvas.view.to_screen(f.x, f.y)[1] <= canvas.height() + 30
+    ]  # fmt: skip
+    assert drawn == len(inside) > DENSE_FINDING_MARKS
+    # Something was drawn in the warning colour (ochre) at a frame's edge.
+    from outlinebench.app import style
+
+    f = inside[0]
+    sx, sy = canvas.view.to_screen(f.x, f.y)
+    half = style.FINDING_SIZE["warning"]
+    edge = [img.pixelColor(int(sx + dx), int(sy - half)).name() for dx in (-2, 0, 2)]
+    assert style.FINDING_WARNING.name() in edge
