@@ -38,7 +38,12 @@ from outlinebench.app.canvas_painter import (
     visible_contours,
 )
 from outlinebench.app.contour_graphics import GraphicsCache
-from outlinebench.app.curvature_comb import MAX_COMB_SEGMENTS, CombCache, paint_comb
+from outlinebench.app.curvature_comb import (
+    MAX_COMB_SEGMENTS,
+    MAX_TOOTH_PX,
+    CombCache,
+    paint_comb,
+)
 from outlinebench.app.finding_marks import finding_at, paint_finding_marks
 from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
 from outlinebench.diagnostics import Finding
@@ -236,7 +241,8 @@ class Canvas(QWidget):
             self.comb_teeth, self.comb_hidden = 0, False
             return
         w, h = self.width(), self.height()
-        shown = visible_contours(self.view, doc, self.cache, w, h, outlines)
+        # Teeth reach up to MAX_TOOTH_PX beyond their contour's box.
+        shown = visible_contours(self.view, doc, self.cache, w, h, outlines, MAX_TOOTH_PX)
         n = sum(len(doc.outlines[oi].contours[ci].segments) for oi, ci, *_ in shown)
         self.comb_hidden = n > MAX_COMB_SEGMENTS
         if self.comb_hidden:

@@ -226,9 +226,10 @@ def _visible(
     width: float,
     height: float,
     outlines: set[int] | None,
+    margin_px: float = style.MARK_SIZE * 2,
 ) -> list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]]:
     visible = view.doc_rect(width, height)
-    margin = (style.MARK_SIZE * 2) / view.scale
+    margin = margin_px / view.scale
     vis = (visible[0] - margin, visible[1] - margin, visible[2] + margin, visible[3] + margin)
     out = []
     for oi, outline in enumerate(doc.outlines):
@@ -259,10 +260,11 @@ def visible_contours(
     width: float,
     height: float,
     outlines: set[int] | None = None,
+    margin_px: float = style.MARK_SIZE * 2,
 ) -> list[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]]:
-    """Contours whose control-point box meets the view: ``(outline, contour, graphics,
-    on-curve points on screen, which of them are inside)``."""
-    return _visible(view, doc, cache, width, height, outlines)
+    """Contours whose control-point box, grown by ``margin_px`` logical px, meets the view:
+    ``(outline, contour, graphics, on-curve points on screen, which of them are inside)``."""
+    return _visible(view, doc, cache, width, height, outlines, margin_px)
 
 
 def paint_outlines(
