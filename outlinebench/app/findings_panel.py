@@ -260,6 +260,8 @@ class FindingsPanel(QWidget):
             self.view.setColumnWidth(col, width)
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)
+        # Walking the list with the arrow keys shows each finding in turn.
+        self.view.selectionModel().currentRowChanged.connect(self._on_current_row)
         lay.addWidget(self.view, 1)
         self._timer = QTimer(self)
         self._timer.setSingleShot(True)
@@ -312,6 +314,10 @@ class FindingsPanel(QWidget):
         if self._live.error:
             text += f"<br><span style='color:#c3122f'>Check failed: {self._live.error}</span>"
         self.summary.setText(text)
+
+    def _on_current_row(self, index: QModelIndex, _previous: QModelIndex) -> None:
+        if self.view.hasFocus() and index.isValid():
+            self.picked.emit(self.model.finding(index.row()))
 
     def _on_row(self, index: QModelIndex) -> None:
         if index.isValid():

@@ -272,3 +272,15 @@ def test_many_findings_are_painted_plainly_and_all_counted(window):
     half = style.FINDING_SIZE["warning"]
     edge = [img.pixelColor(int(sx + dx), int(sy - half)).name() for dx in (-2, 0, 2)]
     assert style.FINDING_WARNING.name() in edge
+
+
+def test_arrow_keys_in_the_list_show_each_finding(sample_window, qtbot):
+    win = sample_window
+    view, model = win.findings_panel.view, win.findings_panel.model
+    view.setFocus()
+    qtbot.waitUntil(view.hasFocus, timeout=2000)
+    view.setCurrentIndex(model.index(0, 0))
+    QTest.keyClick(view, Qt.Key.Key_Down)
+    assert win.current_finding == model.finding(1)
+    cx, cy = win.canvas.to_doc(QPointF(win.canvas.width() / 2, win.canvas.height() / 2))
+    assert (cx, cy) == pytest.approx((model.finding(1).x, model.finding(1).y), abs=1e-9)
