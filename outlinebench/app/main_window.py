@@ -157,6 +157,8 @@ class MainWindow(QMainWindow):
         self.findings_dock = fdock
         self.current_finding: Finding | None = None
         self._comb_base: float | None = None  # automatic comb scale of the open document
+        self._seen_doc = self.session.document
+        self.session.changed.connect(self._on_maybe_new_document)
         self.live.updated.connect(self._on_findings_updated)
         self.findings_panel.filter_changed.connect(lambda _on: self._on_findings_updated())
         self.findings_panel.picked.connect(self.show_finding)
@@ -447,6 +449,17 @@ class MainWindow(QMainWindow):
         marks = self.findings_panel.shown_findings() if self.act_marks.isChecked() else []
         self.canvas.set_finding_marks(marks, cur if self.act_marks.isChecked() else None)
 
+    def _on_maybe_new_document(self) -> None:
+        # A document with no undo and no redo behind it was just loaded (a file opened, a
+        # new drawing): it gets its own automatic comb scale, and no finding is picked.
+        s = self.session
+        if s.document is not self._seen_doc and not s.can_undo and not s.can_redo:
+            self._comb_base = None
+            self.current_finding = None
+            if self.act_comb.isChecked():
+                self._apply_comb()
+        self._seen_doc = s.document
+
     def show_finding(self, f: Finding) -> None:
         """Select the point nearest to a finding, centre it, and zoom in if it is tiny."""
         doc = self.session.document
@@ -665,11 +678,7 @@ class MainWindow(QMainWindow):
             path, str(result.error), len(result.document.outlines)
         ):
             return False
-        self.session.load(result.document)
-        self.current_finding = None
-        self._comb_base = None  # the new drawing gets its own automatic comb scale
-        if self.act_comb.isChecked():
-            self._apply_comb()
+        self.session.load(result.document)  # resets the comb scale, see _on_maybe_new_document
         self.path = str(path)
         self._partial = partial
         self.recent.add(self.path)

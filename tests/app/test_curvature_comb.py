@@ -135,3 +135,20 @@ def test_comb_toggle_draws_teeth_and_scale_control_lengthens_them(window, qtbot)
     assert canvas.comb_teeth > before  # adaptive: more teeth when zoomed in
     win.act_comb.trigger()
     assert not canvas.comb_on
+
+
+def test_each_loaded_document_gets_its_own_automatic_scale(window):
+    from test_findings_panel import _s_curve_document
+
+    from outlinebench.app.curvature_comb import auto_comb_scale
+
+    win = window
+    win.set_comb_visible(True)
+    assert win.canvas.comb_scale == pytest.approx(auto_comb_scale(win.session.document))
+    other = _s_curve_document()
+    win.session.load(other)
+    assert win.canvas.comb_scale == pytest.approx(auto_comb_scale(other))
+    # An edit keeps the scale (the comb must not jump while drawing).
+    before = win.canvas.comb_scale
+    win.session.set_point((0, 0, 1, 2), 70.0, 35.0)
+    assert win.canvas.comb_scale == before
