@@ -1,5 +1,9 @@
 """The editor's main window: canvas, selection panel, menus, tool bar and file handling.
 
+The window also wires the diagnostics overlays: the findings list (a dock on the left, fed by
+:class:`~outlinebench.app.live_findings.LiveFindings`), finding frames on the canvas, the
+curvature comb and its scale (View menu), and the check tolerances dialog.
+
 ``run_editor(args)`` is the entry point ``outlinebench [FILE.svg]`` reaches.
 """
 
