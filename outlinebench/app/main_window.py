@@ -155,7 +155,10 @@ class MainWindow(QMainWindow):
         fdock = QDockWidget("Findings", self)
         fdock.setObjectName("findingsDock")
         fdock.setWidget(self.findings_panel)
-        fdock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
+        fdock.setFeatures(  # closable: View ▸ Findings brings it back
+            QDockWidget.DockWidgetFeature.DockWidgetMovable
+            | QDockWidget.DockWidgetFeature.DockWidgetClosable
+        )
         self.addDockWidget(Qt.DockWidgetArea.LeftDockWidgetArea, fdock)
         self.resizeDocks([fdock], [FINDINGS_DOCK_WIDTH], Qt.Orientation.Horizontal)
         self.findings_dock = fdock
