@@ -212,6 +212,11 @@ class CombCache:
         self._items[id(contour)] = (contour, lvl, samples)
         return samples
 
+    def holds(self, contour: Contour) -> bool:
+        """Whether samples of this very contour object are cached (at any zoom level)."""
+        hit = self._items.get(id(contour))
+        return hit is not None and hit[0] is contour
+
     def prune(self, live: set[int]) -> None:
         for k in [k for k in self._items if k not in live]:
             del self._items[k]

@@ -152,3 +152,30 @@ def test_each_loaded_document_gets_its_own_automatic_scale(window):
     before = win.canvas.comb_scale
     win.session.set_point((0, 0, 1, 2), 70.0, 35.0)
     assert win.canvas.comb_scale == before
+
+
+def test_comb_follows_a_drag_live(window):
+    from PySide6.QtCore import QEvent, QPointF
+    from qt_mouse import _send, screen
+
+    win, canvas, s = window, window.canvas, window.session
+    win.set_comb_visible(True)
+    canvas.repaint()
+    c = s.document.outlines[1].contours[0]  # the open stroke
+    start = screen(canvas, c.segments[0][0])
+    _send(canvas, QEvent.Type.MouseButtonPress, start)
+    _send(canvas, QEvent.Type.MouseMove, start + QPointF(9.0, 14.0))
+    assert s.history.in_group
+    canvas.repaint()  # a frame mid-drag
+    moved = s.document.outlines[1].contours[0]
+    assert moved is not c
+    assert canvas.comb_cache.holds(moved)  # the frame sampled the moved contour
+    samples = canvas.comb_cache.get(moved, canvas.view.scale)
+    first = samples.segment == 0
+    # The comb's curve points are the moved segment's (svgpathtools evaluation).
+    ref = _svgpt(moved.segments[0])
+    got = samples.points[first]
+    want = np.array([[ref.point(t).real, ref.point(t).imag] for t in samples.t[first]])
+    np.testing.assert_allclose(got, want, atol=1e-9)
+    assert canvas.comb_teeth > 0
+    _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(9.0, 14.0))
