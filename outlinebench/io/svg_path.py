@@ -70,6 +70,11 @@ for _ch in _COMMANDS:
     _CLASS[ord(_ch)] = 2
 _CLASS[ord(",")] = 3
 _CLASS_TABLE = bytes(_CLASS.astype(np.uint8).tolist())
+_SIGN_TABLE = bytes(int(chr(b) in "+-") for b in range(256))
+_MARKER_TABLE = bytes(int(chr(b) in ".eE") for b in range(256))
+_GAP_TABLE = bytes(int(_CLASS[b] != 1) for b in range(256))
+# Bytes after which a sign starts a new number: number characters other than an exponent's e.
+_NUMBER_NOT_E = np.array([chr(b) in "0123456789.+-" for b in range(256)])
 _TO_SPACE = bytes.maketrans((_COMMANDS + "," + _WSP).encode(), b" " * (len(_COMMANDS) + 6))
 _NOT_COMMAND = bytes(b for b in range(256) if chr(b) not in _COMMANDS)
 _GLUED_RE = re.compile(rb"[0-9.][-+]")  # a sign right after a number: no separator
@@ -163,15 +168,15 @@ def _separate(raw: bytes) -> bytes:
     goes to the general lexer, which reports the error on the original text).
     """
     codes = np.frombuffer(raw, dtype=np.uint8)
-    cls = np.frombuffer(raw.translate(_CLASS_TABLE), dtype=np.uint8)
-    signs = np.flatnonzero((codes == ord("-")) | (codes == ord("+")))
+    # Masks by bytes.translate (C speed): 1 where the byte is of the kind, else 0.
+    signs = np.flatnonzero(np.frombuffer(raw.translate(_SIGN_TABLE), dtype=np.bool_))
     signs = signs[signs > 0]
     before = codes[signs - 1]
-    glued = signs[(cls[signs - 1] == 1) & (before != ord("e")) & (before != ord("E"))]
-    markers = np.flatnonzero((codes == ord(".")) | (codes == ord("e")) | (codes == ord("E")))
+    glued = signs[_NUMBER_NOT_E[before]]
+    markers = np.flatnonzero(np.frombuffer(raw.translate(_MARKER_TABLE), dtype=np.bool_))
     dots = markers[:0]
     if markers.size > 1:
-        gap = cls != 1
+        gap = np.frombuffer(raw.translate(_GAP_TABLE), dtype=np.bool_).copy()
         gap[glued] = True  # a glued sign begins a new number
         runs = np.cumsum(gap, dtype=np.int32)
         prev, cur = markers[:-1], markers[1:]
@@ -223,7 +228,9 @@ def _lex_bytes(raw: bytes, commands: bytes) -> _Tokens | None:
         ):
             return None
     numch = cls == 1
-    starts = np.flatnonzero(numch & ~np.concatenate(([False], numch[:-1])))
+    starts = np.flatnonzero(numch[1:] & ~numch[:-1]) + 1
+    if numch[0]:
+        starts = np.concatenate(([0], starts))
     cpos = np.flatnonzero(cls == 2)
     if starts.size and starts[0] < cpos[0]:
         return None
