@@ -63,6 +63,22 @@ WHEEL_PAN_PX_PER_NOTCH = 60.0
 PLACE_MIN_PX = 48.0
 
 
+def _global_contours(doc: Document, outlines: set[int]) -> frozenset[int]:
+    """Global contour numbers (the numbering findings use) of the given outlines."""
+    out: list[int] = []
+    k = 0
+    for oi, outline in enumerate(doc.outlines):
+        n = len(outline.contours)
+        if oi in outlines:
+            out.extend(range(k, k + n))
+        k += n
+    return frozenset(out)
+
+
+def _touches(f: Finding, contours: frozenset[int]) -> bool:
+    return f.contour in contours or (f.other_contour is not None and f.other_contour in contours)
+
+
 class Canvas(QWidget):
     """Shows a document and forwards editing gestures to the active tool.
 
@@ -86,7 +102,8 @@ class Canvas(QWidget):
         self._last_pan = QPointF()
         self._fitted_once = False
         self._last_doc: Document | None = None  # last document painted outside a gesture
-        self._backdrop: tuple | None = None  # (key, pixmap, marks) while a gesture runs
+        # (key, pixmap, marks, contours being changed) while a gesture runs
+        self._backdrop: tuple | None = None
         # Overlays: finding marks (the findings the list shows) and the curvature comb.
         self.finding_marks: list[Finding] = []
         self.current_finding: Finding | None = None
@@ -225,14 +242,19 @@ class Canvas(QWidget):
                 still = set(range(len(doc.outlines))) - live
                 self._paint_comb(bp, base, still)
                 paint_outlines(bp, v, base, self.cache, w, h, outlines=still, marks=marks)
+                # Frames of findings the drag cannot change go into the backdrop too.
+                moving = _global_contours(doc, live)
+                fixed = [f for f in self.finding_marks if not _touches(f, moving)]
+                paint_finding_marks(bp, v, fixed, w, h)
             finally:
                 bp.end()
-            self._backdrop = (key, pixmap, marks)
-        _, pixmap, marks = self._backdrop
+            self._backdrop = (key, pixmap, marks, moving)
+        _, pixmap, marks, moving = self._backdrop
         p.drawPixmap(0, 0, pixmap)
         self._paint_comb(p, doc, live)
         paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
-        paint_finding_marks(p, v, self.finding_marks, w, h, self.current_finding)
+        changing = [f for f in self.finding_marks if _touches(f, moving)]
+        paint_finding_marks(p, v, changing, w, h, self.current_finding)
         paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)
 
     def _paint_comb(self, p: QPainter, doc: Document, outlines: set[int] | None) -> None:

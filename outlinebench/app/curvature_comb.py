@@ -171,9 +171,13 @@ def comb_tips(samples: CombSamples, scale: float) -> FloatArray:
 
 def auto_comb_scale(doc: Document) -> float:
     """A comb scale (document units²) that suits ``doc`` (see :data:`AUTO_TOOTH_FRACTION`);
-    1.0 for a document without curves."""
-    ks: list[float] = []
+    1.0 for a document without curves.
+
+    The end curvatures of all curved segments are computed in one batch per degree
+    (:func:`outlinebench.geometry.curvature.end_curvatures`).
+    """
     sizes: list[float] = []
+    by_k: dict[int, list[FloatArray]] = {3: [], 4: []}
     for outline in doc.outlines:
         for contour in outline.contours:
             if not contour.segments:
@@ -181,11 +185,16 @@ def auto_comb_scale(doc: Document) -> float:
             allpts = np.concatenate(contour.segments)
             lo, hi = allpts.min(axis=0), allpts.max(axis=0)
             sizes.append(float(np.hypot(*(hi - lo))))
-            for s in contour.segments:
-                if s.shape[0] > 2:
-                    k0, k1 = end_curvatures(s)
-                    ks.extend((abs(float(k0)), abs(float(k1))))
-    k = np.array([v for v in ks if math.isfinite(v) and v > 0.0])
+            for seg in contour.segments:
+                if seg.shape[0] in by_k:
+                    by_k[seg.shape[0]].append(seg)
+    ends = [np.zeros(0)]
+    for segs in by_k.values():
+        if segs:
+            k0, k1 = end_curvatures(np.stack(segs))
+            ends.extend((np.abs(np.atleast_1d(k0)), np.abs(np.atleast_1d(k1))))
+    k = np.concatenate(ends)
+    k = k[np.isfinite(k) & (k > 0.0)]
     if not k.size or not sizes:
         return 1.0
     return AUTO_TOOTH_FRACTION * float(np.median(sizes)) / float(np.percentile(k, 90))

@@ -460,7 +460,8 @@ class MainWindow(QMainWindow):
         # A document with no undo and no redo behind it was just loaded (a file opened, a
         # new drawing): it gets its own automatic comb scale, and no finding is picked.
         s = self.session
-        if s.document is not self._seen_doc and not s.can_undo and not s.can_redo:
+        fresh = not s.history.in_group and not s.can_undo and not s.can_redo
+        if s.document is not self._seen_doc and fresh:
             self._comb_base = None
             self.current_finding = None
             if self.act_comb.isChecked():

@@ -161,6 +161,7 @@ def test_comb_follows_a_drag_live(window):
     win, canvas, s = window, window.canvas, window.session
     win.set_comb_visible(True)
     canvas.repaint()
+    scale = canvas.comb_scale
     c = s.document.outlines[1].contours[0]  # the open stroke
     start = screen(canvas, c.segments[0][0])
     _send(canvas, QEvent.Type.MouseButtonPress, start)
@@ -178,4 +179,5 @@ def test_comb_follows_a_drag_live(window):
     want = np.array([[ref.point(t).real, ref.point(t).imag] for t in samples.t[first]])
     np.testing.assert_allclose(got, want, atol=1e-9)
     assert canvas.comb_teeth > 0
+    assert canvas.comb_scale == scale  # a drag never changes the comb scale
     _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(9.0, 14.0))
