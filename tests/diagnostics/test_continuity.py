@@ -72,9 +72,9 @@ def test_straight_into_curve_gives_one_and_is_info():
     assert f.value == 1.0
     assert f.curvature_before == 0.0
     # the cubic quarter circle's end curvature: (2/3)|P1−P0 × P2−P1|/|P1−P0|³ (Farin end
-    # curvature formula) = (2/3)(2k)(2−2k)/(2k)³... computed directly:
+    # curvature formula) with P1 − P0 = (2k, 0) and P2 − P1 = (3 − (1 + 2k), 2 − 2k):
     d1 = np.array([2 * k, 0.0])
-    d2 = np.array([2 - 2 * k - 2 * k + 0.0, 2 - 2 * k])
+    d2 = np.array([2 - 2 * k, 2 - 2 * k])
     expect = (2 / 3) * (d1[0] * d2[1] - d1[1] * d2[0]) / np.linalg.norm(d1) ** 3
     assert f.curvature_after == pytest.approx(expect, rel=1e-12)
     assert f.severity == "info"  # CheckSettings.straight_into_curve_severity default
