@@ -71,6 +71,10 @@ AUTO_TOOTH_FRACTION = 0.1
 
 FloatArray = NDArray[np.float64]
 
+# Segment samples kept beyond twice those in use before the cache is cleaned (a drag adds a
+# few new segment arrays per mouse move).
+SEGMENT_SLACK = 1000
+
 
 @dataclass(frozen=True, slots=True)
 class CombSamples:
@@ -202,10 +206,17 @@ def auto_comb_scale(doc: Document) -> float:
 
 class CombCache:
     """Comb samples per contour object and zoom level (levels are powers of two of the
-    scale, so zooming within a factor of two reuses the samples)."""
+    scale, so zooming within a factor of two reuses the samples).
+
+    Samples are also kept per segment array: an edit builds a new contour but keeps its
+    untouched segments as the same arrays, so a drag samples only the segments it moved.
+    """
 
     def __init__(self) -> None:
         self._items: dict[int, tuple[Contour, int, CombSamples]] = {}
+        # id(segment array) -> (array, level, points, normals, kappa, t)
+        self._segs: dict[int, tuple] = {}
+        self.segments_sampled = 0  # segments sampled by the last `get` that missed
 
     @staticmethod
     def level(px_per_unit: float) -> int:
@@ -216,8 +227,41 @@ class CombCache:
         hit = self._items.get(id(contour))
         if hit is not None and hit[0] is contour and hit[1] == lvl:
             return hit[2]
-        cubic = as_cubics(contour.segments)
-        samples = sample_comb(cubic, teeth_per_segment(cubic, 2.0 ** (lvl + 1)))
+        segs = contour.segments
+        parts: list[tuple | None] = []
+        missing: list[int] = []
+        for k, seg in enumerate(segs):
+            e = self._segs.get(id(seg))
+            if e is not None and e[0] is seg and e[1] == lvl:
+                parts.append(e)
+            else:
+                parts.append(None)
+                missing.append(k)
+        if missing:
+            cubic = as_cubics([segs[k] for k in missing])
+            new = sample_comb(cubic, teeth_per_segment(cubic, 2.0 ** (lvl + 1)))
+            cuts = np.flatnonzero(np.diff(new.segment)) + 1
+            pieces = zip(
+                np.split(new.points, cuts),
+                np.split(new.normals, cuts),
+                np.split(new.kappa, cuts),
+                np.split(new.t, cuts),
+                strict=True,
+            )
+            for k, (pts, nor, kap, tt) in zip(missing, pieces, strict=True):
+                e = (segs[k], lvl, pts, nor, kap, tt)
+                self._segs[id(segs[k])] = e
+                parts[k] = e
+        self.segments_sampled = len(missing)
+        done = [e for e in parts if e is not None]
+        counts = [e[2].shape[0] for e in done]
+        samples = CombSamples(
+            np.concatenate([e[2] for e in done]) if done else np.zeros((0, 2)),
+            np.concatenate([e[3] for e in done]) if done else np.zeros((0, 2)),
+            np.concatenate([e[4] for e in done]) if done else np.zeros(0),
+            np.repeat(np.arange(len(done), dtype=np.intp), counts),
+            np.concatenate([e[5] for e in done]) if done else np.zeros(0),
+        )
         self._items[id(contour)] = (contour, lvl, samples)
         return samples
 
@@ -227,8 +271,19 @@ class CombCache:
         return hit is not None and hit[0] is contour
 
     def prune(self, live: set[int]) -> None:
+        """Keep only the contours whose ids are in ``live``.
+
+        Segment samples are dropped only when they have grown to twice those the kept
+        contours use: the contour a drag is changing is not cached yet when the document
+        changes, and its untouched segments' samples must survive until the next frame.
+        """
         for k in [k for k in self._items if k not in live]:
             del self._items[k]
+        used = sum(len(c.segments) for c, _, _ in self._items.values())
+        if len(self._segs) > 2 * used + SEGMENT_SLACK:
+            keep = {id(seg) for c, _, _ in self._items.values() for seg in c.segments}
+            for k in [k for k in self._segs if k not in keep]:
+                del self._segs[k]
 
 
 def paint_comb(

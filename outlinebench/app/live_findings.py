@@ -101,6 +101,8 @@ class LiveFindings(QObject):
         self.refresh()
 
     def _on_document_changed(self) -> None:
+        if not self.in_gesture:
+            self._gesture_ms = None  # the next drag starts with a check of its own
         if self._session.document is self.document:
             return
         # Outside a gesture (an edit, undo, a file opened) the check runs at once; during a
@@ -108,7 +110,6 @@ class LiveFindings(QObject):
         # THROTTLE_MS. (The first check of a drag always runs: the check of a whole file
         # that came before says nothing about the cost of one contour.)
         if not self.in_gesture:
-            self._gesture_ms = None
             self.refresh()
         elif self._gesture_ms is None or self._gesture_ms <= LIVE_BUDGET_MS:
             self.refresh()

@@ -171,6 +171,8 @@ def test_comb_follows_a_drag_live(window):
     moved = s.document.outlines[1].contours[0]
     assert moved is not c
     assert canvas.comb_cache.holds(moved)  # the frame sampled the moved contour
+    assert canvas.comb_cache.segments_sampled == 1  # only the segment the drag changed
+    assert moved.segments[1] is c.segments[1]
     samples = canvas.comb_cache.get(moved, canvas.view.scale)
     first = samples.segment == 0
     # The comb's curve points are the moved segment's (svgpathtools evaluation).
