@@ -311,7 +311,7 @@ class Checker:
                 gi += 1
 
         # 2. all new segments at once
-        fresh = segment_table(fresh_segments)
+        fresh = segment_table(fresh_segments, limits.gap)
         seg_by: dict[int, dict[int, list[Finding]]] = {}  # contour -> segment -> findings
         for _, f in segment_findings(
             fresh,

@@ -52,6 +52,7 @@ __all__ = [
     "SegmentTable",
     "hull_boxes",
     "segment_table",
+    "handle_lengths",
     "monotone_mask",
     "segment_findings",
 ]
@@ -156,17 +157,62 @@ def hull_boxes(cubics: FloatArray) -> FloatArray:
     return np.concatenate([lo, hi], axis=1)
 
 
-def segment_table(segments: Sequence[FloatArray]) -> SegmentTable:
+def handle_lengths(cubics: FloatArray, degree: NDArray[np.int8]) -> tuple[FloatArray, FloatArray]:
+    """Length of the start and the end handle of each segment as drawn, shapes (M,), (M,).
+
+    The cubic form of a quadratic has its handles 2/3 of the way to the quadratic's middle
+    point (degree elevation, Farin §5.1), so their lengths are scaled by 3/2 back to the
+    drawn handle. Lines have no handles; their values mean nothing.
+    """
+    scale = np.where(degree == 2, 1.5, 1.0)
+    h0 = np.linalg.norm(cubics[:, 1] - cubics[:, 0], axis=1) * scale
+    h1 = np.linalg.norm(cubics[:, 3] - cubics[:, 2], axis=1) * scale
+    return h0, h1
+
+
+def _retract_handles(
+    cubics: FloatArray, degree: NDArray[np.int8], gap: float
+) -> tuple[NDArray[np.intp], FloatArray, NDArray[np.intp], FloatArray]:
+    """Curved segments with a handle within ``gap`` of its on-curve point, and their cubics
+    with that handle (and a following control point also within ``gap``) moved onto it."""
+    h0, h1 = handle_lengths(cubics, degree)
+    curved = degree >= 2
+    r0 = np.flatnonzero(curved & (h0 <= gap))
+    r1 = np.flatnonzero(curved & (h1 <= gap))
+    c0 = cubics[r0].copy()
+    c0[:, 1] = c0[:, 0]
+    near = np.linalg.norm(c0[:, 2] - c0[:, 0], axis=1) <= gap
+    c0[near, 2] = c0[near, 0]
+    c1 = cubics[r1].copy()
+    c1[:, 2] = c1[:, 3]
+    near = np.linalg.norm(c1[:, 1] - c1[:, 3], axis=1) <= gap
+    c1[near, 1] = c1[near, 3]
+    return r0, c0, r1, c1
+
+
+def segment_table(segments: Sequence[FloatArray], gap: float = 0.0) -> SegmentTable:
     """Build the per-segment arrays for a list of segments of any degrees.
 
     Parameters
     ----------
     segments : sequence of ndarray, each (K, 2)
+    gap : float
+        The gap tolerance in the segments' units. A handle within it of its on-curve point
+        counts as retracted (a degenerate handle): the end tangent and curvature there are
+        those of the segment with the handle moved onto its point.
 
     Returns
     -------
     SegmentTable
         Row r describes ``segments[r]``.
+
+    Notes
+    -----
+    With P1 = P0 the start direction is that of the first non-zero derivative, P2 − P0 (or
+    P3 − P0 when P2 is within ``gap`` of P0 too) (Farin §4.5), and κ(0) is ±inf unless P2 lies
+    on the line P0P3 (:func:`outlinebench.geometry.end_curvatures`); the end mirrors it. A
+    handle shorter than the tolerance cannot be seen or cut, while the direction it gives
+    would make a false corner at the join.
     """
     m = len(segments)
     cubics = np.empty((m, 4, 2))
@@ -181,6 +227,18 @@ def segment_table(segments: Sequence[FloatArray]) -> SegmentTable:
     else:
         d0 = d1 = np.zeros((0, 2))
         k0 = k1 = np.zeros(0)
+    if m and gap > 0.0:
+        r0, c0, r1, c1 = _retract_handles(cubics, degree, gap)
+        if r0.size:
+            d0 = d0.copy()
+            k0 = k0.copy()
+            d0[r0] = end_tangents(c0)[0]
+            k0[r0] = end_curvatures(c0)[0]
+        if r1.size:
+            d1 = d1.copy()
+            k1 = k1.copy()
+            d1[r1] = end_tangents(c1)[1]
+            k1[r1] = end_curvatures(c1)[1]
     box = hull_boxes(cubics)
     return SegmentTable(
         cubics, degree, np.asarray(d0), np.asarray(d1), np.asarray(k0), np.asarray(k1), box
@@ -287,10 +345,7 @@ def segment_findings(
             )  # fmt: skip
 
     # -- degenerate handles --------------------------------------------------------------
-    # The cubic form of a quadratic has handles 2/3 of the way to its middle point.
-    scale = np.where(table.degree == 2, 1.5, 1.0)
-    h0 = np.linalg.norm(cub[:, 1] - cub[:, 0], axis=1) * scale
-    h1 = np.linalg.norm(cub[:, 3] - cub[:, 2], axis=1) * scale
+    h0, h1 = handle_lengths(cub, table.degree)
     curved = (table.degree >= 2) & ~tiny
     for end, hl in ((0, h0), (1, h1)):
         for r in np.flatnonzero(curved & (hl <= limits.gap)):

@@ -2,10 +2,10 @@
 
 import numpy as np
 import pytest
-from diag_docs import circle, doc_of, of_kind
+from diag_docs import circle, doc_of, kinds, of_kind
 
 from outlinebench.diagnostics import check_document
-from outlinebench.diagnostics.segment_checks import monotone_mask
+from outlinebench.diagnostics.segment_checks import monotone_mask, segment_table
 from outlinebench.model.document import Contour
 
 
@@ -90,3 +90,29 @@ def test_monotone_screen_never_hides_a_cusp():
     for _ in range(200):
         pts, _ = cusp_cubic(rng.uniform(0.05, 0.95), a=rng.normal(size=2), b=rng.normal(size=2))
         assert not monotone_mask(np.array([pts]))[0]
+
+
+def test_handle_within_the_gap_tolerance_takes_its_tangent_from_the_next_point():
+    # M0,0 L10,0 C10,0.005 15,0 20,0 (review item 1): the handle lies 0.005 mm from its point,
+    # inside the 0.01 mm gap tolerance, so it counts as retracted; B′(0) then comes from the
+    # first non-zero derivative, along P2 − P0 = (5, 0) (Farin §4.5), and the line (1, 0)
+    # runs straight on: turn 0°, no corner, no kink, only the degenerate handle.
+    doc = doc_of(Contour.from_points([[(0, 0), (10, 0)], [(10, 0), (10, 0.005), (15, 0), (20, 0)]]))
+    found = check_document(doc)
+    assert kinds(found) == ["degenerate-handle", "open-contour"]  # open: no Z
+    # the same at a segment's end: C… 5,0 10,-0.005 10,0 then a line on along +x
+    doc = doc_of(Contour.from_points([[(0, 0), (5, 0), (10, -0.005), (10, 0)], [(10, 0), (20, 0)]]))
+    assert kinds(check_document(doc)) == ["degenerate-handle", "open-contour"]
+    # a handle of 0.02 (beyond the tolerance) still sets the tangent: a true 90° corner
+    doc = doc_of(Contour.from_points([[(0, 0), (10, 0)], [(10, 0), (10, 0.02), (15, 0), (20, 0)]]))
+    (f,) = of_kind(check_document(doc), "corner")
+    assert f.value == pytest.approx(90.0, abs=1e-9)  # P1 − P0 = (0, 0.02) ⟂ (1, 0)
+
+
+def test_retracted_handle_table_uses_the_next_control_point():
+    # end directions of the table with the handle snapped onto its point (Farin §4.5)
+    seg = np.array([[10.0, 0.0], [10.0, 0.005], [15.0, 1.0], [20.0, 0.0]])
+    t = segment_table([seg], gap=0.01)
+    assert t.d0[0] == pytest.approx(np.array([5.0, 1.0]) / np.hypot(5.0, 1.0))
+    assert t.d1[0] == pytest.approx(np.array([5.0, -1.0]) / np.hypot(5.0, 1.0))
+    assert segment_table([seg]).d0[0] == pytest.approx([0.0, 1.0])  # no gap: the drawn handle
