@@ -18,8 +18,9 @@ cusp and self-intersection (a loop)
     :func:`~outlinebench.geometry.cusps` and :func:`~outlinebench.geometry.self_intersections`.
 missing-extremum
     An interior x or y extremum lying more than the overshoot tolerance beyond the segment's end
-    points. If every handle lies within the end points' range (plus tolerance) the convex hull
-    property rules it out; for the others the simple roots of x′ and y′
+    points, other than the tip of a cusp (where B′ = 0 makes x′ and y′ vanish together). If
+    every handle lies within the end points' range (plus tolerance) the convex hull property
+    rules it out; for the others the simple roots of x′ and y′
     (:func:`outlinebench.geometry.extrema.stationary_params`, all at once) are evaluated.
 """
 
@@ -59,7 +60,8 @@ __all__ = [
 
 FloatArray = NDArray[np.float64]
 
-# Step in t on each side of a cusp used to measure how far the tangent turns there.
+# Step in t on each side of a cusp used to measure how far the tangent turns there; an x or y
+# extremum within this step of a cusp is the cusp's tip and not reported as a missing extremum.
 _CUSP_PROBE = 1e-4
 
 # Parameters this close to 0 or 1 count as the segment's end.
@@ -367,11 +369,15 @@ def segment_findings(
 
     # -- cusps and loops inside one segment ----------------------------------------------
     look = np.flatnonzero((table.degree >= 2) & ~tiny & ~monotone_mask(cub))
+    cusp_at: dict[int, NDArray[np.float64]] = {}  # row -> parameters of its cusps
     for r in look:
         seg = segments[r]
         size = float(np.max(np.ptp(seg, axis=0)))
         o, c, s = place(r)
-        for t in cusps(seg, tolerance=limits.cusp_tolerance * size):
+        found_t = cusps(seg, tolerance=limits.cusp_tolerance * size)
+        if len(found_t):
+            cusp_at[int(r)] = np.asarray(found_t, dtype=np.float64)
+        for t in found_t:
             before = derivative_at(seg, max(t - _CUSP_PROBE, 0.0))[None]
             after = derivative_at(seg, min(t + _CUSP_PROBE, 1.0))[None]
             turn = float(turn_angles(before, after)[0])
@@ -428,6 +434,9 @@ def segment_findings(
             r = int(cand[q])
             o, cc, s = place(r)
             t = float(ts[q, k])
+            tips = cusp_at.get(r)
+            if tips is not None and np.any(np.abs(tips - t) <= _CUSP_PROBE):
+                continue  # B′ = 0 here: the tip of a cusp (reported as such), not an extremum
             ov = float(over[q, k])
             name = "xy"[axis[k]]
             out.append(

@@ -116,3 +116,16 @@ def test_retracted_handle_table_uses_the_next_control_point():
     assert t.d0[0] == pytest.approx(np.array([5.0, 1.0]) / np.hypot(5.0, 1.0))
     assert t.d1[0] == pytest.approx(np.array([5.0, -1.0]) / np.hypot(5.0, 1.0))
     assert segment_table([seg]).d0[0] == pytest.approx([0.0, 1.0])  # no gap: the drawn handle
+
+
+@pytest.mark.parametrize("t0", [0.25, 0.6])
+def test_cusp_tip_is_not_a_missing_extremum(t0):
+    # B′(t) = (t − t0)(a + b t) (closed form above) makes x′ and y′ vanish together at t0: the
+    # tip of a cusp, reported as a cusp; it is not an extremum a drafter can put a point on
+    # (review item 6). The crossed-handles cubic likewise: B′(½) = 0.
+    pts, _ = cusp_cubic(t0)
+    found = check_document(doc_of(Contour.from_points([pts])))
+    assert len(of_kind(found, "cusp")) == 1
+    assert [f.t for f in of_kind(found, "missing-extremum") if abs(f.t - t0) < 1e-3] == []
+    found = check_document(doc_of(Contour.from_points([[(0, 0), (1, 1), (0, 1), (1, 0)]])))
+    assert len(of_kind(found, "cusp")) == 1 and of_kind(found, "missing-extremum") == []
