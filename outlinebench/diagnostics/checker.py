@@ -47,6 +47,7 @@ from outlinebench.diagnostics.contour_checks import (
     wrong_direction_findings,
 )
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
+from outlinebench.diagnostics.messages import curvature_jump_message
 from outlinebench.diagnostics.segment_checks import (
     Limits,
     SegmentTable,
@@ -191,8 +192,7 @@ def _join_findings_batch(
             out.append(
                 Finding(
                     "curvature-jump", sev, o, c, j, 1.0, x, y, jmp, "relative",
-                    f"curvature jumps from {k1:.4g} to {k2:.4g} (relative difference "
-                    f"{jmp:.3g}; G2 break)",
+                    curvature_jump_message(k1, k2, jmp),
                     j, jump_lim, k1, k2,
                 )
             )  # fmt: skip

@@ -36,6 +36,11 @@ from outlinebench.diagnostics.continuity import (
     turn_angles,
 )
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
+from outlinebench.diagnostics.messages import (
+    curvature_jump_message,
+    gap_message,
+    open_contour_message,
+)
 from outlinebench.diagnostics.segment_checks import Limits, hull_boxes
 from outlinebench.geometry import derivative_at, evaluate, intersections, split
 
@@ -140,8 +145,7 @@ def join_finding(
         severity = limits.straight_severity if straight_side else limits.jump_severity
         return Finding(
             "curvature-jump", severity, outline, contour, segment, 1.0, x, y, jump, "relative",
-            f"{where}curvature jumps from {a:.4g} to {b:.4g} (relative difference "
-            f"{jump:.3g}; G2 break)",
+            curvature_jump_message(a, b, jump, where=where),
             join=join, limit=limits.curvature_jump,
             curvature_before=float(a) + 0.0, curvature_after=float(b) + 0.0,
         )  # fmt: skip
@@ -212,8 +216,7 @@ def open_end_findings(
                 Finding(
                     "gap", ERROR, a.outline, a.contour, a.segment, float(a.end), a.point[0],
                     a.point[1], gap, "user",
-                    f"open end stops {gap:.4g} short of {other}; a cutter sees an unclosed "
-                    "outline",
+                    gap_message(gap, other),
                     limit=limits.gap, other_contour=b.contour, other_segment=b.segment,
                     other_t=float(b.end),
                 )
@@ -256,8 +259,7 @@ def open_end_findings(
                 Finding(
                     "open-contour", WARNING, e.outline, e.contour, None, None, e.point[0],
                     e.point[1], span, "user",
-                    f"contour is open (its ends are {span:.4g} apart); cutters and fills "
-                    "need closed outlines",
+                    open_contour_message(span),
                 )
             )  # fmt: skip
     return findings, joined

@@ -22,6 +22,7 @@ from outlinebench.diagnostics.findings import (
     Finding,
     is_problem,
 )
+from outlinebench.diagnostics.messages import message_in_unit
 
 __all__ = [
     "CAUTION",
@@ -56,6 +57,8 @@ def convert_units(findings: Sequence[Finding], factor: float, unit: str) -> list
     list of Finding
         ``x``, ``y``, lengths (unit ``"user"``) and their limits scaled by ``factor``; areas
         (``"user^2"``) by factor²; curvatures by 1/factor. Angles and ratios are unchanged.
+        Messages that quote a length or curvature are written again in ``unit``
+        (:func:`outlinebench.diagnostics.messages.message_in_unit`).
     """
     if factor == 1.0 and unit == "user":
         return list(findings)
@@ -76,7 +79,9 @@ def convert_units(findings: Sequence[Finding], factor: float, unit: str) -> list
             changes["curvature_before"] = f.curvature_before / factor
         if f.curvature_after is not None:
             changes["curvature_after"] = f.curvature_after / factor
-        out.append(f._replace(**changes))
+        g = f._replace(**changes)
+        message = message_in_unit(g, unit)
+        out.append(g._replace(message=message) if message is not f.message else g)
     return out
 
 

@@ -34,6 +34,11 @@ from numpy.typing import NDArray
 
 from outlinebench.diagnostics.continuity import turn_angles
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
+from outlinebench.diagnostics.messages import (
+    degenerate_handle_message,
+    missing_extremum_message,
+    tiny_segment_message,
+)
 from outlinebench.diagnostics.settings import CheckSettings
 from outlinebench.geometry import (
     arc_length,
@@ -339,8 +344,7 @@ def segment_findings(
                     Finding(
                         "tiny-segment", WARNING, o, c, s, 0.5, float(x), float(y),
                         float(length), "user",
-                        f"segment is {length:.4g} long, shorter than the gap tolerance "
-                        f"{limits.gap:.4g}; remove it or merge it with a neighbour",
+                        tiny_segment_message(float(length), limits.gap),
                         limit=limits.gap,
                     ),
                 )
@@ -360,8 +364,7 @@ def segment_findings(
                     Finding(
                         "degenerate-handle", WARNING, o, c, s, float(end), float(x), float(y),
                         float(hl[r]), "user",
-                        f"the handle at the segment's {which} lies on its on-curve point "
-                        f"({hl[r]:.3g} away); the tangent there comes from the next control point",
+                        degenerate_handle_message(which, float(hl[r])),
                         limit=limits.gap,
                     ),
                 )
@@ -445,9 +448,7 @@ def segment_findings(
                     Finding(
                         "missing-extremum", INFO, o, cc, s, t, float(vals[q, k, 0]),
                         float(vals[q, k, 1]), ov, "user",
-                        f"the segment reaches its {name} extremum at t = {t:.4g}, {ov:.4g} "
-                        "beyond its end points; an on-curve point there keeps the outline "
-                        "easy to edit",
+                        missing_extremum_message(name, t, ov),
                         limit=limits.overshoot,
                     ),
                 )

@@ -16,6 +16,7 @@ from outlinebench.diagnostics import (
     text_report,
 )
 from outlinebench.diagnostics.report import format_finding
+from outlinebench.model.document import Contour
 
 
 def _findings():
@@ -85,3 +86,31 @@ def test_settings_validation():
         CheckSettings(gap_mm=3.0, gap_search_mm=1.0)
     with pytest.raises(ValueError, match="severity"):
         CheckSettings(curvature_jump_severity="fatal")
+
+
+def test_converted_messages_speak_the_new_unit():
+    # 1 user unit = 0.5 mm; the outline stops 1 unit short of its start (closed form: the
+    # open polygon's ends (0, 0) and (0, 1)), so the gap is 0.5 mm and the message must say
+    # so, not "1" in user units (review item 2)
+    doc = doc_of(polygon([(0, 0), (20, 0), (20, 20), (0, 20), (0, 1)], False), mm_per_unit=0.5)
+    found = convert_units(check_document(doc), 0.5, "mm")
+    (gap,) = [f for f in found if f.kind == "gap"]
+    assert gap.value == pytest.approx(0.5) and "0.5 mm" in gap.message
+    assert "short of its own start" in gap.message
+    (open_c,) = [f for f in found if f.kind == "open-contour"]
+    assert "0.5 mm apart" in open_c.message
+    # a tiny segment of 0.01 units = 0.005 mm against the 0.01 mm tolerance (settings default)
+    doc = doc_of(polygon([(0, 0), (10, 0), (10.01, 0), (10, 10)]), mm_per_unit=0.5)
+    (tiny,) = [f for f in convert_units(check_document(doc), 0.5, "mm") if f.kind == "tiny-segment"]
+    assert "0.005 mm long" in tiny.message and "tolerance 0.01 mm" in tiny.message
+    # curvatures per mm: the cubic quarter arc's start curvature (2/3)(1 − k)/k² per unit
+    # (Farin end curvature formula with P1 − P0 = (k, 0), P2 − P1 = (1 − k, 1 − k)) doubles
+    k = 4 * (math.sqrt(2) - 1) / 3
+    doc = doc_of(Contour.from_points([[(-1, 0), (0, 0)], [(0, 0), (k, 0), (1, 1 - k), (1, 1)]]))
+    found = convert_units(check_document(doc), 0.5, "mm")
+    (jump,) = [f for f in found if f.kind == "curvature-jump"]
+    expect = 2 * (2 / 3) * (1 - k) / k**2
+    assert jump.curvature_after == pytest.approx(expect, rel=1e-12)
+    assert f"from 0 per mm to {expect:.4g} per mm" in jump.message
+    # user units: unchanged
+    assert convert_units(found, 1.0, "user") == list(found)
