@@ -67,6 +67,7 @@ from outlinebench.geometry.offset import (
     OffsetContour,
     OffsetProblem,
     OffsetResult,
+    hole_flags,
     offset_contour,
     offset_contours,
 )
@@ -127,4 +128,5 @@ __all__ = [
     "OffsetResult",
     "offset_contour",
     "offset_contours",
+    "hole_flags",
 ]

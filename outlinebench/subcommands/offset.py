@@ -1,7 +1,10 @@
 """``outlinebench offset FILE --distance d --tolerance ε``: tool-radius offsets of every contour.
 
-Closed contours move outward for d > 0 and inward for d < 0; open contours move to the side
-of the normal (T_y, −T_x) (left of the direction of travel as seen on an SVG page). Corners
+Closed contours move outward for d > 0 and inward for d < 0; a closed contour nested inside an
+odd number of the other contours of its outline (a hole, by the even-odd rule) moves the other
+way, so the material as a whole grows for d > 0 (``--per-contour`` offsets each contour from
+its own area instead). Open contours move to the side of the normal (T_y, −T_x) (left of the
+direction of travel as seen on an SVG page). Corners
 turning away from the tool get round joins; loops are cut away
 (:func:`outlinebench.geometry.offset_contour`). The places where the tool cannot fit are
 reported as findings: ``tool-does-not-fit`` (a bend toward the tool on a radius smaller than
@@ -23,7 +26,7 @@ from typing import Any
 import numpy as np
 
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding, is_problem
-from outlinebench.geometry.offset import DEFAULT_OFFSET_TOLERANCE, offset_contour
+from outlinebench.geometry.offset import DEFAULT_OFFSET_TOLERANCE, hole_flags, offset_contour
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     positive_float,
@@ -67,6 +70,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help=f"largest distance of the result from the exact offset, in --units "
         f"(default {DEFAULT_OFFSET_TOLERANCE})",
     )
+    parser.add_argument(
+        "--per-contour",
+        action="store_true",
+        help="offset every closed contour outward from its own area, holes too (default: "
+        "holes of an outline move the other way, so the material grows or shrinks as a whole)",
+    )
     parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
     parser.add_argument("--json", action="store_true", help="print JSON instead of text")
     parser.add_argument(
@@ -88,8 +97,15 @@ def run(args: argparse.Namespace) -> int:
     tol_user = args.tolerance / f
     contours: list[dict[str, Any]] = []
     findings: list[Finding] = []
+    holes: dict[tuple[int, int], bool] = {}
+    if not args.per_contour:
+        for oi, outline in enumerate(doc.outlines):
+            for ci, flag in enumerate(hole_flags(outline.contours, tol_user)):
+                holes[(oi, ci)] = flag
     for ref in doc.contour_refs():
-        res = offset_contour(ref.contour.segments, ref.contour.closed, d_user, tol_user)
+        # material grows for d > 0: outer boundaries move outward, holes inward
+        d_here = -d_user if holes.get((ref.outline, ref.index), False) else d_user
+        res = offset_contour(ref.contour.segments, ref.contour.closed, d_here, tol_user)
         for c in res.contours:
             contours.append(
                 {

@@ -198,3 +198,12 @@ def test_bad_input_raises():
         offset_contour(circle(1.0), True, 1.0, 0.0)
     with pytest.raises(InvalidGeometryError, match="finite"):
         offset_contour(circle(1.0), True, math.inf, 0.1)
+
+
+def test_hole_flags_follow_the_even_odd_rule():
+    # W3C SVG 1.1 §11.3 even-odd: a contour inside one other is a hole, inside two is not.
+    from outlinebench.geometry.offset import hole_flags
+
+    flags = hole_flags([(circle(30.0), True), (circle(20.0), True), (circle(10.0), True)])
+    assert flags == [False, True, False]
+    assert hole_flags([([np.array([[0.0, 0.0], [1.0, 0.0]])], False)]) == [False]

@@ -5,6 +5,7 @@ import subprocess
 import sys
 
 import numpy as np
+import pytest
 
 # An invented "Harbour Lane Signs" letter blank: a block 40 × 50 with a slot 4 wide.
 SLOT = """<svg xmlns="http://www.w3.org/2000/svg" width="60mm" height="60mm" viewBox="0 0 60 60">
@@ -58,3 +59,31 @@ def test_missing_distance_and_bad_file(tmp_path):
     res = run("offset", bad, "--distance", "1", "-o", out)
     assert res.returncode == 2 and len(res.stderr.strip().splitlines()) == 1
     assert "bad.svg" in res.stderr and not out.exists()
+
+
+# A washer (invented Kestrel Fabrication part): outer circle radius 20, hole radius 10, in one
+# path, both drawn the same way round.
+WASHER = """<svg xmlns="http://www.w3.org/2000/svg" width="60mm" height="60mm" viewBox="0 0 60 60">
+<path d="M 50 30 A 20 20 0 0 1 10 30 A 20 20 0 0 1 50 30 Z
+         M 40 30 A 10 10 0 0 1 20 30 A 10 10 0 0 1 40 30 Z"/>
+</svg>
+"""
+
+
+def test_holes_move_the_other_way_so_the_material_grows(tmp_path):
+    # Closed form: growing the washer's material by 2 gives radii 22 and 8; with
+    # --per-contour both circles move outward (22 and 12). Cubic circles from the reader are
+    # within 2.73e-4·r of true circles (Dokken et al. 1990).
+    src = tmp_path / "washer.svg"
+    src.write_text(WASHER)
+    for flag, radii in (([], (22, 8)), (["--per-contour"], (22, 12))):
+        res = run("offset", src, "--distance", "2", "--tolerance", "0.01", "--json", *flag)
+        assert res.returncode == 0, res.stderr
+        data = json.loads(res.stdout)
+        got = []
+        for c in data["contours"]:
+            pts = np.array(c["points"])
+            rad = np.hypot(pts[:, 0] - 30, pts[:, 1] - 30)
+            assert np.ptp(rad) <= 0.02 + 20 * 3e-4
+            got.append(float(np.mean(rad)))
+        assert sorted(got, reverse=True) == pytest.approx(radii, abs=0.02)
