@@ -28,6 +28,7 @@ from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH
 from outlinebench.errors import OutlinebenchError
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    MM_PER,
     mm_per,
     nonnegative_float,
     positive_float,
@@ -36,7 +37,7 @@ from outlinebench.subcommands._common import (
     write_json,
 )
 
-__all__ = ["NAME", "HELP", "add_arguments", "run", "check_file"]
+__all__ = ["NAME", "HELP", "add_arguments", "run", "check_file", "option_problem", "OptionMismatch"]
 
 NAME = "check"
 HELP = "find gaps, kinks, corners, curvature jumps, cusps, self-intersections and more"
@@ -99,13 +100,65 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
 
 
+class OptionMismatch(Exception):
+    """The options do not fit one file (its scale puts --gap-search below the default gap)."""
+
+
+def _unit_name(unit: str) -> str:
+    return "user units" if unit == "user" else unit
+
+
+def option_problem(args: dict[str, Any]) -> str | None:
+    """What is wrong with the options as given, in the user's own units (None when nothing).
+
+    Checked once, before any file is read: angles against each other and 180°, the
+    curvature-jump ratio, and --gap-search against --gap (or against the default gap
+    tolerance converted to --units when --gap is not given and the unit is a fixed length).
+    """
+    kink, corner = args["kink_angle"], args["corner_angle"]
+    if corner > 180.0:
+        return f"--corner-angle ({corner:g}) must be at most 180 degrees"
+    if kink >= corner:
+        return f"--kink-angle ({kink:g}) must be below --corner-angle ({corner:g})"
+    unit = args["units"]
+    name = _unit_name(unit)
+    search = args["gap_search"]
+    if search is not None:
+        if args["gap"] is not None and search < args["gap"]:
+            return f"--gap-search {search:g} {name} must not be below --gap {args['gap']:g} {name}"
+        if args["gap"] is None and unit != "user":
+            default = DEFAULT_GAP_MM / MM_PER[unit]
+            if search < default:
+                return (
+                    f"--gap-search {search:g} {name} must not be below the default gap "
+                    f"tolerance {default:.4g} {name} ({DEFAULT_GAP_MM:g} mm); give --gap too"
+                )
+    try:
+        CheckSettings(kink_angle=kink, corner_angle=corner, curvature_jump=args["curvature_jump"])
+    except ValueError as exc:
+        return str(exc)
+    return None
+
+
 def _settings(args: dict[str, Any], doc_mm_per: float) -> CheckSettings:
-    """Settings for one file: lengths given in --units become mm through that file's scale."""
+    """Settings for one file: lengths given in --units become mm through that file's scale.
+
+    Raises
+    ------
+    OptionMismatch
+        --gap-search alone in user units lands below the default gap tolerance of this file.
+    """
     gap = DEFAULT_GAP_MM if args["gap"] is None else args["gap"] * doc_mm_per
     if args["gap_search"] is None:
         search = max(DEFAULT_GAP_SEARCH_MM, gap)
     else:
         search = args["gap_search"] * doc_mm_per
+        if search < gap:
+            raise OptionMismatch(
+                f"--gap-search {args['gap_search']:g} {_unit_name(args['units'])} is below "
+                f"the default gap tolerance of this file ({gap / doc_mm_per:.4g} user units, "
+                f"{DEFAULT_GAP_MM:g} mm); give --gap too"
+            )
     return CheckSettings(
         gap_mm=gap,
         gap_search_mm=search,
@@ -129,7 +182,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         unit = options["units"]
         settings = _settings(options, mm_per(unit, doc))
         findings = check_document(doc, settings)
-    except (OutlinebenchError, OSError, ValueError) as exc:
+    except (OutlinebenchError, OSError, OptionMismatch) as exc:
         if isinstance(exc, OSError):
             msg = f"{path}: {exc.strerror or exc}"
         else:
@@ -175,12 +228,9 @@ def run(args: argparse.Namespace) -> int:
         )
     }
     options["units"] = args.units
-    if options["kink_angle"] >= options["corner_angle"]:
-        print(
-            f"outlinebench: error: --kink-angle ({options['kink_angle']}) must be below "
-            f"--corner-angle ({options['corner_angle']})",
-            file=sys.stderr,
-        )
+    problem = option_problem(options)
+    if problem is not None:
+        print(f"outlinebench: error: {problem}", file=sys.stderr)
         return 2
     files = list(args.files)
     show_progress = len(files) > 1 and sys.stderr.isatty()

@@ -168,3 +168,30 @@ def test_text_lists_info_only_with_all(capsys):
     assert "14 info" in out.splitlines()[-1]  # still counted in the summary
     _, out_all, _ = run([BRACKET_DEFECTS, "--all"], capsys)
     assert out_all.count("[info]") == 14
+
+
+def test_bad_option_combination_is_one_usage_line_before_any_file(tmp_path, capsys):
+    # review item 3: a bad option is the user's, not the files'; one line, exit 2, nothing
+    # read (a missing file is not even mentioned). Limits from CheckSettings' docstring:
+    # 0 < kink angle < corner angle ≤ 180°, gap search ≥ gap.
+    missing = str(tmp_path / "missing.svg")
+    code, out, err = run([CLEAN, BRACKET, missing, "--corner-angle", "200", "--json"], capsys)
+    assert code == 2 and out == ""
+    lines = err.strip().splitlines()
+    assert len(lines) == 1 and "--corner-angle" in lines[0] and "180" in lines[0]
+    assert missing not in err
+    # --gap-search below the default gap tolerance (0.01 mm), compared in the user's unit
+    code, out, err = run([CLEAN, missing, "--gap-search", "0.001", "--units", "mm"], capsys)
+    lines = err.strip().splitlines()
+    assert code == 2 and out == "" and len(lines) == 1
+    assert "--gap-search 0.001 mm" in lines[0] and "0.01 mm" in lines[0]
+    code, _, err = run([CLEAN, "--gap", "0.5", "--gap-search", "0.1", "--units", "mm"], capsys)
+    assert code == 2 and "--gap-search 0.1 mm" in err and "--gap 0.5 mm" in err
+    # in px (1 px = 25.4/96 mm, CSS Values 3 §5.2): the default gap is 0.03780 px
+    code, _, err = run([CLEAN, "--gap-search", "0.001", "--units", "px"], capsys)
+    assert code == 2 and "--gap-search 0.001 px" in err and "0.0378 px" in err
+    # in user units the default gap depends on the file (the samples: 1 unit = 1 mm), so the
+    # file is named: one line for it, exit 2
+    code, _, err = run([CLEAN, "--gap-search", "0.001"], capsys)
+    lines = err.strip().splitlines()
+    assert code == 2 and len(lines) == 1 and CLEAN in lines[0] and "0.01 user units" in lines[0]
