@@ -400,3 +400,36 @@ def test_sequential_and_vectorised_builders_agree_bit_for_bit(d, transformed):
         assert x.closed == y.closed and len(x.segments) == len(y.segments)
         for s, t in zip(x.segments, y.segments, strict=True):
             assert s.tobytes() == t.tobytes()
+
+
+_decimal_text = st.one_of(
+    st.floats(allow_nan=False, allow_infinity=False).map(repr),
+    st.decimals(-1e6, 1e6, allow_nan=False, allow_infinity=False, places=3).map(str),
+    st.decimals(-10, 10, allow_nan=False, allow_infinity=False, places=9).map(str),
+    st.sampled_from(
+        [
+            "-0",
+            "-0.0",
+            "+0",
+            "0.",
+            "-.5",
+            "+.25",
+            "5.",
+            "9007199254740993",
+            "123456789012345.6",
+            "0.30000000000000004",
+            "00012.50",
+        ]
+    ),
+)
+
+
+@given(st.lists(_decimal_text, min_size=2, max_size=12).filter(lambda v: len(v) % 2 == 0))
+def test_numbers_read_exactly_as_python_float(texts):
+    # Reference: Python's float() (correctly rounded, David Gay's dtoa) on each token; the
+    # fast lexer's integer route must give the same bits, negative zero included.
+    d = "M" + " ".join(texts)
+    got = svg_path._lex_fast(d)
+    tok = got if got is not None else svg_path._lex_general(d)
+    want = np.array([float(t) for t in texts])
+    assert tok.numbers.tobytes() == want.tobytes()
