@@ -22,6 +22,7 @@ item at a time.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass
 from itertools import chain, compress
 from operator import is_not
@@ -46,6 +47,7 @@ from outlinebench.diagnostics.contour_checks import (
     overlapping_pairs,
     wrong_direction_findings,
 )
+from outlinebench.diagnostics.finding_sequence import FindingSequence
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
 from outlinebench.diagnostics.messages import curvature_jump_message
 from outlinebench.diagnostics.segment_checks import (
@@ -58,7 +60,7 @@ from outlinebench.diagnostics.settings import CheckSettings
 from outlinebench.geometry import evaluate, segment_area_terms
 from outlinebench.model.document import Contour, Document
 
-__all__ = ["check_document", "Checker"]
+__all__ = ["check_document", "Checker", "FindingSequence"]
 
 # Above this many changed segments, candidate pairs come from a sort-and-sweep over all
 # segments of the changed outlines rather than from comparing each changed segment's box with
@@ -132,7 +134,7 @@ def check_document(doc: Document, settings: CheckSettings | None = None) -> list
     >>> check_document(Document())
     []
     """
-    return Checker(settings).update(doc)
+    return list(Checker(settings).update(doc))
 
 
 def _join_findings_batch(
@@ -208,8 +210,8 @@ class Checker:
 
     Attributes
     ----------
-    findings : list of Finding
-        The result of the last update.
+    findings : FindingSequence
+        The result of the last update (a read-only list of Finding).
     last_segments_computed, last_joins_computed : int
         How many segments and joins the last update examined (the rest was reused).
 
@@ -226,36 +228,56 @@ class Checker:
         self._contours: list[_ContourState] = []
         self._outlines: list[_OutlineState] = []
         self._first: list[int] = []  # global index of each outline's first contour
-        self._flat: list[Finding] = []  # all outline blocks, in order
-        self._lens = np.zeros(0, dtype=np.intp)  # length of each outline block
+        self._result = FindingSequence.from_list([])  # outline blocks, then the gaps block
         self._gap_findings: list[Finding] = []
         self._joined: list[tuple[OpenEnd, OpenEnd]] = []
-        self.findings: list[Finding] = []
+        self.findings: FindingSequence = self._result
         self.last_segments_computed = 0
         self.last_joins_computed = 0
 
     # ------------------------------------------------------------------------------------
-    def _changed_outlines(self, doc: Document) -> list[int] | None:
+    def _changed_outlines(self, doc: Document, touched: Iterable[int] | None) -> list[int] | None:
         """Outlines that are not the same objects as last time; None when the structure
-        changed (then everything is checked again)."""
+        changed (then everything is checked again). ``touched`` limits the search."""
         old = self._doc
         if old is None or doc.mm_per_unit != old.mm_per_unit:
             return None
         if len(doc.outlines) != len(old.outlines):
             return None
-        # C-level loop: which outlines are other objects than last time
-        flags = map(is_not, doc.outlines, old.outlines)
-        changed = list(compress(range(len(doc.outlines)), flags))
+        if touched is not None:
+            new_o, old_o = doc.outlines, old.outlines
+            changed = sorted({i for i in touched if new_o[i] is not old_o[i]})
+        else:
+            # C-level loop: which outlines are other objects than last time
+            flags = map(is_not, doc.outlines, old.outlines)
+            changed = list(compress(range(len(doc.outlines)), flags))
         for i in changed:
             a, b = doc.outlines[i], old.outlines[i]
             if len(a.contours) != len(b.contours) or a.source_index != b.source_index:
                 return None
         return changed
 
-    def update(self, doc: Document) -> list[Finding]:
+    def update(self, doc: Document, touched: Iterable[int] | None = None) -> FindingSequence:
         """Check ``doc``, reusing results for everything it shares with the document of the
-        previous update. Returns the findings (also kept in ``.findings``)."""
-        changed_outlines = self._changed_outlines(doc)
+        previous update.
+
+        Parameters
+        ----------
+        doc : Document
+        touched : iterable of int, optional
+            Indices of the outlines the edit may have replaced since the previous update, when
+            the caller knows them (an editor command does). Every other outline must be the
+            same object as in the previous document; this is trusted, not checked. Without it
+            every outline is compared by identity (a C-level pass, about 0.2 ms per 8,000
+            outlines).
+
+        Returns
+        -------
+        FindingSequence
+            The findings (also kept in ``.findings``), a read-only list that later updates
+            never change.
+        """
+        changed_outlines = self._changed_outlines(doc, touched)
         full = changed_outlines is None
         if full:
             self._limits = Limits.from_settings(self.settings, doc.mm_per_unit)
@@ -458,8 +480,8 @@ class Checker:
             )  # fmt: skip
 
         # 7. assemble: one list of every outline's block, then the gaps block; after an edit
-        # a new list is made from the unchanged stretches of the last one and the new blocks
-        # (lists returned earlier are never changed afterwards)
+        # a new FindingSequence shares that list and replaces the changed blocks (sequences
+        # returned earlier are never changed afterwards)
         n_out = len(doc.outlines)
         if full:
             flat: list[Finding] = []
@@ -482,7 +504,9 @@ class Checker:
                     lens[oi] += len(o.hits) + len(o.direction)
             flat.extend(self._gap_findings)
             lens[n_out] = len(self._gap_findings)
-            self._flat, self._lens = flat, lens
+            starts = np.zeros(n_out + 2, dtype=np.intp)
+            np.cumsum(lens, out=starts[1:])
+            self._result = FindingSequence(flat, starts)
         elif dirty_outlines or gaps_changed:
             blocks = {}
             for oi in dirty_outlines:
@@ -491,14 +515,9 @@ class Checker:
                 blocks[oi] = o.block
             if gaps_changed:
                 blocks[n_out] = self._gap_findings
-            starts = np.concatenate([[0], np.cumsum(self._lens)]).tolist()
-            flat = self._flat.copy()  # a plain copy is several times faster than slicing
-            for k in sorted(blocks, reverse=True):
-                flat[starts[k] : starts[k + 1]] = blocks[k]
-                self._lens[k] = len(blocks[k])
-            self._flat = flat
+            self._result = self._result.replace_blocks(blocks)
         self._doc = doc
-        self.findings = self._flat
+        self.findings = self._result
         return self.findings
 
     # ------------------------------------------------------------------------------------

@@ -157,3 +157,49 @@ def test_opening_and_closing_a_contour_incrementally():
     assert ch.last_segments_computed == 0  # same segment objects, only joins and ends redone
     assert any(f.kind == "open-contour" for f in ch.findings)
     assert as_set(ch.update(doc)) == as_set(check_document(doc))
+
+
+def test_updates_with_the_touched_hint_match_full_checks_and_old_results_stay(monkeypatch):
+    # review item 4: the caller may name the outlines an edit replaced; the results must be
+    # those of a full check (the reference), and earlier results must not change afterwards
+    from outlinebench.diagnostics import finding_sequence
+
+    monkeypatch.setattr(finding_sequence, "MAX_REPLACED_BLOCKS", 2)  # flatten often too
+    rng = np.random.default_rng(11)
+    doc = _sample_doc()
+    ch = Checker()
+    first = ch.update(doc)
+    kept = list(first)
+    for _ in range(40):
+        o = int(rng.integers(len(doc.outlines)))
+        c = int(rng.integers(len(doc.outlines[o].contours)))
+        s = int(rng.integers(len(doc.outlines[o].contours[c].segments)))
+        doc = _move_point(doc, o, c, s, *rng.normal(scale=0.3, size=2))
+        got = ch.update(doc, touched=[o])
+        assert as_set(got) == as_set(check_document(doc))
+        assert len(got) == len(list(got)) and [got[k] for k in range(len(got))] == list(got)
+    assert list(first) == kept
+
+
+def test_finding_sequence_behaves_as_a_list():
+    # reference: Python's own list semantics (indexing, negative indices, slices, len, ==, in)
+    from outlinebench.diagnostics import Finding
+    from outlinebench.diagnostics.finding_sequence import FindingSequence
+
+    def f(k):
+        return Finding("corner", "info", 0, k, 0, 1.0, 0.0, 0.0, float(k), "degrees", "m")
+
+    base = [f(k) for k in range(10)]
+    starts = np.array([0, 3, 3, 7, 10])  # blocks of 3, 0, 4, 3
+    seq = FindingSequence(base, starts)
+    assert list(seq) == base and seq == base and len(seq) == 10
+    new = seq.replace_blocks({1: [f(20), f(21)], 2: [f(30)]})
+    model = base[:3] + [f(20), f(21)] + [f(30)] + base[7:]
+    assert list(new) == model and len(new) == len(model) and new == model
+    assert [new[k] for k in range(-len(model), len(model))] == model + model
+    assert new[2:5] == model[2:5] and f(21) in new and f(5) not in new
+    assert list(seq) == base  # the older sequence is unchanged
+    again = new.replace_blocks({0: []})
+    assert list(again) == model[3:] and list(new) == model
+    with pytest.raises(IndexError):
+        new[len(model)]
