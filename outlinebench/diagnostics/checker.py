@@ -49,7 +49,7 @@ from outlinebench.diagnostics.contour_checks import (
 )
 from outlinebench.diagnostics.finding_sequence import FindingSequence
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
-from outlinebench.diagnostics.messages import curvature_jump_message
+from outlinebench.diagnostics.messages import CURVATURE_JUMP_USER
 from outlinebench.diagnostics.segment_checks import (
     Limits,
     SegmentTable,
@@ -162,6 +162,7 @@ def _join_findings_batch(
         contour.tolist(), join.tolist(), strict=True,
     )  # fmt: skip
     corner_lim, kink_lim, jump_lim = limits.corner_angle, limits.kink_angle, limits.curvature_jump
+    jump_text = CURVATURE_JUMP_USER.format  # same sentence as curvature_jump_message
     for v, a, jmp, k1, k2, it, x, y, o, c, j in rows:
         smooth = it == 1
         if v == JOIN_CORNER:
@@ -194,7 +195,7 @@ def _join_findings_batch(
             out.append(
                 Finding(
                     "curvature-jump", sev, o, c, j, 1.0, x, y, jmp, "relative",
-                    curvature_jump_message(k1, k2, jmp),
+                    jump_text(k1, k2, jmp),
                     j, jump_lim, k1, k2,
                 )
             )  # fmt: skip

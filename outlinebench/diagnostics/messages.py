@@ -18,6 +18,7 @@ __all__ = [
     "degenerate_handle_message",
     "missing_extremum_message",
     "curvature_jump_message",
+    "CURVATURE_JUMP_USER",
     "message_in_unit",
 ]
 
@@ -71,10 +72,17 @@ def missing_extremum_message(axis: str, t: float, overshoot: float, unit: str = 
     )
 
 
+# The curvature-jump sentence in user units as a format string, for the checker's batch of
+# tens of thousands of joins (one bound str.format call each): κ before, κ after, difference.
+CURVATURE_JUMP_USER = "curvature jumps from {:.4g} to {:.4g} (relative difference {:.3g}; G2 break)"
+
+
 def curvature_jump_message(
     k_before: float, k_after: float, jump: float, unit: str = _USER, where: str = ""
 ) -> str:
     """``curvature-jump``: curvature on each side (1/length) and the relative difference."""
+    if unit == _USER:
+        return where + CURVATURE_JUMP_USER.format(k_before, k_after, jump)
     return (
         f"{where}curvature jumps from {_curvature(k_before, unit)} to "
         f"{_curvature(k_after, unit)} (relative difference {jump:.3g}; G2 break)"
