@@ -1,7 +1,7 @@
 """``outlinebench check FILE...``: report every continuity break and other finding.
 
-One line per finding of warning level or worse (``file: contour N, segment M: kind value at
-(x, y) [severity]``; ``--all`` adds the info ones) and a summary per file, or with ``--json``
+One line per finding (``file: contour N, segment M: kind value at (x, y) [severity]``;
+``--hide-info`` leaves the info ones out) and a summary per file, or with ``--json``
 one object per file listing every finding (a list for several files). Exit code 0 when
 nothing of warning level or worse is found, 1 when something is, 2 when a file cannot be read
 (one line on stderr naming it; the other files are still checked). Several files are checked
@@ -50,10 +50,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--json", action="store_true", help="print JSON instead of text (lists every finding)"
     )
     parser.add_argument(
-        "--all",
+        "--hide-info",
         action="store_true",
-        help="list info findings (intended corners, straight-into-curve joins, ...) in the "
-        "text report too; the summary always counts them",
+        help="leave info findings (intended corners, straight-into-curve joins, ...) out of "
+        "the text report; the summary still counts them, and --json always lists them",
     )
     parser.add_argument(
         "--gap",
@@ -200,7 +200,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
     if options["json"]:
         out["json"] = json_report(path, shown, unit=unit)
     else:
-        out["text"] = text_report(path, shown, unit=unit, show_info=options["all"])
+        out["text"] = text_report(path, shown, unit=unit, show_info=not options["hide_info"])
     return out
 
 
@@ -219,7 +219,7 @@ def run(args: argparse.Namespace) -> int:
         k: getattr(args, k)
         for k in (
             "json",
-            "all",
+            "hide_info",
             "gap",
             "gap_search",
             "kink_angle",

@@ -162,12 +162,16 @@ def test_bad_option_value_is_a_usage_error(capsys):
     assert "expected a number above 0" in capsys.readouterr().err
 
 
-def test_text_lists_info_only_with_all(capsys):
+def test_text_lists_every_finding_unless_info_is_hidden(capsys):
+    # issue 4: "one line per finding" by default (review item 7); --hide-info leaves the info
+    # lines out and the summary still counts them
     _, out, _ = run([BRACKET_DEFECTS], capsys)
-    assert "[info]" not in out and "[warning]" in out and "[error]" in out
-    assert "14 info" in out.splitlines()[-1]  # still counted in the summary
-    _, out_all, _ = run([BRACKET_DEFECTS, "--all"], capsys)
-    assert out_all.count("[info]") == 14
+    lines = out.strip().splitlines()
+    assert out.count("[info]") == 14 and "[warning]" in out and "[error]" in out
+    assert len(lines) - 1 == 19 and "19 findings" in lines[-1]  # one line each + summary
+    _, hidden, _ = run([BRACKET_DEFECTS, "--hide-info"], capsys)
+    assert "[info]" not in hidden and "[warning]" in hidden
+    assert "14 info" in hidden.splitlines()[-1]
 
 
 def test_bad_option_combination_is_one_usage_line_before_any_file(tmp_path, capsys):
