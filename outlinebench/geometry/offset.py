@@ -543,18 +543,50 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
         else:
             pieces.append(c)
     pieces_arr = np.array(pieces)
+    thr = r - max(tol, 1e-9 * r) * 1.5
+    # Pieces that are partly nearer than the threshold (no self-intersection marks where:
+    # the ends of open contours, near-tangent crossings) are split where their distance to
+    # the original crosses it, found by bisection between samples.
+    ns = 16
+    su = np.linspace(0.0, 1.0, ns + 1)
+    sp, _, _ = _eval(_coef(pieces_arr), np.tile(su, (len(pieces_arr), 1)))
+    sd = shapely.distance(shapely.points(sp.reshape(-1, 2)), ref).reshape(len(pieces_arr), -1)
+    above = sd >= thr
+    rows, cols = np.nonzero(above[:, 1:] != above[:, :-1])
+    if len(rows):
+        lo = su[cols]
+        hi = su[cols + 1]
+        up = above[rows, cols]
+        pc = _coef(pieces_arr[rows])
+        for _ in range(40):
+            mid = 0.5 * (lo + hi)
+            mp, _, _ = _eval(pc, mid[:, None])
+            md = shapely.distance(shapely.points(mp[:, 0]), ref) >= thr
+            same = md == up
+            lo = np.where(same, mid, lo)
+            hi = np.where(same, hi, mid)
+        cut = 0.5 * (lo + hi)
+        refined: list[FloatArray] = []
+        for k, c in enumerate(pieces_arr):
+            ts = cut[rows == k]
+            refined.extend(split_many(c, ts) if len(ts) else [c])
+        pieces_arr = np.array(refined)
     mids = 0.125 * (
         pieces_arr[:, 0] + 3 * pieces_arr[:, 1] + 3 * pieces_arr[:, 2] + pieces_arr[:, 3]
     )
     dist = shapely.distance(shapely.points(mids), ref)
-    keep = dist >= r - max(tol, 1e-9 * r) * 1.5
+    keep = dist >= thr
     removed = pieces_arr[~keep]
     kept = [p for p, k in zip(pieces_arr, keep, strict=True) if k]
     return _chain(kept, closed, tol), removed
 
 
 def _project(c: FloatArray, p: FloatArray, t: float) -> float:
+    """Parameter of the point of cubic c nearest p: best of 65 samples, then Newton."""
     coef = _coef(c[None])
+    ts = np.linspace(0.0, 1.0, 65)
+    pts, _, _ = _eval(coef, ts[None])
+    t = float(ts[int(np.argmin(np.hypot(*(pts[0] - p).T)))])
     for _ in range(20):
         b, d1, d2 = _eval(coef, np.array([[t]]))
         b, d1, d2 = b[0, 0], d1[0, 0], d2[0, 0]

@@ -207,3 +207,37 @@ def test_hole_flags_follow_the_even_odd_rule():
     flags = hole_flags([(circle(30.0), True), (circle(20.0), True), (circle(10.0), True)])
     assert flags == [False, True, False]
     assert hole_flags([([np.array([[0.0, 0.0], [1.0, 0.0]])], False)]) == [False]
+
+
+def test_random_simple_outlines_offset_to_distance_d():
+    # Seeded random star-shaped cubic outlines (self-intersecting ones skipped, shapely
+    # is_simple), open and closed, several distances: every point of the result lies
+    # |d| ± ε from the original (shapely distance to dense `bezier` samples).
+    rng = np.random.default_rng(5)
+    eps = 0.01
+    checked = 0
+    for trial in range(60):
+        n = int(rng.integers(3, 9))
+        ang = np.sort(rng.uniform(0, 2 * np.pi, n))
+        rad = rng.uniform(10, 40, n)
+        p = np.stack([50 + rad * np.cos(ang), 50 + rad * np.sin(ang)], 1)
+        segs = []
+        for i in range(n):
+            a, b = p[i], p[(i + 1) % n]
+            h1 = a + (b - a) / 3 + rng.normal(0, 4, 2)
+            h2 = a + 2 * (b - a) / 3 + rng.normal(0, 4, 2)
+            segs.append(np.array([a, h1, h2, b]))
+        closed = trial % 4 != 0
+        if not closed:
+            segs = segs[:-1]
+        d = float(rng.choice([-6, -2, 1, 3, 8]))
+        orig = shapely.LineString(dense(segs, 500))
+        if not orig.is_simple:
+            continue
+        res = offset_contour(segs, closed, d, eps)
+        for c in res.contours:
+            pts = np.vstack([c.polyline, dense(c.segments, 40)])
+            dist = shapely.distance(shapely.points(pts), shapely.LineString(dense(segs, 2000)))
+            assert np.max(np.abs(dist - abs(d))) <= eps + 1e-6, (trial, d)
+        checked += 1
+    assert checked >= 20
