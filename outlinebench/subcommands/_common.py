@@ -3,7 +3,8 @@
 Public to the other subcommand modules (not to users):
 
 - :func:`read_document` reads an SVG file through :mod:`outlinebench.io` and raises the
-  reader's one-line error (naming the file and the place) when it cannot.
+  reader's one-line error (naming the file and the place) when it cannot;
+  :func:`read_svg_file` does the same and gives the reader's notes as JSON-ready dicts.
 - :data:`LENGTH_UNITS`, :func:`unit_factor`, :func:`mm_per` convert the document's user units
   to mm, in, pt or px through the root's width/height and viewBox
   (:attr:`outlinebench.model.Document.mm_per_unit`).
@@ -29,6 +30,8 @@ __all__ = [
     "mm_per",
     "unit_factor",
     "read_document",
+    "read_svg_file",
+    "note_line",
     "positive_float",
     "nonnegative_float",
     "clean_json",
@@ -58,7 +61,50 @@ def unit_factor(doc: Document, unit: str) -> float:
     return doc.mm_per_unit / MM_PER[unit]
 
 
-def read_document(path: str | Path) -> tuple[Document, list[str]]:
+def read_svg_file(
+    path: str | Path, *, allow_entities: bool = False
+) -> tuple[Document, list[dict[str, Any]]]:
+    """Read an SVG file into a document, with the reader's notes as JSON-ready dicts.
+
+    Parameters
+    ----------
+    path : str or Path
+    allow_entities : bool
+        Let the reader expand internal XML entities (``--allow-internal-entities``); off by
+        default, since entity expansion is how XML bombs work.
+
+    Returns
+    -------
+    (document, notes)
+        ``notes``: ``{"level", "kind", "count", "message"}`` per note of
+        :func:`outlinebench.io.read_svg` (text not converted, arcs converted, ...).
+
+    Raises
+    ------
+    outlinebench.errors.SvgReadError
+        The file is not a readable SVG or a path in it is bad (the message names the file,
+        element and offset).
+    OSError
+        The file cannot be opened.
+    """
+    from outlinebench.io import read_svg
+
+    result = read_svg(str(path), allow_entities=allow_entities)
+    if result.error is not None:
+        raise result.error
+    notes = [
+        {"level": n.level, "kind": n.kind, "count": n.count, "message": n.message}
+        for n in result.notes
+    ]
+    return result.document, notes
+
+
+def note_line(note: dict[str, Any]) -> str:
+    """One note as a line for stderr: ``level: message``."""
+    return f"{note['level']}: {note['message']}"
+
+
+def read_document(path: str | Path, *, allow_entities: bool = False) -> tuple[Document, list[str]]:
     """Read an SVG file into a document.
 
     Returns
@@ -74,13 +120,8 @@ def read_document(path: str | Path) -> tuple[Document, list[str]]:
     OSError
         The file cannot be opened.
     """
-    from outlinebench.io import read_svg
-
-    result = read_svg(str(path))
-    if result.error is not None:
-        raise result.error
-    notes = [f"{note.level}: {note.message}" for note in result.notes]
-    return result.document, notes
+    doc, notes = read_svg_file(path, allow_entities=allow_entities)
+    return doc, [note_line(n) for n in notes]
 
 
 def positive_float(text: str) -> float:

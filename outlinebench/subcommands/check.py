@@ -31,8 +31,9 @@ from outlinebench.subcommands._common import (
     MM_PER,
     mm_per,
     nonnegative_float,
+    note_line,
     positive_float,
-    read_document,
+    read_svg_file,
     unit_factor,
     write_json,
 )
@@ -175,10 +176,12 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
     -------
     dict
         ``{"file", "error"}`` when the file cannot be read or the options do not fit it;
-        otherwise ``{"file", "text", "json", "problems", "notes"}``.
+        otherwise ``{"file", "text" or "json", "problems", "notes"}``; ``notes`` are the
+        reader's notes (dicts, see :func:`~outlinebench.subcommands._common.read_svg_file`)
+        plus one when the file holds no contour, and the JSON object carries them too.
     """
     try:
-        doc, notes = read_document(path)
+        doc, notes = read_svg_file(path, allow_entities=options.get("allow_entities", False))
         unit = options["units"]
         settings = _settings(options, mm_per(unit, doc))
         findings = check_document(doc, settings)
@@ -190,6 +193,16 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
             if path not in msg:
                 msg = f"{path}: {msg}"
         return {"file": path, "error": msg}
+    n_contours = sum(len(o.contours) for o in doc.outlines)
+    if n_contours == 0:
+        notes.append(
+            {
+                "level": "warning",
+                "kind": "nothing-checked",
+                "count": 0,
+                "message": f"{path}: no outlines found; 0 contours checked",
+            }
+        )
     factor = unit_factor(doc, unit)
     shown = convert_units(findings, factor, unit)
     out: dict[str, Any] = {
@@ -199,6 +212,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
     }
     if options["json"]:
         out["json"] = json_report(path, shown, unit=unit)
+        out["json"]["notes"] = notes
     else:
         out["text"] = text_report(path, shown, unit=unit, show_info=not options["hide_info"])
     return out
@@ -255,7 +269,7 @@ def run(args: argparse.Namespace) -> int:
             payload.append({"file": r["file"], "error": r["error"]})
             continue
         for note in r["notes"]:
-            print(f"outlinebench: {note}", file=sys.stderr)
+            print(f"outlinebench: {note_line(note)}", file=sys.stderr)
         if r["problems"] and code == 0:
             code = 1
         if args.json:

@@ -5,7 +5,8 @@ when open), ``bbox`` (tight), and per segment its ``kind`` and ``length``; with 
 every join's gap, tangent turn angle and curvature on each side. Coordinates are the SVG root's
 user units after all element transforms; ``--units mm`` (or in, pt, px) converts through the
 root's width/height and viewBox. Contours are numbered in document order across the file, as
-``outlinebench check`` numbers them.
+``outlinebench check`` numbers them. The JSON carries the reader's notes (elements not
+converted, ...) under ``notes``; text output prints them on stderr.
 """
 
 from __future__ import annotations
@@ -26,7 +27,13 @@ from outlinebench.geometry import (
     signed_area,
 )
 from outlinebench.model.document import Contour, Document
-from outlinebench.subcommands._common import LENGTH_UNITS, read_document, unit_factor, write_json
+from outlinebench.subcommands._common import (
+    LENGTH_UNITS,
+    note_line,
+    read_svg_file,
+    unit_factor,
+    write_json,
+)
 
 __all__ = ["NAME", "HELP", "add_arguments", "run", "measure_document"]
 
@@ -209,12 +216,12 @@ def _text(label: str, m: dict[str, Any]) -> str:
 
 def run(args: argparse.Namespace) -> int:
     """Measure one file; exit code 0, or 2 when it cannot be read (raised to the CLI)."""
-    doc, notes = read_document(args.file)
+    doc, notes = read_svg_file(args.file)
     for note in notes:
-        print(f"outlinebench: {note}", file=sys.stderr)
+        print(f"outlinebench: {note_line(note)}", file=sys.stderr)
     m = measure_document(doc, args.units, args.joins)
     if args.json:
-        write_json({"file": args.file, **m})
+        write_json({"file": args.file, **m, "notes": notes})
     else:
         print(_text(args.file, m))
     return 0

@@ -199,3 +199,25 @@ def test_bad_option_combination_is_one_usage_line_before_any_file(tmp_path, caps
     code, _, err = run([CLEAN, "--gap-search", "0.001"], capsys)
     lines = err.strip().splitlines()
     assert code == 2 and len(lines) == 1 and CLEAN in lines[0] and "0.01 user units" in lines[0]
+
+
+def test_json_carries_the_readers_notes(tmp_path, capsys):
+    # review item 11: a file whose only content is a <text> element is not "clean" silently;
+    # the reader's warning (text is not converted to outlines) is in the JSON, and an empty
+    # drawing says that nothing was checked
+    text_only = tmp_path / "textonly.svg"
+    text_only.write_text('<svg xmlns="http://www.w3.org/2000/svg"><text>Harbour</text></svg>')
+    code, out, _ = run([str(text_only), "--json"], capsys)
+    data = json.loads(out)
+    assert code == 0 and data["findings"] == []
+    (note,) = [n for n in data["notes"] if n["kind"] == "text"]
+    assert note["level"] == "warning" and "text" in note["message"] and note["count"] == 1
+    assert any(n["kind"] == "nothing-checked" for n in data["notes"])
+    empty = tmp_path / "empty.svg"
+    empty.write_text('<svg xmlns="http://www.w3.org/2000/svg"/>')
+    _, out, err = run([str(empty), "--json"], capsys)
+    (note,) = json.loads(out)["notes"]
+    assert "0 contours checked" in note["message"] and "0 contours checked" in err
+    # a file with outlines has an empty list
+    _, out, _ = run([BRACKET, "--json"], capsys)
+    assert json.loads(out)["notes"] == []

@@ -89,3 +89,15 @@ def test_missing_file_exit_2_one_line(tmp_path, capsys):
     code, out, err = measure([str(tmp_path / "nope.svg")], capsys)
     assert code == 2 and out == ""
     assert len(err.strip().splitlines()) == 1 and "nope.svg" in err
+
+
+def test_json_carries_the_readers_notes(tmp_path, capsys):
+    # review item 11: the reader's warning about an unconverted <text> is in the JSON too
+    f = tmp_path / "mixed.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg"><text>Kestrel</text><path d="M0,0 L3,4"/></svg>'
+    )
+    code, out, _ = measure([str(f), "--json"], capsys)
+    data = json.loads(out)
+    assert code == 0 and [n["kind"] for n in data["notes"]] == ["text"]
+    assert data["notes"][0]["level"] == "warning"
