@@ -22,6 +22,7 @@ import sys
 from pathlib import Path
 from typing import Any, TextIO
 
+from outlinebench.errors import UnsafeXmlError
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -31,6 +32,8 @@ __all__ = [
     "unit_factor",
     "read_document",
     "read_svg_file",
+    "ENTITY_OPTION",
+    "add_entity_option",
     "note_line",
     "positive_float",
     "nonnegative_float",
@@ -61,8 +64,33 @@ def unit_factor(doc: Document, unit: str) -> float:
     return doc.mm_per_unit / MM_PER[unit]
 
 
+# The command-line option that lets the reader expand internal XML entities.
+ENTITY_OPTION = "--allow-internal-entities"
+
+
+def add_entity_option(parser: argparse.ArgumentParser) -> None:
+    """Add ``--allow-internal-entities`` to a subcommand's parser."""
+    parser.add_argument(
+        ENTITY_OPTION,
+        dest="allow_entities",
+        action="store_true",
+        help="expand internal XML entities declared in the file (refused by default: "
+        "entity expansion can blow up without bound); external entities stay refused",
+    )
+
+
+def _with_option_hint(err: Exception) -> Exception:
+    """The reader's entity error, pointing at the command-line option."""
+    msg = str(err)
+    if "allow_entities=True" in msg:
+        msg = msg.replace("allow_entities=True", ENTITY_OPTION)
+    else:
+        msg = f"{msg} (to read it anyway: {ENTITY_OPTION})"
+    return type(err)(msg)
+
+
 def read_svg_file(
-    path: str | Path, *, allow_entities: bool = False
+    path: str | Path, *, allow_entities: bool = False, option_hint: bool = False
 ) -> tuple[Document, list[dict[str, Any]]]:
     """Read an SVG file into a document, with the reader's notes as JSON-ready dicts.
 
@@ -72,6 +100,9 @@ def read_svg_file(
     allow_entities : bool
         Let the reader expand internal XML entities (``--allow-internal-entities``); off by
         default, since entity expansion is how XML bombs work.
+    option_hint : bool
+        The caller offers ``--allow-internal-entities``: an error about internal entities
+        names that option.
 
     Returns
     -------
@@ -89,7 +120,12 @@ def read_svg_file(
     """
     from outlinebench.io import read_svg
 
-    result = read_svg(str(path), allow_entities=allow_entities)
+    try:
+        result = read_svg(str(path), allow_entities=allow_entities)
+    except UnsafeXmlError as exc:
+        if option_hint and not allow_entities and "internal entit" in str(exc):
+            raise _with_option_hint(exc) from None
+        raise
     if result.error is not None:
         raise result.error
     notes = [

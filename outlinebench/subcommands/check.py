@@ -29,6 +29,7 @@ from outlinebench.errors import OutlinebenchError
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     MM_PER,
+    add_entity_option,
     mm_per,
     nonnegative_float,
     note_line,
@@ -92,6 +93,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         default=defaults.curvature_jump,
         help="largest relative curvature difference at a smooth join (default %(default)s)",
     )
+    add_entity_option(parser)
     parser.add_argument(
         "--units",
         choices=LENGTH_UNITS,
@@ -181,7 +183,9 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         plus one when the file holds no contour, and the JSON object carries them too.
     """
     try:
-        doc, notes = read_svg_file(path, allow_entities=options.get("allow_entities", False))
+        doc, notes = read_svg_file(
+            path, allow_entities=options.get("allow_entities", False), option_hint=True
+        )
         unit = options["units"]
         settings = _settings(options, mm_per(unit, doc))
         findings = check_document(doc, settings)
@@ -234,6 +238,7 @@ def run(args: argparse.Namespace) -> int:
         for k in (
             "json",
             "hide_info",
+            "allow_entities",
             "gap",
             "gap_search",
             "kink_angle",

@@ -29,6 +29,7 @@ from outlinebench.geometry import (
 from outlinebench.model.document import Contour, Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    add_entity_option,
     note_line,
     read_svg_file,
     unit_factor,
@@ -48,6 +49,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--joins", action="store_true", help="also list every join: gap, angle, curvatures"
     )
+    add_entity_option(parser)
     parser.add_argument(
         "--units",
         choices=LENGTH_UNITS,
@@ -216,7 +218,7 @@ def _text(label: str, m: dict[str, Any]) -> str:
 
 def run(args: argparse.Namespace) -> int:
     """Measure one file; exit code 0, or 2 when it cannot be read (raised to the CLI)."""
-    doc, notes = read_svg_file(args.file)
+    doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
     for note in notes:
         print(f"outlinebench: {note_line(note)}", file=sys.stderr)
     m = measure_document(doc, args.units, args.joins)

@@ -221,3 +221,23 @@ def test_json_carries_the_readers_notes(tmp_path, capsys):
     # a file with outlines has an empty list
     _, out, _ = run([BRACKET, "--json"], capsys)
     assert json.loads(out)["notes"] == []
+
+
+ENTITY_SVG = (
+    '<?xml version="1.0"?>\n<!DOCTYPE svg [<!ENTITY d "M0,0 L3,4">]>\n'
+    '<svg xmlns="http://www.w3.org/2000/svg"><path d="&d;"/></svg>\n'
+)
+
+
+def test_internal_entities_need_the_command_line_option(tmp_path, capsys):
+    # review item 13: refused by default (XML 1.0 §4.2 internal entities can expand without
+    # bound), with a hint a command-line user can follow, not a Python keyword
+    f = tmp_path / "entity.svg"
+    f.write_text(ENTITY_SVG)
+    code, out, err = run([str(f)], capsys)
+    assert code == 2 and "--allow-internal-entities" in err and "allow_entities=" not in err
+    code, out, err = run([str(f), "--allow-internal-entities", "--json"], capsys)
+    found = json.loads(out)["findings"]
+    # the entity expands to M0,0 L3,4: an open line whose ends are 5 apart (3-4-5 triangle)
+    (finding,) = [f for f in found if f["kind"] == "open-contour"]
+    assert finding["value"] == pytest.approx(5.0)

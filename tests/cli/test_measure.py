@@ -101,3 +101,16 @@ def test_json_carries_the_readers_notes(tmp_path, capsys):
     data = json.loads(out)
     assert code == 0 and [n["kind"] for n in data["notes"]] == ["text"]
     assert data["notes"][0]["level"] == "warning"
+
+
+def test_internal_entities_need_the_command_line_option(tmp_path, capsys):
+    # review item 13: as for check; the entity expands to M0,0 L3,4 (length 5, 3-4-5 triangle)
+    f = tmp_path / "entity.svg"
+    f.write_text(
+        '<?xml version="1.0"?>\n<!DOCTYPE svg [<!ENTITY d "M0,0 L3,4">]>\n'
+        '<svg xmlns="http://www.w3.org/2000/svg"><path d="&d;"/></svg>\n'
+    )
+    code, out, err = measure([str(f), "--json"], capsys)
+    assert code == 2 and "--allow-internal-entities" in err and "allow_entities=" not in err
+    code, out, _ = measure([str(f), "--json", "--allow-internal-entities"], capsys)
+    assert code == 0 and json.loads(out)["contours"][0]["length"] == pytest.approx(5.0)
