@@ -649,10 +649,17 @@ def flatten_contours(
     Notes
     -----
     Placement. N* = ∫ sqrt(|κ(s)| / (8ε)) ds is the asymptotic minimum number of chords
-    (sagitta κΔs²/8 = ε; R. Levien, "Flattening quadratic Béziers", 2019). Each segment gets
-    n = ceil(N*) chords whose ends split ∫ sqrt(|κ|) ds into equal parts; the integral is
-    taken with the trapezoid rule on a 32-interval grid in t, where the integrand
-    sqrt(|B′ × B″| / |B′|) stays bounded even at cusps.
+    (sagitta κΔs²/8 = ε; R. Levien, "Flattening quadratic Béziers", 2019). First, segments
+    are split exactly at near-cusp tips (interior minima of |B′| with radius of curvature
+    below ε), where the density is almost nil but the tangent turns sharply, so a vertex
+    belongs there. Each piece then gets n = ceil(N*) chords whose ends split
+    ∫ sqrt(|κ|) ds into equal parts; the integral is taken with the trapezoid rule on a
+    32-interval grid in t, where the integrand sqrt(|B′ × B″| / |B′|) stays bounded even at
+    cusps. Then up to three rounds re-place each piece from the measured deviations D of its
+    chords (a chord uses sqrt(D/ε) of a chord's allowance): a piece whose chords all pass
+    tries one chord fewer (kept only if that passes too); a piece with a failing chord is
+    placed again with one chord more. Only the count depends on this; measured on seeded
+    random, near-cusp and inflected cubics it is 1.04–1.08 × ΣN* (benchmarks/bench_flatten.py).
 
     Guarantee. Every chord is then verified: an upper bound D of its Hausdorff distance to the
     curve piece is computed exactly (see :func:`chord_bound`: extremes of two cubic
