@@ -3,7 +3,8 @@
 Every contour of the file is flattened with :func:`outlinebench.geometry.flatten_contours`
 (each chord verified to stay within ε of its curve piece). The deviation of the result is
 then measured independently (:func:`outlinebench.geometry.polyline_deviation`) and reported.
-``--json`` prints ``{"contours": [{"closed", "points", ...}], "tolerance", "max_deviation"}``;
+``--json`` prints ``{"contours": [{"closed", "points", ...}], "tolerance", "max_deviation"}``
+(a closed contour's points do not repeat the first one; the closing chord is implied);
 ``-o OUT.svg`` writes the polylines as a cut file in millimetres, atomically (a temporary file
 renamed into place, so an error never leaves a partial file), with the cutting caution as an
 XML comment. Lengths are in the document's user units unless ``--units`` says otherwise.
