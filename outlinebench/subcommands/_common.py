@@ -22,7 +22,7 @@ import sys
 from pathlib import Path
 from typing import Any, TextIO
 
-from outlinebench.errors import UnsafeXmlError
+from outlinebench.errors import UnsafeXmlError, UnsupportedSvgFeature
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -30,6 +30,7 @@ __all__ = [
     "MM_PER",
     "mm_per",
     "unit_factor",
+    "axis_scales",
     "read_document",
     "read_svg_file",
     "ENTITY_OPTION",
@@ -57,10 +58,46 @@ def mm_per(unit: str, doc: Document) -> float:
     return MM_PER[unit]
 
 
+def axis_scales(doc: Document) -> tuple[float, float] | None:
+    """Millimetres per user unit along x and along y when they differ, else None.
+
+    Notes
+    -----
+    The root's viewBox maps onto its width × height; with ``preserveAspectRatio="none"`` x
+    and y scale separately, by width/viewBox width and height/viewBox height (W3C SVG 1.1
+    §7.8), and the reader gives ``mm_per_unit`` as their geometric mean. "meet" and "slice"
+    scale both axes by the smaller or the larger of the two, so the scale is uniform when
+    ``mm_per_unit`` equals either.
+    """
+    vb, w, h = doc.view_box, doc.width_mm, doc.height_mm
+    if vb is None or w is None or h is None or vb[2] <= 0 or vb[3] <= 0:
+        return None
+    sx, sy = w / vb[2], h / vb[3]
+    same = math.isclose(sx, sy, rel_tol=1e-9)
+    if same or any(math.isclose(doc.mm_per_unit, s, rel_tol=1e-9) for s in (sx, sy)):
+        return None
+    return sx, sy
+
+
 def unit_factor(doc: Document, unit: str) -> float:
-    """Size of one user unit of ``doc`` expressed in ``unit`` (1.0 for "user")."""
+    """Size of one user unit of ``doc`` expressed in ``unit`` (1.0 for "user").
+
+    Raises
+    ------
+    outlinebench.errors.UnsupportedSvgFeature
+        ``unit`` is not "user" and the file scales x and y differently
+        (:func:`axis_scales`): no single factor converts its lengths.
+    """
     if unit == "user":
         return 1.0
+    scales = axis_scales(doc)
+    if scales is not None:
+        name = doc.path or "the document"
+        raise UnsupportedSvgFeature(
+            f'{name}: preserveAspectRatio="none" scales x by {scales[0]:.6g} and y by '
+            f"{scales[1]:.6g} mm per user unit, so lengths have no single size in {unit}; "
+            "use --units user"
+        )
     return doc.mm_per_unit / MM_PER[unit]
 
 

@@ -187,6 +187,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
             path, allow_entities=options.get("allow_entities", False), option_hint=True
         )
         unit = options["units"]
+        factor = unit_factor(doc, unit)  # refuses a unit the file's scale cannot give
         settings = _settings(options, mm_per(unit, doc))
         findings = check_document(doc, settings)
     except (OutlinebenchError, OSError, OptionMismatch) as exc:
@@ -207,7 +208,6 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
                 "message": f"{path}: no outlines found; 0 contours checked",
             }
         )
-    factor = unit_factor(doc, unit)
     shown = convert_units(findings, factor, unit)
     out: dict[str, Any] = {
         "file": path,

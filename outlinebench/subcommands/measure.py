@@ -219,6 +219,7 @@ def _text(label: str, m: dict[str, Any]) -> str:
 def run(args: argparse.Namespace) -> int:
     """Measure one file; exit code 0, or 2 when it cannot be read (raised to the CLI)."""
     doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
+    unit_factor(doc, args.units)  # refuses a unit the file's scale cannot give, before notes
     for note in notes:
         print(f"outlinebench: {note_line(note)}", file=sys.stderr)
     m = measure_document(doc, args.units, args.joins)

@@ -241,3 +241,17 @@ def test_internal_entities_need_the_command_line_option(tmp_path, capsys):
     # the entity expands to M0,0 L3,4: an open line whose ends are 5 apart (3-4-5 triangle)
     (finding,) = [f for f in found if f["kind"] == "open-contour"]
     assert finding["value"] == pytest.approx(5.0)
+
+
+def test_units_refused_when_x_and_y_scale_differently(tmp_path, capsys):
+    # review item 12 (see tests/cli/test_measure.py): x 1 mm per unit, y 0.5 (W3C SVG 1.1 §7.8)
+    f = tmp_path / "none.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="50mm" '
+        'viewBox="0 0 100 100" preserveAspectRatio="none"><path d="M0,0 L0,100"/></svg>'
+    )
+    code, out, err = run([str(f), "--units", "mm"], capsys)
+    lines = [x for x in err.splitlines() if "error" in x]
+    assert code == 2 and len(lines) == 1 and str(f) in lines[0] and "--units user" in lines[0]
+    code, _, _ = run([str(f)], capsys)
+    assert code == 1  # user units: checked (an open line)

@@ -114,3 +114,29 @@ def test_internal_entities_need_the_command_line_option(tmp_path, capsys):
     assert code == 2 and "--allow-internal-entities" in err and "allow_entities=" not in err
     code, out, _ = measure([str(f), "--json", "--allow-internal-entities"], capsys)
     assert code == 0 and json.loads(out)["contours"][0]["length"] == pytest.approx(5.0)
+
+
+def _scaled_line(tmp_path, aspect):
+    f = tmp_path / f"scaled-{aspect or 'default'}.svg"
+    par = f' preserveAspectRatio="{aspect}"' if aspect else ""
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="50mm" '
+        f'viewBox="0 0 100 100"{par}><path d="M0,0 L0,100"/></svg>'
+    )
+    return str(f)
+
+
+def test_units_refused_when_x_and_y_scale_differently(tmp_path, capsys):
+    # review item 12: preserveAspectRatio="none" maps the 100-unit viewBox onto 100 × 50 mm, so
+    # x has 1 mm per unit and y 0.5 (W3C SVG 1.1 §7.8): no single mm length exists for the
+    # vertical line (really 50 mm). Refused with one line naming the file; user units work.
+    f = _scaled_line(tmp_path, "none")
+    code, out, err = measure([f, "--units", "mm"], capsys)
+    assert code == 2 and out == ""
+    assert len(err.strip().splitlines()) == 1 and f in err and "preserveAspectRatio" in err
+    code, out, _ = measure([f, "--json"], capsys)
+    assert code == 0 and json.loads(out)["contours"][0]["length"] == pytest.approx(100.0)
+    # the default "xMidYMid meet" scales both by min(100/100, 50/100) = 0.5 mm per unit
+    # (W3C SVG 1.1 §7.8): 100 units = 50 mm
+    code, out, _ = measure([_scaled_line(tmp_path, None), "--json", "--units", "mm"], capsys)
+    assert code == 0 and json.loads(out)["contours"][0]["length"] == pytest.approx(50.0)
