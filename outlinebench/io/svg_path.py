@@ -6,12 +6,13 @@ repetition of a command's parameter groups, an implicit line after the first pai
 compact numbers (``.5.5``, ``-.5-.5``, ``1e-3``), single-character arc flags (``a1 1 0 00.5.5``)
 and commands following ``z`` that start at the closed subpath's first point.
 
-Reading is linear in the length of the data. A fast lexer handles data whose numbers are all
-separated (by white space, commas or command letters) with whole-string byte operations and
-one float conversion per number; anything else (compact numbers, unseparated arc flags,
-errors) goes through a per-command regular-expression lexer that is still a single pass and
-finds the exact offset of the first error. Geometry is then built for all parameter groups at
-once with numpy.
+Reading is linear in the length of the data. A fast lexer works on the whole string with byte
+operations: it separates numbers written together ("1-2", ".5.5"), checks the alphabet, the
+commas and the number counts, and converts plain decimals through integers (exact, see
+``_decimals``), other numbers with a correctly rounded strtod. Anything it cannot take
+(unseparated arc flags, errors) goes through a per-command regular-expression lexer that is
+still a single pass and finds the exact offset of the first error. Geometry is then built for
+all parameter groups at once with numpy (short data: a sequential twin, bit-identical).
 
 Error handling follows SVG 2 §9.5.4 ("render up to the error"): everything up to the last
 complete parameter group before the first error is kept and returned together with the error.
