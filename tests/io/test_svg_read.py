@@ -7,6 +7,8 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from outlinebench.errors import SvgPathError, SvgReadError, UnsafeXmlError, UnsupportedSvgFeature
 from outlinebench.io import load_svg, read_svg
@@ -332,3 +334,26 @@ def test_switch_renders_its_first_child_only():
         )
     )
     assert [o.element_id for o in res.document.outlines] == ["a"]
+
+
+_BASE = (DATA / "harbour_lane_sign.svg").read_bytes()
+
+
+@given(
+    st.lists(
+        st.tuples(st.integers(0, len(_BASE) - 1), st.sampled_from(list(b'<>"=/ &;x-.1#('))),
+        min_size=1,
+        max_size=6,
+    )
+)
+def test_damaged_files_raise_only_our_read_error(edits):
+    # Random byte damage to a valid file: the reader returns a result or raises SvgReadError
+    # (a subclass for unsafe XML), never any other exception. Our own robustness property.
+    data = bytearray(_BASE)
+    for pos, ch in edits:
+        data[pos] = ch
+    try:
+        res = read_svg(bytes(data))
+    except SvgReadError:
+        return
+    assert res.error is None or isinstance(res.error, SvgReadError)
