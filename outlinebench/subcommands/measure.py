@@ -1,8 +1,9 @@
 """``outlinebench measure FILE``: lengths, areas and bounds of every contour.
 
-Per contour: ``closed``, ``length``, ``area`` (absolute enclosed area of a closed contour, null
-when open), ``bbox`` (tight), and per segment its ``kind`` and ``length``; with ``--joins``,
-every join's gap, tangent turn angle and curvature on each side. Coordinates are the SVG root's
+Per contour: ``closed``, ``self_intersecting``, ``length``, ``area`` (absolute enclosed area
+of a closed contour — for one that crosses itself, the union of its faces — null when open),
+``bbox`` (tight), and per segment its ``kind`` and ``length``; with ``--joins``, every join's
+gap, tangent turn angle and curvature on each side. Coordinates are the SVG root's
 user units after all element transforms; ``--units mm`` (or in, pt, px) converts through the
 root's width/height and viewBox. Contours are numbered in document order across the file, as
 ``outlinebench check`` numbers them. The JSON carries the reader's notes (elements not
@@ -17,7 +18,9 @@ from typing import Any
 
 import numpy as np
 
+from outlinebench.diagnostics import check_document
 from outlinebench.diagnostics.continuity import turn_angles
+from outlinebench.diagnostics.enclosed_area import enclosed_area
 from outlinebench.geometry import (
     KIND_BY_DEGREE,
     arc_length,
@@ -89,6 +92,24 @@ def _joins(contour: Contour, f: float) -> list[dict[str, Any]]:
     return out
 
 
+def _self_crossings(doc: Document) -> dict[int, list[list[float]]]:
+    """Contours that cross themselves (global index) → per segment, the crossing parameters.
+
+    From the self-intersection findings of :func:`outlinebench.diagnostics.check_document`
+    (a loop inside a segment, and crossings between two segments of the same contour).
+    """
+    out: dict[int, list[list[float]]] = {}
+    sizes = {ref.global_index: len(ref.contour.segments) for ref in doc.contour_refs()}
+    for fnd in check_document(doc):
+        if fnd.kind != "self-intersection" or fnd.other_contour != fnd.contour:
+            continue
+        cuts = out.setdefault(fnd.contour, [[] for _ in range(sizes[fnd.contour])])
+        for seg, t in ((fnd.segment, fnd.t), (fnd.other_segment, fnd.other_t)):
+            if seg is not None and t is not None:
+                cuts[seg].append(float(t))
+    return out
+
+
 def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> dict[str, Any]:
     """The measurements of every contour as a JSON-ready dict.
 
@@ -110,10 +131,14 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
     -----
     Lengths come from :func:`outlinebench.geometry.arc_length` (Gauss–Legendre quadrature to
     its default tolerance), areas from the exact signed area of
-    :func:`outlinebench.geometry.signed_area` (Green's theorem), boxes from
+    :func:`outlinebench.geometry.signed_area` (Green's theorem) — or, for a contour that
+    crosses itself (``self_intersecting``), the area of the union of its faces of non-zero
+    winding number (:func:`outlinebench.diagnostics.enclosed_area.enclosed_area`, exact for
+    the pieces between crossings; a figure-eight's two lobes add up), boxes from
     :func:`outlinebench.geometry.bounding_box` (end points and interior extrema).
     """
     f = unit_factor(doc, unit)
+    crossings = _self_crossings(doc)
     contours = []
     total_len = 0.0
     total_segs = 0
@@ -150,14 +175,19 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
         else:
             bbox = None
         first += n
-        area = (
-            abs(float(signed_area(list(c.segments)))) * f * f if c.closed and c.segments else None
-        )
+        cuts = crossings.get(ref.global_index)
+        if not (c.closed and c.segments):
+            area = None
+        elif cuts is None:
+            area = abs(float(signed_area(list(c.segments)))) * f * f
+        else:
+            area = enclosed_area(c.segments, cuts) * f * f
         row: dict[str, Any] = {
             "contour": ref.global_index,
             "outline": outline.source_index if outline.source_index >= 0 else ref.outline,
             "element_id": outline.element_id,
             "closed": c.closed,
+            "self_intersecting": cuts is not None,
             "length": length * f,
             "area": area,
             "bbox": bbox,
@@ -200,6 +230,8 @@ def _text(label: str, m: dict[str, Any]) -> str:
             f"({_fmt(box[0])}, {_fmt(box[1])})–({_fmt(box[2])}, {_fmt(box[3])})" if box else "none"
         )
         state = "closed" if c["closed"] else f"open (ends {_fmt(c.get('ends_distance'))} apart)"
+        if c["self_intersecting"]:
+            state += ", crosses itself"
         lines.append(
             f"contour {c['contour']} (outline {c['outline']}{name}): {state}, length "
             f"{_fmt(c['length'])}, area {_fmt(c['area'])}, bbox {box_s}"

@@ -6,6 +6,7 @@ import math
 import re
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from outlinebench.__main__ import main
@@ -140,3 +141,33 @@ def test_units_refused_when_x_and_y_scale_differently(tmp_path, capsys):
     # (W3C SVG 1.1 §7.8): 100 units = 50 mm
     code, out, _ = measure([_scaled_line(tmp_path, None), "--json", "--units", "mm"], capsys)
     assert code == 0 and json.loads(out)["contours"][0]["length"] == pytest.approx(50.0)
+
+
+def test_area_of_a_contour_that_crosses_itself(tmp_path, capsys):
+    # review item 5: a figure-eight's signed area is 0, but it encloses two lobes
+    shapely = pytest.importorskip("shapely")
+    from outlinebench.geometry import evaluate
+    from outlinebench.io import read_svg
+
+    f = tmp_path / "eight.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg">'
+        '<path d="M0,0 C0,-20 40,20 40,0 C40,-20 0,20 0,0 Z"/>'
+        '<path d="M0,40 L20,60 L20,40 L0,60 Z"/>'
+        '<path d="M50,0 L60,0 L60,10 L50,10 Z"/></svg>'
+    )
+    code, out, _ = measure([str(f), "--json"], capsys)
+    eight, bowtie, square = json.loads(out)["contours"]
+    # reference: shapely make_valid on a dense polyline of the curve (4,000 points per segment;
+    # its chords cut off about 1e-7 of the area)
+    segs = read_svg(f).document.outlines[0].contours[0].segments
+    t = np.linspace(0.0, 1.0, 4001)[:-1]
+    ring = np.vstack([evaluate(s, t) for s in segs])
+    ref = shapely.make_valid(shapely.Polygon(ring)).area
+    assert eight["self_intersecting"] is True
+    assert eight["area"] == pytest.approx(ref, rel=1e-6)
+    # bow-tie: two triangles ½ · 20 · 10 = 100 each (closed form), signed area 0
+    assert bowtie["self_intersecting"] is True and bowtie["area"] == pytest.approx(200.0)
+    assert square["self_intersecting"] is False and square["area"] == pytest.approx(100.0)
+    _, text, _ = measure([str(f)], capsys)
+    assert "crosses itself" in text
