@@ -375,13 +375,18 @@ class _Reader:
             if tag in _NOT_GEOMETRY:
                 self.unsupported(tag, el)
                 continue
-            where = f"{self.where}: {describe(el)}"
-            try:
-                local = parse_transform(el.get("transform"), where)
-            except SvgReadError as exc:
-                self.notes.append(ReadNote("error", f"{exc}; element skipped", "transform"))
-                continue
-            matrix = parent @ local if el.get("transform") else parent
+            where = ""
+            transform = el.get("transform")
+            matrix = parent
+            if transform:
+                where = f"{self.where}: {describe(el)}"
+                try:
+                    matrix = parent @ parse_transform(transform, where)
+                except SvgReadError as exc:
+                    self.notes.append(ReadNote("error", f"{exc}; element skipped", "transform"))
+                    continue
+            if tag == "svg" or tag == "use":
+                where = where or f"{self.where}: {describe(el)}"
             if visibility in ("hidden", "collapse"):
                 hidden_here = True
             elif visibility == "visible":
