@@ -2,6 +2,7 @@
 units, options and one-line errors on bad input."""
 
 import json
+import math
 import re
 import subprocess
 import sys
@@ -79,6 +80,42 @@ def test_planted_defects_are_where_the_readme_says(capsys):
     assert (cu["x"], cu["y"]) == pytest.approx((240.5, 76.0)) and cu["t"] == pytest.approx(0.5)
     # R's counter winds like the R: wrong direction on contour 4, inside contour 3
     assert one("wrong-direction", contour=4)["other_contour"] == 3
+    # review item 8, every other planted defect where samples/README.md puts it:
+    # kink of the O (contour 8) at (222, 40): the outgoing handle (−0.88, K·30) against the
+    # vertical arc end, atan(0.88 / (30 K)) = 3.04° with K = 4(√2 − 1)/3 (make_samples.py)
+    k = 4 * (math.sqrt(2) - 1) / 3
+    kink = one("kink", contour=8)
+    assert (kink["x"], kink["y"]) == pytest.approx((222.0, 40.0))
+    expect = math.degrees(math.atan(0.88 / (30 * k)))
+    assert kink["value"] == pytest.approx(expect, abs=1e-4)  # the file rounds K·30
+    # curvature jumps of the O's counter (contour 9), warnings at (192, 40) and (202, 60)
+    for x, y in ((192.0, 40.0), (202.0, 60.0)):
+        jump = one("curvature-jump", contour=9, x=pytest.approx(x), y=pytest.approx(y))
+        assert jump["severity"] == "warning"
+    # A's counter crosses A (contours 1 × 2); the flourish crosses itself at (125, 76):
+    # symmetric about x = 125 by construction, so the crossing lies on that axis
+    assert one("self-intersection", contour=1, other_contour=2)
+    flourish = one("self-intersection", contour=16, other_contour=16)
+    assert (flourish["x"], flourish["y"]) == pytest.approx((125.0, 76.0), abs=1e-6)
+    # the O2's right side as one arc with both handles at x = 338 + 1.3333·20: by symmetry
+    # its x extremum is at t = ½, x(½) = (P0 + 3P1 + 3P2 + P3)/8 = 338 + 0.75·1.3333·20
+    ext = one("missing-extremum", contour=13)
+    assert (ext["x"], ext["y"]) == pytest.approx((338.0 + 0.75 * 1.3333 * 20, 40.0), abs=1e-9)
+    # B's lower bowl: the last handle on its end point (contour 5, segment 6, t = 1)
+    dh = one("degenerate-handle", contour=5, segment=6)
+    assert dh["t"] == 1.0 and dh["value"] == 0.0
+    # the stray underline M10,76 L100,76: open, ends 90 apart
+    assert one("open-contour", contour=15)["value"] == pytest.approx(90.0)
+    # side effects the README lists (review item 9)
+    for y in (70.0, 10.0):
+        side = one("curvature-jump", contour=13, x=pytest.approx(338.0), y=pytest.approx(y))
+        assert side["severity"] == "warning"
+    bend = one("corner", contour=5, segment=6)
+    assert (bend["x"], bend["y"]) == (160.0, 70.0) and bend["value"] == pytest.approx(
+        24.12, abs=0.01
+    )
+    # no missing-extremum at the U's cusp (the cusp's tip is not an extremum, review item 6)
+    assert not [f for f in found if f["kind"] == "missing-extremum" and f["contour"] == 10]
 
 
 def test_several_files_give_a_list_and_worst_exit_code(capsys):
