@@ -10,9 +10,11 @@
 
 from outlinebench.diagnostics.checker import Checker, check_document
 from outlinebench.diagnostics.findings import (
+    CHECK_KINDS,
     ERROR,
     INFO,
     KINDS,
+    OFFSET_KINDS,
     SEVERITIES,
     WARNING,
     Finding,
@@ -32,7 +34,9 @@ __all__ = [
     "CAUTION",
     "ERROR",
     "INFO",
+    "CHECK_KINDS",
     "KINDS",
+    "OFFSET_KINDS",
     "SEVERITIES",
     "WARNING",
     "CheckSettings",

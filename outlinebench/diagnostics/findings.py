@@ -34,6 +34,8 @@ __all__ = [
     "INFO",
     "SEVERITIES",
     "SEVERITY_RANK",
+    "CHECK_KINDS",
+    "OFFSET_KINDS",
     "KINDS",
     "Finding",
     "is_problem",
@@ -46,8 +48,8 @@ SEVERITIES: tuple[str, ...] = (ERROR, WARNING, INFO)
 # Lower rank is more serious; reports sort by it.
 SEVERITY_RANK = {ERROR: 0, WARNING: 1, INFO: 2}
 
-# Every kind a check can report, in the order reports list their counts.
-KINDS: tuple[str, ...] = (
+# Every kind ``check`` can report, in the order reports list their counts.
+CHECK_KINDS: tuple[str, ...] = (
     "gap",
     "kink",
     "corner",
@@ -60,6 +62,11 @@ KINDS: tuple[str, ...] = (
     "missing-extremum",
     "wrong-direction",
 )
+# Kinds the offset (tool radius compensation) reports: the tool cannot follow a concave
+# feature tighter than its radius, or a part of the outline disappears at this offset.
+OFFSET_KINDS: tuple[str, ...] = ("tool-does-not-fit", "vanishes")
+# Every kind of finding, in the order reports list their counts.
+KINDS: tuple[str, ...] = CHECK_KINDS + OFFSET_KINDS
 
 
 class Finding(NamedTuple):

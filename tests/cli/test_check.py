@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from outlinebench.__main__ import main
-from outlinebench.diagnostics import KINDS
+from outlinebench.diagnostics import CHECK_KINDS
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = ROOT / "samples"
@@ -48,7 +48,7 @@ def test_defects_sample_exits_1_and_has_every_kind(capsys):
     assert isinstance(data, dict)
     assert set(data) >= {"findings", "summary", "file", "units", "caution"}
     kinds = {f["kind"] for f in data["findings"]}
-    assert kinds == set(KINDS)  # every kind is planted (samples/README.md)
+    assert kinds == set(CHECK_KINDS)  # every kind is planted (samples/README.md)
     for f in data["findings"]:
         assert set(f) >= {"kind", "severity", "outline", "contour", "segment", "t", "x", "y",
                           "value", "unit", "message"}  # fmt: skip
