@@ -105,8 +105,8 @@ class _Parser(DefusedXMLParser):
         if not self.allow_entities:
             raise UnsafeXmlError(
                 f"{w}: the file declares the internal entity {name!r}; entity declarations are "
-                "refused by default (they can expand without bound); allow harmless ones with "
-                "allow_entities=True"
+                "refused by default (they can expand without bound); harmless ones can be "
+                "allowed with an explicit option"
             )
         if "&" in value or "%" in value:
             raise UnsafeXmlError(
