@@ -103,6 +103,8 @@ for _letters, _ix, _iy in (("MLT", 0, 1), ("C", 4, 5), ("SQ", 2, 3), ("A", 5, 6)
 # Path data up to this many characters is built sequentially (numpy's per-call cost would
 # dominate); longer data is built with whole-array operations.
 _SMALL = 2048
+# Key a builder adds to its counts when a coordinate is not finite (removed before returning).
+_NONFINITE = "nonfinite"
 # Levels of vectorised current-point resolution before falling back to one sequential pass.
 _RESOLVE_LEVELS = 12
 
@@ -624,10 +626,14 @@ def _build(
     pool: list[NDArray[np.float64]] = []
     perm = np.empty(total, dtype=np.int64)
     for rows_k, arr in kinds:
+        if not np.isfinite(arr).all():
+            counts_out[_NONFINITE] = 1
         perm[first_pos[rows_k]] = len(pool) + np.arange(len(rows_k))
         pool.extend(_freeze(arr))
     if arc_rows:
         arr = _freeze(_apply(np.concatenate(arc_cubics), matrix))
+        if not np.isfinite(arr).all():
+            counts_out[_NONFINITE] = 1
         pieces = nseg[arc_rows]
         where = np.repeat(first_pos[arc_rows], pieces) + (
             np.arange(pieces.sum()) - np.repeat(np.cumsum(pieces) - pieces, pieces)
@@ -760,7 +766,10 @@ def _build_small(
     views: dict[int, list[NDArray[np.float64]]] = {}
     for kind, segs in by_kind.items():
         if segs:
-            views[kind] = list(_freeze(_apply(np.array(segs, dtype=np.float64), matrix)))
+            arr = _apply(np.array(segs, dtype=np.float64), matrix)
+            if not np.isfinite(arr).all():
+                counts_out[_NONFINITE] = 1
+            views[kind] = list(_freeze(arr))
     ordered = [views[kind][i] for kind, i in order]
     contours = [Contour(tuple(ordered[a:b]), closed) for a, b, closed in bounds]
     if tok.trailing_dot:
@@ -791,13 +800,61 @@ def read_path_data(
     PathData
         Contours and, when the data is bad, the error (never raised).
     """
-    if len(d) <= _SMALL:
-        tok = _lex_general(d)
-        contours, counts = _build_small(tok, matrix, tolerance)
-    else:
-        tok = _lex(d)
-        contours, counts = _build(tok, matrix, tolerance)
-    return PathData(contours, tok.error, counts)
+    tok = _lex_general(d) if len(d) <= _SMALL else _lex(d)
+    built = _build_finite(tok, matrix, tolerance, len(d) <= _SMALL)
+    if built is None:
+        return _up_to_overflow(d, tok, matrix, tolerance)
+    return PathData(built[0], tok.error, built[1])
+
+
+def _build_finite(
+    tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float, small: bool
+) -> tuple[list[Contour], dict[str, int]] | None:
+    """Build the geometry, or None when a coordinate is not a finite double.
+
+    Every number read is finite, but sums (relative commands), reflections, an arc's centre
+    and radii, or the transform can overflow IEEE 754 binary64 (beyond ~1.797e308).
+    """
+    try:
+        with np.errstate(over="ignore", invalid="ignore"):
+            if small:
+                contours, counts = _build_small(tok, matrix, tolerance)
+            else:
+                contours, counts = _build(tok, matrix, tolerance)
+    except (ArithmeticError, ValueError):  # math.* on inf or nan in an arc's conversion
+        return None
+    if counts.pop(_NONFINITE, 0):
+        return None
+    return contours, counts
+
+
+def _up_to_overflow(
+    d: str, tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float
+) -> PathData:
+    """The geometry before the first command whose coordinates overflow, and that error.
+
+    Whether the data up to a command builds finite geometry only turns false once, so the
+    command is found by bisection over command letters (a logarithmic number of linear
+    reads, only on this error path).
+    """
+    end = tok.error.offset if tok.error is not None else len(d)
+    starts = [m.start() for m in _SPLIT_RE.finditer(d, 0, end)] + [len(d)]
+    lo, hi = 0, len(starts) - 1  # data before starts[lo] builds; before starts[hi] does not
+    best = PathData([], None, {})
+    while hi - lo > 1:
+        mid = (lo + hi) // 2
+        head = d[: starts[mid]]
+        part = _lex_general(head) if len(head) <= _SMALL else _lex(head)
+        built = _build_finite(part, matrix, tolerance, len(head) <= _SMALL)
+        if built is None:
+            hi = mid
+        else:
+            lo = mid
+            best = PathData(built[0], None, built[1])
+    pos = starts[lo]
+    token = _token_at(d, pos)
+    best.error = SvgPathError(f"coordinates overflow at offset {pos}, found {token!r}", pos, token)
+    return best
 
 
 def parse_path_data(d: str, *, tolerance: float = ARC_TOLERANCE) -> list[Contour]:

@@ -219,8 +219,18 @@ def shape_path_data(el: Any, where: str, ppi: float = PX_PER_INCH) -> str | None
     Raises
     ------
     SvgReadError
-        Bad attribute values (negative sizes, bad lengths).
+        Bad attribute values (negative sizes, bad lengths), or coordinates of the equivalent
+        path (``x + width``, ``cx + r``, ...) that overflow a double.
     """
+    try:
+        return _shape_path_data(el, where, ppi)
+    except SvgReadError:
+        raise
+    except ValueError:  # format_number of an infinite sum
+        raise SvgReadError(f"{where}: coordinates out of range (they overflow a double)") from None
+
+
+def _shape_path_data(el: Any, where: str, ppi: float) -> str | None:
     tag = _local(el.tag)
     f = format_number
     if tag == "rect":
@@ -381,7 +391,13 @@ class _Reader:
             if transform:
                 where = f"{self.where}: {describe(el)}"
                 try:
-                    matrix = parent @ parse_transform(transform, where)
+                    with np.errstate(over="ignore", invalid="ignore"):
+                        matrix = parent @ parse_transform(transform, where)
+                    if not np.isfinite(matrix).all():
+                        raise SvgReadError(
+                            f"{where}: transform {transform!r} is out of range (with its "
+                            "parents' it overflows a double)"
+                        )
                 except SvgReadError as exc:
                     self.notes.append(ReadNote("error", f"{exc}; element skipped", "transform"))
                     continue
@@ -619,6 +635,10 @@ def _physical(root: Any, where: str, ppi: float, notes: list[ReadNote]) -> dict[
                     "units",
                 )
             )
+    for name, value in (("width", w_mm), ("height", h_mm), ("viewBox", mm_per_unit)):
+        if value is not None and not (math.isfinite(value) and value > 0.0):
+            text = root.get(name) if name != "viewBox" else root.get("viewBox")
+            raise SvgReadError(f"{where}: <svg> {name}: length out of range {text!r}")
     unit = (width.unit if width is not None else "") or (height.unit if height is not None else "")
     return {
         "width_mm": w_mm,

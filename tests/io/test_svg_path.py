@@ -177,6 +177,44 @@ def test_overflowing_number_is_refused():
         parse_path_data("M0 0 L1 1e999")
 
 
+# Each number below is a finite double, but a sum, a reflection, an arc's centre or a
+# transform of them is not: IEEE 754 binary64 ends at about 1.797e308 (sys.float_info.max),
+# so 1e308 + 1e308 is inf. Padding with lines puts the same data through the vectorised
+# builder (more than 2,048 characters) as well as the sequential one.
+_PAD = " L0 0" * 500
+
+
+@pytest.mark.parametrize("pad", ["", _PAD], ids=["short", "long"])
+@pytest.mark.parametrize(
+    ("tail", "command"),
+    [
+        ("M1e308 0 l1e308 0", "l1e308"),  # relative sum overflows
+        ("M1e308 0 C0 0 -1.7e308 0 1.5e308 0 S0 0 0 0", "S0"),  # reflected handle overflows
+        ("M-1e308 0 A1 1 0 0 1 1e308 0", "A1"),  # arc: half the chord overflows
+        ("M0 0 A1e-300 1e-300 0 0 1 1e300 0", "A1e-300"),  # arc: chord / radius overflows
+    ],
+)
+def test_coordinates_that_overflow_are_an_error_at_their_command(pad, tail, command):
+    d = "M0 0 L1 1" + pad + " " + tail + " L2 2"
+    res = read_path_data(d)
+    assert isinstance(res.error, SvgPathError)
+    offset = d.index(command)
+    assert res.error.offset == offset
+    assert str(res.error).startswith(f"coordinates overflow at offset {offset}, found ")
+    # Everything before that command is kept (SVG 2 §9.5.4), and every kept number is finite.
+    kept = [s for c in res.contours for s in c.segments]
+    assert kept[0].tolist() == [[0, 0], [1, 1]]
+    assert all(np.all(np.isfinite(s)) for s in kept)
+    assert len(kept) == 1 + 500 * bool(pad) + ("C0" in tail)
+
+
+def test_a_transform_that_overflows_the_coordinates_is_an_error():
+    m = np.diag([1e300, 1e300, 1.0])  # 1e300 · 1e10 overflows binary64
+    res = read_path_data("M0 0 L1 1 L1e10 0", matrix=m)
+    assert res.error is not None and res.error.offset == 10
+    assert [s.tolist() for s in res.contours[0].segments] == [[[0, 0], [1e300, 1e300]]]
+
+
 def test_message_names_what_was_expected():
     # Wording pinned by the project style guide ("expected a number at offset 17, found 'x'").
     with pytest.raises(SvgPathError, match=r"^expected a number at offset 17, found 'x'$"):

@@ -130,6 +130,32 @@ def test_element_without_id_is_named_by_position():
     assert str(res.error).startswith("<bytes>: <path> #2: expected a number at offset 8")
 
 
+# IEEE 754 binary64 ends at about 1.797e308 (sys.float_info.max): each number below reads
+# as a finite double, but the shape's equivalent path (x + width, cx + r), a composed
+# transform, or the root size in millimetres does not.
+@pytest.mark.parametrize(
+    "body",
+    [
+        '<rect x="1e308" width="1e308" height="1"/>',
+        '<circle cx="1.7e308" r="1e308"/>',
+        '<path transform="scale(1e200) scale(1e200)" d="M0 0 L1 1"/>',
+        '<g transform="scale(1e200)"><path transform="scale(1e200)" d="M0 0 L1 1"/></g>',
+    ],
+)
+def test_overflowing_shapes_and_transforms_skip_that_element_only(body):
+    res = read_svg(svg('<path id="keep" d="M0 0 L1 1"/>' + body))
+    assert [o.element_id for o in res.document.outlines] == ["keep"]
+    errors = [n for n in res.notes if n.level == "error"]
+    assert len(errors) == 1 and "out of range" in errors[0].message
+    assert "element skipped" in errors[0].message
+
+
+def test_overflowing_root_size_is_a_read_error():
+    data = b'<svg xmlns="http://www.w3.org/2000/svg" width="1e308in" height="1mm"/>'
+    with pytest.raises(SvgReadError, match="<svg> width: length out of range"):
+        read_svg(data)
+
+
 # -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
 def _all_points(outline):
     return np.concatenate([s for c in outline.contours for s in c.segments])
