@@ -514,6 +514,13 @@ def _fsync_dir(directory: Path) -> None:
         os.close(fd)
 
 
+def _umask() -> int:
+    """The process's file-creation mask (read by setting it and putting it back)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:
     """Save a document atomically.
 
@@ -533,32 +540,36 @@ def write_svg(document: Document, path: str | os.PathLike[str] | None = None) ->
     -----
     Serialise fully and re-read as a check (:func:`svg_bytes`); write a temporary file in
     the target's folder, flush and fsync it; ``os.replace`` it over the target (atomic on
-    POSIX and Windows); fsync the folder so the rename itself is durable.
+    POSIX and Windows); fsync the folder so the rename itself is durable. A symbolic link is
+    followed (the file it names is replaced, the link stays); the saved file keeps the old
+    file's permission bits, or gets ``0o666`` minus the umask when new, as ``open(2)`` would.
     """
     target_name = path if path is not None else document.path
     if target_name is None:
         raise SvgWriteError("no file name to save to")
-    target = Path(target_name)
+    shown = Path(target_name)  # the name the user knows, for messages
+    # A symbolic link stays a link: the file it points to is the one replaced.
+    target = Path(os.path.realpath(shown))
     data = svg_bytes(document)
-    mode = None
     if target.exists():
         mode = target.stat().st_mode & 0o7777
         # Permission bits too, not only os.access: an administrator could write anyway, but
         # a file marked read-only is not meant to be replaced.
         if not os.access(target, os.W_OK) or not mode & 0o222:
-            raise SvgWriteError(f"{target}: the file is read-only; it was not replaced")
-    directory = target.parent if str(target.parent) else Path(".")
+            raise SvgWriteError(f"{shown}: the file is read-only; it was not replaced")
+    else:
+        mode = 0o666 & ~_umask()  # what open(2) would give a new file
+    directory = target.parent
     try:
         fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
     except OSError as exc:
-        raise SvgWriteError(f"{target}: cannot create a file in {directory}: {exc}") from None
+        raise SvgWriteError(f"{shown}: cannot create a file in {directory}: {exc}") from None
     try:
         with os.fdopen(fd, "wb") as fh:
             _write_all(fh, data)
             fh.flush()
             os.fsync(fh.fileno())
-        if mode is not None:
-            os.chmod(tmp, mode)
+        os.chmod(tmp, mode)
         os.replace(tmp, target)
     except BaseException as exc:
         try:
@@ -566,9 +577,7 @@ def write_svg(document: Document, path: str | os.PathLike[str] | None = None) ->
         except OSError:
             pass
         if isinstance(exc, OSError):
-            raise SvgWriteError(
-                f"{target}: save failed, the old file is unchanged: {exc}"
-            ) from None
+            raise SvgWriteError(f"{shown}: save failed, the old file is unchanged: {exc}") from None
         raise
     _fsync_dir(directory)
 

@@ -226,6 +226,37 @@ def test_read_only_target_is_refused(tmp_path):
     assert target.read_bytes() == (DATA / "kestrel_bracket.svg").read_bytes()
 
 
+@pytest.mark.skipif(os.name != "posix", reason="POSIX symbolic links")
+def test_saving_through_a_symbolic_link_writes_the_file_it_points_to(tmp_path):
+    # Common practice, no source (what text editors do): a link stays a link and the file it
+    # names gets the new content; replacing the link by a plain file would leave the real
+    # file stale.
+    real_dir = tmp_path / "shop"
+    real_dir.mkdir()
+    real = real_dir / "bracket.svg"
+    real.write_bytes((DATA / "kestrel_bracket.svg").read_bytes())
+    link = tmp_path / "current.svg"
+    link.symlink_to(os.path.relpath(real, tmp_path))
+    doc = _edited(link)
+    write_svg(doc, link)
+    assert link.is_symlink() and link.resolve() == real.resolve()
+    assert real.read_bytes() == svg_bytes(doc)
+    assert sorted(p.name for p in real_dir.iterdir()) == ["bracket.svg"]  # no temp left
+
+
+@pytest.mark.skipif(os.name != "posix", reason="POSIX permission bits")
+def test_a_new_file_gets_the_usual_permissions(tmp_path):
+    # POSIX open(2): a created file's mode is 0o666 masked by the umask; a temporary file
+    # from mkstemp is 0o600, which must not leak into the saved drawing.
+    doc = _edited(DATA / "kestrel_bracket.svg")
+    old = os.umask(0o022)
+    try:
+        write_svg(doc, tmp_path / "new.svg")
+    finally:
+        os.umask(old)
+    assert stat.S_IMODE((tmp_path / "new.svg").stat().st_mode) == 0o644
+
+
 def test_no_target_name():
     with pytest.raises(SvgWriteError, match="no file name"):
         write_svg(Document())
