@@ -181,13 +181,16 @@ def _local(tag: Any) -> str:
     return tag
 
 
-def describe(el: Any, index: int | None = None) -> str:
-    """``<path id="logo">`` or ``<rect> #3`` (1-based position among geometry elements)."""
+def describe(el: Any, index: int | None = None, line: int | None = None) -> str:
+    """``<path id="logo">``, ``<rect> #3`` (1-based position among geometry elements) or,
+    for other elements, ``<g> at line 12``."""
     tag = _local(el.tag)
     eid = el.get("id")
     if eid:
         return f'<{tag} id="{eid}">'
-    return f"<{tag}> #{index + 1}" if index is not None else f"<{tag}>"
+    if index is not None:
+        return f"<{tag}> #{index + 1}"
+    return f"<{tag}> at line {line}" if line is not None else f"<{tag}>"
 
 
 def _style_flags(el: Any) -> tuple[str | None, str | None]:
@@ -353,6 +356,17 @@ class _Reader:
         self.examples: dict[str, str] = {}
         self.use_instances = 0
         self.root: Any = None
+        self.xml: XmlSource | None = None
+        self._newlines: NDArray[np.intp] | None = None
+
+    def name(self, el: Any) -> str:
+        """:func:`describe` with the element's line in the file when it has no id."""
+        if el.get("id") or self.xml is None or id(el) not in self.xml.spans:
+            return describe(el)
+        if self._newlines is None:
+            self._newlines = np.flatnonzero(np.frombuffer(self.xml.data, dtype=np.uint8) == 10)
+        pos = self.xml.spans[id(el)][0]
+        return describe(el, line=int(np.searchsorted(self._newlines, pos)) + 1)
 
     def count(self, kind: str, example: str, n: int = 1) -> None:
         self.counts[kind] = self.counts.get(kind, 0) + n
@@ -361,9 +375,9 @@ class _Reader:
     def unsupported(self, kind: str, el: Any) -> None:
         if self.on_unsupported == "raise":
             raise UnsupportedSvgFeature(
-                f"{self.where}: {describe(el)}: {_NOT_GEOMETRY.get(kind, kind)}"
+                f"{self.where}: {self.name(el)}: {_NOT_GEOMETRY.get(kind, kind)}"
             )
-        self.count(kind, describe(el))
+        self.count(kind, self.name(el))
 
     def walk(self, root: Any, ids: dict[str, Any], root_matrix: NDArray[np.float64]) -> None:
         # Stack entries: (element, parent matrix, hidden, use chain, outer use element).
@@ -378,7 +392,7 @@ class _Reader:
             display, visibility = _style_flags(el)
             if display == "none":
                 if tag in _GEOMETRY or tag in _CONTAINERS or tag in ("use", "text", "image"):
-                    self.count("hidden", describe(el))
+                    self.count("hidden", self.name(el))
                 continue
             if tag in _NOT_RENDERED or tag.startswith("{"):
                 continue
@@ -389,7 +403,7 @@ class _Reader:
             transform = el.get("transform")
             matrix = parent
             if transform:
-                where = f"{self.where}: {describe(el)}"
+                where = f"{self.where}: {self.name(el)}"
                 try:
                     with np.errstate(over="ignore", invalid="ignore"):
                         matrix = parent @ parse_transform(transform, where)
@@ -402,7 +416,7 @@ class _Reader:
                     self.notes.append(ReadNote("error", f"{exc}; element skipped", "transform"))
                     continue
             if tag == "svg" or tag == "use":
-                where = where or f"{self.where}: {describe(el)}"
+                where = where or f"{self.where}: {self.name(el)}"
             if visibility in ("hidden", "collapse"):
                 hidden_here = True
             elif visibility == "visible":
@@ -433,7 +447,7 @@ class _Reader:
                 continue
             if tag in _GEOMETRY:
                 if hidden_here:
-                    self.count("hidden", describe(el))
+                    self.count("hidden", self.name(el))
                     continue
                 self.read_geometry(el, tag, matrix, use)
 
@@ -464,7 +478,7 @@ class _Reader:
             self.notes.append(ReadNote("warning", f"{where}: use without a reference", "use"))
             return
         if not href.startswith("#"):
-            self.count("external", f"{describe(el)} → {href}")
+            self.count("external", f"{self.name(el)} → {href}")
             return
         target = ids.get(href[1:])
         if target is None:
@@ -736,6 +750,7 @@ def read_svg(
             ids[eid] = el
     reader = _Reader(where, px_per_inch, on_unsupported, tolerance)
     reader.root = root
+    reader.xml = xml
     root_matrix = parse_transform(root.get("transform"), f"{where}: <svg>")
     reader.walk(root, ids, root_matrix)
     reader.summary_notes()

@@ -156,6 +156,19 @@ def test_overflowing_root_size_is_a_read_error():
         read_svg(data)
 
 
+def test_elements_without_id_outside_the_outlines_are_named_by_line():
+    # The issue: errors name the element by id or position. Groups and use elements have no
+    # outline number, so their position is their line in the file (counted by hand here).
+    data = svg(
+        '\n<g transform="rotate(30">\n<path d="M0 0 L1 1"/>\n</g>\n'
+        '<use href="#nowhere"/>\n<g id="named" transform="skewX()"/>'
+    )
+    messages = [n.message for n in read_svg(data).notes if n.level == "error"]
+    assert messages[0].startswith("<bytes>: <g> at line 2: bad transform")
+    assert messages[1].startswith("<bytes>: <use> at line 5: reference #nowhere not found")
+    assert messages[2].startswith('<bytes>: <g id="named">: skewX()')
+
+
 # -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
 def _all_points(outline):
     return np.concatenate([s for c in outline.contours for s in c.segments])
