@@ -29,7 +29,7 @@ from outlinebench.errors import SvgPathError, SvgReadError, UnsafeXmlError, Unsu
 from outlinebench.io._xml import MAX_BYTES, MAX_ENTITY_CHARS, XmlSource, parse_xml
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_arc import ARC_TOLERANCE
-from outlinebench.io.svg_path import read_path_data
+from outlinebench.io.svg_path import _found, _token_at, read_path_data
 from outlinebench.io.svg_transform import is_mirroring, parse_transform, translation
 from outlinebench.io.svg_units import (
     PX_PER_INCH,
@@ -536,6 +536,9 @@ class _Reader:
         where = f"{self.where}: {describe(el, index)}"
         m = None if np.array_equal(matrix, IDENTITY) else matrix
         path_error = False
+        if tag in ("polyline", "polygon"):
+            self.read_points(el, tag, index, where, m, use)
+            return
         try:
             d = el.get("d") or "" if tag == "path" else shape_path_data(el, where, self.ppi)
         except SvgReadError as exc:
@@ -558,6 +561,76 @@ class _Reader:
                     self.notes.append(ReadNote("error", str(err), "path"))
             for key, n in res.counts.items():
                 self.count(key, describe(el, index), n)
+        self.add_outline(el, tag, index, where, m, use, contours, path_error)
+
+    def read_points(
+        self,
+        el: Any,
+        tag: str,
+        index: int,
+        where: str,
+        m: NDArray[np.float64] | None,
+        use: Any,
+    ) -> None:
+        """A polyline or polygon, read up to the first bad number of its ``points``.
+
+        SVG 2 §10.6-10.7: bad points are in error like bad path data, so the pairs before the
+        error are kept (§9.5.4) and the error names its offset in the ``points`` attribute.
+        """
+        text = el.get("points") or ""
+        ok_end = _POINTS_OK.match(text).end()
+        found = [(v.start(), v.group()) for v in _POINTS_RE.finditer(text, 0, ok_end)]
+        bad: tuple[int, str] | None = None  # (offset, what was expected or wrong)
+        for k, (pos, value) in enumerate(found):
+            if not math.isfinite(float(value)):
+                bad = (pos, "number out of range")
+                found = found[:k]
+                break
+        if bad is None and ok_end < len(text.rstrip(" \t\r\n\f")):
+            bad = (ok_end, "expected a number")
+        elif bad is None and len(found) % 2:
+            bad = (len(text), "expected a number")
+        found = found[: len(found) - len(found) % 2]
+        pairs = [(found[i][0], f"{found[i][1]} {found[i + 1][1]}") for i in range(0, len(found), 2)]
+        contours: list[Contour] = []
+        if len(pairs) >= 2:
+            # One command letter per pair, so an error offset in d names its pair.
+            parts, starts, at = [], [], 0
+            for k, (_, pair) in enumerate(pairs):
+                starts.append(at)
+                parts.append(("M" if k == 0 else "L") + pair)
+                at += len(parts[-1])
+            d = "".join(parts) + ("Z" if tag == "polygon" and bad is None else "")
+            res = read_path_data(d, matrix=m, tolerance=self.tolerance)
+            contours = res.contours
+            if res.error is not None:  # the transform overflows a double at this pair
+                k = max(0, int(np.searchsorted(starts, res.error.offset, side="right")) - 1)
+                bad = (pairs[k][0], "coordinates overflow")
+        else:
+            self.count("empty-shape", describe(el, index))
+        if bad is not None:
+            pos, what = bad
+            token = _token_at(text, pos)
+            err = SvgPathError(
+                f"{where}: points: {what} at offset {pos}, {_found(token)}", pos, token
+            )
+            if self.error is None:
+                self.error = err
+            else:
+                self.notes.append(ReadNote("error", str(err), "path"))
+        self.add_outline(el, tag, index, where, m, use, contours, bad is not None)
+
+    def add_outline(
+        self,
+        el: Any,
+        tag: str,
+        index: int,
+        where: str,
+        m: NDArray[np.float64] | None,
+        use: Any,
+        contours: list[Contour],
+        path_error: bool,
+    ) -> None:
         contours = _read_joins(el, contours, where, self.notes)
         if m is not None and is_mirroring(m):
             self.count("mirror", describe(el, index))

@@ -169,6 +169,30 @@ def test_elements_without_id_outside_the_outlines_are_named_by_line():
     assert messages[2].startswith('<bytes>: <g id="named">: skewX()')
 
 
+@pytest.mark.parametrize(
+    ("points", "offset", "token", "kept"),
+    [
+        # SVG 2 §10.6-10.7: bad points are in error "with the same user agent behavior as
+        # occurs with an incorrectly specified 'path' element", i.e. render up to the error
+        # (§9.5.4). Offsets are in the points attribute, counted by hand.
+        ("0,0 10,\u00a010 20,0", 7, "\u00a010", 0),  # no-break space is not white space
+        ("0,0 10,10 20,0 5", 16, "", 2),  # odd count: the last number has no partner
+        ("0,0 10,10 1e999,0", 10, "1e999", 1),  # overflows a double
+        ("0,0 10,10 20,0 x", 15, "x", 2),
+    ],
+)
+def test_bad_points_keep_the_pairs_before_the_error(points, offset, token, kept):
+    res = read_svg(svg(f'<polyline id="rope" points="{points}"/>'))
+    assert isinstance(res.error, SvgPathError)
+    assert res.error.offset == offset and res.error.token.startswith(token)
+    assert str(res.error).startswith('<bytes>: <polyline id="rope">: points: ')
+    assert f"at offset {offset}" in str(res.error)
+    (rope,) = res.document.outlines
+    segments = [s for c in rope.contours for s in c.segments]
+    assert len(segments) == kept
+    assert not [n for n in res.notes if n.level == "error"]  # reported once, as the error
+
+
 # -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
 def _all_points(outline):
     return np.concatenate([s for c in outline.contours for s in c.segments])
