@@ -34,7 +34,8 @@ MM_PER_UNIT = {"mm": 1.0, "cm": 10.0, "in": 25.4, "pt": 25.4 / 72.0, "pc": 25.4 
 
 _LENGTH_RE = re.compile(
     r"[ \t\r\n\f]*([+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?)"
-    r"(px|mm|cm|in|pt|pc|em|ex|%)?[ \t\r\n\f]*"
+    r"(px|mm|cm|in|pt|pc|em|ex|%)?[ \t\r\n\f]*",
+    re.IGNORECASE,  # CSS units are ASCII case-insensitive
 )
 _NUMS_RE = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?")
 
@@ -62,14 +63,18 @@ class Length:
 
 
 def parse_length(text: str | None, where: str = "") -> Length | None:
-    """Parse an SVG length ("210mm", "8.5in", "300", "100%"); None when absent.
+    """Parse an SVG length ("210mm", "8.5in", "300", "100%"); None when absent or "auto".
+
+    Units are ASCII case-insensitive, as in CSS. "auto" (SVG 2) means what a missing value
+    means for every attribute read with this function: 100% for the root's width and height,
+    the other radius for rx/ry, zero for a rect's width and height.
 
     Raises
     ------
     SvgReadError
         Text that is not a length.
     """
-    if text is None or not text.strip():
+    if text is None or not text.strip() or text.strip(" \t\r\n\f").lower() == "auto":
         return None
     m = _LENGTH_RE.fullmatch(text)
     if m is None:
@@ -77,7 +82,7 @@ def parse_length(text: str | None, where: str = "") -> Length | None:
     value = float(m.group(1))
     if not np.isfinite(value):
         raise SvgReadError(f"{where}: length out of range {text!r}")
-    return Length(value, m.group(2) or "")
+    return Length(value, (m.group(2) or "").lower())
 
 
 def parse_view_box(text: str | None, where: str = "") -> tuple[float, float, float, float] | None:

@@ -193,6 +193,18 @@ def test_bad_points_keep_the_pairs_before_the_error(points, offset, token, kept)
     assert not [n for n in res.notes if n.level == "error"]  # reported once, as the error
 
 
+def test_auto_sizes_read_like_missing_ones():
+    # SVG 2 geometry properties (from memory): width/height "auto" on the root is 100%, so no
+    # physical size (as missing);
+    # SVG 2 §10.2: rx="auto" takes ry's value, so rx="auto" ry="3" is rx = ry = 3.
+    res = read_svg(svg('<rect width="20" height="10" rx="auto" ry="3"/>', 'width="auto"'))
+    assert res.document.width_mm is None
+    other = read_svg(svg('<rect width="20" height="10" ry="3"/>')).document
+    assert [s.tolist() for s in res.document.outlines[0].contours[0].segments] == [
+        s.tolist() for s in other.outlines[0].contours[0].segments
+    ]
+
+
 # -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
 def _all_points(outline):
     return np.concatenate([s for c in outline.contours for s in c.segments])

@@ -69,3 +69,18 @@ def test_aspect_defaults_on_bad_values():
     assert parse_aspect(None) == ("xMidYMid", "meet")
     assert parse_aspect("bogus") == ("xMidYMid", "meet")
     assert parse_aspect("defer xMinYMax slice") == ("xMinYMax", "slice")
+
+
+def test_units_are_case_insensitive():
+    # CSS Values and Units 3, distance units: unit identifiers are ASCII case-insensitive
+    # (from memory; SVG 2 takes its lengths from CSS).
+    assert parse_length("10MM") == parse_length("10mm")
+    assert parse_length("2In").to_mm() == pytest.approx(50.8, rel=1e-15)
+
+
+def test_auto_is_the_same_as_no_value():
+    # SVG 2 geometry properties (from memory): "auto" for an outer svg's width/height is 100%
+    # (no physical size, like a missing attribute); SVG 2 §10.2: a rect's rx/ry "auto" takes
+    # the other radius (like a missing one).
+    assert parse_length("auto") is None
+    assert parse_length(" AUTO ") is None
