@@ -30,7 +30,7 @@ from outlinebench.app.lengths import segment_length
 if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
     from outlinebench.app.session import EditorSession
 
-__all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS"]
+__all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS", "global_contour"]
 
 ANGLE_DECIMALS = 3  # degrees shown to 0.001°
 _BIG = 1e9
@@ -40,6 +40,12 @@ _JOIN_CHOICES = [
     ("corner", "corner"),
     (None, "not stated"),
 ]
+
+
+def global_contour(doc, outline: int, contour: int) -> int:
+    """The contour's number as ``outlinebench check`` and the findings list give it: counted
+    from 0 through the whole file in document order."""
+    return sum(len(o.contours) for o in doc.outlines[:outline]) + contour
 
 
 class NumberField(QDoubleSpinBox):
@@ -123,12 +129,22 @@ class SelectionPanel(QWidget):
 
         self.segments_box = QGroupBox("Segments at this point")
         s = QFormLayout(self.segments_box)
-        self.seg_in = QLabel("")
-        self.seg_out = QLabel("")
+        self.seg_in = _spin("", 3, 0.0)
+        self.seg_out = _spin("", 3, 0.0)
+        for w in (self.seg_in, self.seg_out):
+            w.setToolTip(
+                "Segment length along the curve. Type a value to scale the segment about its "
+                "start point: its start stays, its end point moves."
+            )
         self.seg_in_label = QLabel("Incoming")
         self.seg_out_label = QLabel("Outgoing")
         s.addRow(self.seg_in_label, self.seg_in)
         s.addRow(self.seg_out_label, self.seg_out)
+        # the segment each length field edits: (outline, contour, segment) or None
+        self._seg_keys: tuple[tuple[int, int, int] | None, tuple[int, int, int] | None] = (
+            None,
+            None,
+        )
         lay.addWidget(self.segments_box)
 
         self.contour_box = QGroupBox("Contour")
@@ -145,13 +161,17 @@ class SelectionPanel(QWidget):
 
         self.box_left.valueChanged.connect(lambda _v: self._commit_box())
         self.box_top.valueChanged.connect(lambda _v: self._commit_box())
-        self.x.valueChanged.connect(lambda _v: self._commit_xy())
-        self.y.valueChanged.connect(lambda _v: self._commit_xy())
+        # Each field sends only its own value; the others come from the document, so typing
+        # one number never rounds the rest to the digits shown.
+        self.x.valueChanged.connect(lambda _v: self._commit_xy(0))
+        self.y.valueChanged.connect(lambda _v: self._commit_xy(1))
         self.join.activated.connect(self._commit_join)
-        self.in_len.valueChanged.connect(lambda _v: self._commit_handle("in"))
-        self.in_ang.valueChanged.connect(lambda _v: self._commit_handle("in"))
-        self.out_len.valueChanged.connect(lambda _v: self._commit_handle("out"))
-        self.out_ang.valueChanged.connect(lambda _v: self._commit_handle("out"))
+        self.in_len.valueChanged.connect(lambda _v: self._commit_handle("in", "length"))
+        self.in_ang.valueChanged.connect(lambda _v: self._commit_handle("in", "angle"))
+        self.out_len.valueChanged.connect(lambda _v: self._commit_handle("out", "length"))
+        self.out_ang.valueChanged.connect(lambda _v: self._commit_handle("out", "angle"))
+        self.seg_in.valueChanged.connect(lambda _v: self._commit_segment_length(0))
+        self.seg_out.valueChanged.connect(lambda _v: self._commit_segment_length(1))
 
         editor.changed.connect(self._on_selection_changed)
         editor.selection_changed.connect(self._on_selection_changed)
@@ -168,7 +188,16 @@ class SelectionPanel(QWidget):
         key = ed.primary
         selected = ed.selected_points()
         self._shown_key = key
-        spins = (self.x, self.y, self.in_len, self.out_len, self.box_left, self.box_top)
+        spins = (
+            self.x,
+            self.y,
+            self.in_len,
+            self.out_len,
+            self.box_left,
+            self.box_top,
+            self.seg_in,
+            self.seg_out,
+        )
         blockers = [QSignalBlocker(w) for w in (*spins, self.in_ang, self.out_ang, self.join)]
         self._show_box(doc, selected, units)
         try:
@@ -195,12 +224,15 @@ class SelectionPanel(QWidget):
             p = pk.point_at(doc, key)
             self.x.setValue(units.show(float(p[0])))
             self.y.setValue(units.show(float(p[1])))
-            name = outline.element_id or f"outline {o + 1}"
+            name = outline.element_id or f"outline {o}"
             more = f" (+{len(selected) - 1} more selected)" if len(selected) > 1 else ""
             on_curve = pk.is_on_curve(doc, key)
             what = "on-curve point" if on_curve else "handle"
+            # The numbering of `outlinebench check` and the findings list: contours counted
+            # from 0 through the whole file in document order, segments from 0 in the contour.
             self.summary.setText(
-                f"<b>{what.capitalize()}</b> in {name}, contour {c + 1}, segment {s + 1}{more}"
+                f"<b>{what.capitalize()}</b> in {name}, contour {global_contour(doc, o, c)}, "
+                f"{self._place_text(doc, key)}{more}"
             )
             if on_curve:
                 self._show_on_curve(doc, key, units)
@@ -235,8 +267,10 @@ class SelectionPanel(QWidget):
         for w in (self.x, self.y, self.in_len, self.in_ang, self.out_len, self.out_ang):
             w.setValue(0.0)
         self.turn.setText("")
-        self.seg_in.setText("")
-        self.seg_out.setText("")
+        self._seg_keys = (None, None)
+        for w in (self.seg_in, self.seg_out):
+            w.setValue(0.0)
+            w.setSpecialValueText("")
         self.contour_info.setText("")
         self.join.setCurrentIndex(2)
 
@@ -252,6 +286,40 @@ class SelectionPanel(QWidget):
         p = pk.point_at(doc, key)
         inc, out = pk.handles_of(doc, key)
         self._handle_keys = (inc, out)
+        self._show_handle_fields(doc, p, inc, out, units)
+        self.turn.setText(self._turn_text(doc, key))
+        nk = pk.normalize(doc, key)
+        n = len(contour.segments)
+        s = nk[2]
+        at_end = nk[3] != 0
+        incoming = s if at_end else ((s - 1) % n if (s > 0 or contour.closed) else None)
+        outgoing = None if at_end else s
+        self.segments_box.setTitle("Segments at this point")
+        self._show_segment(self.seg_in, self.seg_in_label, "Incoming", o, c, incoming)
+        self._show_segment(self.seg_out, self.seg_out_label, "Outgoing", o, c, outgoing)
+
+    def _show_handle(self, doc, key, units) -> None:
+        self.join.setEnabled(False)
+        self.join_label.setText("Join intent")
+        owner = pk.owner_of_handle(doc, key)
+        j = pk.join_of(doc, owner)
+        if j is not None:
+            o, c, _, _ = owner
+            intent = doc.outlines[o].contours[c].joins[j]
+            self.join.setCurrentIndex([v for v, _ in _JOIN_CHOICES].index(intent))
+        inc, out = pk.handles_of(doc, owner)
+        self._handle_keys = (inc, out)
+        p = pk.point_at(doc, owner)
+        self._show_handle_fields(doc, p, inc, out, units)
+        self.turn.setText(self._turn_text(doc, owner))
+        o, c, s, _ = key
+        self.segments_box.setTitle("Segment of this handle")
+        self._show_segment(self.seg_in, self.seg_in_label, "This segment", o, c, s)
+        self._show_segment(self.seg_out, self.seg_out_label, "", o, c, None)
+
+    def _show_handle_fields(self, doc, p, inc, out, units) -> None:
+        """Length and angle of both handles of the on-curve point ``p``; a side without a
+        handle (a line segment, or the free end of an open contour) shows that in words."""
         for hk, ln, ang in ((inc, self.in_len, self.in_ang), (out, self.out_len, self.out_ang)):
             ln.setEnabled(hk is not None)
             ang.setEnabled(hk is not None)
@@ -266,54 +334,41 @@ class SelectionPanel(QWidget):
             ang.setSpecialValueText("")
             ln.setValue(units.show(length))
             ang.setValue(angle)
-        self.turn.setText(self._turn_text(doc, key))
-        nk = pk.normalize(doc, key)
-        n = len(contour.segments)
-        s = nk[2]
-        at_end = nk[3] != 0
-        incoming = s if at_end else ((s - 1) % n if (s > 0 or contour.closed) else None)
-        outgoing = None if at_end else s
-        self.segments_box.setTitle("Segments at this point")
-        self.seg_in_label.setText("Incoming")
-        self.seg_out_label.setText("Outgoing")
-        self.seg_in.setText(self._seg_text(contour, incoming, units))
-        self.seg_out.setText(self._seg_text(contour, outgoing, units))
 
-    def _show_handle(self, doc, key, units) -> None:
-        self.join.setEnabled(False)
-        self.join_label.setText("Join intent")
-        owner = pk.owner_of_handle(doc, key)
-        j = pk.join_of(doc, owner)
-        if j is not None:
-            o, c, _, _ = owner
-            intent = doc.outlines[o].contours[c].joins[j]
-            self.join.setCurrentIndex([v for v, _ in _JOIN_CHOICES].index(intent))
-        inc, out = pk.handles_of(doc, owner)
-        self._handle_keys = (inc, out)
-        p = pk.point_at(doc, owner)
-        for hk, ln, ang in ((inc, self.in_len, self.in_ang), (out, self.out_len, self.out_ang)):
-            ln.setEnabled(hk is not None)
-            ang.setEnabled(hk is not None)
-            if hk is not None:
-                length, angle = pk.polar(p, pk.point_at(doc, hk))
-                ln.setValue(units.show(length))
-                ang.setValue(angle)
-        self.turn.setText(self._turn_text(doc, owner))
-        o, c, s, _ = key
-        contour = doc.outlines[o].contours[c]
-        self.segments_box.setTitle("Segment of this handle")
-        self.seg_in_label.setText(f"Segment {s + 1}")
-        self.seg_out_label.setText("")
-        self.seg_in.setText(self._seg_text(contour, s, units))
-        self.seg_out.setText("")
-
-    def _seg_text(self, contour, index: int | None, units) -> str:
-        if index is None:
-            return "—"
-        seg = contour.segments[index]
+    def _show_segment(self, field, label, side: str, o: int, c: int, s: int | None) -> None:
+        """One segment's kind and length in ``field`` (editable), or "—" when there is none."""
+        index = 0 if field is self.seg_in else 1
+        keys = list(self._seg_keys)
+        field.setEnabled(s is not None)
+        if s is None:
+            keys[index] = None
+            self._seg_keys = (keys[0], keys[1])
+            label.setText(side)
+            field.setValue(field.minimum())
+            field.setSpecialValueText("—")
+            return
+        seg = self._editor.document.outlines[o].contours[c].segments[s]
         kind = {2: "line", 3: "quadratic", 4: "cubic"}[seg.shape[0]]
-        length = segment_length(seg, quick=self._editor.history.in_group)
-        return f"{kind}, length {units.text(length)}"
+        keys[index] = (o, c, s)
+        self._seg_keys = (keys[0], keys[1])
+        label.setText(f"{side} (segment {s}, {kind})")
+        field.setSpecialValueText("")
+        units = self._editor.units
+        field.setValue(units.show(segment_length(seg, quick=self._editor.history.in_group)))
+
+    @staticmethod
+    def _place_text(doc, key) -> str:
+        """Where the point is, in the words of the findings list: "join 2 (segments 1 → 2)"
+        for an on-curve point where two segments meet, "segment 3" for a handle, "start of
+        segment 0" / "end of segment 4" for the free ends of an open contour."""
+        o, c, s, i = key
+        if not pk.is_on_curve(doc, key):
+            return f"segment {s}"
+        j = pk.join_of(doc, key)
+        if j is not None:
+            a, b = doc.outlines[o].contours[c].join_segments(j)
+            return f"join {j} (segments {a} → {b})"
+        return f"{'start' if i == 0 else 'end'} of segment {s}"
 
     @staticmethod
     def _turn_text(doc, key) -> str:
@@ -335,12 +390,15 @@ class SelectionPanel(QWidget):
         return f"{abs(ang):.{ANGLE_DECIMALS}f}°" + (" (in line)" if abs(ang) < 1e-9 else "")
 
     # -- widget → model -----------------------------------------------------------------
-    def _commit_xy(self) -> None:
+    def _commit_xy(self, axis: int) -> None:
+        """The typed coordinate replaces one axis; the other keeps the document's exact value."""
         key = self._shown_key
-        if key is None:
+        if key is None or not pk.exists(self._editor.document, key):
             return
         u = self._editor.units
-        self._editor.set_point(key, u.parse(self.x.value()), u.parse(self.y.value()))
+        xy = [float(v) for v in pk.point_at(self._editor.document, key)]
+        xy[axis] = u.parse((self.x, self.y)[axis].value())
+        self._editor.set_point(key, xy[0], xy[1])
 
     def _commit_box(self) -> None:
         if self._box is None:
@@ -358,15 +416,31 @@ class SelectionPanel(QWidget):
         owner = key if pk.is_on_curve(doc, key) else pk.owner_of_handle(doc, key)
         self._editor.set_join_intent(owner, self.join.itemData(index))
 
-    def _commit_handle(self, side: str) -> None:
+    def _commit_handle(self, side: str, which: str) -> None:
+        """The typed length or angle replaces that one quantity; the other is the document's
+        exact value (not the rounded one shown)."""
         key = self._shown_key
         if key is None:
             return
         hk = self._handle_keys[0 if side == "in" else 1]
-        if hk is None:
+        doc = self._editor.document
+        if hk is None or not pk.exists(doc, hk):
             return
         u = self._editor.units
         length_box, angle_box = (
             (self.in_len, self.in_ang) if side == "in" else (self.out_len, self.out_ang)
         )
-        self._editor.set_handle_polar(hk, u.parse(length_box.value()), angle_box.value())
+        owner = pk.owner_of_handle(doc, hk)
+        length, angle = pk.polar(pk.point_at(doc, owner), pk.point_at(doc, hk))
+        if which == "length":
+            length = u.parse(length_box.value())
+        else:
+            angle = angle_box.value()
+        self._editor.set_handle_polar(hk, length, angle)
+
+    def _commit_segment_length(self, index: int) -> None:
+        seg_key = self._seg_keys[index]
+        if seg_key is None:
+            return
+        field = (self.seg_in, self.seg_out)[index]
+        self._editor.set_segment_length(seg_key, self._editor.units.parse(field.value()))

@@ -261,6 +261,37 @@ class EditorSession(QObject):
         target = (float(p[0] + length * np.cos(a)), float(p[1] - length * np.sin(a)))
         self.do(cmds.SetPoint(cmds.PointRef(*key), target))
 
+    def set_segment_length(self, seg: tuple[int, int, int], length: float) -> None:
+        """Give one segment the arc length ``length`` (document units), as one undoable step.
+
+        The segment is scaled about its start point: every other control point moves to
+        ``p0 + k (p_i - p0)`` with ``k = length / current length``. Uniform scaling multiplies
+        arc length by ``k`` exactly (the integrand ``|B'(t)|`` scales by ``k``), so no
+        iteration is needed; a line's end point simply moves along the line. The end point's
+        other handle moves with it (the rule of :class:`SetPoint`).
+        """
+        from outlinebench.app.lengths import segment_length
+
+        o, c, s = seg
+        doc = self.document
+        points = doc.contour(o, c).segments[s]
+        current = segment_length(points)
+        if length <= 0.0 or current <= 0.0:
+            self.message.emit("A segment length must be greater than zero")
+            return
+        k = length / current
+        p0 = points[0]
+        targets = [p0 + k * (points[i] - p0) for i in range(1, points.shape[0])]
+        last = points.shape[0] - 1
+        # End point first (its handles move with it), then this segment's handles exactly.
+        order = [last, *range(1, last)]
+        ok = self._do_group(
+            "Set segment length",
+            [cmds.SetPoint(cmds.PointRef(o, c, s, i), targets[i - 1]) for i in order],
+        )
+        if ok:
+            self.message.emit(f"Segment {s} is now {self.units.text(length)} long")
+
     def set_join_intent(self, key: pk.Key, intent: str | None) -> None:
         doc = self.document
         j = pk.join_of(doc, key)

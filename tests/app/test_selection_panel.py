@@ -36,7 +36,7 @@ def test_panel_shows_point_handles_and_segments_in_mm(window):
     assert panel.out_ang.value() == pytest.approx(0.0)
     # The line segment 3 of the bowl from (90,50) to (60,50): 30 units (closed form).
     window.session.set_selection([(0, 0, 2, 0)])
-    assert "line" in panel.seg_out.text() and f"{30 * MM:.3f} mm" in panel.seg_out.text()
+    assert "line" in panel.seg_out_label.text() and panel.seg_out.text() == f"{30 * MM:.3f} mm"
 
 
 def test_panel_follows_undo(window):
@@ -135,3 +135,97 @@ def test_several_points_show_their_box_and_move_together(window):
     assert s.undo_label == "Move points"
     s.set_selection([(0, 0, 2, 0)])
     assert panel.box_group.isHidden()
+
+
+# -- review fixes: typed values never round the others; handles that do not exist ----------
+
+
+def test_typing_y_keeps_an_unshown_digit_of_x(window):
+    panel = window.panel
+    s = window.session
+    s.set_point((0, 0, 1, 0), 50.00008, 10.0)  # x = 25.00004 mm: the field shows 25.000
+    s.set_selection([(0, 0, 1, 0)])
+    _type(panel.y, "6")  # 6 mm = 12 user units
+    p = s.document.outlines[0].contours[0].segments[1][0]
+    # Expected: x exactly as before (issue 6 / review item 1: only the typed field changes).
+    assert float(p[0]) == 50.00008
+    assert float(p[1]) == 12.0
+
+
+def test_typing_a_handle_length_keeps_its_exact_angle(window):
+    panel = window.panel
+    s = window.session
+    # Outgoing handle of (50, 10) put at 18.0041827° on screen (y up), length 20 units.
+    a = math.radians(18.0041827)
+    s.set_point((0, 0, 1, 1), 50 + 20 * math.cos(a), 10 - 20 * math.sin(a))
+    s.set_selection([(0, 0, 1, 0)])
+    _type(panel.out_len, "15")  # 15 mm = 30 units
+    d = s.document.outlines[0].contours[0].segments[1][1] - np.array([50.0, 10.0])
+    # numpy measurement: the angle is kept to round-off, not snapped to the 0.001° shown.
+    assert math.degrees(math.atan2(-d[1], d[0])) == pytest.approx(18.0041827, abs=1e-9)
+    assert float(np.hypot(*d)) == pytest.approx(30.0, rel=1e-12)
+
+
+def test_a_missing_handle_is_shown_as_missing_when_a_handle_is_selected(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])  # both handles exist: incoming shows 10 mm
+    assert panel.in_len.value() == pytest.approx(10.0)
+    # Handle (60, 70) of segment 3: its point (60, 50) has a line (segment 2) coming in.
+    s.set_selection([(0, 0, 3, 1)])
+    assert not panel.in_len.isEnabled()
+    assert panel.in_len.text() == "no handle (line)"  # the words _show_on_curve uses
+    assert panel.out_len.value() == pytest.approx(20 * MM)  # |(60,70) − (60,50)| = 20 units
+
+
+def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
+    from outlinebench.diagnostics import check_document
+    from outlinebench.diagnostics.report import format_finding
+
+    s = window.session
+    # The CLI's own line for the corner at (170, 20) of the stroke (the file's second contour).
+    corner = next(f for f in check_document(s.document) if (f.x, f.y) == (170.0, 20.0))
+    line = format_finding("f.svg", corner)
+    assert "contour 1, segment 0" in line
+    assert corner.join == 0
+    s.set_selection([(1, 0, 0, 3)])  # that point, the end of segment 0
+    # The panel and the findings list (where_text) name it with the CLI's numbers.
+    assert "contour 1, join 0 (segments 0 → 1)" in window.panel.summary.text()
+    window.findings_panel.show_info.setChecked(True)  # the corner is an info finding
+    model = window.findings_panel.model
+    shown = next(f for f, _ in model.rows if (f.kind, f.join) == ("corner", 0) and f.contour == 1)
+    assert model.cell_text(shown, 2) == "1"
+
+
+def test_typing_a_curve_length_scales_the_segment_about_its_start(window):
+    import bezier
+
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 1, 0)])  # outgoing segment 1: the cubic (50,10)…(90,50)
+    seg = s.document.outlines[0].contours[0].segments[1]
+    # Reference length from the bezier library (Gauss quadrature of |B'(t)|).
+    before = bezier.Curve(np.asfortranarray(seg.T), degree=3).length
+    assert panel.seg_out.value() == pytest.approx(before * MM, abs=1e-3)
+    _type(panel.seg_out, "30")  # 30 mm = 60 user units
+    new = s.document.outlines[0].contours[0].segments[1]
+    assert bezier.Curve(np.asfortranarray(new.T), degree=3).length == pytest.approx(60.0)
+    # Scaled about its start (closed form p0 + k (p_i − p0)): the start stays, shape similar.
+    k = 60.0 / before
+    assert np.allclose(new, seg[0] + k * (seg - seg[0]), atol=1e-9)
+    assert s.undo_label == "Set segment length"
+    s.undo()
+    assert np.array_equal(s.document.outlines[0].contours[0].segments[1], seg)
+
+
+def test_typing_a_line_length_moves_its_end_along_the_line(window):
+    panel = window.panel
+    s = window.session
+    s.set_selection([(0, 0, 2, 0)])  # outgoing: the line (90,50) → (60,50), 30 units
+    assert panel.seg_out.value() == pytest.approx(30 * MM)
+    _type(panel.seg_out, "20")  # 40 units
+    line = s.document.outlines[0].contours[0].segments[2]
+    # Closed form: same start, same direction (−1, 0), length 40 → end at (50, 50).
+    assert np.allclose(line, [[90, 50], [50, 50]], atol=1e-12)
+    nxt = s.document.outlines[0].contours[0].segments[3]
+    assert tuple(nxt[0]) == (50.0, 50.0)  # the next segment still starts there (G0 kept)
