@@ -434,15 +434,36 @@ def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> No
         raise SvgWriteError(
             f"{where}: save check failed: {len(written)} outlines written, {len(got)} read back"
         )
+    # Elements rewritten in place: every use instance of them follows (SVG 1.1 §5.6).
+    rewritten = {
+        id(o.source.element): o
+        for o in written
+        if isinstance(o.source, ElementRef) and o.source.use is None and not _untouched(o, o.source)
+    }
     for k, (want, have) in enumerate(zip(written, got, strict=True)):
         ref = want.source
         expect = ref.contours if isinstance(ref, ElementRef) and _untouched(want, ref) else None
         expect = expect if expect is not None else want.contours
         exact = not isinstance(ref, ElementRef) or np.array_equal(ref.matrix, IDENTITY)
+        if isinstance(ref, ElementRef) and ref.use is not None and id(ref.element) in rewritten:
+            if _untouched(want, ref):
+                original = rewritten[id(ref.element)]
+                expect = _mapped(
+                    original.contours, ref.matrix @ np.linalg.inv(original.source.matrix)
+                )
+                exact = False
         if not _contours_match(expect, have.contours, exact):
             raise SvgWriteError(
                 f"{where}: save check failed: outline {k} does not read back as written"
             )
+
+
+def _mapped(contours: Sequence[Contour], matrix: NDArray[np.float64]) -> list[Contour]:
+    """Contours with every control point mapped by an affine matrix (for the save check)."""
+    return [
+        Contour(tuple(_apply(np.asarray(s), matrix) for s in c.segments), c.closed, c.joins)
+        for c in contours
+    ]
 
 
 def _contours_match(a: Sequence[Contour], b: Sequence[Contour], exact: bool) -> bool:

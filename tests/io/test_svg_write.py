@@ -8,6 +8,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+import svgpathtools
 from hypothesis import given
 from hypothesis import strategies as st
 
@@ -95,6 +96,60 @@ def test_shape_with_an_end_tag_becomes_a_path():
     (el,) = [e for e in root if e.tag.endswith("path")]
     assert el.get("id") == "c" and el.get("fill") == "red" and el.get("r") is None
     assert el[0].text == "dot" and b"<!-- keep -->" in out
+
+
+def test_an_outline_with_every_contour_deleted_keeps_a_valid_empty_element():
+    # The element stays (its id may be referenced by a use, its attributes are the user's)
+    # with d="": the SVG 1.1 §8.3.9 BNF allows empty path data (svg-path: wsp* groups? wsp*)
+    # and SVG 2 §9.3.2 says it disables rendering. svgpathtools reads "" as an empty path.
+    from outlinebench.model.commands import DeleteContour
+
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg"><path id="p" d="M0 0 L1 1 M2 2 L3 3" '
+        b'fill="none"/><rect id="r" x="1" y="1" width="2" height="2"/><use href="#p"/></svg>'
+    )
+    doc = read_svg(data).document
+    for outline, count in ((0, 2), (1, 1)):
+        for _ in range(count):
+            doc = DeleteContour(outline, len(doc.outlines[outline].contours) - 1).apply(doc)
+    out = svg_bytes(doc)
+    root = ET.fromstring(out)
+    path, rect_now = [e for e in root if e.tag.endswith("path")]
+    assert (path.get("id"), path.get("d"), path.get("fill")) == ("p", "", "none")
+    assert (rect_now.get("id"), rect_now.get("d"), rect_now.get("width")) == ("r", "", None)
+    assert len(svgpathtools.parse_path(path.get("d"))) == 0
+    back = read_svg(out)
+    assert back.error is None and not [n for n in back.notes if n.level == "error"]
+    assert [len(o.contours) for o in back.document.outlines] == [0, 0, 0]
+
+
+@pytest.mark.parametrize(
+    "body",
+    [
+        '<path id="p" d="M0 0 L1 1 L2 0"/><use href="#p" x="5" transform="scale(2)"/>',
+        '<g id="g"><path id="p" d="M0 0 L1 1 L2 0"/></g><use href="#g" x="5" '
+        'transform="scale(2)"/>',
+    ],
+    ids=["use-of-path", "use-of-group"],
+)
+def test_editing_an_element_that_a_use_repeats_saves_and_the_instance_follows(body):
+    # SVG 1.1 §5.6: a use renders its referenced element translated by (x, y) and then by its
+    # own transform, so after the edit the instance is the edited path, shifted by x = 5 and
+    # scaled by 2. Saving used to fail its own check because the instance's outline in the
+    # document still held the old geometry.
+    from outlinebench.model.commands import MovePoints, PointRef
+
+    doc = read_svg(f'<svg xmlns="http://www.w3.org/2000/svg">{body}</svg>'.encode()).document
+    doc = MovePoints([PointRef(0, 0, 1, 0)], (0.25, 0.5)).apply(doc)  # the middle node
+    back = read_svg(svg_bytes(doc)).document
+    assert [s.tolist() for s in back.outlines[0].contours[0].segments] == [
+        [[0, 0], [1.25, 1.5]],
+        [[1.25, 1.5], [2, 0]],
+    ]
+    assert [s.tolist() for s in back.outlines[1].contours[0].segments] == [
+        [[10, 0], [12.5, 3]],
+        [[12.5, 3], [14, 0]],
+    ]
 
 
 def test_join_intent_round_trip_and_namespace_declaration():
