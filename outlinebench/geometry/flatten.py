@@ -44,6 +44,7 @@ __all__ = [
     "DEVIATION_ACCURACY",
     "flatten_contour",
     "flatten_contours",
+    "flatten_contours_bounded",
     "flatten_uniform_wang",
     "chord_bound",
     "optimal_chord_count",
@@ -374,14 +375,18 @@ def _check_tolerance(tolerance: float) -> None:
 # --------------------------------------------------------------------------------------------
 # the flatteners
 # --------------------------------------------------------------------------------------------
-def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, FloatArray]:
-    """Chord start parameters of every segment: (seg, t) sorted by segment then t.
+def _flatten_params(
+    cubics: FloatArray, tolerance: float
+) -> tuple[np.ndarray, FloatArray, FloatArray]:
+    """Chord start parameters of every segment: (seg, t, bound) sorted by segment then t.
 
-    Each segment's chords run from its t values to the next one's (or to 1).
+    Each segment's chords run from its t values to the next one's (or to 1). ``bound`` is each
+    chord's proven deviation bound (≤ the tolerance): the verified :func:`_chord_bounds`
+    value, or Wang's bound Δt² max|B″| / 8 for chords placed by Wang's count.
     """
     m = len(cubics)
     if m == 0:
-        return np.zeros(0, dtype=np.intp), np.zeros(0)
+        return np.zeros(0, dtype=np.intp), np.zeros(0), np.zeros(0)
     coef = _power_coefficients(cubics)
     scale = float(np.max(np.abs(cubics))) if m else 0.0
     accept = tolerance - _ROUNDING_MARGIN * max(scale, 1.0)
@@ -394,6 +399,7 @@ def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, F
     cum = cum / np.sqrt(8.0 * tolerance)  # now in chords: cum[:, -1] is N* per segment
     done_seg: list[np.ndarray] = []
     done_t: list[FloatArray] = []
+    done_b: list[FloatArray] = []
 
     # Placement rounds over the segments still open. A segment whose chords all pass is
     # final. A segment with a failing chord is placed again with one chord more (or with
@@ -406,6 +412,7 @@ def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, F
     has_fb = np.zeros(m, dtype=bool)
     fb_seg = np.zeros(0, dtype=np.intp)
     fb_t = np.zeros(0)
+    fb_b = np.zeros(0)
     for rnd in range(_REPLACEMENT_ROUNDS + 1):
         total = cum[:, -1]
         loc = np.repeat(np.arange(len(active)), n)
@@ -432,14 +439,17 @@ def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, F
         back = np.isin(fb_seg, active[fallback])
         done_seg.append(fb_seg[back])
         done_t.append(fb_t[back])
+        done_b.append(fb_b[back])
         keep = np.isin(fb_seg, active[down | fallback], invert=True)
-        fb_seg, fb_t = fb_seg[keep], fb_t[keep]
+        fb_seg, fb_t, fb_b = fb_seg[keep], fb_t[keep], fb_b[keep]
         fin = final[loc]
         done_seg.append(seg[fin])
         done_t.append(ta[fin])
+        done_b.append(dev[fin])
         dn = down[loc]
         fb_seg = np.concatenate([fb_seg, seg[dn]])
         fb_t = np.concatenate([fb_t, ta[dn]])
+        fb_b = np.concatenate([fb_b, dev[dn]])
         has_fb[active[down]] = True
         has_fb[active[final | fallback]] = False
         again = down | (failing & ~fallback)
@@ -466,6 +476,7 @@ def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, F
         good = dev <= accept
         done_seg.append(seg[good])
         done_t.append(ta[good])
+        done_b.append(dev[good])
         bad = ~good
         if not np.any(bad):
             break
@@ -501,13 +512,17 @@ def _flatten_params(cubics: FloatArray, tolerance: float) -> tuple[np.ndarray, F
         # pieces split by the Wang count are within tolerance by Wang's bound
         done_seg.append(sub_seg[proved])
         done_t.append(t_new[proved])
+        # Wang's bound of each sub-piece: (Δt)² max|B''| / 8 with the parent piece's max
+        step = (hi - lo) / cnt[rs]
+        done_b.append((step * step * bmax[rs] / 8.0)[proved])
         seg, ta, tb = sub_seg[~proved], t_new[~proved], t_end[~proved]
         if len(seg) == 0:
             break
     all_seg = np.concatenate(done_seg)
     all_t = np.concatenate(done_t)
+    all_b = np.concatenate(done_b)
     order = np.lexsort((all_t, all_seg))
-    return all_seg[order], all_t[order]
+    return all_seg[order], all_t[order], all_b[order]
 
 
 def _assemble(
@@ -679,15 +694,53 @@ def flatten_contours(
     >>> flatten_contours([([], False)], 0.1)[0].shape
     (0, 2)
     """
+    return flatten_contours_bounded(contours, tolerance)[0]
+
+
+def flatten_contours_bounded(
+    contours: Sequence, tolerance: float = DEFAULT_FLATTEN_TOLERANCE
+) -> tuple[list[FloatArray], FloatArray]:
+    """Flatten like :func:`flatten_contours` and return each polyline's proven deviation.
+
+    Parameters
+    ----------
+    contours : sequence
+        As for :func:`flatten_contours`.
+    tolerance : float
+        ε > 0.
+
+    Returns
+    -------
+    polylines : list of ndarray, each shape (P, 2)
+        Exactly the result of :func:`flatten_contours`.
+    bounds : ndarray, shape (C,)
+        Per contour, the largest chord deviation bound: an upper bound of the Hausdorff
+        distance between the contour and its polyline, ≤ ε (0 for an empty contour).
+
+    Notes
+    -----
+    Each chord's bound is the one that admitted it (see :func:`flatten_contours`): the exact
+    closed-form bound of :func:`chord_bound` (extremes of two cubics; exact when the piece
+    does not overshoot the chord's ends), or Wang's bound Δt² max|B″| / 8 for chords placed
+    by Wang's count. The Hausdorff distance of a union is at most the largest Hausdorff
+    distance of its parts, so the contour's bound is the largest of its chords'.
+    """
     _check_tolerance(tolerance)
     cubics, counts, closed = _contours_input(contours)
     pieces, parent = _split_at_sharp_turns(cubics, float(tolerance))
     if len(pieces) != len(cubics):
         per_parent = np.bincount(parent, minlength=len(cubics))
-        bounds = np.cumsum([0, *counts])
-        counts = [int(per_parent[a:b].sum()) for a, b in zip(bounds[:-1], bounds[1:], strict=True)]
-    seg, t = _flatten_params(pieces, float(tolerance))
-    return _assemble(pieces, seg, t, counts, closed)
+        edges = np.cumsum([0, *counts])
+        counts = [int(per_parent[a:b].sum()) for a, b in zip(edges[:-1], edges[1:], strict=True)]
+    seg, t, bound = _flatten_params(pieces, float(tolerance))
+    per_piece = np.zeros(len(pieces))
+    if len(seg):
+        np.maximum.at(per_piece, seg, bound)
+    edges = np.cumsum([0, *counts])
+    per_contour = np.array(
+        [per_piece[a:b].max() if b > a else 0.0 for a, b in zip(edges[:-1], edges[1:], strict=True)]
+    )
+    return _assemble(pieces, seg, t, counts, closed), per_contour
 
 
 def flatten_contour(
@@ -780,77 +833,159 @@ class Deviation:
     accuracy: float
 
 
-def _edge_tree(chain: FloatArray):
-    import shapely
+class _Edges:
+    """The edges of a polyline chain (V, 2), with exact nearest-edge queries (shapely STRtree)."""
 
-    lines = shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1))
-    return shapely.STRtree(lines)
+    def __init__(self, chain: FloatArray) -> None:
+        import shapely
+
+        self.start = chain[:-1]
+        self.end = chain[1:]
+        self.tree = shapely.STRtree(shapely.linestrings(np.stack([self.start, self.end], axis=1)))
+
+    def nearest(self, points: FloatArray) -> tuple[FloatArray, np.ndarray]:
+        """Distance from each point (N, 2) to the nearest edge, and that edge's index."""
+        import shapely
+
+        out = np.full(len(points), np.inf)
+        which = np.zeros(len(points), dtype=np.intp)
+        if len(points) == 0:
+            return out, which
+        (pi, ei), dist = self.tree.query_nearest(
+            shapely.points(points), return_distance=True, all_matches=False
+        )
+        out[pi] = dist
+        which[pi] = ei
+        return out, which
+
+    def distance_to(self, points: FloatArray, edge: np.ndarray) -> FloatArray:
+        """Distance from each point (N, 2) to the given edge (N,) (closest point on a segment)."""
+        a = self.start[edge]
+        ab = self.end[edge] - a
+        ap = points - a
+        ll = np.einsum("ij,ij->i", ab, ab)
+        f = np.divide(np.einsum("ij,ij->i", ap, ab), ll, out=np.zeros(len(ll)), where=ll > 0.0)
+        f = np.clip(f, 0.0, 1.0)
+        d = ap - f[:, None] * ab
+        return np.hypot(d[:, 0], d[:, 1])
 
 
-def _distances(tree, points: FloatArray) -> tuple[FloatArray, np.ndarray]:
-    """Distance from each point to the nearest edge in the tree, with that edge's index."""
-    import shapely
+def _piece_upper(edges: _Edges, pa, pb, da, db, wa, wb) -> FloatArray:
+    """Upper bound of the distance to ``edges`` over each straight piece pa–pb.
 
-    (pi, ei), dist = tree.query_nearest(
-        shapely.points(points), return_distance=True, all_matches=False
-    )
-    out = np.full(len(points), np.inf)
-    which = np.zeros(len(points), dtype=np.intp)
-    out[pi] = dist
-    which[pi] = ei
-    return out, which
-
-
-def _directed_max(chain: FloatArray, tree, slack: float):
-    """Largest distance from the polyline ``chain`` (V, 2) to the edges in ``tree``.
-
-    Branch and bound on the 1-Lipschitz distance function: an edge piece of length ℓ whose
-    ends are at distances d₁, d₂ holds no point farther than (d₁ + d₂ + ℓ) / 2. Pieces whose
-    bound exceeds the best sample by more than ``slack`` are split until none does, so the
-    result is within ``slack`` below the true maximum.
-
-    The work is capped (:data:`_MAX_REFINE` pieces per round); the last value returned is
-    then the proven upper bound of the maximum, else the best sample plus at most ``slack``.
-
-    Returns (distance, point, edge index of chain, fraction along it, nearest edge in tree,
-    upper bound).
+    Distance to a segment is a convex function of the point, so along pa–pb the distance to
+    edge k stays ≤ max(f_k(pa), f_k(pb)); used with the nearest edges wa, wb of both ends.
+    Distance to a set is 1-Lipschitz, which gives (da + db + |pb − pa|) / 2 as well.
     """
-    e = np.diff(chain, axis=0)
-    elen = np.hypot(e[:, 0], e[:, 1])
-    edge = np.arange(len(e))
-    f0 = np.zeros(len(e))
-    f1 = np.ones(len(e))
-    pts = np.vstack([chain[:-1], chain[-1:]])
-    d, w = _distances(tree, pts)
-    d0, d1 = d[:-1], d[1:]
-    i = int(np.argmax(d))
-    best = (float(d[i]), pts[i], min(i, len(e) - 1), 0.0 if i < len(e) else 1.0, int(w[i]))
+    length = np.hypot(*(pb - pa).T)
+    lip = 0.5 * (da + db + length)
+    via_a = np.maximum(da, edges.distance_to(pb, wa))
+    via_b = np.maximum(edges.distance_to(pa, wb), db)
+    return np.minimum(lip, np.minimum(via_a, via_b))
+
+
+def _split_params(lo: FloatArray, hi: FloatArray, parts: int) -> FloatArray:
+    """(N, parts + 1) parameters splitting each [lo, hi] uniformly; the ends kept exactly."""
+    frac = np.linspace(0.0, 1.0, parts + 1)
+    ff = lo[:, None] + (hi - lo)[:, None] * frac
+    ff[:, 0] = lo
+    ff[:, -1] = hi
+    return ff
+
+
+def _curve_to_polyline(cub, coef, edges: _Edges, seg, ta, tb, slack: float):
+    """Largest distance from the curve to the polyline ``edges``, by branch and bound.
+
+    Pieces [ta, tb] of the curve: the piece lies within D of its chord (:func:`_chord_bounds`,
+    exact closed form), so its distance to the polyline is ≤ D + the straight-piece bound of
+    :func:`_piece_upper` on the chord. Pieces whose bound exceeds the best exact sample by more
+    than ``slack`` are split in four until none does (or the work cap is reached).
+
+    Returns (distance, point, segment, t, upper bound).
+    """
+    pa = _vertices(cub, coef, seg, ta)
+    pb = _vertices(cub, coef, seg, tb)
+    da, wa = edges.nearest(pa)
+    db, wb = edges.nearest(pb)
+    both = np.concatenate([da, db])
+    i = int(np.argmax(both))
+    n = len(da)
+    j = i % n
+    best = (
+        float(both[i]),
+        (pa if i < n else pb)[j],
+        int(seg[j]),
+        float((ta if i < n else tb)[j]),
+    )
     bound = best[0]
+    parts = 4
     for _ in range(200):
-        length = elen[edge] * (f1 - f0)
-        upper = 0.5 * (d0 + d1 + length)
-        keep = upper > best[0] + slack
+        dev = _chord_bounds(coef, seg, ta, tb, pa, pb)
+        upper = dev + _piece_upper(edges, pa, pb, da, db, wa, wb)
         bound = max(best[0], float(np.max(upper))) if len(upper) else best[0]
+        keep = upper > best[0] + slack
         if not np.any(keep) or np.count_nonzero(keep) > _MAX_REFINE:
             break
-        edge, f0, f1, d0, d1 = edge[keep], f0[keep], f1[keep], d0[keep], d1[keep]
-        parts = 8
-        frac = np.linspace(0.0, 1.0, parts + 1)
-        ff = f0[:, None] + (f1 - f0)[:, None] * frac  # (E, parts+1)
+        seg, ta, tb = seg[keep], ta[keep], tb[keep]
+        pa, pb, da, db, wa, wb = pa[keep], pb[keep], da[keep], db[keep], wa[keep], wb[keep]
+        ff = _split_params(ta, tb, parts)
         mid = ff[:, 1:-1]
-        mp = chain[edge][:, None, :] + mid[..., None] * e[edge][:, None, :]
-        md, mw = _distances(tree, mp.reshape(-1, 2))
-        md = md.reshape(mid.shape)
-        j = int(np.argmax(md))
-        if md.flat[j] > best[0]:
-            r, c = divmod(j, mid.shape[1])
-            best = (float(md.flat[j]), mp[r, c], int(edge[r]), float(mid[r, c]), int(mw[j]))
-        dd = np.concatenate([d0[:, None], md, d1[:, None]], axis=1)
-        edge = np.repeat(edge, parts)
-        f0 = ff[:, :-1].ravel()
-        f1 = ff[:, 1:].ravel()
-        d0 = dd[:, :-1].ravel()
-        d1 = dd[:, 1:].ravel()
+        ms = np.repeat(seg, parts - 1)
+        mp = _vertices(cub, coef, ms, mid.ravel())
+        md, mw = edges.nearest(mp)
+        k = int(np.argmax(md))
+        if md[k] > best[0]:
+            best = (float(md[k]), mp[k], int(ms[k]), float(mid.flat[k]))
+        mp = mp.reshape(len(seg), parts - 1, 2)
+        md = md.reshape(len(seg), parts - 1)
+        mw = mw.reshape(len(seg), parts - 1)
+        allp = np.concatenate([pa[:, None], mp, pb[:, None]], axis=1)
+        alld = np.concatenate([da[:, None], md, db[:, None]], axis=1)
+        allw = np.concatenate([wa[:, None], mw, wb[:, None]], axis=1)
+        seg = np.repeat(seg, parts)
+        ta, tb = ff[:, :-1].ravel(), ff[:, 1:].ravel()
+        pa, pb = allp[:, :-1].reshape(-1, 2), allp[:, 1:].reshape(-1, 2)
+        da, db = alld[:, :-1].ravel(), alld[:, 1:].ravel()
+        wa, wb = allw[:, :-1].ravel(), allw[:, 1:].ravel()
+    return (*best, bound)
+
+
+def _polyline_to_edges(chain: FloatArray, edges: _Edges, slack: float):
+    """Largest distance from the polyline ``chain`` (V, 2) to ``edges``, by branch and bound.
+
+    Edge pieces of the chain are straight, so :func:`_piece_upper` bounds each; pieces whose
+    bound exceeds the best sample by more than ``slack`` are split in four until none does.
+
+    Returns (distance, point, nearest edge of ``edges``, upper bound).
+    """
+    d, w = edges.nearest(chain)
+    i = int(np.argmax(d))
+    best = (float(d[i]), chain[i], int(w[i]))
+    pa, pb = chain[:-1], chain[1:]
+    da, db, wa, wb = d[:-1], d[1:], w[:-1], w[1:]
+    bound = best[0]
+    parts = 4
+    for _ in range(200):
+        upper = _piece_upper(edges, pa, pb, da, db, wa, wb)
+        bound = max(best[0], float(np.max(upper))) if len(upper) else best[0]
+        keep = upper > best[0] + slack
+        if not np.any(keep) or np.count_nonzero(keep) > _MAX_REFINE:
+            break
+        pa, pb, da, db, wa, wb = pa[keep], pb[keep], da[keep], db[keep], wa[keep], wb[keep]
+        frac = np.linspace(0.0, 1.0, parts + 1)[1:-1]
+        mp = pa[:, None] + frac[None, :, None] * (pb - pa)[:, None]
+        md, mw = edges.nearest(mp.reshape(-1, 2))
+        k = int(np.argmax(md))
+        if md[k] > best[0]:
+            best = (float(md[k]), mp.reshape(-1, 2)[k], int(mw[k]))
+        md = md.reshape(len(pa), parts - 1)
+        mw = mw.reshape(len(pa), parts - 1)
+        allp = np.concatenate([pa[:, None], mp, pb[:, None]], axis=1)
+        alld = np.concatenate([da[:, None], md, db[:, None]], axis=1)
+        allw = np.concatenate([wa[:, None], mw, wb[:, None]], axis=1)
+        pa, pb = allp[:, :-1].reshape(-1, 2), allp[:, 1:].reshape(-1, 2)
+        da, db = alld[:, :-1].ravel(), alld[:, 1:].ravel()
+        wa, wb = allw[:, :-1].ravel(), allw[:, 1:].ravel()
     return (*best, bound)
 
 
@@ -888,14 +1023,22 @@ def polyline_deviation(
 
     Notes
     -----
-    The curve is replaced by a reference polyline R flattened with :func:`flatten_contours`
-    at accuracy δ/4 (guaranteed), so any directed distance from or to the curve differs from
-    the one for R by at most δ/4. Each direction (R to the polyline, the polyline to R) is
-    then maximised by branch and bound: distance to a set is 1-Lipschitz along a path, so an
-    edge piece of length ℓ with end distances d₁, d₂ holds nothing beyond (d₁ + d₂ + ℓ) / 2;
-    pieces that could beat the best sample by more than δ/2 are split until none can. The
-    result is within δ of the Hausdorff distance; distances to edges are exact (shapely
-    STRtree nearest queries).
+    Each directed distance is maximised by branch and bound with the measuring accuracy δ.
+
+    Curve → polyline, on the curve itself: a curve piece lies within D of its chord (the exact
+    closed-form bound of :func:`chord_bound`); distance to one polyline edge is a convex
+    function of the point, so along the chord it stays ≤ the larger of its values at the
+    chord's ends; taking the edges nearest either end, and the 1-Lipschitz bound
+    (d₁ + d₂ + ℓ) / 2, gives an upper bound for the piece. Pieces that could beat the best
+    exact sample (a curve point's distance to the polyline) by more than δ/2 are split.
+
+    Polyline → curve: against a reference polyline R flattened with :func:`flatten_contours`
+    within δ/4 of the curve (guaranteed), with the same convexity and Lipschitz bounds on the
+    polyline's edge pieces and a stopping slack of δ/4.
+
+    The reported distance is within the returned accuracy (≤ δ/2 unless the work cap of
+    :data:`_MAX_REFINE` pieces per round was reached, when it is the proven remaining gap) of
+    the Hausdorff distance. Distances to edges are exact (shapely STRtree nearest queries).
     """
     cub = _as_cubic_batch(list(segments))
     if len(cub) == 0:
@@ -914,26 +1057,36 @@ def polyline_deviation(
     # never finer than the floating-point resolution of the coordinates allows
     scale = max(float(np.max(np.abs(cub))), float(np.max(np.abs(poly))), 1.0)
     acc = max(acc, 1e6 * _ROUNDING_MARGIN * scale)
-    ref_seg, ref_t = _flatten_params(cub, acc / 4.0)
     coef = _power_coefficients(cub)
+    chain = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
+    if len(chain) == 1:
+        chain = np.vstack([chain, chain])
+    # curve → polyline, on the curve itself, starting from pieces within the accuracy scale
+    start_seg, start_t, _ = _flatten_params(cub, max(acc / DEVIATION_ACCURACY / 4.0, acc))
+    start_tb = np.append(start_t[1:], 1.0)
+    start_tb[np.append(start_seg[1:] != start_seg[:-1], True)] = 1.0
+    d1, p1, seg1, t1, u1 = _curve_to_polyline(
+        cub, coef, _Edges(chain), start_seg, start_t, start_tb, acc / 2.0
+    )
+    # polyline → curve, against a reference polyline R within δ/4 of the curve
+    ref_seg, ref_t, _ = _flatten_params(cub, acc / 4.0)
     ref = np.vstack([_vertices(cub, coef, ref_seg, ref_t), cub[-1, 3]])
     ref_seg_v = np.append(ref_seg, len(cub) - 1)
     ref_t_v = np.append(ref_t, 1.0)
     if len(ref) == 1:
         ref = np.vstack([ref, ref])
-    chain = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
-    if len(chain) == 1:
-        chain = np.vstack([chain, chain])
-    d1, p1, e1, f1, _, u1 = _directed_max(ref, _edge_tree(chain), acc / 2.0)
-    d2, p2, _, _, w2, u2 = _directed_max(chain, _edge_tree(ref), acc / 2.0)
-    # proven: the true value lies in [max(d1, d2) − δ/4, max(u1, u2) + δ/4]
-    acc = max(acc, max(u1, u2) - max(d1, d2) + acc / 4.0)
-
+    d2, p2, w2, u2 = _polyline_to_edges(chain, _Edges(ref), acc / 4.0)
+    # proven: the true value lies in [max(d1, d2 − δ/4), max(u1, u2 + δ/4)]
+    distance = max(d1, d2)
+    accuracy = max(acc / 4.0, max(u1, u2 + acc / 4.0) - distance)
     if d1 >= d2:
-        seg = int(ref_seg_v[e1])
-        t_next = ref_t_v[e1 + 1] if ref_seg_v[e1 + 1] == seg else 1.0
-        t = float(ref_t_v[e1] + f1 * (t_next - ref_t_v[e1]))
-        return Deviation(d1, float(p1[0]), float(p1[1]), "curve", seg, t, acc)
+        return Deviation(d1, float(p1[0]), float(p1[1]), "curve", seg1, t1, accuracy)
     return Deviation(
-        d2, float(p2[0]), float(p2[1]), "polyline", int(ref_seg_v[w2]), float(ref_t_v[w2]), acc
+        d2,
+        float(p2[0]),
+        float(p2[1]),
+        "polyline",
+        int(ref_seg_v[w2]),
+        float(ref_t_v[w2]),
+        accuracy,
     )

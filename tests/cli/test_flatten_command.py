@@ -78,3 +78,31 @@ def test_bad_tolerance_is_a_usage_error(bracket):
     res = run("flatten", bracket, "--tolerance", "0")
     assert res.returncode == 2
     assert "above 0" in res.stderr
+
+
+def test_written_coordinates_are_rounded_and_the_rounding_is_in_the_bound(bracket, tmp_path):
+    # Resolution rule of the command's docstring: 10^-k ≤ min(1e-6, ε/1000) (project
+    # convention); the curve is measured against the written, rounded points with shapely
+    # and the `bezier` library (reference libraries), and must lie within the reported bound.
+    import bezier
+
+    out = tmp_path / "cut.svg"
+    res = run("flatten", bracket, "--tolerance", "0.05", "--json", "-o", out)
+    assert res.returncode == 0, res.stderr
+    data = json.loads(res.stdout)
+    assert data["resolution"] == 1e-6
+    text = out.read_text()
+    assert "coordinates rounded to 1e-06 mm" in text
+    numbers = [n for pair in text.split('points="')[1:] for n in pair.split('"')[0].split()]
+    for pair in numbers:
+        for v in pair.split(","):
+            assert len(v.split(".")[1]) <= 6 if "." in v else True
+    # the hook Q 20 20, 40 5, 60 20 against its written polyline
+    hook = np.array(data["contours"][1]["points"])
+    for x in hook.ravel():
+        assert round(x, 6) == x
+    curve = bezier.Curve.from_nodes(np.array([[20, 20], [40, 5], [60, 20]], float).T)
+    dense = curve.evaluate_multi(np.linspace(0, 1, 4000)).T
+    far = float(np.max(shapely.distance(shapely.points(dense), shapely.LineString(hook))))
+    assert far <= data["contours"][1]["max_deviation"] + 1e-9
+    assert data["max_deviation"] <= 0.05
