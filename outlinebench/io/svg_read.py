@@ -78,6 +78,7 @@ _NOT_GEOMETRY = {
     "mask": "mask(s): not applied to the outlines",
     "foreignObject": "foreignObject element(s): not geometry",
 }
+_RELATIVE = ("%", "em", "ex")
 _JOIN_CHARS = {"s": "smooth", "c": "corner", "-": None}
 _JOIN_LETTER = {"smooth": "s", "corner": "c", None: "-"}
 _STYLE_RE = re.compile(r"(?:^|;)\s*(display|visibility)\s*:\s*([A-Za-z-]+)")
@@ -695,9 +696,32 @@ def _physical(root: Any, where: str, ppi: float, notes: list[ReadNote]) -> dict[
     vb = parse_view_box(root.get("viewBox"), f"{where}: <svg>")
     w_mm = width.to_mm(ppi) if width is not None else None
     h_mm = height.to_mm(ppi) if height is not None else None
-    if (width is not None and w_mm is None) or (height is not None and h_mm is None):
+    if vb is None and root.get("viewBox") is not None and root.get("viewBox").strip():
         notes.append(
-            ReadNote("warning", f"{where}: relative width/height: physical size unknown", "units")
+            ReadNote(
+                "warning",
+                f"{where}: viewBox={root.get('viewBox')!r} has no area (SVG 1.1 §7.7); ignored",
+                "units",
+            )
+        )
+    relative = [
+        f"{name}={root.get(name)!r}"
+        for name, ln, mm in (("width", width, w_mm), ("height", height, h_mm))
+        if ln is not None and mm is None
+    ]
+    if relative:
+        known = "height" if h_mm is not None else "width" if w_mm is not None else None
+        how = (
+            f"taken from the {known} and the viewBox's aspect ratio"
+            if known is not None and vb is not None
+            else "unknown"
+        )
+        notes.append(
+            ReadNote(
+                "warning",
+                f"{where}: relative {' and '.join(relative)}: physical size {how}",
+                "units",
+            )
         )
     if vb is not None:
         # CSS sizing: a missing dimension follows the viewBox's aspect ratio.
@@ -726,13 +750,15 @@ def _physical(root: Any, where: str, ppi: float, notes: list[ReadNote]) -> dict[
         if value is not None and not (math.isfinite(value) and value > 0.0):
             text = root.get(name) if name != "viewBox" else root.get("viewBox")
             raise SvgReadError(f"{where}: <svg> {name}: length out of range {text!r}")
-    unit = (width.unit if width is not None else "") or (height.unit if height is not None else "")
+    # The first of width and height written in an absolute unit names the editor's unit.
+    absolute = [ln.unit for ln in (width, height) if ln and ln.unit and ln.unit not in _RELATIVE]
+    unit = absolute[0] if absolute else ""
     return {
         "width_mm": w_mm,
         "height_mm": h_mm,
         "view_box": vb,
         "mm_per_unit": mm_per_unit,
-        "units": unit if unit and unit not in ("%", "em", "ex") else "px",
+        "units": unit or "px",
     }
 
 

@@ -369,6 +369,26 @@ def test_physical_scale(attrs, width_mm, mm_per_unit):
     assert doc.mm_per_unit == pytest.approx(mm_per_unit, rel=1e-12)
 
 
+def test_a_relative_width_takes_the_unit_and_scale_from_the_height():
+    # width="50%" has no physical size; the height (30 mm) and the viewBox's aspect ratio
+    # give it (CSS sizing with a missing dimension, as for an absent width), and the note
+    # says so. The editor's unit is the height's "mm", not "px".
+    res = read_svg(svg("", 'width="50%" height="30mm" viewBox="0 0 200 100"'))
+    doc = res.document
+    assert doc.units == "mm" and doc.mm_per_unit == pytest.approx(0.3, rel=1e-15)
+    (note,) = [n for n in res.notes if n.kind == "units"]
+    assert "width='50%'" in note.message and "from the height" in note.message
+
+
+@pytest.mark.parametrize("box", ["0 0 -10 50", "0 0 10 0"])
+def test_a_view_box_without_area_is_reported(box):
+    # SVG 1.1 §7.7: a negative width or height is an error, zero disables rendering; either
+    # way the viewBox gives no scale, and the reader says it ignored it.
+    res = read_svg(svg("", f'width="10mm" height="5mm" viewBox="{box}"'))
+    assert res.document.view_box is None
+    assert any(n.kind == "units" and "viewBox" in n.message for n in res.notes)
+
+
 def test_px_per_inch_override_and_non_uniform_scale():
     doc = read_svg(svg("", 'width="90" height="90"'), px_per_inch=90).document
     assert doc.width_mm == pytest.approx(25.4)
