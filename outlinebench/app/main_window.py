@@ -288,6 +288,14 @@ class MainWindow(QMainWindow):
         self.act_tolerances = self._action(
             "Check &tolerances…", self.edit_tolerances, tip="Gap, kink, corner and curvature limits"
         )
+        self.act_break_joins = self._action(
+            "&Break smooth joins while dragging",
+            self._set_break_joins,
+            "B",
+            tip="While on, dragging a handle moves it alone and makes its join a corner (the "
+            "same as holding Alt, for desktops that use Alt+drag to move windows)",
+        )
+        self.act_break_joins.setCheckable(True)
         self.tool_group = QActionGroup(self)
         self.tool_group.setExclusive(True)
         self.act_tools: dict[str, QAction] = {}
@@ -318,6 +326,7 @@ class MainWindow(QMainWindow):
             m_edit.addSeparator() if a is None else m_edit.addAction(a)
         m_points = mb.addMenu("&Points")
         m_points.addAction(self.act_toggle_join)
+        m_points.addAction(self.act_break_joins)
         m_deg = m_points.addMenu("Segment &degree")
         for a in self.act_degree.values():
             m_deg.addAction(a)
@@ -561,19 +570,33 @@ class MainWindow(QMainWindow):
         self.act_redo.setEnabled(s.can_redo)
         self.act_undo.setText(f"&Undo {s.undo_label}" if s.can_undo else "&Undo")
         self.act_redo.setText(f"&Redo {s.redo_label}" if s.can_redo else "&Redo")
+        # A blank new drawing has nothing to save (it would write an empty page).
+        has_something = self.path is not None or bool(s.document.outlines) or s.is_dirty
+        self.act_save.setEnabled(has_something)
+        self.act_save_as.setEnabled(has_something)
+        if hasattr(self, "act_toggle_join"):
+            self._on_selection_changed()  # e.g. a closed contour cannot be closed again
         self._place_start_panel()
 
     def _on_selection_changed(self) -> None:
-        has = bool(self.session.selected_points())
-        for a in (
-            self.act_delete,
-            self.act_toggle_join,
-            self.act_reverse,
-            self.act_close_contour,
-            self.act_delete_contour,
-            *self.act_degree.values(),
-        ):
-            a.setEnabled(has)
+        # Each edit is enabled only when the selection gives it something to do.
+        can = self.session.available_edits()
+        self.act_delete.setEnabled(can["delete"])
+        self.act_toggle_join.setEnabled(can["join"])
+        self.act_reverse.setEnabled(can["reverse"])
+        self.act_close_contour.setEnabled(can["close"])
+        self.act_delete_contour.setEnabled(can["delete_contour"])
+        for deg, act in self.act_degree.items():
+            act.setEnabled(can[f"degree{deg}"])
+
+    def _set_break_joins(self, on: bool) -> None:
+        self.session.break_joins = bool(on)
+        self.tool_hint_label.setText(self.session.tool_hint())
+        self._show_message(
+            "Dragging a handle now breaks its smooth join"
+            if on
+            else "Dragging a handle keeps smooth joins smooth (hold Alt to break one)"
+        )
 
     def _on_tool_changed(self, name: str) -> None:
         act = self.act_tools.get(name)
@@ -627,7 +650,10 @@ class MainWindow(QMainWindow):
 
     def _update_title(self) -> None:
         name = Path(self.path).name if self.path else "Untitled"
-        self.setWindowTitle(f"{name}[*] — OutlineBench")
+        # Lasting reminder that the file holds more than what was opened (Save asks for a
+        # new name in that case, see save()).
+        part = " (part before read error)" if self._partial else ""
+        self.setWindowTitle(f"{name}{part}[*] — OutlineBench")
 
     # -- questions the window asks (tests replace these) ---------------------------------
     def ask_save_changes(self) -> str:

@@ -32,7 +32,8 @@ TOOLS: dict[str, tuple[str, str, str, str]] = {
         "S",
         "tool-select",
         "Click a point to select it, Shift+click to add, drag a box to select several; drag "
-        "points or handles to move them (Alt: break a smooth join, Ctrl: keep handles equal)",
+        "points or handles to move them (Alt, or B to toggle: break a smooth join; Ctrl: keep "
+        "handles equal)",
     ),
     "insert": (
         "Insert point",
@@ -104,6 +105,9 @@ class EditorSession(QObject):
             "draw": tools.DrawContourTool(self.history, self.selection),
         }
         self.tool_name = "select"
+        # Sticky form of the Alt modifier (Points ▸ Break smooth joins while dragging): many
+        # desktops take Alt+drag for moving windows, so the break never depends on Alt alone.
+        self.break_joins = False
         self.set_tool("select")
 
     @property
@@ -192,6 +196,33 @@ class EditorSession(QObject):
 
     def _selected_contours(self) -> list[tuple[int, int]]:
         return sorted({(k[0], k[1]) for k in self.selection.refs})
+
+    def available_edits(self) -> dict[str, bool]:
+        """Which menu edits can do something with the current selection.
+
+        Keys: ``delete`` (an on-curve point is selected; handles alone cannot be deleted),
+        ``join`` (a selected point or handle belongs to a join, not a free end), ``reverse``
+        and ``delete_contour`` (anything selected), ``close`` (a selected contour is open),
+        ``degree1``/``degree2``/``degree3`` (a selected segment has another degree).
+        """
+        doc = self.document
+        refs = [k for k in self.selection.refs if pk.exists(doc, k)]
+        on_curve = [k for k in refs if pk.is_on_curve(doc, k)]
+        owners = on_curve + [pk.owner_of_handle(doc, k) for k in refs if k not in on_curve]
+        contours = {(k[0], k[1]) for k in refs}
+        degrees = (
+            {doc.contour(o, c).segments[s].shape[0] - 1 for o, c, s in self._selected_segments()}
+            if refs
+            else set()
+        )
+        return {
+            "delete": bool(on_curve),
+            "join": any(pk.join_of(doc, k) is not None for k in owners),
+            "reverse": bool(contours),
+            "delete_contour": bool(contours),
+            "close": any(not doc.contour(o, c).closed for o, c in contours),
+            **{f"degree{d}": bool(degrees - {d}) for d in (1, 2, 3)},
+        }
 
     # -- running commands ---------------------------------------------------------------
     def do(self, command: cmds.Command) -> bool:
@@ -434,25 +465,43 @@ class EditorSession(QObject):
             small, large = NUDGE_STEPS.get(self.units.name, (1.0, 10.0))
             u = self.units.name
             return (
-                "Click: select · Shift+click: add · drag on empty space: box · "
-                "Alt+drag handle: make corner · Ctrl+drag handle: equal handles · "
-                f"arrows: {small:g} {u} (Shift {large:g} {u})"
+                "Click: select · Shift: add · drag empty space: box · "
+                + (
+                    "handle drags break joins (B) · "
+                    if self.break_joins
+                    else "Alt/B: break join · "
+                )
+                + f"Ctrl: equal handles · arrows {small:g} {u} (Shift {large:g})"
             )
         if self.tool_name == "insert":
-            return "Click on a segment to split it there; the shape does not change"
+            return "Click on a segment to split it there (the shape does not change)"
         return (
-            "Click: corner point · press and drag: smooth point · click the first point: "
-            "close · Enter: finish open · Esc: cancel"
+            "Click: corner · drag: smooth point · click first point: close · Enter: finish "
+            "open · Esc: cancel"
         )
 
     # -- tools --------------------------------------------------------------------------
     def set_tool(self, name: str) -> None:
+        """Make ``name`` the active tool. A contour being drawn is not lost: with one segment
+        or more it is added as an open contour, else the user is told it was discarded."""
         if name not in TOOLS:
             raise ValueError(f"unknown tool {name!r}; tools are {', '.join(TOOLS)}")
+        draft_note = None
+        draw = self.tools.get("draw") if hasattr(self, "tools") else None
+        if draw is not None and name != self.tool_name == "draw" and draw.busy:
+            if len(draw.nodes) >= 2:
+                before = self.document
+                draw.finish()
+                draft_note = self._drawn_message(before) or draw.message
+            else:
+                draft_note = "Draft discarded (it had no segment yet)"
         self._cancel_gesture()
         self.tool_name = name
         self.tool_changed.emit(name)
         self.message.emit(TOOLS[name][3])
+        if draft_note:
+            self.selection_changed.emit()
+            self.message.emit(draft_note)
 
     def _cancel_gesture(self) -> None:
         tool = self.tools.get(self.tool_name) if hasattr(self, "tools") else None
@@ -482,11 +531,12 @@ class EditorSession(QObject):
             y,
             button=button,
             add_to_selection=bool(mods & ADD_TO_SELECTION_MODIFIER),
-            break_join=bool(mods & BREAK_JOIN_MODIFIER),
+            break_join=bool(mods & BREAK_JOIN_MODIFIER) or self.break_joins,
             symmetric=bool(mods & SYMMETRIC_MODIFIER),
         )
         tool = self.tool
         tool.pick_radius = canvas.pick_radius()
+        before = self.document
         try:
             repaint = tool.handle(ev)
         except OutlinebenchError as exc:
@@ -495,6 +545,11 @@ class EditorSession(QObject):
             repaint = True
         if tool.message:
             self.message.emit(tool.message)
+        elif self.document is not before and not self.history.in_group:
+            done = self._inserted_message() if self.tool_name == "insert" else None
+            done = done or (self._drawn_message(before) if self.tool_name == "draw" else None)
+            if done:
+                self.message.emit(done)
         if repaint:
             canvas.update()
             if kind != "move" or button == "none":
@@ -503,10 +558,44 @@ class EditorSession(QObject):
     def finish_drawing(self) -> None:
         tool = self.tools["draw"]
         if tool.nodes:
+            before = self.document
             tool.finish()
-            if tool.message:
-                self.message.emit(tool.message)
+            text = tool.message or self._drawn_message(before)
+            if text:
+                self.message.emit(text)
             self.selection_changed.emit()
+
+    # -- what a finished gesture did, in the numbering of the findings list --------------
+    def global_contour(self, outline: int, contour: int) -> int:
+        """Contour number as ``outlinebench check`` reports it (0-based, whole file)."""
+        return sum(len(o.contours) for o in self.document.outlines[:outline]) + contour
+
+    def _inserted_message(self) -> str | None:
+        key = self.primary
+        if key is None or not pk.exists(self.document, key):
+            return None
+        o, c, s, _ = key  # the new point starts the second half (InsertPoint.new_ref)
+        return (
+            f"Inserted a point in contour {self.global_contour(o, c)}: segment {s - 1} was "
+            f"split into segments {s - 1} and {s}; the shape is unchanged"
+        )
+
+    def _drawn_message(self, before: Document) -> str | None:
+        doc = self.document
+        if len(doc.outlines) <= len(before.outlines) and doc.segment_count() <= (
+            before.segment_count()
+        ):
+            return None
+        # AddContour appends the new contour to the last outline (a new one by default).
+        o = len(doc.outlines) - 1
+        c = len(doc.outlines[o].contours) - 1
+        contour = doc.outlines[o].contours[c]
+        kind = "closed" if contour.closed else "open"
+        n = len(contour.segments)
+        return (
+            f"Added contour {self.global_contour(o, c)} ({kind}, "
+            f"{n} segment{'' if n == 1 else 's'})"
+        )
 
     def key(self, event: QKeyEvent) -> bool:
         """A key pressed on the canvas; True when the session used it."""

@@ -331,3 +331,73 @@ def test_contour_and_segment_menu_edits(window):
     window.act_delete_contour.trigger()
     assert s.document.outlines[0].contours == ()
     assert s.undo_label == "Delete contour"
+
+
+# -- review fixes: sticky break toggle, confirmations, draft kept on tool change -------------
+
+
+def test_break_joins_toggle_works_without_alt(window):
+    canvas, s = window.canvas, window.session
+    c = s.document.outlines[0].contours[0]
+    in_before = c.segments[0][2].copy()
+    # The toggle's own shortcut, B, pressed as a key event on the window.
+    QTest.keyClick(window, Qt.Key.Key_B)
+    assert window.act_break_joins.isChecked() and s.break_joins
+    a = screen(canvas, c.segments[1][1])
+    drag(canvas, a, a + QPointF(-15, -40))  # no modifier held
+    c2 = s.document.outlines[0].contours[0]
+    out_v = c2.segments[1][1] - c2.segments[1][0]
+    in_v = c2.segments[0][2] - c2.segments[1][0]
+    # Same outcome as the Alt drag (issue 6: "a modifier breaks the join"): angle between the
+    # handles no longer 180° (numpy measurement), the other handle unmoved, join a corner.
+    assert abs((_angle_deg(out_v) - _angle_deg(in_v)) % 360.0 - 180.0) > 1.0
+    assert np.array_equal(c2.segments[0][2], in_before)
+    assert c2.joins[0] == "corner"
+    QTest.keyClick(window, Qt.Key.Key_B)
+    assert not s.break_joins
+
+
+def test_inserting_a_point_says_where(window):
+    canvas, s = window.canvas, window.session
+    window.act_tools["insert"].trigger()
+    seg = s.document.outlines[1].contours[0].segments[1]  # the stroke: contour 1 of the file
+    on_curve = bezier.Curve.from_nodes(np.array(seg).T).evaluate(0.5)[:, 0]
+    click(canvas, screen(canvas, on_curve))
+    # Numbers as `outlinebench check` gives them (contour 1 global, segments from 0).
+    assert window.statusBar().currentMessage() == (
+        "Inserted a point in contour 1: segment 1 was split into segments 1 and 2; "
+        "the shape is unchanged"
+    )
+
+
+def test_drawing_a_contour_says_what_was_added(window):
+    canvas = window.canvas
+    window.act_tools["draw"].trigger()
+    a, b, c = screen(canvas, (20, 90)), screen(canvas, (60, 85)), screen(canvas, (40, 98))
+    for p in (a, b, c, a):
+        click(canvas, p)
+    # Two contours in the file before (0 and 1): the new one is contour 2, three lines.
+    assert window.statusBar().currentMessage() == "Added contour 2 (closed, 3 segments)"
+
+
+def test_changing_tool_keeps_a_draft_with_a_segment_as_an_open_contour(window):
+    canvas, s = window.canvas, window.session
+    window.act_tools["draw"].trigger()
+    a, b = screen(canvas, (20, 90)), screen(canvas, (60, 85))
+    click(canvas, a)
+    click(canvas, b)
+    window.act_tools["select"].trigger()
+    new = s.document.outlines[-1].contours[0]
+    assert not new.closed and len(new.segments) == 1
+    np.testing.assert_allclose(new.segments[0][0], canvas.to_doc(QPointF(a)), atol=1e-9)
+    assert window.statusBar().currentMessage() == "Added contour 2 (open, 1 segment)"
+
+
+def test_changing_tool_with_a_single_point_says_the_draft_is_discarded(window):
+    canvas, s = window.canvas, window.session
+    before = s.document
+    window.act_tools["draw"].trigger()
+    click(canvas, screen(canvas, (20, 90)))
+    window.act_tools["select"].trigger()
+    assert s.document is before
+    assert window.statusBar().currentMessage() == "Draft discarded (it had no segment yet)"

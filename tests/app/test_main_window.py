@@ -246,3 +246,43 @@ def test_point_actions_follow_the_selection(window):
     assert not window.act_toggle_join.isEnabled() and not window.act_delete.isEnabled()
     s.set_selection([(0, 0, 1, 0)])
     assert window.act_toggle_join.isEnabled() and window.act_delete.isEnabled()
+
+
+def test_each_action_is_enabled_only_when_it_can_work(window):
+    s = window.session
+    # Only a handle: it cannot be deleted alone (session.delete_selection refuses it).
+    s.set_selection([(0, 0, 1, 1)])
+    assert not window.act_delete.isEnabled()
+    assert window.act_toggle_join.isEnabled()  # its point has a join
+    # The bowl is closed: Close has nothing to do.
+    assert not window.act_close_contour.isEnabled()
+    # Segment 1 is already a cubic.
+    assert not window.act_degree[3].isEnabled()
+    assert window.act_degree[1].isEnabled() and window.act_degree[2].isEnabled()
+    # The free start of the open stroke: no join to toggle; the stroke can be closed.
+    s.set_selection([(1, 0, 0, 0)])
+    assert not window.act_toggle_join.isEnabled()
+    assert window.act_close_contour.isEnabled() and window.act_delete.isEnabled()
+    window.act_close_contour.trigger()
+    assert s.document.outlines[1].contours[0].closed
+    assert not window.act_close_contour.isEnabled()
+
+
+def test_a_blank_new_drawing_cannot_be_saved(qtbot, tmp_path):
+    from PySide6.QtCore import QSettings
+
+    from outlinebench.app.main_window import MainWindow
+
+    win = MainWindow(QSettings(str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(win)
+    # Nothing drawn, no file: saving would only write an empty A4 page.
+    assert not win.act_save.isEnabled() and not win.act_save_as.isEnabled()
+
+
+def test_the_title_says_when_only_part_of_a_file_was_opened(window, tmp_path, monkeypatch):
+    bad = tmp_path / "bad.svg"
+    bad.write_text(PLATE_SVG.replace("L 10 30 Z", "L 10 30 Q Z"), encoding="utf-8")
+    monkeypatch.setattr(window, "ask_open_partial", lambda *a: True)
+    assert window.open_path(str(bad))
+    # Lasting, not only a status message (review item 15).
+    assert window.windowTitle() == "bad.svg (part before read error)[*] — OutlineBench"
