@@ -19,7 +19,6 @@ import math
 import os
 import re
 from dataclasses import dataclass, field
-from pathlib import Path
 from typing import Any, Literal
 
 import numpy as np
@@ -826,7 +825,7 @@ def read_svg(
             raise UnsafeXmlError(f"{where}: {len(data)} bytes is over the limit of {max_bytes}")
     else:
         path = os.fspath(source)
-        where = Path(path).name or path
+        where = path  # as the caller named it
         size = os.stat(path).st_size
         if size > max_bytes:
             raise UnsafeXmlError(

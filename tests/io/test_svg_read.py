@@ -114,8 +114,11 @@ def test_malformed_xml_and_wrong_root():
 def test_bad_path_error_names_file_element_and_offset():
     res = read_svg(DATA / "bad_path.svg")
     assert isinstance(res.error, SvgPathError)
+    # The file as it was named (not only its base name: two folders may hold the same name,
+    # and the command line would otherwise print the path and the name both).
     assert str(res.error) == (
-        "bad_path.svg: <path id=\"kestrel-notch\">: expected a number at offset 18, found 'x20'"
+        f'{DATA / "bad_path.svg"}: <path id="kestrel-notch">: expected a number at offset 18, '
+        "found 'x20'"
     )
     # The model and the diagnostics together: the valid part is kept (SVG 2 §9.5.4).
     good, notch = res.document.outlines
