@@ -47,11 +47,16 @@ __all__ = [
     "where_text",
     "COLUMNS",
     "LIST_THROTTLE_MS",
+    "LIST_LIVE_ROWS",
 ]
 
 # While a drag runs, the list is rebuilt at most this often (milliseconds); sorting and
 # converting thousands of findings on every mouse move would slow the drag.
 LIST_THROTTLE_MS = 150
+# Up to this many findings the list is rebuilt on every check, drags included, so list and
+# canvas always show the same check (rebuilding a few hundred rows costs well under a
+# millisecond); only longer lists are throttled, and their count line then says so.
+LIST_LIVE_ROWS = 500
 COLUMNS = ("Severity", "Kind", "Contour", "Place", "Value", "Position")
 _Index = QModelIndex | QPersistentModelIndex
 
@@ -272,13 +277,17 @@ class FindingsPanel(QWidget):
         self.refresh()
 
     def _on_updated(self) -> None:
-        # During a drag the list follows at most every LIST_THROTTLE_MS (the canvas frames
-        # follow every check); the timer brings it up to date after the last move.
-        if self._live.in_gesture and (time.perf_counter() - self._last_refresh) * 1e3 < (
-            LIST_THROTTLE_MS
+        # During a drag a long list follows at most every LIST_THROTTLE_MS (the canvas frames
+        # follow every check); the timer brings it up to date after the last move. The count
+        # line always shows the check the canvas shows.
+        if (
+            self._live.in_gesture
+            and len(self._live.findings) > LIST_LIVE_ROWS
+            and (time.perf_counter() - self._last_refresh) * 1e3 < LIST_THROTTLE_MS
         ):
             if not self._timer.isActive():
                 self._timer.start()
+            self._refresh_summary(stale=True)
             return
         self.refresh()
 
@@ -302,6 +311,11 @@ class FindingsPanel(QWidget):
         original = self.shown_findings()
         shown = convert_units(original, units.factor, units.name)
         self.model.set_findings(shown, original, units)
+        self._refresh_summary()
+
+    def _refresh_summary(self, stale: bool = False) -> None:
+        """The count line, from the same check as the canvas marks."""
+        units: DisplayUnits = self._units()
         s = summarize(self._live.findings)
         info = f"{s['info']} info" + ("" if self.info_shown else " (hidden)")
         if s["total"] == 0:
@@ -311,6 +325,8 @@ class FindingsPanel(QWidget):
                 f"<b>{s['errors']} errors · {s['warnings']} warnings</b> · {info}"
                 f"<br><span style='color:#5b6670'>lengths in {units.name}</span>"
             )
+        if stale:
+            text += " · <i>list updating…</i>"
         if self._live.error:
             text += f"<br><span style='color:#c3122f'>Check failed: {self._live.error}</span>"
         self.summary.setText(text)

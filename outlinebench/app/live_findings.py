@@ -11,6 +11,7 @@ document is checked at once.
 
 from __future__ import annotations
 
+import logging
 import time
 from typing import TYPE_CHECKING
 
@@ -24,6 +25,11 @@ if TYPE_CHECKING:  # the session imports nothing from here; this is for type che
     from outlinebench.app.session import EditorSession
 
 __all__ = ["LiveFindings", "LIVE_BUDGET_MS", "THROTTLE_MS", "place_of"]
+
+# A fault inside a check is shown in one line in the findings panel and written here in
+# full (with its traceback; Python's last-resort handler prints it on stderr when the
+# application configures no logging), so a bug is never hidden.
+log = logging.getLogger(__name__)
 
 # A check that took at most this long is redone on every change (a drag's mouse moves
 # included); one that took longer is redone at most every THROTTLE_MS. 8 ms is half a frame
@@ -135,6 +141,7 @@ class LiveFindings(QObject):
             self._checker = Checker(self._checker.settings)
         except Exception as exc:  # noqa: BLE001 — a fault in a check must not end the editing
             self.error = f"internal error in the checks ({type(exc).__name__}: {exc})"
+            log.exception("internal error in the checks")
             self._checker = Checker(self._checker.settings)
         self.last_ms = (time.perf_counter() - t0) * 1e3
         self.checks_run += 1

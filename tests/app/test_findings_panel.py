@@ -284,3 +284,39 @@ def test_arrow_keys_in_the_list_show_each_finding(sample_window, qtbot):
     assert win.current_finding == model.finding(1)
     cx, cy = win.canvas.to_doc(QPointF(win.canvas.width() / 2, win.canvas.height() / 2))
     assert (cx, cy) == pytest.approx((model.finding(1).x, model.finding(1).y), abs=1e-9)
+
+
+def test_list_count_and_canvas_show_the_same_check_during_a_drag(window):
+    win, canvas, s = window, window.canvas, window.session
+    s.load(_s_curve_document())
+    canvas.fit_to_outline()
+    start = screen(canvas, (0.0, 50.0))
+    end = start + QPointF(0.0, 12.0)
+    _send(canvas, QEvent.Type.MouseButtonPress, start)
+    for k in range(1, 5):
+        _send(canvas, QEvent.Type.MouseMove, start + (end - start) * (k / 4))
+        # No waiting: after every mouse move the rows listed are the findings framed on the
+        # canvas (review item 12: both from the same check result).
+        listed = [orig for _f, orig in win.findings_panel.model.rows]
+        assert sorted(map(id, listed)) == sorted(map(id, win.canvas.finding_marks))
+    assert s.history.in_group
+    assert any(f.kind == "kink" for f in win.canvas.finding_marks)
+    warnings = sum(f.severity == "warning" for f in win.canvas.finding_marks)
+    assert f"{warnings} warnings" in win.findings_panel.summary.text()
+    _send(canvas, QEvent.Type.MouseButtonRelease, end)
+
+
+def test_a_fault_in_a_check_is_logged_with_its_traceback(window, monkeypatch, caplog):
+    import logging
+
+    from outlinebench.diagnostics import Checker
+
+    def broken(self, doc):
+        raise ZeroDivisionError("planted fault")
+
+    monkeypatch.setattr(Checker, "update", broken)
+    with caplog.at_level(logging.ERROR, logger="outlinebench.app.live_findings"):
+        window.live.refresh()
+    assert "planted fault" in window.live.error
+    rec = next(r for r in caplog.records if r.name == "outlinebench.app.live_findings")
+    assert rec.exc_info is not None and rec.exc_info[0] is ZeroDivisionError
