@@ -1,7 +1,8 @@
 """The findings list beside the canvas: every finding of the open document, live.
 
-One row per finding — severity (with its canvas mark as icon), kind, contour, place in it
-(segment or join), the measured value with its unit in the document's units, and the position. Rows
+One row per finding — its kind with its severity as the icon (the canvas mark: diamond
+error, square warning, dotted info; named in the tooltip), contour and place in it (segment or
+join), the measured value with its unit in the document's units, and the position. Rows
 are sorted by severity (errors first), then in document order; clicking a column header sorts
 by that column instead. A count line sums up the document, and "Show info" hides or shows the
 info-level findings (on the canvas too). Clicking a row asks the window to show that place.
@@ -45,6 +46,7 @@ __all__ = [
     "FindingsPanel",
     "value_text",
     "where_text",
+    "short_where_text",
     "COLUMNS",
     "LIST_THROTTLE_MS",
     "LIST_LIVE_ROWS",
@@ -57,7 +59,15 @@ LIST_THROTTLE_MS = 150
 # canvas always show the same check (rebuilding a few hundred rows costs well under a
 # millisecond); only longer lists are throttled, and their count line then says so.
 LIST_LIVE_ROWS = 500
-COLUMNS = ("Severity", "Kind", "Contour", "Place", "Value", "Position")
+COLUMNS = ("Finding", "Where", "Value", "Position")
+_HEADER_TIPS = (
+    "What was found; the icon is its severity (diamond: error, square: warning, dotted: "
+    "info). Sorting by this column puts errors first.",
+    "Contour number (counted from 0 through the file, as `outlinebench check` reports it) · "
+    "place in the contour",
+    "The measured value",
+    "x, y of the place, in the document's units (full digits in each row's tooltip)",
+)
 _Index = QModelIndex | QPersistentModelIndex
 
 
@@ -100,6 +110,20 @@ def where_text(f: Finding) -> str:
     return text
 
 
+def short_where_text(f: Finding) -> str:
+    """The list's "Where" cell: contour number, then the place, abbreviated ("3 · join 2",
+    "0 · seg. 6 ↔ 16", "15 · whole"); the row's tooltip has the words of :func:`where_text`."""
+    if f.join is not None:
+        text = f"join {f.join}"
+    elif f.segment is not None:
+        text = f"seg. {f.segment}"
+    else:
+        text = "whole"
+    if f.other_contour is not None and f.other_contour != f.contour:
+        text += f" ↔ {f.other_contour}"
+    return f"{f.contour} · {text}"
+
+
 def _order_key(f: Finding) -> tuple:
     return (
         SEVERITY_RANK.get(f.severity, 3),
@@ -138,6 +162,8 @@ class FindingsModel(QAbstractTableModel):
     def headerData(self, section: int, orientation, role: int = Qt.ItemDataRole.DisplayRole):  # noqa: N802
         if orientation == Qt.Orientation.Horizontal and role == Qt.ItemDataRole.DisplayRole:
             return COLUMNS[section]
+        if orientation == Qt.Orientation.Horizontal and role == Qt.ItemDataRole.ToolTipRole:
+            return _HEADER_TIPS[section]
         return None
 
     def data(self, index: _Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
@@ -153,11 +179,12 @@ class FindingsModel(QAbstractTableModel):
             units = self.units
             assert units is not None
             return (
-                f"<b>{f.kind}</b> ({f.severity}): {f.message}<br>measured "
+                f"<b>{f.kind}</b> ({f.severity}) in contour {f.contour}, {where_text(f)}: "
+                f"{f.message}<br>measured "
                 f"{value_text(f, units)} at x {f.x:.{units.decimals}f}, "
                 f"y {f.y:.{units.decimals}f} {units.name}"
             )
-        if role == Qt.ItemDataRole.TextAlignmentRole and col in (2, 4):
+        if role == Qt.ItemDataRole.TextAlignmentRole and col in (2, 3):
             return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
         return None
 
@@ -165,16 +192,14 @@ class FindingsModel(QAbstractTableModel):
         units = self.units
         assert units is not None
         if col == 0:
-            return f.severity
-        if col == 1:
             return f.kind
+        if col == 1:
+            return short_where_text(f)
         if col == 2:
-            return str(f.contour)
-        if col == 3:
-            return where_text(f)
-        if col == 4:
             return value_text(f, units, detail=False)
-        return f"{f.x:.{units.decimals}f}, {f.y:.{units.decimals}f}"
+        # One digit fewer than the selection panel (0.01 mm): enough to find the place.
+        d = max(units.decimals - 1, 0)
+        return f"{f.x:.{d}f}, {f.y:.{d}f}"
 
     def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
         self.layoutAboutToBeChanged.emit()
@@ -186,11 +211,11 @@ class FindingsModel(QAbstractTableModel):
         column, order = self._sort
         if column == 0:
             key = lambda r: _order_key(r[0])  # noqa: E731
-        elif column == 2:
+        elif column == 1:
             key = lambda r: (r[0].contour, _order_key(r[0]))  # noqa: E731
-        elif column == 4:
+        elif column == 2:
             key = lambda r: (r[0].unit, r[0].value if r[0].value is not None else -1.0)  # noqa: E731
-        elif column == 5:
+        elif column == 3:
             key = lambda r: (r[0].y, r[0].x)  # noqa: E731
         else:
             key = lambda r: (self.cell_text(r[0], column), _order_key(r[0]))  # noqa: E731
@@ -261,7 +286,7 @@ class FindingsPanel(QWidget):
         self.view.sortByColumn(0, Qt.SortOrder.AscendingOrder)
         header = self.view.header()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        for col, width in enumerate((82, 114, 54, 98, 80, 110)):
+        for col, width in enumerate((150, 100, 90, 96)):
             self.view.setColumnWidth(col, width)
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)

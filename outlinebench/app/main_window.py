@@ -57,8 +57,16 @@ NAVIGATION_HINT = (
 
 # The comb scale slider: position k multiplies the automatic scale by 2^(k/2), from 1/16 to 16.
 COMB_STEPS = 8
-# Starting width of the findings dock, logical px: severity, kind, place and value columns.
-FINDINGS_DOCK_WIDTH = 470
+# Starting width of the findings dock, logical px: the severity, kind, where and value columns
+# (position scrolls into view); at 1280 px the canvas keeps about half the window.
+FINDINGS_DOCK_WIDTH = 380
+# The key to the marks in the selection panel starts open when the window is at least this
+# tall (logical px); shorter windows start with it folded so the point's numbers need no
+# scrolling.
+KEY_OPEN_MIN_HEIGHT = 900
+# Zoom 100 % = true size on a screen of 96 logical px per inch (the CSS reference pixel,
+# W3C CSS Values and Units Level 3 §5.2).
+PX_PER_MM_AT_100 = 96.0 / 25.4
 
 # A new drawing: a landscape A4 sheet in millimetres (ISO 216: 297 mm × 210 mm).
 NEW_PAGE_MM = (297.0, 210.0)
@@ -396,7 +404,7 @@ class MainWindow(QMainWindow):
         self.zoom_label = QLabel("")
         self.tool_hint_label = QLabel("")
         sb.addWidget(self.tool_hint_label, 1)
-        self.hint_label = QLabel("Ctrl+wheel: zoom · Space/middle-drag: pan")
+        self.hint_label = QLabel("Ctrl+wheel: zoom")
         self.hint_label.setToolTip(NAVIGATION_HINT)
         self.hint_label.setStyleSheet("color: #5b6670;")
         sb.addPermanentWidget(self.hint_label)
@@ -603,6 +611,7 @@ class MainWindow(QMainWindow):
         if act is not None and not act.isChecked():
             act.setChecked(True)
         self.tool_hint_label.setText(self.session.tool_hint())
+        self.tool_hint_label.setToolTip(TOOLS[name][3] + "\n" + NAVIGATION_HINT)
         self._place_start_panel()
 
     def _on_pointer_moved(self, x: float, y: float) -> None:
@@ -612,9 +621,14 @@ class MainWindow(QMainWindow):
         )
 
     def _on_view_changed(self) -> None:
-        u = self.session.units
-        # Zoom shown as screen pixels per displayed unit.
-        text = f"{self.canvas.view.scale / u.factor:.3g} px/{u.name}"
+        # Zoom as a percentage of true size (100 % = 96 screen px per inch); the tooltip
+        # gives screen pixels per millimetre.
+        doc = self.session.document
+        px_per_mm = self.canvas.view.scale / doc.mm_per_unit
+        text = f"Zoom {100.0 * px_per_mm / PX_PER_MM_AT_100:.0f} %"
+        self.zoom_label.setToolTip(
+            f"{px_per_mm:.3g} screen px per mm; 100 % is true size at 96 px per inch"
+        )
         c = self.canvas
         shown = count_points_in_view(c.view, c.document, c.cache, c.width(), c.height())
         if shown > style.MAX_MARKED_POINTS:
@@ -646,6 +660,8 @@ class MainWindow(QMainWindow):
 
     def resizeEvent(self, event) -> None:  # noqa: N802 (Qt name)
         super().resizeEvent(event)
+        if not self.panel.key_toggled_by_user:
+            self.panel.set_key_open(self.height() >= KEY_OPEN_MIN_HEIGHT)
         self._place_start_panel()
 
     def _update_title(self) -> None:

@@ -19,6 +19,7 @@ from PySide6.QtWidgets import (
     QFormLayout,
     QGroupBox,
     QLabel,
+    QToolButton,
     QVBoxLayout,
     QWidget,
 )
@@ -153,11 +154,20 @@ class SelectionPanel(QWidget):
         self.contour_info.setWordWrap(True)
         c.addRow(self.contour_info)
         lay.addWidget(self.contour_box)
+        # The key to the canvas marks folds away (one click), so on short screens the numbers
+        # above need no scrolling; the window opens it when there is room.
+        self.key_button = QToolButton()
+        self.key_button.setCheckable(True)
+        self.key_button.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextBesideIcon)
+        self.key_button.setText("Key: how points and findings are drawn")
+        self.key_button.setStyleSheet("QToolButton { border: none; font-weight: bold; }")
+        self.key_button.clicked.connect(self._on_key_clicked)
+        lay.addWidget(self.key_button)
+        self.key = MarkKey()
+        lay.addWidget(self.key)
         lay.addStretch(1)
-        key_box = QGroupBox("How points and findings are drawn")
-        kl = QVBoxLayout(key_box)
-        kl.addWidget(MarkKey())
-        lay.addWidget(key_box)
+        self.key_toggled_by_user = False
+        self.set_key_open(True)
 
         self.box_left.valueChanged.connect(lambda _v: self._commit_box())
         self.box_top.valueChanged.connect(lambda _v: self._commit_box())
@@ -179,6 +189,16 @@ class SelectionPanel(QWidget):
         self._box: tuple[float, float] | None = None
         self._handle_keys: tuple[pk.Key | None, pk.Key | None] = (None, None)
         self._on_selection_changed()
+
+    def set_key_open(self, open_: bool) -> None:
+        """Show or fold the key to the canvas marks."""
+        self.key_button.setChecked(open_)
+        self.key_button.setArrowType(Qt.ArrowType.DownArrow if open_ else Qt.ArrowType.RightArrow)
+        self.key.setVisible(open_)
+
+    def _on_key_clicked(self, checked: bool) -> None:
+        self.key_toggled_by_user = True
+        self.set_key_open(checked)
 
     # -- model → widget -----------------------------------------------------------------
     def _on_selection_changed(self) -> None:

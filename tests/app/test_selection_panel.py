@@ -179,6 +179,7 @@ def test_a_missing_handle_is_shown_as_missing_when_a_handle_is_selected(window):
 
 
 def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
+    from outlinebench.app.findings_panel import COLUMNS
     from outlinebench.diagnostics import check_document
     from outlinebench.diagnostics.report import format_finding
 
@@ -194,7 +195,7 @@ def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
     window.findings_panel.show_info.setChecked(True)  # the corner is an info finding
     model = window.findings_panel.model
     shown = next(f for f, _ in model.rows if (f.kind, f.join) == ("corner", 0) and f.contour == 1)
-    assert model.cell_text(shown, 2) == "1"
+    assert model.cell_text(shown, COLUMNS.index("Where")) == "1 · join 0"
 
 
 def test_typing_a_curve_length_scales_the_segment_about_its_start(window):
