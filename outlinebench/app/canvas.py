@@ -278,7 +278,14 @@ class Canvas(QWidget):
             assert isinstance(event, QHelpEvent)
             hits = finding_at(self.view, self.finding_marks, event.pos().x(), event.pos().y())
             if hits:
-                lines = [f"<b>{f.kind}</b> ({f.severity}): {f.message}" for f in hits[:6]]
+                from outlinebench.app.findings_panel import where_text
+
+                # Contour numbers as the findings list and `outlinebench check` give them.
+                lines = [
+                    f"<b>{f.kind}</b> ({f.severity}) in contour {f.contour}, {where_text(f)}: "
+                    f"{f.message}"
+                    for f in hits[:6]
+                ]
                 if len(hits) > 6:
                     lines.append(f"… and {len(hits) - 6} more here")
                 QToolTip.showText(event.globalPos(), "<br>".join(lines), self)

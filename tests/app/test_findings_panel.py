@@ -212,6 +212,8 @@ def test_hovering_a_finding_mark_names_its_kind(sample_window, qtbot):
     QApplication.sendEvent(canvas, ev)
     qtbot.waitUntil(QToolTip.isVisible, timeout=2000)
     assert "cusp" in QToolTip.text() and "error" in QToolTip.text()
+    # The place in the CLI's numbering (diagnostics/report.py: "contour N, segment M").
+    assert f"contour {f.contour}, segment {f.segment}" in QToolTip.text()
     QToolTip.hideText()
 
 
