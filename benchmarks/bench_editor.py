@@ -11,8 +11,8 @@ Prints, per case, the median time per frame next to a reference measured in the 
 * drag update: from sending one mouse-move event during a handle drag (through the real
   canvas event handler, the model's gesture and the undo history) to the repainted frame;
   the window's live findings are on, so this includes the incremental check of the edit and
-  the canvas frames being brought up to date (the findings list follows at most every
-  150 ms, a check that took over 8 ms at most every 60 ms: both run from timers, which the
+  the canvas frames being brought up to date (a list of over 500 findings follows at most
+  every 150 ms, a check that took over 8 ms at most every 60 ms: both run from timers, which the
   loop lets run after each frame as the event loop would between real mouse moves);
 * combs on: the same frames with the curvature comb shown (at fit to view the 10,000
   segments are above the comb's limit and it is left out, which the line says), and a drag

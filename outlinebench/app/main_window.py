@@ -582,8 +582,10 @@ class MainWindow(QMainWindow):
         has_something = self.path is not None or bool(s.document.outlines) or s.is_dirty
         self.act_save.setEnabled(has_something)
         self.act_save_as.setEnabled(has_something)
-        if hasattr(self, "act_toggle_join"):
-            self._on_selection_changed()  # e.g. a closed contour cannot be closed again
+        if hasattr(self, "act_toggle_join") and not s.history.in_group:
+            # e.g. a closed contour cannot be closed again (not during a drag: a drag does
+            # not change what the menu edits can do, and each mouse move must stay quick)
+            self._on_selection_changed()
         self._place_start_panel()
 
     def _on_selection_changed(self) -> None:
