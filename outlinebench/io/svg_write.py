@@ -214,6 +214,18 @@ class _Splicer:
                 new = b"</" + self._renamed(m.group(1), rename_to)
                 self.edits.append((e, m.end(), new))
 
+    def fill(self, el: Any, content: bytes, name: str) -> None:
+        """After :meth:`set_attrs` renamed ``el`` to ``name``: add ``content`` as its last
+        children, opening an empty-element tag ``<x/>`` into ``<x>…</x>``."""
+        s, e = self.src.xml.spans[id(el)]
+        if e != s and self.data[e : e + 2] == b"</":
+            self.edits.append((e, e, content))
+            return
+        start, end, tag = self.edits.pop()
+        raw = _TAG_NAME_RE.match(tag).group(1)
+        opened = tag[:-2].rstrip() + b">" if tag.endswith(b"/>") else tag
+        self.edits.append((start, end, opened + content + b"</" + raw + b">"))
+
     def raw_attr_names(self, el: Any) -> list[str]:
         """Attribute names as written in the element's start tag (with their prefixes)."""
         start = self.src.xml.spans[id(el)][0]
@@ -327,6 +339,40 @@ def _replace_use(sp: _Splicer, outline: Outline, ref: ElementRef) -> None:
     sp.set_attrs(ref.use, values, remove=remove, rename_to="path")
 
 
+def _fork_use(sp: _Splicer, use: Any, outlines: Sequence[Outline]) -> None:
+    """A use of a symbol or group with an edited instance becomes a ``g`` of paths.
+
+    The ``g`` keeps the use's id, transform and every other attribute except the reference
+    and x/y/width/height; it holds one path per outline of the instance, in document order,
+    in the use's own coordinates (its x/y and a symbol's viewBox are in the numbers). Each
+    path copies its source element's plain presentation attributes (fill, stroke, class,
+    style, ...) but not its id (the symbol keeps that) nor its transform (in the numbers).
+    Attributes set on groups inside the symbol are not copied. The symbol or group and its
+    other instances are untouched.
+    """
+    parts = []
+    for outline in outlines:
+        ref = outline.source
+        assert ref.use_matrix is not None
+        contours = _element_contours(outline, ref.use_matrix)
+        skip = {"id", "d", "transform", *(_SHAPE_ATTRS.get(_local_name(ref.element.tag), ()))}
+        attrs = [
+            f'{name}="{_escape(value)}"'
+            for name, value in ref.element.attrib.items()
+            if "{" not in name and name not in skip
+        ]
+        attrs.append(f'd="{format_path_data(contours)}"')
+        joins = joins_text(outline.contours)
+        if joins is not None:
+            attrs.append(f'{sp.joins_attr()}="{joins}"')
+        parts.append(f"<path {' '.join(attrs)}/>")
+    raw_names = sp.raw_attr_names(use)
+    remove = [n for n in raw_names if n in ("x", "y", "width", "height", "href")]
+    remove += [n for n in raw_names if n.endswith(":href")]
+    sp.set_attrs(use, {}, remove=remove, rename_to="g")
+    sp.fill(use, "".join(parts).encode(), "g")
+
+
 def _local_name(tag: str) -> str:
     return tag.rpartition("}")[2]
 
@@ -346,21 +392,32 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
     written_old: list[tuple[int, Outline]] = []
     new: list[Outline] = []
     need_prefix = False
+    # Uses of a symbol or group with at least one edited instance outline: forked whole.
+    forked: dict[int, list[Outline]] = {}
+    for outline in doc.outlines:
+        ref = outline.source
+        if (
+            isinstance(ref, ElementRef)
+            and ref.use is not None
+            and not ref.use_direct
+            and not _untouched(outline, ref)
+        ):
+            forked[id(ref.use)] = []
     for outline in doc.outlines:
         ref = outline.source
         if not isinstance(ref, ElementRef):
             new.append(outline)
             continue
         written_old.append((outline.source_index, outline))
+        if ref.use is not None and id(ref.use) in forked:
+            forked[id(ref.use)].append(outline)
+            need_prefix = need_prefix or joins_text(outline.contours) is not None
+            continue
         if _untouched(outline, ref):
             continue
         if ref.use is not None:
-            if not ref.use_direct or ref.use_matrix is None:
-                raise SvgWriteError(
-                    f"{src.path or '<bytes>'}: outline {outline.source_index} is part of a "
-                    f"group or symbol reused by <use id={ref.use.get('id')!r}>; edit the "
-                    "referenced element instead"
-                )
+            if ref.use_matrix is None:  # pragma: no cover - the reader always sets it
+                raise SvgWriteError(f"{src.path or '<bytes>'}: a use instance lost its place")
             _replace_use(sp, outline, ref)
             need_prefix = need_prefix or joins_text(outline.contours) is not None
             continue
@@ -379,6 +436,8 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
             sp.set_attrs(ref.element, values)
         else:
             sp.set_attrs(ref.element, values, remove=_SHAPE_ATTRS.get(tag, ()), rename_to="path")
+    for members in forked.values():
+        _fork_use(sp, members[0].source.use, members)
     if new:
         parts = []
         for outline in new:
@@ -444,7 +503,9 @@ def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> No
         ref = want.source
         expect = ref.contours if isinstance(ref, ElementRef) and _untouched(want, ref) else None
         expect = expect if expect is not None else want.contours
-        exact = not isinstance(ref, ElementRef) or np.array_equal(ref.matrix, IDENTITY)
+        exact = not isinstance(ref, ElementRef) or (
+            ref.use is None and np.array_equal(ref.matrix, IDENTITY)
+        )  # a use instance is written through the inverse of the use's own matrix
         if isinstance(ref, ElementRef) and ref.use is not None and id(ref.element) in rewritten:
             if _untouched(want, ref):
                 original = rewritten[id(ref.element)]

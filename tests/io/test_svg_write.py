@@ -212,7 +212,7 @@ def test_fresh_document_gets_a_minimal_root():
         assert np.array_equal(s, t)
 
 
-def test_edited_use_instance_becomes_a_path_and_groups_are_refused():
+def test_edited_use_instance_becomes_a_path():
     data = (
         b'<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink">'
         b'<defs><rect id="tile" width="4" height="2" fill="teal"/>'
@@ -238,9 +238,49 @@ def test_edited_use_instance_becomes_a_path_and_groups_are_refused():
         rtol=0,
         atol=1e-12,
     )
-    group = doc.replace_contour(2, 0, moved(doc.outlines[2].contours[0]))
-    with pytest.raises(SvgWriteError, match="group or symbol reused by <use"):
-        svg_bytes(group)
+
+
+@pytest.mark.parametrize("closing", ["/>", "></use>"])
+def test_edited_instance_of_a_symbol_becomes_a_group_of_paths(closing):
+    # Symbols are how some exporters write repeated artwork; their content is not an outline
+    # of its own, so an edit of one instance must be saveable. The use becomes a <g> (same
+    # id, transform and style) holding one path per outline of the instance, in the use's
+    # own coordinates (SVG 1.1 §5.6: the use's x/y and the symbol's viewBox are baked in);
+    # the symbol and the other instance stay as they were.
+    symbol = (
+        b'<symbol id="star" viewBox="-10 -10 20 20"><g transform="scale(0.5)">'
+        b'<polygon class="st0" points="0,-19 4,-6 18,-6 7,2 11,16 0,8 -11,16 -7,2 -18,-6 -4,-6"/>'
+        b'<circle cx="0" cy="0" r="3" fill="red"/></g></symbol>'
+    )
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink">'
+        + symbol
+        + b'<use id="a" xlink:href="#star" x="-10" y="-10" width="40" height="40" '
+        b'transform="translate(100 50)" style="overflow:visible"'
+        + closing.encode()
+        + b'<use id="b" xlink:href="#star" x="30" y="0" width="20" height="20"/></svg>'
+    )
+    doc = read_svg(data).document
+    assert [o.tag for o in doc.outlines] == ["polygon", "circle", "polygon", "circle"]
+    edited = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0], dx=0.5))
+    out = svg_bytes(edited)
+    assert symbol in out and b'<use id="b" xlink:href="#star" x="30"' in out
+    root = ET.fromstring(out)
+    group = root[1]
+    assert group.tag.endswith("}g") and group.get("id") == "a"
+    assert group.get("transform") == "translate(100 50)" and group.get("x") is None
+    assert group.get("{http://www.w3.org/1999/xlink}href") is None
+    assert [(e.tag.rpartition("}")[2], e.get("fill"), e.get("class")) for e in group] == [
+        ("path", None, "st0"),
+        ("path", "red", None),
+    ]
+    back = read_svg(out).document
+    assert len(back.outlines) == 4
+    for want, have in zip(edited.outlines, back.outlines, strict=True):
+        for cw, ch in zip(want.contours, have.contours, strict=True):
+            assert cw.closed == ch.closed
+            for sw, sh in zip(cw.segments, ch.segments, strict=True):
+                np.testing.assert_allclose(sh, sw, rtol=0, atol=1e-12)
 
 
 # -- atomic saving ------------------------------------------------------------------------
