@@ -169,8 +169,8 @@ class SelectionPanel(QWidget):
         self.key_toggled_by_user = False
         self.set_key_open(True)
 
-        self.box_left.valueChanged.connect(lambda _v: self._commit_box())
-        self.box_top.valueChanged.connect(lambda _v: self._commit_box())
+        self.box_left.valueChanged.connect(lambda _v: self._commit_box(0))
+        self.box_top.valueChanged.connect(lambda _v: self._commit_box(1))
         # Each field sends only its own value; the others come from the document, so typing
         # one number never rounds the rest to the digits shown.
         self.x.valueChanged.connect(lambda _v: self._commit_xy(0))
@@ -420,13 +420,15 @@ class SelectionPanel(QWidget):
         xy[axis] = u.parse((self.x, self.y)[axis].value())
         self._editor.set_point(key, xy[0], xy[1])
 
-    def _commit_box(self) -> None:
+    def _commit_box(self, axis: int) -> None:
+        """Move the selection along one axis so that edge gets the typed value (the other
+        axis does not move: its field shows a rounded value)."""
         if self._box is None:
             return
         u = self._editor.units
-        dx = u.parse(self.box_left.value()) - self._box[0]
-        dy = u.parse(self.box_top.value()) - self._box[1]
-        self._editor.move_selection(dx, dy)
+        delta = [0.0, 0.0]
+        delta[axis] = u.parse((self.box_left, self.box_top)[axis].value()) - self._box[axis]
+        self._editor.move_selection(delta[0], delta[1])
 
     def _commit_join(self, index: int) -> None:
         key = self._shown_key

@@ -230,3 +230,19 @@ def test_typing_a_line_length_moves_its_end_along_the_line(window):
     assert np.allclose(line, [[90, 50], [50, 50]], atol=1e-12)
     nxt = s.document.outlines[0].contours[0].segments[3]
     assert tuple(nxt[0]) == (50.0, 50.0)  # the next segment still starts there (G0 kept)
+
+
+def test_typing_the_left_edge_does_not_move_the_points_vertically(window):
+    panel = window.panel
+    s = window.session
+    s.set_point((0, 0, 2, 0), 90.0, 50.00008)  # top edge 25.00004 mm: the field shows 25.000
+    s.set_point((0, 0, 3, 0), 60.0, 50.00008)
+    keys = [(0, 0, 2, 0), (0, 0, 3, 0)]
+    s.set_selection(keys)
+    before = [s.document.outlines[0].contours[0].segments[k[2]][0].copy() for k in keys]
+    _type(panel.box_left, "35")  # 35 mm = 70 units: left edge 60 → 70, +10 in x
+    after = [s.document.outlines[0].contours[0].segments[k[2]][0] for k in keys]
+    for b, a in zip(before, after, strict=True):
+        # Closed form: x + 10, y exactly unchanged (review item 1, applied to the box fields).
+        assert float(a[0]) == float(b[0]) + 10.0
+        assert float(a[1]) == float(b[1])
