@@ -99,7 +99,30 @@ def _to_element(points: NDArray[np.float64], matrix: NDArray[np.float64]) -> NDA
                 best[ok] = cand[ok]
                 found |= ok
         q[bad] = best
-    return q
+    return _fewest_decimals(q, points, matrix)
+
+
+# Decimal places tried when looking for short element coordinates (0.1 … 1e-15).
+_MAX_DECIMALS = 15
+
+
+def _fewest_decimals(
+    q: NDArray[np.float64], points: NDArray[np.float64], matrix: NDArray[np.float64]
+) -> NDArray[np.float64]:
+    """Each point of q replaced by q rounded to the fewest decimals that still maps to the
+    same root coordinates bit for bit (so "3.3" stays "3.3", not 3.2999999999999994)."""
+    out = q.copy()
+    todo = np.ones(len(q), dtype=bool)
+    with np.errstate(over="ignore", invalid="ignore"):
+        for decimals in range(_MAX_DECIMALS + 1):
+            idx = np.flatnonzero(todo)
+            if idx.size == 0:
+                break
+            cand = np.round(q[idx], decimals)
+            ok = np.all(_apply(cand, matrix) == points[idx], axis=1)
+            out[idx[ok]] = cand[ok]
+            todo[idx[ok]] = False
+    return out
 
 
 def _nudge(x: NDArray[np.float64], steps: int) -> NDArray[np.float64]:
@@ -113,12 +136,18 @@ def _nudge(x: NDArray[np.float64], steps: int) -> NDArray[np.float64]:
 def _element_contours(outline: Outline, matrix: NDArray[np.float64]) -> list[Contour]:
     if matrix is IDENTITY or np.array_equal(matrix, IDENTITY):
         return list(outline.contours)
+    every = [s for c in outline.contours for s in c.segments]
+    if not every:
+        return [Contour((), c.closed, c.joins) for c in outline.contours]
+    # One call for all control points of the outline (numpy per-call cost dominates).
+    flat = _to_element(np.concatenate(every).astype(np.float64, copy=False), matrix)
+    cuts = np.cumsum([len(s) for s in every])[:-1]
+    pieces = iter(np.split(flat, cuts))
     out = []
     for c in outline.contours:
         segs = []
-        for s in c.segments:
-            q = _to_element(np.asarray(s, dtype=np.float64), matrix)
-            segs.append(q)
+        for _ in c.segments:
+            segs.append(next(pieces).copy())
         # Shared end points stay shared: each segment starts where the previous one ended.
         for i in range(1, len(segs)):
             segs[i][0] = segs[i - 1][-1]

@@ -193,6 +193,26 @@ def test_edits_under_a_transform_go_back_to_element_coordinates():
     )
 
 
+@pytest.mark.parametrize("transform", ["translate(0.1 0.2) scale(3)", "rotate(30 5 5)"])
+def test_untouched_points_under_a_transform_keep_their_short_numbers(transform):
+    # Moving one point rewrites the whole d; the other points' root coordinates are the
+    # reader's transform of "3.3", "0.3", ... and the plain inverse gives neighbouring floats
+    # (3.2999999999999994). Among element coordinates that map back bit for bit, the writer
+    # takes the one with the fewest decimals, so the numbers the file had come back.
+    from outlinebench.model.commands import MovePoints, PointRef
+
+    d = "M1.1 2.2 L3.3 4.4 L5.7 0.3 L-7.25 1.05"
+    data = f'<svg xmlns="http://www.w3.org/2000/svg"><path transform="{transform}" d="{d}"/></svg>'
+    doc = read_svg(data.encode()).document
+    doc = MovePoints([PointRef(0, 0, 0, 0)], (1.0, 0.0)).apply(doc)
+    out = svg_bytes(doc).decode()
+    written = ET.fromstring(out)[0].get("d")
+    assert written.split(" ", 2)[2] == "L3.3 4.4 L5.7 0.3 L-7.25 1.05"
+    back = read_svg(out.encode()).document  # and the root coordinates are bit-identical
+    want, have = doc.outlines[0].contours[0].segments, back.outlines[0].contours[0].segments
+    assert all(np.array_equal(a, b) for a, b in zip(want, have, strict=True))
+
+
 def test_fresh_document_gets_a_minimal_root():
     c = Contour.from_points(
         [[[0, 0], [10, 0]], [[10, 0], [10, 5], [0, 5]], [[0, 5], [0, 0]]], closed=True
