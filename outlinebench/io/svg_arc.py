@@ -161,20 +161,22 @@ def arc_to_cubics(
     dx2, dy2 = (x1 - x2) / 2.0, (y1 - y2) / 2.0
     x1p = cos_phi * dx2 + sin_phi * dy2
     y1p = -sin_phi * dx2 + cos_phi * dy2
-    lam = (x1p / rx) ** 2 + (y1p / ry) ** 2
+    a, b = x1p / rx, y1p / ry
+    lam = a * a + b * b  # may be inf for tiny radii (float products do not raise)
     scaled = False
     if lam > 1.0:
-        s = math.sqrt(lam)
-        rx, ry = rx * s, ry * s
+        # rx·√Λ = √(x1'² + (y1'·rx/ry)²), written so that it cannot overflow when the radii
+        # are tiny (√Λ alone can be inf); likewise ry·√Λ.
+        rx, ry = math.hypot(x1p, y1p * (rx / ry)), math.hypot(x1p * (ry / rx), y1p)
         scaled = True
-    rx2, ry2 = rx * rx, ry * ry
-    den = rx2 * y1p * y1p + ry2 * x1p * x1p
-    num = rx2 * ry2 - den
-    coef = math.sqrt(max(0.0, num / den)) if den > 0.0 else 0.0
+    # F.6.5.2's (rx²ry² − rx²y1'² − ry²x1'²) / (rx²y1'² + ry²x1'²), divided through by
+    # rx²ry²: (1 − Λ) / Λ, which cannot overflow for huge radii; 0 once the radii were scaled
+    # (then Λ is 1 by construction).
+    coef = 0.0 if scaled else math.sqrt(max(0.0, (1.0 - lam) / lam))
     if large_arc == sweep:
         coef = -coef
-    cxp = coef * rx * y1p / ry
-    cyp = -coef * ry * x1p / rx
+    cxp = coef * (rx / ry) * y1p  # ratios first: rx·y1' alone can overflow
+    cyp = -coef * (ry / rx) * x1p
     cx = cos_phi * cxp - sin_phi * cyp + (x1 + x2) / 2.0
     cy = sin_phi * cxp + cos_phi * cyp + (y1 + y2) / 2.0
     theta1 = math.atan2((y1p - cyp) / ry, (x1p - cxp) / rx)

@@ -138,3 +138,27 @@ def test_degenerate_arcs():
     # Λ exactly at 1 (a half circle with the minimum radius): the clamp keeps sqrt real.
     r = arc_to_cubics(0, 0, 5, 5, 0, False, True, 10, 0)
     assert r.kind == "cubics" and np.all(np.isfinite(r.cubics))
+
+
+@pytest.mark.parametrize("r", [1e-170, 1e-300, 4e-320])
+def test_radii_far_too_small_scale_up_without_overflow(r):
+    # SVG 1.1 F.6.6: radii too small to reach the end point are scaled by sqrt(Λ) until the
+    # arc just reaches it, so any tiny equal radii give the half circle on the chord (radius
+    # 5 here), the same as writing radius 5. Λ = (x1'/rx)² + ... overflows a double for these
+    # radii; the scale factor must not.
+    tiny = arc_to_cubics(0.0, 0.0, r, r, 0.0, False, True, 10.0, 0.0)
+    exact = arc_to_cubics(0.0, 0.0, 5.0, 5.0, 0.0, False, True, 10.0, 0.0)
+    assert tiny.kind == "cubics" and tiny.radii_scaled
+    np.testing.assert_allclose(tiny.cubics, exact.cubics, rtol=0, atol=1e-12)
+
+
+def test_huge_radii_keep_the_centre_where_the_implementation_notes_put_it():
+    # SVG 1.1 F.6.5: for a quarter circle from (0, 0) to (r, r) with radius r, the centre is
+    # (0, r) or (r, 0); at r = 1e200, rx² overflows a double, so the formula must be used in
+    # its scaled form (1 − Λ)/Λ. Expected control points: the same arc at r = 1 scaled by r
+    # (the construction is scale-invariant).
+    r = 1e200
+    big = arc_to_cubics(0.0, 0.0, r, r, 0.0, False, False, r, r)
+    unit = arc_to_cubics(0.0, 0.0, 1.0, 1.0, 0.0, False, False, 1.0, 1.0)
+    assert big.kind == "cubics" and not big.radii_scaled
+    np.testing.assert_allclose(big.cubics / r, unit.cubics, rtol=0, atol=1e-12)

@@ -191,7 +191,7 @@ _PAD = " L0 0" * 500
         ("M1e308 0 l1e308 0", "l1e308"),  # relative sum overflows
         ("M1e308 0 C0 0 -1.7e308 0 1.5e308 0 S0 0 0 0", "S0"),  # reflected handle overflows
         ("M-1e308 0 A1 1 0 0 1 1e308 0", "A1"),  # arc: half the chord overflows
-        ("M0 0 A1e-300 1e-300 0 0 1 1e300 0", "A1e-300"),  # arc: chord / radius overflows
+        ("M0 0 A1e308 1e308 0 1 1 1e308 0", "A1e308"),  # arc: its far side is beyond 1.8e308
     ],
 )
 def test_coordinates_that_overflow_are_an_error_at_their_command(pad, tail, command):
