@@ -31,6 +31,7 @@ from outlinebench.geometry.area import signed_area
 from outlinebench.geometry.bezier import split_many
 from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.flatten import _as_cubic_batch, flatten_contours
+from outlinebench.geometry.intersect import intersections, self_intersections
 
 __all__ = [
     "DEFAULT_OFFSET_TOLERANCE",
@@ -76,7 +77,10 @@ class OffsetProblem:
         ``"tool-does-not-fit"`` — the outline bends toward the tool side on a radius smaller
         than the tool radius |d|, or has a sharp corner there (radius 0); the tool rounds it
         off. ``"vanishes"`` — a part of the outline (or all of it) has no offset at all: the
-        shape is narrower there than the tool.
+        shape is narrower there than the tool. ``"self-intersecting"`` — the contour crosses
+        itself there, so it has no one inside and outside; no offset is made.
+        ``"offset-inaccurate"`` — a fitted piece still misses the exact offset by more than
+        the tolerance after the deepest halving; ``error`` holds the measured distance.
     segment : int or None
         Segment of the contour where it is (None for a whole vanished contour).
     t : float or None
@@ -96,6 +100,7 @@ class OffsetProblem:
     y: float
     radius: float | None
     message: str
+    error: float | None = None
 
 
 @dataclass(frozen=True, eq=False)
@@ -324,6 +329,12 @@ def offset_contour(
     3. At corners turning away from the tool a round join (cubic circular arcs about the
        corner, radial error ≤ ε) is added; at corners turning toward it the two offsets are
        joined through the corner point and a sharp corner is reported.
+    0. A contour that crosses itself has no one inside and outside: it is reported as
+       ``self-intersecting`` (each crossing, found on the flattening with shapely and confirmed
+       on the segments by :func:`outlinebench.geometry.intersect.intersections`) and not
+       offset.
+    2a. A piece still missing ε/2 after :data:`_MAX_FIT_DEPTH` halvings is kept and reported
+       as ``offset-inaccurate`` with its measured error (never silently).
     4. The raw offset's self-intersections are found on its flattening (shapely noding) and
        refined on the cubics; pieces whose midpoint lies nearer than |d| − ε to the original
        (loops of concave parts, parts of the shape narrower than the tool) are cut away,
@@ -336,6 +347,9 @@ def offset_contour(
     cub = _as_cubic_batch(list(segments))
     if len(cub) == 0:
         return OffsetResult()
+    crossings = _self_crossings(cub, closed, tolerance)
+    if crossings:
+        return OffsetResult([], crossings)
     if distance == 0:
         poly = flatten_contours([(list(cub), closed)], tolerance)[0]
         return OffsetResult([OffsetContour(list(cub), closed, poly)], [])
@@ -396,6 +410,8 @@ def offset_contour(
     for depth in range(_MAX_FIT_DEPTH + 1):
         cubics, err = _fit_pieces(coef, seg, t0, t1, e, starts, ends, tolerance)
         good = (err <= tolerance) | (depth == _MAX_FIT_DEPTH)
+        if depth == _MAX_FIT_DEPTH and not np.all(err <= tolerance):
+            problems.extend(_inaccurate(cub, seg, t0, t1, err, tolerance, whole))
         fitted_seg.append(seg[good])
         fitted_t0.append(t0[good])
         fitted.append(cubics[good])
@@ -466,6 +482,101 @@ def offset_contour(
         contours.append(OffsetContour(ch, cl, poly))
     problems.extend(_vanished(removed, cub, problems, r, chains))
     return OffsetResult(contours, problems)
+
+
+def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[OffsetProblem]:
+    """Places where the contour crosses or touches itself away from its joins.
+
+    Candidates are pairs of crossing chords of the flattened contour (shapely STRtree,
+    neighbouring chords excluded); each candidate pair of segments is confirmed exactly with
+    :func:`intersections` (or :func:`self_intersections` within one segment), leaving out the
+    shared end point of consecutive segments.
+    """
+    import shapely
+
+    polys = flatten_contours([([c], False) for c in cub], tolerance)
+    starts = np.vstack([p[:-1] for p in polys])
+    ends = np.vstack([p[1:] for p in polys])
+    owner = np.concatenate([np.full(len(p) - 1, i) for i, p in enumerate(polys)])
+    if len(starts) < 2:
+        return []
+    lines = shapely.linestrings(np.stack([starts, ends], axis=1))
+    tree = shapely.STRtree(lines)
+    a, b = tree.query(lines, predicate="intersects")
+    m = len(starts)
+    keep = (a < b) & (b != a + 1) & ~(closed & (a == 0) & (b == m - 1))
+    pairs = sorted({(int(owner[i]), int(owner[j])) for i, j in zip(a[keep], b[keep], strict=True)})
+    # a join is shared by consecutive segments, also across segments shrunk to a point
+    point_like = np.all(cub == cub[:, :1], axis=(1, 2))
+
+    def joined(i: int, j: int, ta: float, tb: float) -> bool:
+        end_i, start_j = ta > 1 - 1e-9, tb < 1e-9
+        if end_i and start_j and bool(np.all(point_like[i + 1 : j])):
+            return True
+        # closed: the end of j runs into the start of i through the last segments
+        return (
+            closed
+            and ta < 1e-9
+            and tb > 1 - 1e-9
+            and bool(np.all(point_like[j + 1 :]))
+            and bool(np.all(point_like[:i]))
+        )
+
+    found: list[tuple[int, float, FloatArray]] = []
+    for i, j in pairs:
+        if i == j:
+            for t1, _ in self_intersections(cub[i]):
+                found.append((i, float(t1), _point(cub[i], float(t1))))
+            continue
+        if point_like[i] or point_like[j]:
+            continue
+        for ta, tb in intersections(cub[i], cub[j]):
+            if not joined(i, j, float(ta), float(tb)):
+                found.append((i, float(ta), _point(cub[i], float(ta))))
+    out: list[OffsetProblem] = []
+    for i, t, p in found:
+        if any(np.hypot(*(p - np.array([q.x, q.y]))) <= tolerance for q in out):
+            continue
+        out.append(
+            OffsetProblem(
+                "self-intersecting",
+                i,
+                t,
+                float(p[0]),
+                float(p[1]),
+                None,
+                f"the contour crosses itself on segment {i} at ({p[0]:.6g}, {p[1]:.6g}): it "
+                "has no one inside and outside, so it is not offset; remove the crossing first",
+            )
+        )
+    return out
+
+
+def _inaccurate(cub, seg, t0, t1, err, tolerance: float, whole: float) -> list[OffsetProblem]:
+    """One ``offset-inaccurate`` problem per segment whose deepest pieces miss the fit."""
+    out: list[OffsetProblem] = []
+    miss = ~(err <= tolerance)  # NaN (a failed fit) counts as missing
+    for i in np.unique(seg[miss]):
+        rows = np.nonzero(miss & (seg == i))[0]
+        k = rows[int(np.argmax(err[rows]))]
+        tm = 0.5 * float(t0[k] + t1[k])
+        p = _point(cub[i], tm)
+        worst = float(err[k])
+        out.append(
+            OffsetProblem(
+                "offset-inaccurate",
+                int(i),
+                tm,
+                float(p[0]),
+                float(p[1]),
+                None,
+                f"after {_MAX_FIT_DEPTH} halvings the offset of segment {i} still misses the "
+                f"exact offset by up to {worst + tolerance:.4g} (fit {worst:.4g} plus "
+                f"flattening {tolerance:.4g}; tolerance {whole:.4g}): check the result there",
+                worst + tolerance,
+            )
+        )
+    return out
 
 
 def _point(c: FloatArray, t: float) -> FloatArray:

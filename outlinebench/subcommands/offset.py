@@ -9,7 +9,10 @@ turning away from the tool get round joins; loops are cut away
 (:func:`outlinebench.geometry.offset_contour`). The places where the tool cannot fit are
 reported as findings: ``tool-does-not-fit`` (a bend toward the tool on a radius smaller than
 |d|: warning; a sharp corner toward the tool, which the tool rounds to radius |d|: info) and
-``vanishes`` (a part or the whole contour narrower than the tool: error). ``--json`` prints the
+``vanishes`` (a part or the whole contour narrower than the tool: error). A contour that
+crosses itself is not offset and is reported as ``self-intersecting`` (error); a fit that still
+misses the tolerance after the deepest halving is ``offset-inaccurate`` (warning, the value is
+the measured distance from the exact offset). ``--json`` prints the
 offset contours as polylines (``{"closed", "points"}``) with the findings; ``-o OUT.svg``
 writes the polylines as a cut file, atomically, with the cutting caution. Exit code 0 when no
 finding of warning level or worse, 1 otherwise, 2 for unreadable input.
@@ -116,7 +119,7 @@ def run(args: argparse.Namespace) -> int:
                 }
             )
         for p in res.problems:
-            if p.kind == "vanishes":
+            if p.kind in ("vanishes", "self-intersecting"):
                 severity = ERROR
             elif p.radius == 0.0:
                 severity = INFO
@@ -133,7 +136,13 @@ def run(args: argparse.Namespace) -> int:
                     t=p.t,
                     x=p.x * f,
                     y=p.y * f,
-                    value=None if p.radius is None else p.radius * f,
+                    value=(
+                        p.error * f
+                        if p.error is not None
+                        else None
+                        if p.radius is None
+                        else p.radius * f
+                    ),
                     unit=args.units,
                     message=p.message,
                     limit=abs(args.distance),

@@ -241,3 +241,50 @@ def test_random_simple_outlines_offset_to_distance_d():
             assert np.max(np.abs(dist - abs(d))) <= eps + 1e-6, (trial, d)
         checked += 1
     assert checked >= 20
+
+
+def test_self_intersecting_contours_are_reported_not_offset():
+    # A figure eight of lines crosses itself at (5, 5) (closed form: the diagonals of the
+    # 10 × 10 square meet at its centre); a cubic with crossed handles (0,0),(150,100),
+    # (−50,100),(100,0) has a loop whose double point shapely finds on a dense `bezier`
+    # sampling (reference libraries).
+    eight = [[[0, 0], [10, 10]], [[10, 10], [10, 0]], [[10, 0], [0, 10]], [[0, 10], [0, 0]]]
+    res = offset_contour(eight, True, 1.0, 0.01)
+    assert res.contours == []
+    (p,) = res.problems
+    assert p.kind == "self-intersecting" and (p.x, p.y) == pytest.approx((5, 5), abs=1e-9)
+
+    loop = np.array([[0, 0], [150, 100], [-50, 100], [100, 0]], float)
+    dense = bezier.Curve.from_nodes(loop.T).evaluate_multi(np.linspace(0, 1, 20001)).T
+    noded = shapely.unary_union(shapely.LineString(dense))
+    ends = np.vstack([np.asarray(g.coords)[[0, -1]] for g in noded.geoms])
+    inner = [q for q in ends if not (np.allclose(q, loop[0]) or np.allclose(q, loop[3]))]
+    res = offset_contour([loop], False, 1.0, 0.01)
+    assert res.contours == []
+    (p,) = res.problems
+    assert p.kind == "self-intersecting"
+    assert (p.x, p.y) == pytest.approx(tuple(inner[0]), abs=1e-3)
+
+
+def test_simple_contours_touching_only_at_their_joins_are_offset():
+    # A square with a segment shrunk to a point at a corner (common practice, no source:
+    # editors leave such segments); its joins touch but nothing crosses.
+    sq = [[[0, 0], [10, 0]], [[10, 0], [10, 0]], [[10, 0], [10, 10]], [[10, 10], [0, 10]]]
+    sq.append([[0, 10], [0, 0]])
+    res = offset_contour(sq, True, 1.0, 0.01)
+    assert all(p.kind != "self-intersecting" for p in res.problems)
+    assert res.contours
+
+
+def test_a_fit_still_missing_after_the_deepest_halving_is_reported(monkeypatch):
+    # With no halving allowed one cubic cannot follow the offset of an S-wave within 1e-4
+    # (measured by the module against the exact offset, common practice, no source); the
+    # miss must come back as a finding with the measured error, never silently.
+    import outlinebench.geometry.offset as off
+
+    monkeypatch.setattr(off, "_MAX_FIT_DEPTH", 0)
+    wave = [[[0, 0], [10, 30], [20, -30], [30, 0]]]
+    res = off.offset_contour(wave, False, 4.0, 1e-4)
+    bad = [p for p in res.problems if p.kind == "offset-inaccurate"]
+    assert bad and all(p.error > 1e-4 for p in bad)
+    assert "0 halvings" in bad[0].message
