@@ -396,7 +396,12 @@ def _lex_general(d: str) -> _Tokens:
         j = int(np.searchsorted(starts, g, side="right")) - 1
         k = g - starts[j]
         base, args = spans[j]
-        pos = base + [m.start() for m in _NUM_RE.finditer(args)][k]
+        if _ARITY[commands[j].upper()] == 7:
+            arc_starts: list[int] = []
+            _lex_arc_args(d, args, base, [], arc_starts)
+            pos = base + arc_starts[k]
+        else:
+            pos = base + [m.start() for m in _NUM_RE.finditer(args)][k]
         token = _token_at(d, pos)
         error = SvgPathError(f"number out of range at offset {pos}, found {token!r}", pos, token)
         arity = _ARITY[commands[j].upper()]
@@ -415,8 +420,11 @@ def _lex_general(d: str) -> _Tokens:
     )
 
 
-def _lex_arc_args(d: str, args: str, base: int, out: list[str]) -> SvgPathError | None:
-    """Parameter groups of an arc command (flags are single characters)."""
+def _lex_arc_args(
+    d: str, args: str, base: int, out: list[str], starts: list[int] | None = None
+) -> SvgPathError | None:
+    """Parameter groups of an arc command (flags are single characters); ``starts`` gets
+    each parameter's offset in ``args`` when given."""
     pos = _SKIP_WSP.match(args).end()
     n = len(args)
     while True:
@@ -429,6 +437,8 @@ def _lex_arc_args(d: str, args: str, base: int, out: list[str]) -> SvgPathError 
                 what = "an arc flag (0 or 1)" if j in (3, 4) else "a number"
                 return _error(d, base + pos, what)
             group.append(m.group())
+            if starts is not None:
+                starts.append(m.start())
             pos = _SKIP_WSP.match(args, m.end()).end()
             if pos < n and args[pos] == ",":
                 pos = _SKIP_WSP.match(args, pos + 1).end()

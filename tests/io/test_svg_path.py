@@ -215,6 +215,19 @@ def test_a_transform_that_overflows_the_coordinates_is_an_error():
     assert [s.tolist() for s in res.contours[0].segments] == [[[0, 0], [1e300, 1e300]]]
 
 
+@pytest.mark.parametrize(
+    "d", ["M0 0 L1 1 A5 5 0 0110 1e999", "M0 0 L1 1 A5 5 0 0 1 2 2 5 5 0 1010 1e999 L3 3"]
+)
+def test_overflowing_number_after_packed_arc_flags_is_found(d):
+    # Arc flags are single characters (SVG 2 §9.3.8 grammar), so "0110" is two flags and a
+    # 10; the overflow's offset must count them that way (it used to raise an IndexError).
+    res = read_path_data(d)
+    offset = d.index("1e999")
+    assert res.error is not None and res.error.offset == offset
+    assert str(res.error) == f"number out of range at offset {offset}, found '1e999'"
+    assert sum(len(c.segments) for c in res.contours) == 1 + ("2 2" in d)
+
+
 def test_message_names_what_was_expected():
     # Wording pinned by the project style guide ("expected a number at offset 17, found 'x'").
     with pytest.raises(SvgPathError, match=r"^expected a number at offset 17, found 'x'$"):
