@@ -37,7 +37,12 @@ from outlinebench.subcommands._common import (
     unit_factor,
     write_json,
 )
-from outlinebench.subcommands.flatten import CUT_CAUTION_TEXT, cut_file_bytes, write_atomic
+from outlinebench.subcommands.flatten import (
+    CUT_CAUTION_TEXT,
+    cut_file_bytes,
+    output_decimals,
+    write_atomic,
+)
 
 __all__ = ["NAME", "HELP", "add_arguments", "run"]
 
@@ -97,7 +102,13 @@ def run(args: argparse.Namespace) -> int:
         print(f"outlinebench: {args.file}: {note}", file=sys.stderr)
     f = unit_factor(doc, args.units)
     d_user = args.distance / f
-    tol_user = args.tolerance / f
+    # written coordinates are rounded (JSON in --units, the cut file in mm; see
+    # outlinebench.subcommands.flatten): the offset is computed within the tolerance less
+    # that rounding, so the written polylines stay within the tolerance
+    k_json = output_decimals(args.tolerance)
+    k_mm = output_decimals(args.tolerance / f * doc.mm_per_unit)
+    rounding = max(10.0**-k_json / f, 10.0**-k_mm / doc.mm_per_unit)
+    tol_user = args.tolerance / f - rounding
     contours: list[dict[str, Any]] = []
     findings: list[Finding] = []
     holes: dict[tuple[int, int], bool] = {}
@@ -152,10 +163,15 @@ def run(args: argparse.Namespace) -> int:
         comment = (
             f"Offset of {Path(args.file).name} by {args.distance:g} {args.units} with "
             f"tolerance {args.tolerance:g} {args.units}, by outlinebench; "
-            f"{sum(is_problem(x) for x in findings)} places where the tool does not fit."
+            f"{sum(is_problem(x) for x in findings)} places where the tool does not fit; "
+            f"coordinates rounded to {10.0**-k_mm:.0e} mm (included in the tolerance)."
         )
         data = cut_file_bytes(
-            doc, [c["points"] for c in contours], [c["closed"] for c in contours], comment
+            doc,
+            [c["points"] for c in contours],
+            [c["closed"] for c in contours],
+            comment,
+            decimals=k_mm,
         )
         write_atomic(args.output, data)
     if args.json:
@@ -165,9 +181,11 @@ def run(args: argparse.Namespace) -> int:
                 "units": args.units,
                 "distance": args.distance,
                 "tolerance": args.tolerance,
+                "resolution": 10.0**-k_json,
                 "caution": CUT_CAUTION_TEXT,
                 "contours": [
-                    {**c, "points": (np.asarray(c["points"]) * f).tolist()} for c in contours
+                    {**c, "points": np.round(np.asarray(c["points"]) * f, k_json).tolist()}
+                    for c in contours
                 ],
                 "findings": [x.to_dict() for x in findings],
             }

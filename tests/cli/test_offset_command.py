@@ -87,3 +87,36 @@ def test_holes_move_the_other_way_so_the_material_grows(tmp_path):
             assert np.ptp(rad) <= 0.02 + 20 * 3e-4
             got.append(float(np.mean(rad)))
         assert sorted(got, reverse=True) == pytest.approx(radii, abs=0.02)
+
+
+def test_self_intersecting_contour_is_an_error_finding_and_not_offset(tmp_path):
+    # A figure eight crossing itself at (5, 5) (closed form: the diagonals of a 10 × 10
+    # square meet at its centre), invented for this test.
+    src = tmp_path / "eight.svg"
+    src.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg" width="20mm" height="20mm" '
+        'viewBox="0 0 20 20"><path d="M 0 0 L 10 10 L 10 0 L 0 10 Z"/></svg>'
+    )
+    res = run("offset", src, "--distance", "1", "--json")
+    assert res.returncode == 1, res.stderr
+    data = json.loads(res.stdout)
+    assert data["contours"] == []
+    (f,) = data["findings"]
+    assert f["kind"] == "self-intersecting" and f["severity"] == "error"
+    assert (f["x"], f["y"]) == pytest.approx((5, 5), abs=1e-9)
+
+
+def test_written_offset_coordinates_are_rounded(tmp_path):
+    # Resolution rule of outlinebench.subcommands.flatten: 10^-k ≤ min(1e-6, ε/1000)
+    # (project convention, no source); the circle of radius 5 grown by 3 is still within
+    # ε + 5·3e-4 of radius 8 (closed form r + d; cubic circle error, Dokken et al. 1990).
+    src = tmp_path / "slot.svg"
+    src.write_text(SLOT)
+    out = tmp_path / "off.svg"
+    res = run("offset", src, "--distance", "3", "--tolerance", "0.01", "--json", "-o", out)
+    data = json.loads(res.stdout)
+    assert data["resolution"] == 1e-6
+    assert "coordinates rounded to 1e-06 mm" in out.read_text()
+    pts = np.array([c for c in data["contours"] if c["contour"] == 1][0]["points"])
+    assert np.all(np.round(pts, 6) == pts)
+    assert np.max(np.abs(np.hypot(pts[:, 0] - 50, pts[:, 1] - 10) - 8)) <= 0.01 + 5 * 3e-4
