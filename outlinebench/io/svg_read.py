@@ -82,6 +82,7 @@ _JOIN_CHARS = {"s": "smooth", "c": "corner", "-": None}
 _JOIN_LETTER = {"smooth": "s", "corner": "c", None: "-"}
 _STYLE_RE = re.compile(r"(?:^|;)\s*(display|visibility)\s*:\s*([A-Za-z-]+)")
 _POINTS_RE = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?")
+_TRAILING_DOT = re.compile(r"\.(?:$|[eE])")  # "23." or "1.e1": SVG 1.1 only
 _POINTS_OK = re.compile(
     r"[ \t\r\n\f]*+(?:(?>[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?)"
     r"[ \t\r\n\f]*+(?:,[ \t\r\n\f]*+)?+)*+"
@@ -591,6 +592,9 @@ class _Reader:
         elif bad is None and len(found) % 2:
             bad = (len(text), "expected a number")
         found = found[: len(found) - len(found) % 2]
+        dots = sum(1 for _, v in found if _TRAILING_DOT.search(v))
+        if dots:
+            self.count("trailing_dot", describe(el, index), dots)
         pairs = [(found[i][0], f"{found[i][1]} {found[i + 1][1]}") for i in range(0, len(found), 2)]
         contours: list[Contour] = []
         if len(pairs) >= 2:

@@ -208,6 +208,15 @@ def test_auto_sizes_read_like_missing_ones():
     ]
 
 
+def test_trailing_dot_numbers_in_points_are_warned_about():
+    # SVG 1.1's number grammar allows "23." (digits then a dot), SVG 2's does not; the issue
+    # asks for a warning, as for path data.
+    res = read_svg(svg('<polygon points="0,0 23.,5 1.e1,0"/>'))
+    (note,) = [n for n in res.notes if n.kind == "trailing_dot"]
+    assert note.level == "warning" and note.count == 2
+    assert res.document.outlines[0].contours[0].segments[1].tolist() == [[23, 5], [10, 0]]
+
+
 # -- basic shapes (SVG 2 §10.2-10.7, equivalent paths) -------------------------------------
 def _all_points(outline):
     return np.concatenate([s for c in outline.contours for s in c.segments])
