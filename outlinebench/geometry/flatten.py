@@ -10,6 +10,8 @@ Two flatteners are provided:
 * :func:`flatten_contours` / :func:`flatten_contour` — few chords: chord parameters placed by
   equalising ∫ sqrt(|κ|) ds, then every chord's deviation *verified* and the failing chords
   split. The verification is the guarantee.
+* :func:`flatten_contours_bounded` — the same polylines with each one's proven deviation
+  bound (the largest bound that admitted one of its chords).
 * :func:`flatten_uniform_wang` — uniform parameter steps whose count comes from Wang's
   formula; guaranteed by that formula, many more chords; the speed reference.
 
