@@ -543,8 +543,10 @@ def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> No
                 )
                 exact = False
         if not _contours_match(expect, have.contours, exact):
+            name = f'id "{want.element_id}"' if want.element_id else f"#{k + 1}"
             raise SvgWriteError(
-                f"{where}: save check failed: outline {k} does not read back as written"
+                f"{where}: save check failed: outline {name} does not read back as written; "
+                "the file was not changed"
             )
 
 

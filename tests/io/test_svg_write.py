@@ -330,6 +330,31 @@ def test_failed_write_leaves_the_old_file(tmp_path, monkeypatch):
     assert documents_equal(read_svg(target).document, read_svg(svg_bytes(doc)).document)
 
 
+def test_a_serialisation_that_does_not_read_back_is_refused_and_the_file_kept(
+    tmp_path, monkeypatch
+):
+    # The issue: "serialise fully, re-read the result as a check". A writer fault (here: path
+    # data that loses its last segment) must stop the save before the file is touched, and
+    # name the outline as the reader does (id, or 1-based position).
+    target = tmp_path / "bracket.svg"
+    target.write_bytes((DATA / "kestrel_bracket.svg").read_bytes())
+    before = target.read_bytes()
+    doc = _edited(target)
+    real = svg_write_module.format_path_data
+
+    def lossy(contours):
+        c = contours[0]
+        return real([Contour(c.segments[:-1], False)] + list(contours[1:]))
+
+    monkeypatch.setattr(svg_write_module, "format_path_data", lossy)
+    name = doc.outlines[0].element_id
+    where = f'id "{name}"' if name else "#1"
+    with pytest.raises(SvgWriteError, match=f"save check failed: outline {where} does not"):
+        write_svg(doc, target)
+    assert target.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["bracket.svg"]
+
+
 @pytest.mark.skipif(os.name != "posix", reason="POSIX permission bits")
 def test_read_only_target_is_refused(tmp_path):
     target = tmp_path / "locked.svg"
