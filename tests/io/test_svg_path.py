@@ -367,7 +367,37 @@ def test_random_data_with_arcs_has_svgpathtools_length(d):
     assert length(parse_path_data(d)) == pytest.approx(ref, rel=1e-6, abs=1e-4)
 
 
-_junk = st.text(alphabet="MmLlHhCcSsQqTtAaZzVv0123456789.,-+eE \t\n x_\u00a0\uff11", max_size=40)
+_junk_chars = st.text(
+    alphabet="MmLlHhCcSsQqTtAaZzVv0123456789.,-+eE \t\n x_\u00a0\uff11", max_size=40
+)
+# Whole tokens random characters rarely make: numbers at and past the edge of a double
+# (overflow, subnormals), packed arc flags, and arcs with extreme radii.
+_junk_tokens = st.lists(
+    st.sampled_from(
+        [
+            "1e999",
+            "1e308",
+            "-1.7e308",
+            "4e-320",
+            "1e-300",
+            "0110",
+            "A1 1 0 ",
+            "a1e-300 1 0 ",
+            "A1e308 1e308 0 1 1 ",
+            "l",
+            "c",
+            "s",
+            "t",
+            "z",
+            " ",
+            ",",
+            "5",
+            "23.",
+        ]
+    ),
+    max_size=16,
+).map("".join)
+_junk = st.one_of(_junk_chars, _junk_tokens.map(lambda t: "M0 0" + t))
 
 
 @given(_junk)
