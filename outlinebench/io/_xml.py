@@ -42,8 +42,9 @@ class XmlSource:
         The file's bytes as read.
     root : xml.etree.ElementTree.Element
     spans : dict
-        ``id(element) -> [start_tag_offset, end_tag_offset]`` byte offsets (the end offset
-        equals the start offset for an empty-element tag ``<x/>``).
+        ``id(element) -> [start_tag_offset, end_tag_offset]`` byte offsets; for an
+        empty-element tag ``<x/>`` the end offset is where that tag ends (which can be where
+        the parent's end tag begins), so tell the two kinds apart by the start tag's ``/>``.
     encoding : str
         Declared or detected encoding (the writer splices only ASCII-compatible ones).
     """

@@ -235,8 +235,8 @@ class _Splicer:
         pieces.append(tag[pos:])
         self.edits.append((start, end, b"".join(pieces)))
         if rename_to:
-            s, e = self.src.xml.spans[id(el)]
-            if e != s and self.data[e : e + 2] == b"</":
+            e = self.src.xml.spans[id(el)][1]
+            if self.has_end_tag(el):
                 m = _END_TAG_RE.match(self.data, e)
                 if m is None:  # pragma: no cover - expat guarantees an end tag here
                     raise SvgWriteError("cannot find an end tag while saving")
@@ -246,14 +246,24 @@ class _Splicer:
     def fill(self, el: Any, content: bytes, name: str) -> None:
         """After :meth:`set_attrs` renamed ``el`` to ``name``: add ``content`` as its last
         children, opening an empty-element tag ``<x/>`` into ``<x>…</x>``."""
-        s, e = self.src.xml.spans[id(el)]
-        if e != s and self.data[e : e + 2] == b"</":
+        if self.has_end_tag(el):
+            e = self.src.xml.spans[id(el)][1]
             self.edits.append((e, e, content))
             return
         start, end, tag = self.edits.pop()
         raw = _TAG_NAME_RE.match(tag).group(1)
         opened = tag[:-2].rstrip() + b">" if tag.endswith(b"/>") else tag
         self.edits.append((start, end, opened + content + b"</" + raw + b">"))
+
+    def has_end_tag(self, el: Any) -> bool:
+        """Whether the element is written ``<x ...>…</x>`` rather than ``<x .../>``.
+
+        Decided by the start tag itself: for an empty-element tag the parser's end position
+        is where the tag ends, which may be where the parent's end tag begins.
+        """
+        start = self.src.xml.spans[id(el)][0]
+        end = self._tag_end(start)
+        return self.data[end - 2 : end] != b"/>"
 
     def raw_attr_names(self, el: Any) -> list[str]:
         """Attribute names as written in the element's start tag (with their prefixes)."""
@@ -286,7 +296,7 @@ class _Splicer:
     def append(self, text: bytes) -> None:
         root = self.src.xml.root
         s, e = self.src.xml.spans[id(root)]
-        if self.data[e : e + 2] == b"</":
+        if self.has_end_tag(root):
             self.edits.append((e, e, text))
         else:  # <svg .../>: open it up
             end = self._tag_end(s)

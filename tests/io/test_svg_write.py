@@ -152,6 +152,24 @@ def test_editing_an_element_that_a_use_repeats_saves_and_the_instance_follows(bo
     ]
 
 
+@pytest.mark.parametrize(
+    "shape",
+    ['<rect width="4" height="2"/>', '<circle r="2"/>', '<line x2="3" y2="1"/>'],
+)
+def test_an_empty_element_shape_right_before_its_parents_end_tag_becomes_a_path(shape):
+    # Minified files write "<g><rect .../></g>"; the parser's end position of an empty
+    # element is the end of its tag, where the parent's "</g>" begins. That end tag is the
+    # parent's, not the shape's, and must stay "</g>" (XML 1.0 §3.1: an empty-element tag has
+    # no end tag). The edit used to rename it and fail the save check.
+    data = f'<svg xmlns="http://www.w3.org/2000/svg"><g id="layer">{shape}</g></svg>'.encode()
+    doc = read_svg(data).document
+    doc = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+    out = svg_bytes(doc)
+    assert out.endswith(b"/></g></svg>")
+    (group,) = ET.fromstring(out)
+    assert group.get("id") == "layer" and [e.tag.rpartition("}")[2] for e in group] == ["path"]
+
+
 def test_join_intent_round_trip_and_namespace_declaration():
     data = b'<svg xmlns="http://www.w3.org/2000/svg"><path d="M0 0 L1 0 L1 1 L0 1 Z"/></svg>'
     doc = read_svg(data).document
