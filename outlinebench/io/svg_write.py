@@ -31,6 +31,7 @@ from outlinebench.io.svg_read import (
     JOINS_NS,
     JOINS_PREFIX,
     SVG_NS,
+    XLINK_NS,
     ElementRef,
     SvgSource,
     read_svg,
@@ -412,6 +413,64 @@ def _fork_use(sp: _Splicer, use: Any, outlines: Sequence[Outline]) -> None:
     sp.fill(use, "".join(parts).encode(), "g")
 
 
+# Containers whose content is not drawn where it stands (checked no further for a fork).
+_UNDRAWN = {
+    "defs", "title", "desc", "metadata", "style", "script", "clipPath", "mask", "marker",
+    "pattern", "linearGradient", "radialGradient", "filter",
+}  # fmt: skip
+_GEOMETRY_TAGS = {"path", "rect", "circle", "ellipse", "line", "polyline", "polygon"}
+
+
+def _refuse_lossy_fork(src: SvgSource, members: Sequence[Outline]) -> None:
+    """Refuse to fork a use whose symbol or group shows more than its outlines.
+
+    Forking writes outlines only; text, images or shapes that are not outlines (hidden ones)
+    inside the referenced content would vanish from that instance.
+
+    Raises
+    ------
+    SvgWriteError
+        Naming the use (id or line) and what it shows.
+    """
+    use = members[0].source.use
+    href = use.get(f"{{{XLINK_NS}}}href") or use.get("href") or ""
+    target = next(
+        (e for e in src.xml.root.iter() if isinstance(e.tag, str) and e.get("id") == href[1:]),
+        None,
+    )
+    if target is None:
+        return
+    drawn = {id(o.source.element) for o in members}
+    found: list[str] = []
+    stack = [target]
+    while stack:
+        el = stack.pop()
+        name = _local_name(el.tag) if isinstance(el.tag, str) else ""
+        if not name or name in _UNDRAWN:
+            continue
+        if name in ("text", "image", "foreignObject"):
+            found.append(f"<{name}>")
+            continue
+        if name in _GEOMETRY_TAGS and id(el) not in drawn:
+            found.append(f"a hidden <{name}>")
+            continue
+        stack.extend(el)
+    if found:
+        where = src.path or "<bytes>"
+        eid = use.get("id")
+        if eid:
+            label = f'<use id="{eid}">'
+        else:
+            line = src.xml.data.count(b"\n", 0, src.xml.spans[id(use)][0]) + 1
+            label = f"<use> at line {line}"
+        shown = ", ".join(sorted(set(found)))
+        raise SvgWriteError(
+            f"{where}: {label} also holds {shown} besides the edited outlines; saving the edit "
+            "would drop it from that instance, so nothing was saved (undo the edit of this "
+            "instance)"
+        )
+
+
 def _local_name(tag: str) -> str:
     return tag.rpartition("}")[2]
 
@@ -476,6 +535,7 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
         else:
             sp.set_attrs(ref.element, values, remove=_SHAPE_ATTRS.get(tag, ()), rename_to="path")
     for members in forked.values():
+        _refuse_lossy_fork(src, members)
         _fork_use(sp, members[0].source.use, members)
     if new:
         parts = []

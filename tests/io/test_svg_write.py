@@ -321,6 +321,20 @@ def test_edited_instance_of_a_symbol_becomes_a_group_of_paths(closing):
                 np.testing.assert_allclose(sh, sw, rtol=0, atol=1e-12)
 
 
+def test_an_instance_showing_text_is_not_forked_silently():
+    # Forking writes only outlines; text (or an image, or a hidden shape) inside the symbol
+    # would vanish from that instance, so the save is refused with a message that names the
+    # use and what it shows (the issue: never silently drop content).
+    data = (
+        b'<svg xmlns="http://www.w3.org/2000/svg"><symbol id="tag"><rect width="4" height="2"/>'
+        b'<text>HL</text></symbol>\n<use href="#tag" x="3"/></svg>'
+    )
+    doc = read_svg(data).document
+    edited = doc.replace_contour(0, 0, moved(doc.outlines[0].contours[0]))
+    with pytest.raises(SvgWriteError, match=r"<use> at line 2 .*text"):
+        svg_bytes(edited)
+
+
 # -- atomic saving ------------------------------------------------------------------------
 def _edited(path):
     doc = read_svg(path).document
