@@ -513,10 +513,10 @@ def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[Off
         end_i, start_j = ta > 1 - 1e-9, tb < 1e-9
         if end_i and start_j and bool(np.all(point_like[i + 1 : j])):
             return True
-        # closed: the end of j runs into the start of i through the last segments
+        # the end of the last segment meets the start of the first: the closing join (an open
+        # contour drawn back to its start touches itself there only)
         return (
-            closed
-            and ta < 1e-9
+            ta < 1e-9
             and tb > 1 - 1e-9
             and bool(np.all(point_like[j + 1 :]))
             and bool(np.all(point_like[:i]))

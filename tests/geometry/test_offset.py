@@ -274,6 +274,10 @@ def test_simple_contours_touching_only_at_their_joins_are_offset():
     res = offset_contour(sq, True, 1.0, 0.01)
     assert all(p.kind != "self-intersecting" for p in res.problems)
     assert res.contours
+    # the same square left open but drawn back to its start only touches itself there
+    res = offset_contour(sq, False, 1.0, 0.01)
+    assert all(p.kind != "self-intersecting" for p in res.problems)
+    assert res.contours
 
 
 def test_a_fit_still_missing_after_the_deepest_halving_is_reported(monkeypatch):
