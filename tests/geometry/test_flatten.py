@@ -228,3 +228,21 @@ def test_reported_bounds_cover_the_measured_deviation(eps):
         assert measured - SLACK <= b <= eps
         # the bound is tight (exact closed form for chords that do not overshoot)
         assert b <= measured + 0.05 * eps
+
+
+def test_polyline_deviation_of_a_coarse_polyline_from_elsewhere():
+    # A polyline made by other software: svgpathtools' points at 7 uniform parameters of a
+    # cubic (reference library), shifted 0.3 off the curve in places. Measured against
+    # shapely's densified Hausdorff distance to `bezier` samples (reference libraries).
+    from svgpathtools import CubicBezier
+
+    c = [[0, 0], [30, 80], [70, -40], [100, 20]]
+    bz = CubicBezier(*(complex(x, y) for x, y in c))
+    poly = np.array([[p.real, p.imag] for p in (bz.point(k / 6) for k in range(7))])
+    poly[2:4, 1] += 0.3
+    dev = polyline_deviation([c], poly, tolerance=0.05)
+    assert dev.accuracy <= 0.05 * 1e-3 / 2
+    ref = hausdorff([c], poly, eps=0.05)
+    # the reference samples the polyline every ε/4, so it may miss up to ε/8 (1-Lipschitz)
+    assert dev.distance == pytest.approx(ref, abs=dev.accuracy + 0.05 / 8 + SLACK)
+    assert dev.distance >= ref - dev.accuracy - SLACK
