@@ -77,7 +77,7 @@ class OffsetProblem:
         ``"tool-does-not-fit"`` — the outline bends toward the tool side on a radius smaller
         than the tool radius |d|, or has a sharp corner there (radius 0); the tool rounds it
         off. ``"vanishes"`` — a part of the outline (or all of it) has no offset at all: the
-        shape is narrower there than the tool. ``"self-intersecting"`` — the contour crosses
+        shape is narrower there than the tool. ``"self-intersection"`` — the contour crosses
         itself there, so it has no one inside and outside; no offset is made.
         ``"offset-inaccurate"`` — a fitted piece still misses the exact offset by more than
         the tolerance after the deepest halving; ``error`` holds the measured distance.
@@ -330,7 +330,7 @@ def offset_contour(
        corner, radial error ≤ ε) is added; at corners turning toward it the two offsets are
        joined through the corner point and a sharp corner is reported.
     0. A contour that crosses itself has no one inside and outside: it is reported as
-       ``self-intersecting`` (each crossing, found on the flattening with shapely and confirmed
+       ``self-intersection`` (each crossing, found on the flattening with shapely and confirmed
        on the segments by :func:`outlinebench.geometry.intersect.intersections`) and not
        offset.
     2a. A piece still missing ε/2 after :data:`_MAX_FIT_DEPTH` halvings is kept and reported
@@ -539,7 +539,7 @@ def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[Off
             continue
         out.append(
             OffsetProblem(
-                "self-intersecting",
+                "self-intersection",
                 i,
                 t,
                 float(p[0]),

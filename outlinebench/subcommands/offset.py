@@ -10,7 +10,7 @@ turning away from the tool get round joins; loops are cut away
 reported as findings: ``tool-does-not-fit`` (a bend toward the tool on a radius smaller than
 |d|: warning; a sharp corner toward the tool, which the tool rounds to radius |d|: info) and
 ``vanishes`` (a part or the whole contour narrower than the tool: error). A contour that
-crosses itself is not offset and is reported as ``self-intersecting`` (error); a fit that still
+crosses itself is not offset and is reported as ``self-intersection`` (error); a fit that still
 misses the tolerance after the deepest halving is ``offset-inaccurate`` (warning, the value is
 the measured distance from the exact offset). ``--json`` prints the
 offset contours as polylines (``{"closed", "points"}``) with the findings; ``-o OUT.svg``
@@ -130,7 +130,7 @@ def run(args: argparse.Namespace) -> int:
                 }
             )
         for p in res.problems:
-            if p.kind in ("vanishes", "self-intersecting"):
+            if p.kind in ("vanishes", "self-intersection"):
                 severity = ERROR
             elif p.radius == 0.0:
                 severity = INFO

@@ -102,7 +102,7 @@ def test_self_intersecting_contour_is_an_error_finding_and_not_offset(tmp_path):
     data = json.loads(res.stdout)
     assert data["contours"] == []
     (f,) = data["findings"]
-    assert f["kind"] == "self-intersecting" and f["severity"] == "error"
+    assert f["kind"] == "self-intersection" and f["severity"] == "error"
     assert (f["x"], f["y"]) == pytest.approx((5, 5), abs=1e-9)
 
 

@@ -252,7 +252,7 @@ def test_self_intersecting_contours_are_reported_not_offset():
     res = offset_contour(eight, True, 1.0, 0.01)
     assert res.contours == []
     (p,) = res.problems
-    assert p.kind == "self-intersecting" and (p.x, p.y) == pytest.approx((5, 5), abs=1e-9)
+    assert p.kind == "self-intersection" and (p.x, p.y) == pytest.approx((5, 5), abs=1e-9)
 
     loop = np.array([[0, 0], [150, 100], [-50, 100], [100, 0]], float)
     dense = bezier.Curve.from_nodes(loop.T).evaluate_multi(np.linspace(0, 1, 20001)).T
@@ -262,7 +262,7 @@ def test_self_intersecting_contours_are_reported_not_offset():
     res = offset_contour([loop], False, 1.0, 0.01)
     assert res.contours == []
     (p,) = res.problems
-    assert p.kind == "self-intersecting"
+    assert p.kind == "self-intersection"
     assert (p.x, p.y) == pytest.approx(tuple(inner[0]), abs=1e-3)
 
 
@@ -272,11 +272,11 @@ def test_simple_contours_touching_only_at_their_joins_are_offset():
     sq = [[[0, 0], [10, 0]], [[10, 0], [10, 0]], [[10, 0], [10, 10]], [[10, 10], [0, 10]]]
     sq.append([[0, 10], [0, 0]])
     res = offset_contour(sq, True, 1.0, 0.01)
-    assert all(p.kind != "self-intersecting" for p in res.problems)
+    assert all(p.kind != "self-intersection" for p in res.problems)
     assert res.contours
     # the same square left open but drawn back to its start only touches itself there
     res = offset_contour(sq, False, 1.0, 0.01)
-    assert all(p.kind != "self-intersecting" for p in res.problems)
+    assert all(p.kind != "self-intersection" for p in res.problems)
     assert res.contours
 
 
