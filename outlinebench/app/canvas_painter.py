@@ -12,7 +12,7 @@ from collections.abc import Iterable
 
 import numpy as np
 from PySide6.QtCore import QLineF, QPointF, QRectF, Qt
-from PySide6.QtGui import QBrush, QPainter, QPainterPath, QPen, QPolygonF, QTransform
+from PySide6.QtGui import QBrush, QPainter, QPainterPath, QPen, QPixmap, QPolygonF, QTransform
 
 from outlinebench.app import style
 from outlinebench.app.contour_graphics import ContourGraphics, GraphicsCache, JoinMark
@@ -316,6 +316,96 @@ def paint_outlines(
     return stats
 
 
+# Mark directions are drawn at the nearest of this many angles (a 10-px mark turned by at
+# most half a step, 2.8°, moves its tip by under 0.3 px): each (kind, angle) is painted once
+# into a small pixmap and then copied, ten times faster than painting each shape
+# (benchmarks/bench_editor.py, "zoomed 4×").
+SPRITE_ANGLES = 64
+# Sprites are painted at this many sub-pixel offsets per axis, so a copied mark lies within
+# 1/(2·SPRITE_PHASES) px of where it would be painted.
+SPRITE_PHASES = 2
+
+_sprites: dict[tuple, tuple[QPixmap, float]] = {}
+
+
+def _draw_sprite(sp: QPainter, spec: tuple, x: float, y: float) -> None:
+    """Paint the mark ``spec`` centred on (x, y): ``("handle", colour)`` or
+    ``("mark", kind, stated, angle index, colour)``."""
+    if spec[0] == "handle":
+        sp.setPen(QPen(spec[1], 1.4))
+        sp.setBrush(style.PAPER)
+        sp.drawEllipse(QPointF(x, y), style.HANDLE_RADIUS, style.HANDLE_RADIUS)
+        return
+    _, kind, stated, a, colour = spec
+    ang = a * 2 * math.pi / SPRITE_ANGLES
+    path = QPainterPath()
+    mark_path(path, x, y, JoinMark(kind, stated, (math.cos(ang), math.sin(ang))))
+    if stated:
+        sp.setPen(QPen(colour.darker(130), 1.0))
+        sp.setBrush(colour)
+    else:
+        sp.setPen(QPen(colour, 1.6))
+        sp.setBrush(style.PAPER)
+    sp.drawPath(path)
+
+
+def _sprite(spec: tuple, px: int, py: int, dpr: float, antialias: bool) -> tuple[QPixmap, int]:
+    """The mark ``spec`` painted into a small pixmap with its centre ``(px, py) /
+    SPRITE_PHASES`` logical px right of and below the pixmap's ``(half, half)``; returns
+    the pixmap and ``half``."""
+    key = (
+        spec[:-1],
+        spec[-1].rgba(),
+        px,
+        py,
+        dpr,
+        antialias,
+        style.MARK_SIZE,
+        style.HANDLE_RADIUS,
+        style.PAPER.rgba(),
+    )
+    hit = _sprites.get(key)
+    if hit is not None:
+        return hit
+    # Half the pixmap's side: the shape's reach from its centre (a join mark reaches at most
+    # 1.45 · MARK_SIZE, see mark_path), its pen and a pixel for the antialiased edge.
+    if spec[0] == "handle":
+        half = math.ceil(style.HANDLE_RADIUS + 0.7 + 1.5)
+    else:
+        half = math.ceil(style.MARK_SIZE * 1.45 + 0.8 + 1.5)
+    size = 2 * half + 1
+    pm = QPixmap(int(math.ceil(size * dpr)), int(math.ceil(size * dpr)))
+    pm.setDevicePixelRatio(dpr)
+    pm.fill(Qt.GlobalColor.transparent)
+    sp = QPainter(pm)
+    try:
+        sp.setRenderHint(QPainter.RenderHint.Antialiasing, antialias)
+        _draw_sprite(sp, spec, half + px / SPRITE_PHASES, half + py / SPRITE_PHASES)
+    finally:
+        sp.end()
+    if len(_sprites) > 8192:  # colours or sizes changed many times: start over
+        _sprites.clear()
+    _sprites[key] = (pm, half)
+    return pm, half
+
+
+def _stamp(p: QPainter, spec: tuple, xy: list[tuple[float, float]], dpr: float, aa: bool) -> None:
+    """Copy the sprite of ``spec`` to every logical-px centre in ``xy``."""
+    if not xy:
+        return
+    q = np.floor(np.asarray(xy, dtype=np.float64) * SPRITE_PHASES + 0.5).astype(np.int64)
+    corner = (q // SPRITE_PHASES).tolist()
+    phase = (q % SPRITE_PHASES).tolist()
+    draw_pixmap = p.drawPixmap
+    pixmaps: dict[tuple[int, int], tuple[QPixmap, int]] = {}
+    for (ix, iy), (px, py) in zip(corner, phase, strict=True):
+        hit = pixmaps.get((px, py))
+        if hit is None:
+            hit = pixmaps[(px, py)] = _sprite(spec, px, py, dpr, aa)
+        pm, half = hit
+        draw_pixmap(ix - half, iy - half, pm)
+
+
 def _paint_marks(
     p: QPainter,
     view: ViewTransform,
@@ -323,14 +413,11 @@ def _paint_marks(
     width: float,
     height: float,
 ) -> None:
-    # Each mark and handle is drawn as its own shape: Qt strokes one path of many
-    # overlapping antialiased shapes several times slower than the same shapes one by one
-    # (benchmarks/bench_editor.py, "zoomed 4×").
     lines: dict[str, list[QLineF]] = {"smooth": [], "corner": [], "start": [], "end": []}
-    handles: dict[str, list[QPointF]] = {k: [] for k in lines}
-    filled: dict[str, list[QPainterPath]] = {k: [] for k in lines}
-    hollow: dict[str, list[QPainterPath]] = {k: [] for k in lines}
-    r = style.HANDLE_RADIUS
+    handles: dict[str, list[tuple[float, float]]] = {k: [] for k in lines}
+    # (kind, stated, angle index) -> mark centres on screen
+    marks_at: dict[tuple[str, bool, int], list[tuple[float, float]]] = {}
+    step = 2 * math.pi / SPRITE_ANGLES
     for _oi, _ci, g, scr, inside in in_view:
         if len(g.handle_lines):
             hl = g.handle_lines * view.scale + np.array([view.offset_x, view.offset_y])
@@ -341,29 +428,29 @@ def _paint_marks(
             for i, ((ax, ay), (bx, by)) in zip(shown.tolist(), hl[shown].tolist(), strict=True):
                 kind = kinds[i]
                 lines[kind].append(QLineF(ax, ay, bx, by))
-                handles[kind].append(QPointF(bx, by))
-        for k in np.flatnonzero(inside):
-            mark = g.marks[k]
-            path = QPainterPath()
-            mark_path(path, float(scr[k, 0]), float(scr[k, 1]), mark)
-            (filled if mark.stated else hollow)[mark.kind].append(path)
+                handles[kind].append((bx, by))
+        marks = g.marks
+        ks = np.flatnonzero(inside)
+        for k, xy in zip(ks.tolist(), scr[ks].tolist(), strict=True):
+            mark = marks[k]
+            dx, dy = mark.direction
+            a = round(math.atan2(dy, dx) / step) % SPRITE_ANGLES
+            marks_at.setdefault((mark.kind, mark.stated, a), []).append(xy)
     for kind, colour in style.JOIN_COLOURS.items():
         pen = QPen(colour, 1.0)
         p.setPen(pen)
         p.drawLines(lines[kind])
+    dev = p.device()
+    dpr = dev.devicePixelRatioF() if dev is not None else 1.0
+    aa = bool(p.renderHints() & QPainter.RenderHint.Antialiasing)
+    # Per kind: handles, then stated marks, then inferred (hollow) ones, as painted shapes
+    # were stacked before sprites replaced them.
+    order = sorted(marks_at, key=lambda m: (list(lines).index(m[0]), not m[1], m[2]))
     for kind, colour in style.JOIN_COLOURS.items():
-        p.setPen(QPen(colour, 1.4))
-        p.setBrush(style.PAPER)
-        for c in handles[kind]:
-            p.drawEllipse(c, r, r)
-        p.setPen(QPen(colour.darker(130), 1.0))
-        p.setBrush(colour)
-        for path in filled[kind]:
-            p.drawPath(path)
-        p.setPen(QPen(colour, 1.6))
-        p.setBrush(style.PAPER)
-        for path in hollow[kind]:
-            p.drawPath(path)
+        _stamp(p, ("handle", colour), handles[kind], dpr, aa)
+        for m in order:
+            if m[0] == kind:
+                _stamp(p, ("mark", *m, colour), marks_at[m], dpr, aa)
 
 
 def paint_selection(
