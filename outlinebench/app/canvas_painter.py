@@ -8,14 +8,20 @@ Marks and handles are drawn in screen coordinates so they keep their size at eve
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 
 import numpy as np
 from PySide6.QtCore import QLineF, QPointF, QRectF, Qt
-from PySide6.QtGui import QBrush, QPainter, QPainterPath, QPen, QPixmap, QPolygonF, QTransform
+from PySide6.QtGui import QBrush, QPainter, QPainterPath, QPen, QPolygonF, QTransform
 
 from outlinebench.app import style
-from outlinebench.app.contour_graphics import ContourGraphics, GraphicsCache, JoinMark
+from outlinebench.app.contour_graphics import (
+    MARK_KINDS,
+    ContourGraphics,
+    GraphicsCache,
+    JoinMark,
+)
+from outlinebench.app.sprites import stamp
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
 
@@ -321,89 +327,44 @@ def paint_outlines(
 # into a small pixmap and then copied, ten times faster than painting each shape
 # (benchmarks/bench_editor.py, "zoomed 4×").
 SPRITE_ANGLES = 64
-# Sprites are painted at this many sub-pixel offsets per axis, so a copied mark lies within
-# 1/(2·SPRITE_PHASES) px of where it would be painted.
-SPRITE_PHASES = 2
-
-_sprites: dict[tuple, tuple[QPixmap, float]] = {}
 
 
-def _draw_sprite(sp: QPainter, spec: tuple, x: float, y: float) -> None:
-    """Paint the mark ``spec`` centred on (x, y): ``("handle", colour)`` or
-    ``("mark", kind, stated, angle index, colour)``."""
+def _mark_look(spec: tuple) -> tuple[tuple, Callable[[QPainter, float, float], None], int]:
+    """Sprite key, painting function and reach (see :func:`sprites.stamp`) of
+    ``("handle", colour)`` or ``("mark", kind, stated, angle index, colour)``."""
+    colour = spec[-1]
+    key = (*spec[:-1], colour.rgba(), style.PAPER.rgba(), style.MARK_SIZE, style.HANDLE_RADIUS)
     if spec[0] == "handle":
-        sp.setPen(QPen(spec[1], 1.4))
-        sp.setBrush(style.PAPER)
-        sp.drawEllipse(QPointF(x, y), style.HANDLE_RADIUS, style.HANDLE_RADIUS)
-        return
-    _, kind, stated, a, colour = spec
-    ang = a * 2 * math.pi / SPRITE_ANGLES
-    path = QPainterPath()
-    mark_path(path, x, y, JoinMark(kind, stated, (math.cos(ang), math.sin(ang))))
-    if stated:
-        sp.setPen(QPen(colour.darker(130), 1.0))
-        sp.setBrush(colour)
-    else:
-        sp.setPen(QPen(colour, 1.6))
-        sp.setBrush(style.PAPER)
-    sp.drawPath(path)
+
+        def draw_handle(sp: QPainter, x: float, y: float) -> None:
+            sp.setPen(QPen(colour, 1.4))
+            sp.setBrush(style.PAPER)
+            sp.drawEllipse(QPointF(x, y), style.HANDLE_RADIUS, style.HANDLE_RADIUS)
+
+        return key, draw_handle, math.ceil(style.HANDLE_RADIUS + 0.7 + 1.5)
+    _, kind, stated, a, _ = spec
+
+    def draw_mark(sp: QPainter, x: float, y: float) -> None:
+        ang = a * 2 * math.pi / SPRITE_ANGLES
+        path = QPainterPath()
+        mark_path(path, x, y, JoinMark(kind, stated, (math.cos(ang), math.sin(ang))))
+        if stated:
+            sp.setPen(QPen(colour.darker(130), 1.0))
+            sp.setBrush(colour)
+        else:
+            sp.setPen(QPen(colour, 1.6))
+            sp.setBrush(style.PAPER)
+        sp.drawPath(path)
+
+    # A join mark reaches at most 1.45 · MARK_SIZE from its point (see mark_path), plus its
+    # pen and a pixel for the antialiased edge.
+    return key, draw_mark, math.ceil(style.MARK_SIZE * 1.45 + 0.8 + 1.5)
 
 
-def _sprite(spec: tuple, px: int, py: int, dpr: float, antialias: bool) -> tuple[QPixmap, int]:
-    """The mark ``spec`` painted into a small pixmap with its centre ``(px, py) /
-    SPRITE_PHASES`` logical px right of and below the pixmap's ``(half, half)``; returns
-    the pixmap and ``half``."""
-    key = (
-        spec[:-1],
-        spec[-1].rgba(),
-        px,
-        py,
-        dpr,
-        antialias,
-        style.MARK_SIZE,
-        style.HANDLE_RADIUS,
-        style.PAPER.rgba(),
-    )
-    hit = _sprites.get(key)
-    if hit is not None:
-        return hit
-    # Half the pixmap's side: the shape's reach from its centre (a join mark reaches at most
-    # 1.45 · MARK_SIZE, see mark_path), its pen and a pixel for the antialiased edge.
-    if spec[0] == "handle":
-        half = math.ceil(style.HANDLE_RADIUS + 0.7 + 1.5)
-    else:
-        half = math.ceil(style.MARK_SIZE * 1.45 + 0.8 + 1.5)
-    size = 2 * half + 1
-    pm = QPixmap(int(math.ceil(size * dpr)), int(math.ceil(size * dpr)))
-    pm.setDevicePixelRatio(dpr)
-    pm.fill(Qt.GlobalColor.transparent)
-    sp = QPainter(pm)
-    try:
-        sp.setRenderHint(QPainter.RenderHint.Antialiasing, antialias)
-        _draw_sprite(sp, spec, half + px / SPRITE_PHASES, half + py / SPRITE_PHASES)
-    finally:
-        sp.end()
-    if len(_sprites) > 8192:  # colours or sizes changed many times: start over
-        _sprites.clear()
-    _sprites[key] = (pm, half)
-    return pm, half
-
-
-def _stamp(p: QPainter, spec: tuple, xy: list[tuple[float, float]], dpr: float, aa: bool) -> None:
-    """Copy the sprite of ``spec`` to every logical-px centre in ``xy``."""
-    if not xy:
-        return
-    q = np.floor(np.asarray(xy, dtype=np.float64) * SPRITE_PHASES + 0.5).astype(np.int64)
-    corner = (q // SPRITE_PHASES).tolist()
-    phase = (q % SPRITE_PHASES).tolist()
-    draw_pixmap = p.drawPixmap
-    pixmaps: dict[tuple[int, int], tuple[QPixmap, int]] = {}
-    for (ix, iy), (px, py) in zip(corner, phase, strict=True):
-        hit = pixmaps.get((px, py))
-        if hit is None:
-            hit = pixmaps[(px, py)] = _sprite(spec, px, py, dpr, aa)
-        pm, half = hit
-        draw_pixmap(ix - half, iy - half, pm)
+def _stamp(p: QPainter, spec: tuple, xy: np.ndarray) -> None:
+    if len(xy):
+        key, draw, half = _mark_look(spec)
+        stamp(p, key, draw, half, xy)
 
 
 def _paint_marks(
@@ -413,44 +374,57 @@ def _paint_marks(
     width: float,
     height: float,
 ) -> None:
-    lines: dict[str, list[QLineF]] = {"smooth": [], "corner": [], "start": [], "end": []}
-    handles: dict[str, list[tuple[float, float]]] = {k: [] for k in lines}
-    # (kind, stated, angle index) -> mark centres on screen
-    marks_at: dict[tuple[str, bool, int], list[tuple[float, float]]] = {}
-    step = 2 * math.pi / SPRITE_ANGLES
+    # Gathered as arrays over the contours in view, then drawn per kind and look in batches.
+    hl_parts: list[np.ndarray] = []
+    hcode_parts: list[np.ndarray] = []
+    xy_parts: list[np.ndarray] = []
+    code_parts: list[np.ndarray] = []
+    angle_parts: list[np.ndarray] = []
+    offset = np.array([view.offset_x, view.offset_y])
     for _oi, _ci, g, scr, inside in in_view:
         if len(g.handle_lines):
-            hl = g.handle_lines * view.scale + np.array([view.offset_x, view.offset_y])
+            hl = g.handle_lines * view.scale + offset
             near = (hl[..., 0] >= -20) & (hl[..., 0] <= width + 20)
             near &= (hl[..., 1] >= -20) & (hl[..., 1] <= height + 20)
-            shown = np.flatnonzero(near.any(axis=1))  # either end of the handle line in view
-            kinds = g.handle_kind
-            for i, ((ax, ay), (bx, by)) in zip(shown.tolist(), hl[shown].tolist(), strict=True):
-                kind = kinds[i]
-                lines[kind].append(QLineF(ax, ay, bx, by))
-                handles[kind].append((bx, by))
-        marks = g.marks
-        ks = np.flatnonzero(inside)
-        for k, xy in zip(ks.tolist(), scr[ks].tolist(), strict=True):
-            mark = marks[k]
-            dx, dy = mark.direction
-            a = round(math.atan2(dy, dx) / step) % SPRITE_ANGLES
-            marks_at.setdefault((mark.kind, mark.stated, a), []).append(xy)
-    for kind, colour in style.JOIN_COLOURS.items():
-        pen = QPen(colour, 1.0)
-        p.setPen(pen)
-        p.drawLines(lines[kind])
-    dev = p.device()
-    dpr = dev.devicePixelRatioF() if dev is not None else 1.0
-    aa = bool(p.renderHints() & QPainter.RenderHint.Antialiasing)
-    # Per kind: handles, then stated marks, then inferred (hollow) ones, as painted shapes
-    # were stacked before sprites replaced them.
-    order = sorted(marks_at, key=lambda m: (list(lines).index(m[0]), not m[1], m[2]))
-    for kind, colour in style.JOIN_COLOURS.items():
-        _stamp(p, ("handle", colour), handles[kind], dpr, aa)
-        for m in order:
-            if m[0] == kind:
-                _stamp(p, ("mark", *m, colour), marks_at[m], dpr, aa)
+            shown = near.any(axis=1)  # either end of the handle line in view
+            hl_parts.append(hl[shown])
+            hcode_parts.append(g.handle_code[shown])
+        xy_parts.append(scr[inside])
+        code_parts.append(g.mark_code[inside])
+        angle_parts.append(g.mark_angle[inside])
+    if not xy_parts:
+        return
+    hl = np.concatenate(hl_parts) if hl_parts else np.zeros((0, 2, 2))
+    hcode = np.concatenate(hcode_parts) if hcode_parts else np.zeros(0, dtype=np.intp)
+    xy = np.concatenate(xy_parts)
+    code = np.concatenate(code_parts)
+    step = 2 * math.pi / SPRITE_ANGLES
+    angle = np.round(np.concatenate(angle_parts) / step).astype(np.intp) % SPRITE_ANGLES
+    colours = [style.JOIN_COLOURS[k] for k in MARK_KINDS]
+    for kind, colour in enumerate(colours):
+        rows = hl[hcode == kind].tolist()
+        if rows:
+            p.setPen(QPen(colour, 1.0))
+            p.drawLines([QLineF(ax, ay, bx, by) for (ax, ay), (bx, by) in rows])
+    # Per kind: handles, then stated marks, then inferred (hollow) ones, each batch sorted
+    # by direction.
+    look = code * SPRITE_ANGLES + angle
+    order = np.argsort(look, kind="stable")
+    look_sorted = look[order]
+    cuts = np.flatnonzero(np.diff(look_sorted)) + 1
+    groups = np.split(order, cuts) if len(order) else []
+    by_kind: dict[int, list[tuple[bool, int, np.ndarray]]] = {}
+    for rows in groups:
+        c, a = divmod(int(look[rows[0]]), SPRITE_ANGLES)
+        kind, stated = divmod(c, 2)
+        by_kind.setdefault(kind, []).append((bool(stated), a, rows))
+    for kind, colour in enumerate(colours):
+        handle_rows = hcode == kind
+        if handle_rows.any():
+            _stamp(p, ("handle", colour), hl[handle_rows, 1])
+        batches = sorted(by_kind.get(kind, []), key=lambda b: (not b[0], b[1]))
+        for stated, a, rows in batches:
+            _stamp(p, ("mark", MARK_KINDS[kind], stated, a, colour), xy[rows])
 
 
 def paint_selection(

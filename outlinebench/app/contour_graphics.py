@@ -7,7 +7,8 @@ per mouse move, not the document).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import math
+from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
@@ -19,6 +20,7 @@ from outlinebench.model.document import Contour, Outline
 
 __all__ = [
     "SMOOTH_DISPLAY_DEG",
+    "MARK_KINDS",
     "JoinMark",
     "ContourGraphics",
     "GraphicsCache",
@@ -32,6 +34,9 @@ __all__ = [
 SMOOTH_DISPLAY_DEG = SMOOTH_ANGLE_TOLERANCE_DEG
 
 _EPS = 1e-12
+
+# The kinds of join marks, in the order they are drawn (later ones on top).
+MARK_KINDS = ("smooth", "corner", "start", "end")
 
 
 def end_directions(seg: NDArray[np.float64]) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
@@ -123,6 +128,12 @@ class ContourGraphics:
         The kind of the join each handle line belongs to (for its colour).
     handle_ref : list of (segment, index), length H
         The control point each handle line ends at.
+    mark_code : ndarray of int, shape (N,)
+        ``MARK_KINDS.index(kind) * 2 + stated`` of each mark (for drawing marks in batches).
+    mark_angle : ndarray, shape (N,)
+        Direction of each mark, radians (``atan2`` of its direction vector).
+    handle_code : ndarray of int, shape (H,)
+        ``MARK_KINDS.index`` of each handle line's kind.
     """
 
     path: QPainterPath
@@ -132,6 +143,23 @@ class ContourGraphics:
     handle_lines: NDArray[np.float64]
     handle_kind: list[str]
     handle_ref: list[tuple[int, int]]
+    mark_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
+    mark_angle: NDArray[np.float64] = field(default_factory=lambda: np.zeros(0))
+    handle_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
+
+    def __post_init__(self) -> None:
+        if len(self.mark_code) != len(self.marks):
+            kind_ix = {k: i for i, k in enumerate(MARK_KINDS)}
+            self.mark_code = np.array(
+                [kind_ix[m.kind] * 2 + int(m.stated) for m in self.marks], dtype=np.intp
+            )
+            self.mark_angle = np.array(
+                [math.atan2(m.direction[1], m.direction[0]) for m in self.marks], dtype=float
+            )
+        if len(self.handle_code) != len(self.handle_kind):
+            self.handle_code = np.array(
+                [MARK_KINDS.index(k) for k in self.handle_kind], dtype=np.intp
+            )
 
 
 def _directions(

@@ -9,7 +9,8 @@ same drawing for its icons, and the canvas key shows all three.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+import math
+from collections.abc import Callable, Sequence
 
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt
@@ -17,6 +18,7 @@ from PySide6.QtGui import QColor, QIcon, QPainter, QPainterPath, QPen, QPixmap, 
 
 from outlinebench.app import style
 from outlinebench.app.array_paths import frames_path
+from outlinebench.app.sprites import stamp
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.diagnostics import Finding
 
@@ -95,6 +97,29 @@ def _frame_polygon(x: float, y: float, severity: str, grow: float = 0.0) -> QPol
     return path.toFillPolygon()
 
 
+def _frame_look(severity: str, halo: bool) -> tuple[tuple, Callable, int]:
+    """Sprite key, painting function and reach of a finding's frame or of its paper halo."""
+    colour = style.FINDING_COLOURS.get(severity, style.FINDING_INFO)
+    size = style.FINDING_SIZE.get(severity, 6.0)
+    key = ("finding", severity, halo, colour.rgba(), style.PAPER.rgba(), size)
+    key += (style.FINDING_WASH.rgba(),)
+
+    def draw(sp: QPainter, x: float, y: float) -> None:
+        path = QPainterPath()
+        frame_path(path, x, y, severity)
+        if halo:
+            sp.setPen(QPen(style.PAPER, 4.2 if severity == "error" else 3.8))
+            sp.setBrush(Qt.BrushStyle.NoBrush)
+        else:
+            sp.setPen(_pen(severity))
+            sp.setBrush(style.FINDING_WASH if severity == "error" else Qt.BrushStyle.NoBrush)
+        sp.drawPolygon(path.toFillPolygon())
+
+    # An error's diamond reaches 1.25 · size, a square's corner size · √2; plus half the
+    # widest pen (the halo, 4.2 px, mitred) and a pixel for the antialiased edge.
+    return key, draw, math.ceil(size * 1.42 + 3.0 + 1.5)
+
+
 def paint_finding_marks(
     p: QPainter,
     view: ViewTransform,
@@ -138,24 +163,20 @@ def paint_finding_marks(
                 p.setPen(pen)
                 p.drawPath(frames_path(scr[rows], half, sev == "error"))
     else:
+        # Antialiased frames copied from prerendered pixmaps (outlinebench.app.sprites):
+        # per severity first every paper halo, then every frame, as painted shapes were.
         p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-        by_sev: dict[str, list[QPolygonF]] = {"info": [], "warning": [], "error": []}
-        for k in shown.tolist():
-            sev = findings[k].severity
-            sev = sev if sev in by_sev else "info"
-            by_sev[sev].append(_frame_polygon(scr[k, 0], scr[k, 1], sev))
-        for sev, polys in by_sev.items():
-            if not polys:
+        for sev in ("info", "warning", "error"):
+            rows = shown[sev_of[shown] == sev]
+            if not rows.size:
                 continue
+            where = scr[rows]
             if sev != "info":  # a paper halo keeps the frame readable over the outline
-                p.setPen(QPen(style.PAPER, 4.2 if sev == "error" else 3.8))
-                p.setBrush(Qt.BrushStyle.NoBrush)
-                for poly in polys:
-                    p.drawPolygon(poly)
-            p.setPen(_pen(sev))
-            p.setBrush(style.FINDING_WASH if sev == "error" else Qt.BrushStyle.NoBrush)
-            for poly in polys:
-                p.drawPolygon(poly)
+                stamp(p, *_frame_look(sev, halo=True), where)
+            stamp(p, *_frame_look(sev, halo=False), where)
+        other = shown[~np.isin(sev_of[shown], ("info", "warning", "error"))]
+        if other.size:  # an unknown severity is drawn as info
+            stamp(p, *_frame_look("info", halo=False), scr[other])
     if current is not None:
         x, y = view.to_screen(current.x, current.y)
         p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
