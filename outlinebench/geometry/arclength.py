@@ -12,6 +12,8 @@ Optimization*, 2nd ed., §11.1 (safeguarded Newton iteration inside a bracket).
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
@@ -232,7 +234,7 @@ def _lengths(
 
 def arc_length(
     points: ArrayLike, tolerance: float = ARC_LENGTH_TOLERANCE, *, return_error: bool = False
-):
+) -> float | FloatArray | tuple[float | FloatArray, float | FloatArray]:
     """Arc length of the segment(s).
 
     Parameters
@@ -288,7 +290,9 @@ def arc_length(
     return (lengths, rel) if return_error else lengths
 
 
-def segment_lengths(segments, tolerance: float = ARC_LENGTH_TOLERANCE) -> FloatArray:
+def segment_lengths(
+    segments: Sequence[FloatArray], tolerance: float = ARC_LENGTH_TOLERANCE
+) -> FloatArray:
     """Lengths of a list of segments of mixed degree, batched by degree.
 
     Parameters
@@ -328,7 +332,7 @@ def arc_length_between(
     t0: ArrayLike,
     t1: ArrayLike,
     tolerance: float = ARC_LENGTH_TOLERANCE,
-):
+) -> float | FloatArray:
     """Length of the part of the segment(s) between parameters t0 and t1.
 
     Parameters

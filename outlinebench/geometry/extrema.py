@@ -124,7 +124,7 @@ def extrema_params(points: ArrayLike) -> tuple[FloatArray, FloatArray]:
     return tx, ty
 
 
-def bounding_box(points: ArrayLike):
+def bounding_box(points: ArrayLike) -> tuple[float, float, float, float] | FloatArray:
     """Tight axis-aligned bounding box of the segment(s).
 
     Parameters

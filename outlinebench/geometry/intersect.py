@@ -46,7 +46,9 @@ _MAX_PAIRS = 4096
 _MAX_DEPTH = 64
 
 
-def line_intersection(a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE):
+def line_intersection(
+    a: ArrayLike, b: ArrayLike, tolerance: float = INTERSECTION_TOLERANCE
+) -> FloatArray:
     """Intersections of two straight segments in closed form.
 
     Parameters

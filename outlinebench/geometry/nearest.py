@@ -111,7 +111,9 @@ def _polish(c: FloatArray, d: FloatArray, dd: FloatArray, r: FloatArray, t: Floa
     return t
 
 
-def nearest_point(points: ArrayLike, p: ArrayLike):
+def nearest_point(
+    points: ArrayLike, p: ArrayLike
+) -> tuple[float, float, FloatArray] | tuple[FloatArray, FloatArray, FloatArray]:
     """The point of one segment closest to p (global minimum, not a local search).
 
     Parameters
@@ -148,6 +150,6 @@ def nearest_point(points: ArrayLike, p: ArrayLike):
     return t, dist, point
 
 
-def distance_to(points: ArrayLike, p: ArrayLike):
+def distance_to(points: ArrayLike, p: ArrayLike) -> float | FloatArray:
     """Shortest distance from p (shape (2,) or (N, 2)) to one segment; see :func:`nearest_point`."""
     return nearest_point(points, p)[1]
