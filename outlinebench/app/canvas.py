@@ -106,6 +106,8 @@ class Canvas(QWidget):
         self._backdrop: tuple | None = None
         # Overlays: finding marks (the findings the list shows) and the curvature comb.
         self.finding_marks: list[Finding] = []
+        # (finding_marks, moving contours, marks on them) of the last frame during a drag
+        self._changing: tuple[list[Finding], frozenset[int], list[Finding]] | None = None
         self.current_finding: Finding | None = None
         self.comb_on = False
         self.comb_scale = 1.0  # tooth length = comb_scale · κ (document units²)
@@ -253,9 +255,20 @@ class Canvas(QWidget):
         p.drawPixmap(0, 0, pixmap)
         self._paint_comb(p, doc, live)
         paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
-        changing = [f for f in self.finding_marks if _touches(f, moving)]
+        changing = self._changing_marks(moving)
         paint_finding_marks(p, v, changing, w, h, self.current_finding)
         paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)
+
+    def _changing_marks(self, moving: frozenset[int]) -> list[Finding]:
+        """Finding marks on the ``moving`` contours (kept while the list and the contours
+        are the same: the frames between two checks of a drag paint the same ones)."""
+        marks = self.finding_marks
+        hit = self._changing
+        if hit is not None and hit[0] is marks and hit[1] == moving:
+            return hit[2]
+        changing = [f for f in marks if _touches(f, moving)]
+        self._changing = (marks, moving, changing)
+        return changing
 
     def _paint_comb(self, p: QPainter, doc: Document, outlines: set[int] | None) -> None:
         """The comb of the visible contours of ``outlines`` (default all), under the outline."""

@@ -12,7 +12,9 @@ from __future__ import annotations
 
 import math
 import time
+from collections import Counter
 from collections.abc import Sequence
+from operator import attrgetter
 from typing import Any
 
 from PySide6.QtCore import (
@@ -38,8 +40,8 @@ from PySide6.QtWidgets import (
 from outlinebench.app.finding_marks import finding_icon
 from outlinebench.app.live_findings import LiveFindings
 from outlinebench.app.units import DisplayUnits
-from outlinebench.diagnostics import KINDS, Finding, convert_units, summarize
-from outlinebench.diagnostics.findings import SEVERITY_RANK
+from outlinebench.diagnostics import KINDS, Finding, convert_units
+from outlinebench.diagnostics.findings import ERROR, INFO, SEVERITY_RANK, WARNING
 
 __all__ = [
     "FindingsModel",
@@ -122,6 +124,19 @@ def short_where_text(f: Finding) -> str:
     if f.other_contour is not None and f.other_contour != f.contour:
         text += f" ↔ {f.other_contour}"
     return f"{f.contour} · {text}"
+
+
+def _severity_counts(findings: Sequence[Finding]) -> dict[str, int]:
+    """``total``, ``errors``, ``warnings`` and ``info`` as
+    :func:`outlinebench.diagnostics.summarize` counts them, in one C-level pass (the count
+    line is redrawn after every check of a drag)."""
+    sev = Counter(map(attrgetter("severity"), findings))
+    return {
+        "total": len(findings),
+        "errors": sev.get(ERROR, 0),
+        "warnings": sev.get(WARNING, 0),
+        "info": sev.get(INFO, 0),
+    }
 
 
 def _order_key(f: Finding) -> tuple:
@@ -298,6 +313,9 @@ class FindingsPanel(QWidget):
         self._timer.setInterval(LIST_THROTTLE_MS)
         self._timer.timeout.connect(self.refresh)
         self._last_refresh = 0.0
+        # id(original finding) -> (original, converted), for the units in _conversions_key
+        self._conversions: dict[int, tuple[Finding, Finding]] = {}
+        self._conversions_key: tuple[float, str] | None = None
         live.updated.connect(self._on_updated)
         self.refresh()
 
@@ -334,14 +352,31 @@ class FindingsPanel(QWidget):
         self._last_refresh = time.perf_counter()
         units: DisplayUnits = self._units()
         original = self.shown_findings()
-        shown = convert_units(original, units.factor, units.name)
+        shown = self._converted(original, units)
         self.model.set_findings(shown, original, units)
         self._refresh_summary()
+
+    def _converted(self, original: Sequence[Finding], units: DisplayUnits) -> list[Finding]:
+        """``convert_units(original, ...)``, converting only findings not converted before.
+
+        The checker keeps the Finding objects of contours an edit did not touch, so during a
+        drag all but a handful are the same objects as in the previous list.
+        """
+        key = (units.factor, units.name)
+        cache = self._conversions if self._conversions_key == key else {}
+        todo = [f for f in original if id(f) not in cache]
+        done = convert_units(todo, units.factor, units.name)
+        for f, c in zip(todo, done, strict=True):
+            cache[id(f)] = (f, c)  # the original is kept so its id stays its own
+        shown = [cache[id(f)][1] for f in original]
+        self._conversions = {id(f): cache[id(f)] for f in original}
+        self._conversions_key = key
+        return shown
 
     def _refresh_summary(self, stale: bool = False) -> None:
         """The count line, from the same check as the canvas marks."""
         units: DisplayUnits = self._units()
-        s = summarize(self._live.findings)
+        s = _severity_counts(self._live.findings)
         info = f"{s['info']} info" + ("" if self.info_shown else " (hidden)")
         if s["total"] == 0:
             text = "<b>No findings</b> with the current tolerances"
