@@ -337,8 +337,11 @@ def offset_contour(
        as ``offset-inaccurate`` with its measured error (never silently).
     4. The raw offset's self-intersections are found on its flattening (shapely noding) and
        refined on the cubics; pieces whose midpoint lies nearer than |d| − ε to the original
-       (loops of concave parts, parts of the shape narrower than the tool) are cut away,
-       the rest is chained into contours.
+       (loops of concave parts, parts of the shape narrower than the tool) are cut away.
+       Each crossing is solved on both cubics together (Newton's method on A(ta) = B(tb)),
+       so the kept pieces meet exactly there; stubs that the cut by distance leaves just
+       beyond a crossing are dropped, and the pieces are joined through the crossings into
+       contours — a closed contour gives closed contours only (several where it splits).
     """
     if not math.isfinite(distance):
         raise InvalidGeometryError(f"the offset distance must be a finite number, got {distance}")
@@ -635,22 +638,40 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
         cs = np.asarray(g.coords)
         cut_pts.extend([cs[0], cs[-1]])
     cut_pts = np.array(cut_pts).reshape(-1, 2)
-    # parameters on the raw pieces: nearest chord, then Newton on the cubic
+    # parameters on the raw pieces: nearest chord, then Newton on the cubic; the two pieces
+    # that cross there are then solved together (A(ta) = B(tb)) so that both are cut at the
+    # same point and the kept parts meet exactly
     splits: dict[int, list[float]] = {}
     if len(cut_pts):
         tree = shapely.STRtree(shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1)))
         hits = tree.query(shapely.points(cut_pts), predicate="dwithin", distance=tol * 1e-6)
+        at: dict[int, list[tuple[int, float]]] = {}
         for pi, ci in zip(*hits, strict=True):
             k = int(owner[ci])
             local = int(ci - np.searchsorted(owner, k))
             cnt = len(pts[k])
             t = _project(raw[k], cut_pts[pi], (local + 0.5) / cnt)
-            if 1e-9 < t < 1 - 1e-9:
-                splits.setdefault(k, []).append(t)
+            locs = at.setdefault(int(pi), [])
+            if all(k != k2 or abs(t - t2) > 1e-7 for k2, t2 in locs):
+                locs.append((k, t))
+        for locs in at.values():
+            refined = list(locs)
+            for j in range(1, len(locs)):
+                ka, ta = locs[0]
+                kb, tb = locs[j]
+                ra, rb = _refine_crossing(raw[ka], raw[kb], ta, tb)
+                if ra is not None:
+                    refined[0] = (ka, ra)
+                    refined[j] = (kb, rb)
+            for k, t in refined:
+                if 1e-9 < t < 1 - 1e-9:
+                    splits.setdefault(k, []).append(t)
     pieces: list[FloatArray] = []
     for k, c in enumerate(raw):
         if k in splits:
-            pieces.extend(split_many(c, np.array(splits[k])))
+            ts = np.sort(np.array(splits[k]))
+            ts = ts[np.concatenate([[True], np.diff(ts) > 1e-12])]
+            pieces.extend(split_many(c, ts))
         else:
             pieces.append(c)
     pieces_arr = np.array(pieces)
@@ -692,6 +713,32 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
     return _chain(kept, closed, tol), removed
 
 
+def _refine_crossing(a: FloatArray, b: FloatArray, ta: float, tb: float):
+    """Parameters (ta, tb) where cubics a and b cross, by Newton's method on A(ta) − B(tb) = 0
+    from a starting guess; (None, None) when it does not converge inside [0, 1]²."""
+    ca = _coef(a[None])
+    cb = _coef(b[None])
+    scale = 1.0 + float(np.max(np.abs(np.concatenate([a, b]))))
+    for _ in range(30):
+        pa, da, _ = _eval(ca, np.array([[ta]]))
+        pb, db, _ = _eval(cb, np.array([[tb]]))
+        f = pa[0, 0] - pb[0, 0]
+        if np.hypot(*f) <= 1e-13 * scale:
+            break
+        jac = np.array([[da[0, 0, 0], -db[0, 0, 0]], [da[0, 0, 1], -db[0, 0, 1]]])
+        det = jac[0, 0] * jac[1, 1] - jac[0, 1] * jac[1, 0]
+        if abs(det) <= 1e-14 * (np.sum(jac * jac) + 1e-300):
+            return None, None
+        step = np.linalg.solve(jac, -f)
+        ta += float(step[0])
+        tb += float(step[1])
+        if not (-1e-9 <= ta <= 1 + 1e-9 and -1e-9 <= tb <= 1 + 1e-9):
+            return None, None
+    else:
+        return None, None
+    return min(1.0, max(0.0, ta)), min(1.0, max(0.0, tb))
+
+
 def _project(c: FloatArray, p: FloatArray, t: float) -> float:
     """Parameter of the point of cubic c nearest p: best of 65 samples, then Newton."""
     coef = _coef(c[None])
@@ -710,12 +757,87 @@ def _project(c: FloatArray, p: FloatArray, t: float) -> float:
 
 
 def _chain(kept: list[FloatArray], closed: bool, tol: float):
-    """Chain pieces end to start (ends within a small tolerance) into contours."""
+    """Join the kept pieces end to start into contours.
+
+    Piece ends within a small distance are one node. Where a cut by distance left a spur — a
+    run of pieces leaving a node that another piece also leaves and ending where nothing
+    starts (or the mirror image: arriving at a node another piece also arrives at, from
+    where nothing arrives), such as the bit of an offset edge just beyond the point where it
+    crosses its neighbour at a concave corner — the spur is removed, the shortest first. The
+    walk then goes from one edge to the next through their crossing, so a closed contour
+    gives closed contours.
+    """
     if not kept:
         return []
-    starts = np.array([p[0] for p in kept])
-    used = np.zeros(len(kept), dtype=bool)
     snap = tol * 0.5
+    ends = np.array([[p[0], p[3]] for p in kept]).reshape(-1, 2)  # start 2i, end 2i + 1
+    node = np.full(len(ends), -1)
+    reps: list[FloatArray] = []
+    for i, q in enumerate(ends):
+        for j, rp in enumerate(reps):
+            if np.hypot(*(q - rp)) <= snap:
+                node[i] = j
+                break
+        else:
+            node[i] = len(reps)
+            reps.append(q)
+    start_node = node[0::2]
+    end_node = node[1::2]
+    alive = np.ones(len(kept), dtype=bool)
+    lengths = np.array([float(np.hypot(*(p[3] - p[0]))) for p in kept])
+
+    def counts():
+        n_out = np.bincount(start_node[alive], minlength=len(reps))
+        n_in = np.bincount(end_node[alive], minlength=len(reps))
+        return n_in, n_out
+
+    while True:
+        n_in, n_out = counts()
+        spurs = []
+        # runs leaving a node with surplus out-degree and ending where nothing starts
+        for s0 in np.nonzero(alive)[0]:
+            v = start_node[s0]
+            if n_out[v] < 2:
+                continue
+            run, cur, length = [int(s0)], int(s0), lengths[s0]
+            while True:
+                w = end_node[cur]
+                if n_out[w] == 0:  # dead end: a spur
+                    spurs.append((length, run))
+                    break
+                if n_out[w] != 1 or n_in[w] != 1:
+                    break
+                nxt = int(np.nonzero(alive & (start_node == w))[0][0])
+                if nxt in run:
+                    break
+                run.append(nxt)
+                cur = nxt
+                length += lengths[nxt]
+        # runs arriving at a node with surplus in-degree from where nothing arrives
+        for s0 in np.nonzero(alive)[0]:
+            v = end_node[s0]
+            if n_in[v] < 2:
+                continue
+            run, cur, length = [int(s0)], int(s0), lengths[s0]
+            while True:
+                w = start_node[cur]
+                if n_in[w] == 0:
+                    spurs.append((length, run))
+                    break
+                if n_in[w] != 1 or n_out[w] != 1:
+                    break
+                prv = int(np.nonzero(alive & (end_node == w))[0][0])
+                if prv in run:
+                    break
+                run.append(prv)
+                cur = prv
+                length += lengths[prv]
+        if not spurs:
+            break
+        _, run = min(spurs, key=lambda x: x[0])
+        alive[run] = False
+
+    used = ~alive
     out = []
     for s in range(len(kept)):
         if used[s]:
@@ -724,23 +846,20 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
         used[s] = True
         cur = s
         while True:
-            end = kept[cur][3]
+            w = end_node[cur]
             # prefer the next piece in order
             nxt = cur + 1
-            if nxt < len(kept) and not used[nxt] and np.hypot(*(starts[nxt] - end)) <= snap:
-                pass
-            else:
-                d = np.hypot(*(starts - end).T)
-                d[used] = np.inf
-                nxt = int(np.argmin(d))
-                if not np.isfinite(d[nxt]) or d[nxt] > snap:
+            if not (nxt < len(kept) and not used[nxt] and start_node[nxt] == w):
+                cand = np.nonzero(~used & (start_node == w))[0]
+                if len(cand) == 0:
                     break
+                nxt = int(cand[0])
             piece = kept[nxt].copy()
             piece[0] = ch[-1][3]
             ch.append(piece)
             used[nxt] = True
             cur = nxt
-        is_closed = np.hypot(*(ch[-1][3] - ch[0][0])) <= snap and (closed or len(ch) > 1)
+        is_closed = end_node[cur] == start_node[s] and (closed or len(ch) > 1)
         if is_closed:
             ch[-1][3] = ch[0][0]
         # drop specks left by numerical noise

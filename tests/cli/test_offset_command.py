@@ -120,3 +120,23 @@ def test_written_offset_coordinates_are_rounded(tmp_path):
     pts = np.array([c for c in data["contours"] if c["contour"] == 1][0]["points"])
     assert np.all(np.round(pts, 6) == pts)
     assert np.max(np.abs(np.hypot(pts[:, 0] - 50, pts[:, 1] - 10) - 8)) <= 0.01 + 5 * 3e-4
+
+
+NOTCHED = """<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="100mm"
+ viewBox="0 0 100 100"><path d="M10 10 H50 V50 H10 Z"/><path d="M60 10 H90 V40 L75 25 L60 40 Z"/>
+</svg>
+"""
+
+
+@pytest.mark.parametrize("d", ["1.5", "-1.5"])
+def test_sharp_concave_corner_gives_closed_contours_only(tmp_path, d):
+    # A square and a block with a V notch (a sharp concave corner): a closed contour offset
+    # must stay one closed toolpath each (common practice, no source: a cutter needs closed
+    # paths), never open fragments.
+    src = tmp_path / "notched.svg"
+    src.write_text(NOTCHED)
+    res = run("offset", src, "--distance", d, "--units", "mm", "--json")
+    assert res.returncode in (0, 1), res.stderr
+    data = json.loads(res.stdout)
+    assert [c["contour"] for c in data["contours"]] == [0, 1]
+    assert all(c["closed"] is True for c in data["contours"])

@@ -292,3 +292,83 @@ def test_a_fit_still_missing_after_the_deepest_halving_is_reported(monkeypatch):
     bad = [p for p in res.problems if p.kind == "offset-inaccurate"]
     assert bad and all(p.error > 1e-4 for p in bad)
     assert "0 halvings" in bad[0].message
+
+
+# --------------------------------------------------------------------------------------------
+# sharp concave corners: the kept pieces must be joined into closed contours
+# --------------------------------------------------------------------------------------------
+def notched_block():
+    """A block 30 × 30 with a V notch cut into its top to (75, 25): the notch's bottom is a
+    sharp concave corner for outward offsets, its two top corners for inward ones."""
+    pts = [(60, 10), (90, 10), (90, 40), (75, 25), (60, 40)]
+    return [np.array([pts[i], pts[(i + 1) % 5]], dtype=float) for i in range(5)]
+
+
+def buffer_reference(segs, d):
+    """Reference: shapely's buffer (round joins, 256 segments per quarter circle) of the
+    polygon of a dense `bezier` flattening of the closed contour."""
+    poly = shapely.Polygon(dense(segs, 400))
+    return poly.buffer(d, join_style="round", quad_segs=256)
+
+
+@pytest.mark.parametrize("d", [1.5, -1.5])
+def test_notched_block_offsets_to_one_closed_contour(d):
+    eps = 0.01
+    segs = notched_block()
+    res = offset_contour(segs, True, d, eps)
+    assert len(res.contours) == 1
+    (c,) = res.contours
+    assert c.closed
+    # the cubics close: each ends where the next starts, the last where the first starts
+    for a, b in zip(c.segments, c.segments[1:] + c.segments[:1], strict=True):
+        assert np.hypot(*(np.asarray(a)[-1] - np.asarray(b)[0])) <= 1e-9
+    # Hausdorff distance to shapely's buffer (reference library); its polygon deviates by
+    # at most r·(1 − cos(π/1024)) ≈ 7e-6 from the round joins, the dense samples are exact
+    # on lines: allowance 1e-4 on top of ε
+    ref = buffer_reference(segs, d).exterior
+    ring = shapely.LinearRing(c.polyline)
+    assert shapely.hausdorff_distance(ring, ref, densify=0.01) <= eps + 1e-4
+    # every point of the result lies |d| ± ε from the original (shapely distance)
+    orig = shapely.LineString(dense(segs + segs[:1], 2000))
+    dist = shapely.distance(shapely.points(result_samples(res)), orig)
+    assert np.max(np.abs(dist - abs(d))) <= eps + 1e-6
+    # the concave corner is trimmed, not reached: outward, the offset edges of the notch meet
+    # at (75, 25 + d·√2) (closed form: the bisector of the right-angled notch)
+    if d > 0:
+        assert np.min(np.hypot(c.polyline[:, 0] - 75, c.polyline[:, 1] - 25)) == pytest.approx(
+            d * math.sqrt(2), abs=eps
+        )
+
+
+def _signshop_contours():
+    from pathlib import Path
+
+    from outlinebench.io import load_svg
+
+    doc = load_svg(Path(__file__).parents[2] / "samples" / "signshop-lettering.svg")
+    assert doc.mm_per_unit == pytest.approx(1.0)  # viewBox in millimetres
+    return [(o.element_id, k, c) for o in doc.outlines for k, c in enumerate(o.contours)]
+
+
+@pytest.mark.parametrize("d", [1.5, -0.5])
+def test_signshop_letters_offset_to_closed_contours_matching_shapely_area(d):
+    # Each contour of the sample on its own (block letters with sharp concave corners,
+    # counters with arcs): only closed output contours, whose enclosed area (even-odd, so a
+    # counter that a positive offset closes off counts as a hole) matches shapely's buffer of
+    # the dense flattening (reference library) within 0.2 % — the reference polygon's chords
+    # and our ε = 0.01 on perimeters of ~200 mm account for well under that.
+    eps = 0.01
+    for name, k, contour in _signshop_contours():
+        segs = [np.asarray(s, dtype=float) for s in contour.segments]
+        res = offset_contour(segs, True, d, eps)
+        assert res.contours, (name, k)
+        assert all(c.closed for c in res.contours), (name, k)
+        shape = shapely.Polygon()
+        for c in res.contours:
+            shape = shape.symmetric_difference(shapely.Polygon(c.polyline))
+        ref = buffer_reference(segs, d)
+        assert shape.area == pytest.approx(ref.area, rel=2e-3), (name, k)
+        # and every point of the result lies |d| ± ε from the original (shapely distance)
+        orig = shapely.LineString(dense(segs + segs[:1], 400))
+        dist = shapely.distance(shapely.points(result_samples(res)), orig)
+        assert np.max(np.abs(dist - abs(d))) <= eps + 1e-6, (name, k)
