@@ -783,8 +783,10 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
             reps.append(q)
     start_node = node[0::2]
     end_node = node[1::2]
-    alive = np.ones(len(kept), dtype=bool)
-    lengths = np.array([float(np.hypot(*(p[3] - p[0]))) for p in kept])
+    # control polygon lengths: ≥ the arc lengths, and not 0 for a piece that closes on itself
+    lengths = np.array([float(np.sum(np.hypot(*np.diff(p, axis=0).T))) for p in kept])
+    # pieces shorter than the snap distance that start and end on one node are specks
+    alive = ~((start_node == end_node) & (lengths <= snap))
 
     def counts():
         n_out = np.bincount(start_node[alive], minlength=len(reps))
@@ -863,7 +865,7 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
         if is_closed:
             ch[-1][3] = ch[0][0]
         # drop specks left by numerical noise
-        length = sum(float(np.hypot(*(p[3] - p[0]))) for p in ch)
+        length = sum(float(np.sum(np.hypot(*np.diff(p, axis=0).T))) for p in ch)
         if length > 2 * tol:
             out.append((ch, bool(is_closed)))
     return out
