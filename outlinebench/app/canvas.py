@@ -11,7 +11,8 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING
 
-from PySide6.QtCore import QEvent, QPointF, QRectF, Qt, Signal
+import numpy as np
+from PySide6.QtCore import QEvent, QPointF, QRect, QRectF, Qt, Signal
 from PySide6.QtGui import (
     QHelpEvent,
     QKeyEvent,
@@ -44,7 +45,7 @@ from outlinebench.app.curvature_comb import (
     CombCache,
     paint_comb,
 )
-from outlinebench.app.finding_marks import finding_at, paint_finding_marks
+from outlinebench.app.finding_marks import FRAME_REACH_PX, finding_at, paint_finding_marks
 from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
 from outlinebench.diagnostics import Finding
 from outlinebench.model.document import Document
@@ -79,6 +80,19 @@ def _touches(f: Finding, contours: frozenset[int]) -> bool:
     return f.contour in contours or (f.other_contour is not None and f.other_contour in contours)
 
 
+def _overlay_empty(ov) -> bool:
+    """The tool draws nothing over the document (no rubber band, draft or insert mark)."""
+    return ov is None or (
+        ov.rubber_band is None
+        and ov.segment_hit is None
+        and not ov.draft_segments
+        and not ov.draft_points
+        and not ov.draft_handles
+        and ov.draft_to_pointer is None
+        and not ov.close_target
+    )
+
+
 class Canvas(QWidget):
     """Shows a document and forwards editing gestures to the active tool.
 
@@ -102,6 +116,10 @@ class Canvas(QWidget):
         self._last_pan = QPointF()
         self._fitted_once = False
         self._last_doc: Document | None = None  # last document painted outside a gesture
+        self._seen_doc: Document | None = None  # document of the last change handled
+        self.frames_painted = 0  # paint events handled (the benchmark checks frames happen)
+        self.last_paint_rect = QRect()  # the region the last paint event asked for
+        self._painted_marks: tuple = (None, None)  # (selection, hover) the last frame drew
         # (key, pixmap, marks, contours being changed) while a gesture runs
         self._backdrop: tuple | None = None
         # Overlays: finding marks (the findings the list shows) and the curvature comb.
@@ -120,7 +138,7 @@ class Canvas(QWidget):
         self.setMinimumSize(200, 200)
         self.setAttribute(Qt.WidgetAttribute.WA_OpaquePaintEvent, True)
         editor.changed.connect(self._on_document_changed)
-        editor.selection_changed.connect(self.update)
+        editor.selection_changed.connect(self._on_selection_changed)
 
     # -- model → widget -----------------------------------------------------------------
     @property
@@ -129,15 +147,99 @@ class Canvas(QWidget):
 
     def _on_document_changed(self) -> None:
         doc = self.document
+        old, self._seen_doc = self._seen_doc, doc
         live = {id(c) for o in doc.outlines for c in o.contours}
         self.cache.prune(live)
         self.comb_cache.prune(live)
-        self.update()
+        damage = self._edit_damage(old, doc)
+        if damage is None:
+            self.update()
+        elif not damage.isEmpty():
+            self.update(damage.toAlignedRect())
+
+    def _partial_ok(self) -> bool:
+        """A gesture is running and the last frame was painted from its backdrop, so the
+        widget shows everything but what changed since: repainting that is enough."""
+        return (
+            self._editor.history.in_group
+            and self._backdrop is not None
+            and self._last_doc is not None
+            and _overlay_empty(self._editor.overlay())
+        )
+
+    def _damage_margin(self) -> float:
+        """Logical px a changed segment's drawing may reach beyond its control points: join
+        marks, handles, the selection and hover rings, and the comb's teeth when shown."""
+        # hover ring (MARK_SIZE + 6, 1.2-px pen) is the widest mark; one px for antialiasing
+        m = style.MARK_SIZE + 6.0 + 0.6 + 2.0
+        m = max(m, style.MARK_SIZE * 1.45 + 0.8 + 2.0)
+        if self.comb_on:
+            m = max(m, MAX_TOOTH_PX + 2.0)
+        return m
+
+    def _edit_damage(self, old: Document | None, new: Document) -> QRectF | None:
+        """Screen rectangle holding everything the edit ``old`` → ``new`` changed on the
+        canvas during a drag, or None when the whole canvas must be repainted.
+
+        Segments are immutable and an edit keeps the untouched ones as the same objects, so
+        the changed ones are those not identical at the same place; what the canvas draws for
+        a segment (curve, fill edge, handles, marks at its ends, comb teeth) lies within its
+        control points' box (convex hull property) grown by :meth:`_damage_margin`.
+        """
+        if old is None or not self._partial_ok():
+            return None
+        if len(old.outlines) != len(new.outlines):
+            return None
+        boxes: list[np.ndarray] = []
+        for a, b in zip(old.outlines, new.outlines, strict=True):
+            if a is b:
+                continue
+            if len(a.contours) != len(b.contours):
+                return None
+            for ca, cb in zip(a.contours, b.contours, strict=True):
+                if ca is cb:
+                    continue
+                if (
+                    len(ca.segments) != len(cb.segments)
+                    or ca.closed != cb.closed
+                    or ca.joins != cb.joins
+                ):
+                    return None
+                for sa, sb in zip(ca.segments, cb.segments, strict=True):
+                    if sa is not sb:
+                        boxes.append(sa)
+                        boxes.append(sb)
+        if not boxes:
+            return QRectF()
+        pts = self.view.to_screen_array(np.concatenate(boxes))
+        lo, hi = pts.min(axis=0), pts.max(axis=0)
+        m = self._damage_margin()
+        return QRectF(lo[0] - m, lo[1] - m, hi[0] - lo[0] + 2 * m, hi[1] - lo[1] + 2 * m)
 
     def set_finding_marks(self, findings: list[Finding], current: Finding | None = None) -> None:
         """Findings to mark on the canvas (user units) and the one picked in the list."""
+        old, old_current = self.finding_marks, self.current_finding
         self.finding_marks = findings
         self.current_finding = current
+        if self._partial_ok() and current is old_current:
+            # During a drag the checker keeps the Finding objects of everything the edit did
+            # not touch: only the frames of findings that came or went need repainting.
+            ids_old = set(map(id, old))
+            ids_new = set(map(id, findings))
+            gone = [f for f in old if id(f) not in ids_new]
+            came = [f for f in findings if id(f) not in ids_old]
+            changed = gone + came
+            if not changed:
+                return
+            xy = self.view.to_screen_array(np.array([(f.x, f.y) for f in changed], dtype=float))
+            lo, hi = xy.min(axis=0), xy.max(axis=0)
+            m = FRAME_REACH_PX
+            self.update(
+                QRectF(
+                    lo[0] - m, lo[1] - m, hi[0] - lo[0] + 2 * m, hi[1] - lo[1] + 2 * m
+                ).toAlignedRect()
+            )
+            return
         self.update()
 
     def set_comb(self, on: bool, scale: float | None = None) -> None:
@@ -182,6 +284,23 @@ class Canvas(QWidget):
     def to_screen(self, x: float, y: float) -> QPointF:
         return QPointF(*self.view.to_screen(x, y))
 
+    def tool_changed(self) -> None:
+        """The active tool asks for a repaint. During a drag that only moves points the
+        document change has already asked for the damaged region; otherwise (a rubber band,
+        a draft, another point hovered or selected) the whole canvas is repainted."""
+        if self._partial_ok() and self._seen_doc is self.document and self._marks_same():
+            return
+        self.update()
+
+    def _on_selection_changed(self) -> None:
+        if self._partial_ok() and self._marks_same():
+            return  # the selected points moved with the edit: their region is repainted
+        self.update()
+
+    def _marks_same(self) -> bool:
+        """The selection and the hovered point are those the last frame drew."""
+        return self._painted_marks == (self._editor.selected_points(), self._editor.hover)
+
     def pick_radius(self) -> float:
         """How close (document units) the pointer must be to a point to pick it."""
         return style.PICK_RADIUS_PX / self.view.scale
@@ -193,6 +312,8 @@ class Canvas(QWidget):
             self.fit_to_outline()
 
     def paintEvent(self, event: QPaintEvent) -> None:  # noqa: N802 (Qt name)
+        self.frames_painted += 1
+        self.last_paint_rect = event.rect()
         doc = self.document
         p = QPainter(self)
         try:
@@ -213,6 +334,7 @@ class Canvas(QWidget):
             p.end()
         if not self._editor.history.in_group:
             self._last_doc = doc
+        self._painted_marks = (self._editor.selected_points(), self._editor.hover)
 
     def _live_outlines(self, doc: Document) -> set[int] | None:
         """Outlines a gesture in progress has changed, or None when no gesture is running.

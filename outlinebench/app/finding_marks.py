@@ -30,6 +30,7 @@ __all__ = [
     "finding_at",
     "HIT_RADIUS_PX",
     "DENSE_FINDING_MARKS",
+    "FRAME_REACH_PX",
 ]
 
 # The pointer within this many logical px of a finding's place shows its tooltip.
@@ -37,6 +38,9 @@ HIT_RADIUS_PX = 12.0
 # Above this many frames in view they are drawn plainly (no antialiasing, no halo): 400
 # frames drawn fully take about 5 ms (benchmarks/bench_editor.py), a third of a frame.
 DENSE_FINDING_MARKS = 400
+# How far (logical px) a finding's frame reaches from its place: the largest frame's corner
+# (half-width · √2), half its widest pen (the 4.2-px halo, mitred) and a px of antialiasing.
+FRAME_REACH_PX = max(style.FINDING_SIZE.values()) * 1.42 + 3.0 + 2.0
 
 
 def frame_path(path: QPainterPath, x: float, y: float, severity: str, grow: float = 0.0) -> None:

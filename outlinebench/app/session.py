@@ -551,7 +551,7 @@ class EditorSession(QObject):
             if done:
                 self.message.emit(done)
         if repaint:
-            canvas.update()
+            canvas.tool_changed()
             if kind != "move" or button == "none":
                 self.selection_changed.emit()
 
