@@ -409,7 +409,7 @@ def offset_contour(
 
     # 2. fit, halving pieces that miss the tolerance
     starts, ends = _piece_tangents(cub, coef, seg, t0, t1)
-    fitted_seg, fitted_t0, fitted = [], [], []
+    fitted_seg, fitted_t0, fitted, fitted_rev = [], [], [], []
     for depth in range(_MAX_FIT_DEPTH + 1):
         cubics, err = _fit_pieces(coef, seg, t0, t1, e, starts, ends, tolerance)
         good = (err <= tolerance) | (depth == _MAX_FIT_DEPTH)
@@ -418,6 +418,9 @@ def offset_contour(
         fitted_seg.append(seg[good])
         fitted_t0.append(t0[good])
         fitted.append(cubics[good])
+        # pieces where the offset runs backwards (1 + eκ < 0, between two cusps)
+        _, _, fac_mid, _ = _offset_points(coef[seg[good]], (0.5 * (t0 + t1))[good][:, None], e)
+        fitted_rev.append(fac_mid[:, 0] < 0)
         if np.all(good):
             break
         seg, t0, t1 = seg[~good], t0[~good], t1[~good]
@@ -430,16 +433,19 @@ def offset_contour(
     fc = np.concatenate(fitted)
     order = np.lexsort((ft, fs))
     fs, fc = fs[order], fc[order]
+    frev = np.concatenate(fitted_rev)[order]
 
     # 3. joins
     raw: list[FloatArray] = []
     source: list[int] = []  # original segment of each raw piece; -1 for join pieces
+    rev: list[bool] = []  # the raw piece runs backwards (1 + eκ < 0)
     n = len(cub)
     bounds = np.searchsorted(fs, np.arange(n + 1))
     joins = range(n if closed else n - 1)
     for i in range(n):
         raw.extend(fc[bounds[i] : bounds[i + 1]])
         source.extend([i] * int(bounds[i + 1] - bounds[i]))
+        rev.extend(frev[bounds[i] : bounds[i + 1]].tolist())
         if i in joins or (closed and i == n - 1):
             j = (i + 1) % n
             corner = cub[i, 3]
@@ -460,10 +466,12 @@ def offset_contour(
                     arc[-1][3] = b
                 raw.extend(arc)
                 source.extend([-1] * len(arc))
+                rev.extend([False] * len(arc))
             else:
                 raw.append(_line_cubic(a, corner))
                 raw.append(_line_cubic(corner, b))
                 source.extend([-1, -1])
+                rev.extend([False, False])
                 problems.append(
                     OffsetProblem(
                         "tool-does-not-fit",
@@ -478,7 +486,7 @@ def offset_contour(
                 )
     raw_arr = np.array(raw)
     # 4. trim loops and parts narrower than the tool
-    chains, removed = _trim(raw_arr, closed, cub, r, tolerance)
+    chains, removed = _trim(raw_arr, np.array(rev, dtype=bool), closed, cub, r, tolerance)
     contours = []
     polys = flatten_contours([(ch, cl) for ch, cl in chains], tolerance) if chains else []
     for (ch, cl), poly in zip(chains, polys, strict=True):
@@ -620,8 +628,11 @@ def _piece_tangents(cub, coef, seg, t0, t1):
     return out[0], out[1]
 
 
-def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float):
-    """Cut the raw offset at its self-intersections and keep what lies ≥ r − ε away."""
+def _trim(raw: FloatArray, rev, closed: bool, orig: FloatArray, r: float, tol: float):
+    """Cut the raw offset at its self-intersections and keep what lies ≥ r − ε away.
+
+    ``rev`` (R,) flags the raw pieces that run backwards (1 + eκ < 0); the pieces cut from
+    them keep the flag (see :func:`_chain`)."""
     import shapely
 
     # flatten the raw chain with a record of which raw piece each chord belongs to
@@ -667,14 +678,18 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
                 if 1e-9 < t < 1 - 1e-9:
                     splits.setdefault(k, []).append(t)
     pieces: list[FloatArray] = []
+    prev: list[bool] = []
     for k, c in enumerate(raw):
         if k in splits:
             ts = np.sort(np.array(splits[k]))
             ts = ts[np.concatenate([[True], np.diff(ts) > 1e-12])]
-            pieces.extend(split_many(c, ts))
+            parts = split_many(c, ts)
         else:
-            pieces.append(c)
+            parts = [c]
+        pieces.extend(parts)
+        prev.extend([bool(rev[k])] * len(parts))
     pieces_arr = np.array(pieces)
+    prev_arr = np.array(prev, dtype=bool)
     thr = r - max(tol, 1e-9 * r) * 1.5
     # Pieces that are partly nearer than the threshold (no self-intersection marks where:
     # the ends of open contours, near-tangent crossings) are split where their distance to
@@ -699,10 +714,14 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
             hi = np.where(same, hi, mid)
         cut = 0.5 * (lo + hi)
         refined: list[FloatArray] = []
+        refined_rev: list[bool] = []
         for k, c in enumerate(pieces_arr):
             ts = cut[rows == k]
-            refined.extend(split_many(c, ts) if len(ts) else [c])
+            parts = split_many(c, ts) if len(ts) else [c]
+            refined.extend(parts)
+            refined_rev.extend([bool(prev_arr[k])] * len(parts))
         pieces_arr = np.array(refined)
+        prev_arr = np.array(refined_rev, dtype=bool)
     mids = 0.125 * (
         pieces_arr[:, 0] + 3 * pieces_arr[:, 1] + 3 * pieces_arr[:, 2] + pieces_arr[:, 3]
     )
@@ -710,7 +729,7 @@ def _trim(raw: FloatArray, closed: bool, orig: FloatArray, r: float, tol: float)
     keep = dist >= thr
     removed = pieces_arr[~keep]
     kept = [p for p, k in zip(pieces_arr, keep, strict=True) if k]
-    return _chain(kept, closed, tol), removed
+    return _chain(kept, closed, tol, prev_arr[keep], r), removed
 
 
 def _refine_crossing(a: FloatArray, b: FloatArray, ta: float, tb: float):
@@ -756,7 +775,7 @@ def _project(c: FloatArray, p: FloatArray, t: float) -> float:
     return t
 
 
-def _chain(kept: list[FloatArray], closed: bool, tol: float):
+def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float = 0.0):
     """Join the kept pieces end to start into contours.
 
     Piece ends within a small distance are one node. Where a cut by distance left a spur — a
@@ -766,7 +785,15 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
     crosses its neighbour at a concave corner — the spur is removed, the shortest first. The
     walk then goes from one edge to the next through their crossing, so a closed contour
     gives closed contours.
+
+    Near a cusp of the offset (where the radius of curvature is just about |d|) a small loop
+    of the raw offset can lie within the tolerance band and be kept; a sub-loop of a walk
+    (between two visits of one node) that holds a piece running backwards (``rev``) is such
+    a loop and is cut out. For a closed contour, an open run left over with both ends free
+    and no longer than 4·√(r·tol) is a bit of such a loop's tail and is dropped.
     """
+    if rev is None:
+        rev = np.zeros(len(kept), dtype=bool)
     if not kept:
         return []
     snap = tol * 0.5
@@ -840,11 +867,13 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
         alive[run] = False
 
     used = ~alive
+    n_in_all, n_out_all = counts()
     out = []
     for s in range(len(kept)):
         if used[s]:
             continue
         ch = [kept[s].copy()]
+        idx = [s]
         used[s] = True
         cur = s
         while True:
@@ -859,13 +888,36 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float):
             piece = kept[nxt].copy()
             piece[0] = ch[-1][3]
             ch.append(piece)
+            idx.append(nxt)
             used[nxt] = True
             cur = nxt
         is_closed = end_node[cur] == start_node[s] and (closed or len(ch) > 1)
+        # cut out sub-loops holding a backwards piece (the walk visits a node twice)
+        nodes = [int(start_node[s])] + [int(end_node[k]) for k in idx]
+        changed = True
+        while changed:
+            changed = False
+            for i in range(len(nodes)):
+                for j in range(i + 1, len(nodes)):
+                    if nodes[i] != nodes[j] or (i == 0 and j == len(nodes) - 1):
+                        continue
+                    if any(rev[k] for k in idx[i:j]):
+                        del ch[i:j], idx[i:j], nodes[i + 1 : j + 1]
+                        changed = True
+                        break
+                if changed:
+                    break
+        if not ch:
+            continue
+        for a, b in zip(ch[:-1], ch[1:], strict=True):
+            b[0] = a[3]
         if is_closed:
             ch[-1][3] = ch[0][0]
         # drop specks left by numerical noise
         length = sum(float(np.sum(np.hypot(*np.diff(p, axis=0).T))) for p in ch)
+        free = not is_closed and n_in_all[nodes[0]] == 0 and n_out_all[nodes[-1]] == 0
+        if closed and free and length <= 4 * math.sqrt(r * tol):
+            continue
         if length > 2 * tol:
             out.append((ch, bool(is_closed)))
     return out

@@ -235,6 +235,8 @@ def test_random_simple_outlines_offset_to_distance_d():
         if not orig.is_simple:
             continue
         res = offset_contour(segs, closed, d, eps)
+        # a closed contour gives closed contours only (common practice, no source)
+        assert not closed or all(c.closed for c in res.contours), (trial, d)
         for c in res.contours:
             pts = np.vstack([c.polyline, dense(c.segments, 40)])
             dist = shapely.distance(shapely.points(pts), shapely.LineString(dense(segs, 2000)))
