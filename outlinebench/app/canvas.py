@@ -9,6 +9,7 @@ pointer events in document coordinates and the active tool decides what they mea
 from __future__ import annotations
 
 import math
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -76,6 +77,10 @@ def _global_contours(doc: Document, outlines: set[int]) -> frozenset[int]:
     return frozenset(out)
 
 
+_CONTOUR = attrgetter("contour")
+_OTHER_CONTOUR = attrgetter("other_contour")
+
+
 def _touches(f: Finding, contours: frozenset[int]) -> bool:
     return f.contour in contours or (f.other_contour is not None and f.other_contour in contours)
 
@@ -124,8 +129,8 @@ class Canvas(QWidget):
         self._backdrop: tuple | None = None
         # Overlays: finding marks (the findings the list shows) and the curvature comb.
         self.finding_marks: list[Finding] = []
-        # (finding_marks, moving contours, marks on them) of the last frame during a drag
-        self._changing: tuple[list[Finding], frozenset[int], list[Finding]] | None = None
+        # (finding list, moving contours, its findings on them) for the last two lists asked
+        self._marks_on_cache: list[tuple] = [((), frozenset(), []), ((), frozenset(), [])]
         self.current_finding: Finding | None = None
         self.comb_on = False
         self.comb_scale = 1.0  # tooth length = comb_scale · κ (document units²)
@@ -223,22 +228,22 @@ class Canvas(QWidget):
         self.current_finding = current
         if self._partial_ok() and current is old_current:
             # During a drag the checker keeps the Finding objects of everything the edit did
-            # not touch: only the frames of findings that came or went need repainting.
-            ids_old = set(map(id, old))
-            ids_new = set(map(id, findings))
-            gone = [f for f in old if id(f) not in ids_new]
-            came = [f for f in findings if id(f) not in ids_old]
-            changed = gone + came
-            if not changed:
-                return
-            xy = self.view.to_screen_array(np.array([(f.x, f.y) for f in changed], dtype=float))
-            lo, hi = xy.min(axis=0), xy.max(axis=0)
-            m = FRAME_REACH_PX
-            self.update(
-                QRectF(
-                    lo[0] - m, lo[1] - m, hi[0] - lo[0] + 2 * m, hi[1] - lo[1] + 2 * m
-                ).toAlignedRect()
-            )
+            # not touch, and the frames of findings off the dragged contours are part of the
+            # backdrop: only the frames of findings on them that came or went need repainting.
+            moving = self._backdrop[3]
+            before = self._marks_on(old, moving)
+            after = self._marks_on(findings, moving)
+            ids_before = set(map(id, before))
+            ids_after = set(map(id, after))
+            changed = [f for f in before if id(f) not in ids_after]
+            changed += [f for f in after if id(f) not in ids_before]
+            if changed:
+                xy = np.array([(f.x, f.y) for f in changed], dtype=float)
+                scr = self.view.to_screen_array(xy)
+                lo, hi = scr.min(axis=0), scr.max(axis=0)
+                m = FRAME_REACH_PX
+                rect = QRectF(lo[0] - m, lo[1] - m, hi[0] - lo[0] + 2 * m, hi[1] - lo[1] + 2 * m)
+                self.update(rect.toAlignedRect())
             return
         self.update()
 
@@ -377,20 +382,27 @@ class Canvas(QWidget):
         p.drawPixmap(0, 0, pixmap)
         self._paint_comb(p, doc, live)
         paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
-        changing = self._changing_marks(moving)
+        changing = self._marks_on(self.finding_marks, moving)
         paint_finding_marks(p, v, changing, w, h, self.current_finding)
         paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)
 
-    def _changing_marks(self, moving: frozenset[int]) -> list[Finding]:
-        """Finding marks on the ``moving`` contours (kept while the list and the contours
-        are the same: the frames between two checks of a drag paint the same ones)."""
-        marks = self.finding_marks
-        hit = self._changing
-        if hit is not None and hit[0] is marks and hit[1] == moving:
-            return hit[2]
-        changing = [f for f in marks if _touches(f, moving)]
-        self._changing = (marks, moving, changing)
-        return changing
+    def _marks_on(self, marks: list[Finding], moving: frozenset[int]) -> list[Finding]:
+        """The findings of ``marks`` on the ``moving`` contours (kept for the last two lists:
+        the frames between two checks of a drag paint the same ones)."""
+        for hit in self._marks_on_cache:
+            if hit[0] is marks and hit[1] == moving:
+                return hit[2]
+        if not marks or not moving:
+            on: list[Finding] = []
+        else:
+            wanted = np.fromiter(moving, dtype=float, count=len(moving))
+            contour = np.fromiter(map(_CONTOUR, marks), dtype=float, count=len(marks))
+            # None (no other contour) becomes NaN, which is in no set
+            other = np.array(list(map(_OTHER_CONTOUR, marks)), dtype=float)
+            hit_rows = np.flatnonzero(np.isin(contour, wanted) | np.isin(other, wanted))
+            on = [marks[k] for k in hit_rows.tolist()]
+        self._marks_on_cache = [self._marks_on_cache[-1], (marks, moving, on)]
+        return on
 
     def _paint_comb(self, p: QPainter, doc: Document, outlines: set[int] | None) -> None:
         """The comb of the visible contours of ``outlines`` (default all), under the outline."""

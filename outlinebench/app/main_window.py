@@ -408,6 +408,11 @@ class MainWindow(QMainWindow):
         self.hint_label.setToolTip(NAVIGATION_HINT)
         self.hint_label.setStyleSheet("color: #5b6670;")
         sb.addPermanentWidget(self.hint_label)
+        # Wide enough for long coordinates, so a new position (on every mouse move) repaints
+        # only this label instead of laying out and repainting the whole status bar.
+        self.pos_label.setMinimumWidth(
+            self.pos_label.fontMetrics().horizontalAdvance("x -00000.000  y -00000.000 mm ")
+        )
         sb.addPermanentWidget(self.pos_label)
         sb.addPermanentWidget(self.zoom_label)
 

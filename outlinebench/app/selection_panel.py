@@ -57,6 +57,14 @@ class NumberField(QDoubleSpinBox):
         event.ignore()
 
 
+def _special(box: QDoubleSpinBox, text: str) -> None:
+    """Set the text shown at the minimum value. Qt re-measures the field (and lays out the
+    panel again, repainting all of it) on every call, even with the same text: during a drag
+    that happens on every mouse move, so unchanged text is not set again."""
+    if box.specialValueText() != text:
+        box.setSpecialValueText(text)
+
+
 def _spin(suffix: str, decimals: int, lo: float = -_BIG, hi: float = _BIG) -> QDoubleSpinBox:
     box = NumberField()
     box.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
@@ -290,7 +298,7 @@ class SelectionPanel(QWidget):
         self._seg_keys = (None, None)
         for w in (self.seg_in, self.seg_out):
             w.setValue(0.0)
-            w.setSpecialValueText("")
+            _special(w, "")
         self.contour_info.setText("")
         self.join.setCurrentIndex(2)
 
@@ -346,12 +354,12 @@ class SelectionPanel(QWidget):
             if hk is None:
                 ln.setValue(ln.minimum())
                 ang.setValue(ang.minimum())
-                ln.setSpecialValueText("no handle (line)")
-                ang.setSpecialValueText("—")
+                _special(ln, "no handle (line)")
+                _special(ang, "—")
                 continue
             length, angle = pk.polar(p, pk.point_at(doc, hk))
-            ln.setSpecialValueText("")
-            ang.setSpecialValueText("")
+            _special(ln, "")
+            _special(ang, "")
             ln.setValue(units.show(length))
             ang.setValue(angle)
 
@@ -365,14 +373,14 @@ class SelectionPanel(QWidget):
             self._seg_keys = (keys[0], keys[1])
             label.setText(side)
             field.setValue(field.minimum())
-            field.setSpecialValueText("—")
+            _special(field, "—")
             return
         seg = self._editor.document.outlines[o].contours[c].segments[s]
         kind = {2: "line", 3: "quadratic", 4: "cubic"}[seg.shape[0]]
         keys[index] = (o, c, s)
         self._seg_keys = (keys[0], keys[1])
         label.setText(f"{side} (segment {s}, {kind})")
-        field.setSpecialValueText("")
+        _special(field, "")
         units = self._editor.units
         field.setValue(units.show(segment_length(seg, quick=self._editor.history.in_group)))
 

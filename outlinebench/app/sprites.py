@@ -24,6 +24,9 @@ SPRITE_PHASES = 4
 # Sprites kept at most; past this (colours or sizes changed many times) the cache starts over.
 _MAX_SPRITES = 8192
 
+# Up to this many copies are placed in plain Python (numpy's set-up costs more for a few).
+_FEW = 16
+
 _sprites: dict[tuple, QPixmap] = {}
 
 
@@ -92,11 +95,18 @@ def stamp(
     if antialias is None:
         antialias = bool(p.renderHints() & QPainter.RenderHint.Antialiasing)
     dpr = painter_dpr(p)
+    draw_pixmap = p.drawPixmap
+    if len(xy) <= _FEW:
+        n = SPRITE_PHASES
+        for x, y in xy.tolist() if isinstance(xy, np.ndarray) else xy:
+            qx, qy = math.floor(x * n + 0.5), math.floor(y * n + 0.5)
+            pm = _sprite(key, draw, half, qx % n, qy % n, dpr, antialias)
+            draw_pixmap(qx // n - half, qy // n - half, pm)
+        return
     q = np.floor(np.asarray(xy, dtype=np.float64) * SPRITE_PHASES + 0.5).astype(np.int64)
     corner = q // SPRITE_PHASES - half
     phase = q % SPRITE_PHASES
     code = phase[:, 0] * SPRITE_PHASES + phase[:, 1]
-    draw_pixmap = p.drawPixmap
     for c in np.unique(code).tolist():
         pm = _sprite(key, draw, half, c // SPRITE_PHASES, c % SPRITE_PHASES, dpr, antialias)
         for ix, iy in corner[code == c].tolist():
