@@ -486,7 +486,9 @@ def offset_contour(
                 )
     raw_arr = np.array(raw)
     # 4. trim loops and parts narrower than the tool
-    chains, removed = _trim(raw_arr, np.array(rev, dtype=bool), closed, cub, r, tolerance)
+    chains, removed = _trim(
+        raw_arr, np.array(rev, dtype=bool), closed, cub, r, tolerance, inward=distance < 0
+    )
     contours = []
     polys = flatten_contours([(ch, cl) for ch, cl in chains], tolerance) if chains else []
     for (ch, cl), poly in zip(chains, polys, strict=True):
@@ -628,11 +630,22 @@ def _piece_tangents(cub, coef, seg, t0, t1):
     return out[0], out[1]
 
 
-def _trim(raw: FloatArray, rev, closed: bool, orig: FloatArray, r: float, tol: float):
+def _trim(
+    raw: FloatArray,
+    rev,
+    closed: bool,
+    orig: FloatArray,
+    r: float,
+    tol: float,
+    inward: bool = False,
+):
     """Cut the raw offset at its self-intersections and keep what lies ≥ r − ε away.
 
     ``rev`` (R,) flags the raw pieces that run backwards (1 + eκ < 0); the pieces cut from
-    them keep the flag (see :func:`_chain`)."""
+    them keep the flag (see :func:`_chain`). For a closed contour a kept piece must also lie
+    on the offset's side: inside the contour for an inward offset, outside for an outward one
+    (a piece of the offset of one wall can reach past the opposite wall of a part narrower
+    than the tool, and then again lie ≥ r away from everything)."""
     import shapely
 
     # flatten the raw chain with a record of which raw piece each chord belongs to
@@ -727,6 +740,12 @@ def _trim(raw: FloatArray, rev, closed: bool, orig: FloatArray, r: float, tol: f
     )
     dist = shapely.distance(shapely.points(mids), ref)
     keep = dist >= thr
+    if closed:
+        area = shapely.Polygon(np.asarray(ref.coords))
+        if not area.is_valid:
+            area = area.buffer(0)
+        inside = shapely.contains_xy(area, mids[:, 0], mids[:, 1])
+        keep &= inside if inward else ~inside
     removed = pieces_arr[~keep]
     kept = [p for p, k in zip(pieces_arr, keep, strict=True) if k]
     return _chain(kept, closed, tol, prev_arr[keep], r), removed
@@ -789,8 +808,8 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
     Near a cusp of the offset (where the radius of curvature is just about |d|) a small loop
     of the raw offset can lie within the tolerance band and be kept; a sub-loop of a walk
     (between two visits of one node) that holds a piece running backwards (``rev``) is such
-    a loop and is cut out. For a closed contour, an open run left over with both ends free
-    and no longer than 4·√(r·tol) is a bit of such a loop's tail and is dropped.
+    a loop and is cut out. For a closed contour, an open run left over no longer than
+    4·√(r·tol) is a bit of such a loop's tail and is dropped.
     """
     if rev is None:
         rev = np.zeros(len(kept), dtype=bool)
@@ -867,7 +886,6 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
         alive[run] = False
 
     used = ~alive
-    n_in_all, n_out_all = counts()
     out = []
     for s in range(len(kept)):
         if used[s]:
@@ -915,8 +933,7 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
             ch[-1][3] = ch[0][0]
         # drop specks left by numerical noise
         length = sum(float(np.sum(np.hypot(*np.diff(p, axis=0).T))) for p in ch)
-        free = not is_closed and n_in_all[nodes[0]] == 0 and n_out_all[nodes[-1]] == 0
-        if closed and free and length <= 4 * math.sqrt(r * tol):
+        if closed and not is_closed and length <= 4 * math.sqrt(r * tol):
             continue
         if length > 2 * tol:
             out.append((ch, bool(is_closed)))
