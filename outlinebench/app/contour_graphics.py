@@ -169,14 +169,18 @@ def _directions(
     :func:`end_directions`, vectorised over the contour), and the control points padded to
     four per segment forwards and backwards, ``(n, 4, 2)`` each."""
     n = len(segs)
-    fwd = np.empty((n, 4, 2))
-    bwd = np.empty((n, 4, 2))
-    for i, seg in enumerate(segs):
-        k = seg.shape[0]
-        fwd[i, :k] = seg
-        fwd[i, k:] = seg[-1]
-        bwd[i, :k] = seg[::-1]
-        bwd[i, k:] = seg[0]
+    if all(seg.shape[0] == 4 for seg in segs):  # all cubics: one copy, no padding
+        fwd = np.stack(segs)
+        bwd = fwd[:, ::-1]
+    else:
+        fwd = np.empty((n, 4, 2))
+        bwd = np.empty((n, 4, 2))
+        for i, seg in enumerate(segs):
+            k = seg.shape[0]
+            fwd[i, :k] = seg
+            fwd[i, k:] = seg[-1]
+            bwd[i, :k] = seg[::-1]
+            bwd[i, k:] = seg[0]
 
     def first_distinct(d: NDArray[np.float64]) -> NDArray[np.float64]:
         norms = np.hypot(d[..., 0], d[..., 1])  # (n, 3)
@@ -201,6 +205,17 @@ def _join_marks(
     """Marks of joins whose incoming end and outgoing start directions are given, ``(m, 2)``."""
     if not len(intents):
         return []
+    smooth, stated, d = _join_arrays(incoming, outgoing, intents)
+    return [
+        JoinMark("smooth" if sm else "corner", bool(st), (float(x), float(y)))
+        for sm, st, (x, y) in zip(smooth.tolist(), stated.tolist(), d.tolist(), strict=True)
+    ]
+
+
+def _join_arrays(
+    incoming: NDArray[np.float64], outgoing: NDArray[np.float64], intents: list[str | None]
+) -> tuple[NDArray[np.bool_], NDArray[np.bool_], NDArray[np.float64]]:
+    """(smooth, stated, unit mark direction) of each join, as arrays."""
     cos = np.clip(np.einsum("ij,ij->i", incoming, outgoing), -1.0, 1.0)
     inferred_smooth = np.degrees(np.arccos(cos)) < SMOOTH_DISPLAY_DEG
     stated = np.array([i is not None for i in intents])
@@ -213,10 +228,7 @@ def _join_marks(
     ok = norm > _EPS
     d[ok] /= norm[ok, None]
     d[~ok] = (1.0, 0.0)
-    return [
-        JoinMark("smooth" if sm else "corner", bool(st), (float(x), float(y)))
-        for sm, st, (x, y) in zip(smooth.tolist(), stated.tolist(), d.tolist(), strict=True)
-    ]
+    return smooth, stated, d
 
 
 def build_graphics(contour: Contour) -> ContourGraphics:
@@ -232,19 +244,27 @@ def build_graphics(contour: Contour) -> ContourGraphics:
     bounds = (float(lo[0]), float(lo[1]), float(hi[0]), float(hi[1]))
     start, end, fwd, bwd = _directions(segs)
     on_curve = contour.on_curve_points()
+    intents = list(contour.joins)
     if contour.closed:
         # join j (segment j → j + 1) sits at on-curve point j + 1 (mod n)
-        joins = _join_marks(end, np.roll(start, -1, axis=0), list(contour.joins))
-        marks = joins[-1:] + joins[:-1]
+        smooth, stated, d = _join_arrays(end, np.roll(start, -1, axis=0), intents)
+        smooth, stated, d = np.roll(smooth, 1), np.roll(stated, 1), np.roll(d, 1, axis=0)
+        code = np.where(smooth, 0, 2) + stated
     else:
-        joins = _join_marks(end[:-1], start[1:], list(contour.joins))
-        d0, d1 = start[0], end[-1]
-        marks = [
-            JoinMark("start", True, (float(d0[0]), float(d0[1]))),
-            *joins,
-            JoinMark("end", True, (float(d1[0]), float(d1[1]))),
-        ]
-    point_kind = [m.kind for m in marks]
+        if n > 1:
+            smooth, stated, d = _join_arrays(end[:-1], start[1:], intents)
+        else:
+            smooth, stated, d = np.zeros(0, bool), np.zeros(0, bool), np.zeros((0, 2))
+        ends_code = [MARK_KINDS.index("start") * 2 + 1, MARK_KINDS.index("end") * 2 + 1]
+        code = np.concatenate([[ends_code[0]], np.where(smooth, 0, 2) + stated, [ends_code[1]]])
+        d = np.concatenate([start[:1], d, end[-1:]])
+        stated = np.concatenate([[True], stated, [True]])
+    code = code.astype(np.intp)
+    point_kind = code // 2
+    marks = [
+        JoinMark(MARK_KINDS[k], bool(st), (x, y))
+        for k, st, (x, y) in zip(point_kind.tolist(), stated.tolist(), d.tolist(), strict=True)
+    ]
     count = len(on_curve)
     sizes = np.array([seg.shape[0] for seg in segs])
     curved = np.flatnonzero(sizes > 2)
@@ -255,15 +275,25 @@ def build_graphics(contour: Contour) -> ContourGraphics:
     handle_lines[0::2, 1] = fwd[curved, 1]
     handle_lines[1::2, 0] = bwd[curved, 0]
     handle_lines[1::2, 1] = bwd[curved, 1]
-    kinds = []
+    handle_code = np.empty(2 * len(curved), dtype=np.intp)
+    handle_code[0::2] = point_kind[curved]
+    handle_code[1::2] = point_kind[(curved + 1) % count]
+    kinds = [MARK_KINDS[k] for k in handle_code.tolist()]
     refs = []
-    for i in curved.tolist():
-        kinds.append(point_kind[i])
-        kinds.append(point_kind[(i + 1) % count])
+    for i, k in zip(curved.tolist(), sizes[curved].tolist(), strict=True):
         refs.append((i, 1))
-        refs.append((i, int(sizes[i]) - 2))
+        refs.append((i, k - 2))
     return ContourGraphics(
-        contour_path(contour), bounds, on_curve, marks, handle_lines, kinds, refs
+        contour_path(contour),
+        bounds,
+        on_curve,
+        marks,
+        handle_lines,
+        kinds,
+        refs,
+        code,
+        np.arctan2(d[:, 1], d[:, 0]),
+        handle_code,
     )
 
 

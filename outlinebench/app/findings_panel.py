@@ -313,6 +313,7 @@ class FindingsPanel(QWidget):
         self._timer.setInterval(LIST_THROTTLE_MS)
         self._timer.timeout.connect(self.refresh)
         self._last_refresh = 0.0
+        self._shown: tuple | None = None  # (findings, info shown, filtered list), last asked
         # id(original finding) -> (original, converted), for the units in _conversions_key
         self._conversions: dict[int, tuple[Finding, Finding]] = {}
         self._conversions_key: tuple[float, str] | None = None
@@ -341,7 +342,13 @@ class FindingsPanel(QWidget):
     def shown_findings(self) -> list[Finding]:
         """The findings the filter lets through (user units)."""
         fs = self._live.findings
-        return list(fs) if self.info_shown else [f for f in fs if f.severity != "info"]
+        info = self.info_shown
+        hit = self._shown
+        if hit is not None and hit[0] is fs and hit[1] == info:
+            return hit[2]  # the list and the canvas ask after every check: filter once
+        shown = list(fs) if info else [f for f in fs if f.severity != "info"]
+        self._shown = (fs, info, shown)
+        return shown
 
     def _on_filter(self, checked: bool) -> None:
         self.refresh()
