@@ -468,10 +468,24 @@ def offset_contour(
                 source.extend([-1] * len(arc))
                 rev.extend([False] * len(arc))
             else:
-                raw.append(_line_cubic(a, corner))
-                raw.append(_line_cubic(corner, b))
-                source.extend([-1, -1])
-                rev.extend([False, False])
+                # turns toward the tool. A closed contour gets the long way round the corner
+                # (radius |d|): where the corner still sticks out (a spike whose next segment
+                # curls back) part of that arc is the offset; the rest lies inside (outward
+                # offset) or outside (inward) and is cut away by the side test of the trim.
+                # An open contour has no sides: the offsets are joined through the corner.
+                arc = (
+                    _arc_cubics(corner, a, _sweep(corner, a, b, -turn), r, tolerance)
+                    if closed
+                    else []
+                )
+                if arc:
+                    arc[0][0] = a
+                    arc[-1][3] = b
+                else:
+                    arc = [_line_cubic(a, corner), _line_cubic(corner, b)]
+                raw.extend(arc)
+                source.extend([-1] * len(arc))
+                rev.extend([False] * len(arc))
                 problems.append(
                     OffsetProblem(
                         "tool-does-not-fit",
