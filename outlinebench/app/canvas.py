@@ -333,7 +333,7 @@ class Canvas(QWidget):
                 sel = self._editor.selected_points()
                 paint_selection(p, self.view, doc, sel, self._editor.hover)
             else:
-                self._paint_with_backdrop(p, doc, live)
+                self._paint_with_backdrop(p, doc, live, QRectF(event.rect()))
             self._paint_tool_overlay(p)
         finally:
             p.end()
@@ -355,7 +355,9 @@ class Canvas(QWidget):
         pairs = zip(base.outlines, doc.outlines, strict=True)
         return {i for i, (a, b) in enumerate(pairs) if a is not b}
 
-    def _paint_with_backdrop(self, p: QPainter, doc: Document, live: set[int]) -> None:
+    def _paint_with_backdrop(
+        self, p: QPainter, doc: Document, live: set[int], clip: QRectF | None = None
+    ) -> None:
         w, h, dpr = self.width(), self.height(), self.devicePixelRatioF()
         v = self.view
         key = (v.scale, v.offset_x, v.offset_y, w, h, dpr, frozenset(live), id(self._last_doc))
@@ -381,7 +383,9 @@ class Canvas(QWidget):
         _, pixmap, marks, moving = self._backdrop
         p.drawPixmap(0, 0, pixmap)
         self._paint_comb(p, doc, live)
-        paint_outlines(p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats)
+        paint_outlines(
+            p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats, clip=clip
+        )
         changing = self._marks_on(self.finding_marks, moving)
         paint_finding_marks(p, v, changing, w, h, self.current_finding)
         paint_selection(p, v, doc, self._editor.selected_points(), self._editor.hover)

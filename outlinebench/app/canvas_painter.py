@@ -284,11 +284,14 @@ def paint_outlines(
     outlines: set[int] | None = None,
     marks: bool | None = None,
     stats: PaintStats | None = None,
+    clip: QRectF | None = None,
 ) -> PaintStats:
     """Fill, stroke and mark the visible contours of the given outlines (default: all).
 
     ``marks`` forces marks on or off; by default they are drawn when at most
-    :data:`style.MAX_MARKED_POINTS` on-curve points of these outlines are in view.
+    :data:`style.MAX_MARKED_POINTS` on-curve points of these outlines are in view. ``clip``
+    (logical px) is the part of the canvas being repainted: marks and handles entirely
+    outside it are not drawn.
     """
     stats = stats or PaintStats()
     shown = _visible(view, doc, cache, width, height, outlines)
@@ -318,7 +321,7 @@ def paint_outlines(
     stats.points_in_view = sum(int(v[4].sum()) for v in shown)
     stats.marks_drawn = stats.points_in_view <= style.MAX_MARKED_POINTS if marks is None else marks
     if stats.marks_drawn:
-        _paint_marks(p, view, shown, width, height)
+        _paint_marks(p, view, shown, width, height, clip)
     return stats
 
 
@@ -373,8 +376,16 @@ def _paint_marks(
     in_view: Iterable[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]],
     width: float,
     height: float,
+    clip: QRectF | None = None,
 ) -> None:
     # Gathered as arrays over the contours in view, then drawn per kind and look in batches.
+    # Marks reach at most this far from their point, handle rings from their handle.
+    reach = style.MARK_SIZE * 1.45 + 3.0
+    if clip is None:
+        x0, y0, x1, y1 = -20.0, -20.0, width + 20.0, height + 20.0
+    else:
+        x0, y0 = clip.left() - reach, clip.top() - reach
+        x1, y1 = clip.right() + reach, clip.bottom() + reach
     hl_parts: list[np.ndarray] = []
     hcode_parts: list[np.ndarray] = []
     xy_parts: list[np.ndarray] = []
@@ -384,11 +395,14 @@ def _paint_marks(
     for _oi, _ci, g, scr, inside in in_view:
         if len(g.handle_lines):
             hl = g.handle_lines * view.scale + offset
-            near = (hl[..., 0] >= -20) & (hl[..., 0] <= width + 20)
-            near &= (hl[..., 1] >= -20) & (hl[..., 1] <= height + 20)
-            shown = near.any(axis=1)  # either end of the handle line in view
+            # the handle line's box meets the region
+            lo, hi = hl.min(axis=1), hl.max(axis=1)
+            shown = (hi[:, 0] >= x0) & (lo[:, 0] <= x1) & (hi[:, 1] >= y0) & (lo[:, 1] <= y1)
             hl_parts.append(hl[shown])
             hcode_parts.append(g.handle_code[shown])
+        if clip is not None:
+            inside = inside & (scr[:, 0] >= x0) & (scr[:, 0] <= x1)
+            inside &= (scr[:, 1] >= y0) & (scr[:, 1] <= y1)
         xy_parts.append(scr[inside])
         code_parts.append(g.mark_code[inside])
         angle_parts.append(g.mark_angle[inside])

@@ -98,9 +98,13 @@ def stamp(
     draw_pixmap = p.drawPixmap
     if len(xy) <= _FEW:
         n = SPRITE_PHASES
+        local: dict[tuple[int, int], QPixmap] = {}
         for x, y in xy.tolist() if isinstance(xy, np.ndarray) else xy:
             qx, qy = math.floor(x * n + 0.5), math.floor(y * n + 0.5)
-            pm = _sprite(key, draw, half, qx % n, qy % n, dpr, antialias)
+            phase = (qx % n, qy % n)
+            pm = local.get(phase)
+            if pm is None:
+                pm = local[phase] = _sprite(key, draw, half, *phase, dpr, antialias)
             draw_pixmap(qx // n - half, qy // n - half, pm)
         return
     q = np.floor(np.asarray(xy, dtype=np.float64) * SPRITE_PHASES + 0.5).astype(np.int64)
