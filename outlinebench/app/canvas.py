@@ -382,7 +382,7 @@ class Canvas(QWidget):
             self._backdrop = (key, pixmap, marks, moving)
         _, pixmap, marks, moving = self._backdrop
         p.drawPixmap(0, 0, pixmap)
-        self._paint_comb(p, doc, live)
+        self._paint_comb(p, doc, live, clip)
         paint_outlines(
             p, v, doc, self.cache, w, h, outlines=live, marks=marks, stats=self.stats, clip=clip
         )
@@ -408,8 +408,11 @@ class Canvas(QWidget):
         self._marks_on_cache = [self._marks_on_cache[-1], (marks, moving, on)]
         return on
 
-    def _paint_comb(self, p: QPainter, doc: Document, outlines: set[int] | None) -> None:
-        """The comb of the visible contours of ``outlines`` (default all), under the outline."""
+    def _paint_comb(
+        self, p: QPainter, doc: Document, outlines: set[int] | None, clip: QRectF | None = None
+    ) -> None:
+        """The comb of the visible contours of ``outlines`` (default all), under the outline;
+        with ``clip`` only the teeth near that part of the canvas."""
         if not self.comb_on:
             self.comb_teeth, self.comb_hidden = 0, False
             return
@@ -422,7 +425,9 @@ class Canvas(QWidget):
             self.comb_teeth = 0
             return
         pairs = [(oi, ci) for oi, ci, *_ in shown]
-        self.comb_teeth = paint_comb(p, self.view, doc, pairs, self.comb_cache, self.comb_scale)
+        self.comb_teeth = paint_comb(
+            p, self.view, doc, pairs, self.comb_cache, self.comb_scale, clip
+        )
 
     def event(self, event: QEvent) -> bool:
         if event.type() == QEvent.Type.ToolTip:

@@ -23,6 +23,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
+from PySide6.QtCore import QRectF
 from PySide6.QtGui import QPainter, QPen
 
 from outlinebench.app import style
@@ -286,6 +287,31 @@ class CombCache:
                 del self._segs[k]
 
 
+def _near_clip(
+    base: FloatArray, tips: FloatArray, breaks: NDArray[np.bool_], clip: QRectF
+) -> tuple[FloatArray, FloatArray, NDArray[np.bool_]]:
+    """The teeth whose line, or a piece of the tip line to a neighbouring tip of the same
+    segment, has a box meeting ``clip`` grown by 2 px; the tip line restarts after a gap."""
+    n = len(base)
+    lo = np.minimum(base, tips)
+    hi = np.maximum(base, tips)
+    prev_ok = ~breaks  # tip i is joined to tip i - 1
+    next_ok = np.zeros(n, dtype=bool)
+    next_ok[:-1] = ~breaks[1:]
+    prev_tip = np.roll(tips, 1, axis=0)
+    next_tip = np.roll(tips, -1, axis=0)
+    lo = np.where(prev_ok[:, None], np.minimum(lo, prev_tip), lo)
+    hi = np.where(prev_ok[:, None], np.maximum(hi, prev_tip), hi)
+    lo = np.where(next_ok[:, None], np.minimum(lo, next_tip), lo)
+    hi = np.where(next_ok[:, None], np.maximum(hi, next_tip), hi)
+    m = 2.0
+    keep = (hi[:, 0] >= clip.left() - m) & (lo[:, 0] <= clip.right() + m)
+    keep &= (hi[:, 1] >= clip.top() - m) & (lo[:, 1] <= clip.bottom() + m)
+    gap = np.ones(n, dtype=bool)  # row i follows a dropped row (or starts the comb)
+    gap[1:] = ~keep[:-1]
+    return base[keep], tips[keep], (breaks | gap)[keep]
+
+
 def paint_comb(
     p: QPainter,
     view: ViewTransform,
@@ -293,10 +319,13 @@ def paint_comb(
     contours: Sequence[tuple[int, int]],
     cache: CombCache,
     scale: float,
+    clip: QRectF | None = None,
 ) -> int:
     """Paint the comb of the given (outline, contour) pairs; returns the teeth drawn.
 
-    Tooth lengths on screen are cut at :data:`MAX_TOOTH_PX` (unbounded curvature).
+    Tooth lengths on screen are cut at :data:`MAX_TOOTH_PX` (unbounded curvature). With
+    ``clip`` (logical px, the part of the canvas being repainted) only the teeth and the
+    pieces of the line through their tips that come near it are drawn.
     """
     base_parts, tip_parts, break_parts = [], [], []
     for oi, ci in contours:
@@ -319,6 +348,10 @@ def paint_comb(
     base = np.concatenate(base_parts)
     tips = np.concatenate(tip_parts)
     breaks = np.concatenate(break_parts)
+    if clip is not None and len(base):
+        base, tips, breaks = _near_clip(base, tips, breaks, clip)
+        if not len(base):
+            return 0
     p.save()
     p.setRenderHint(QPainter.RenderHint.Antialiasing, False)
     pen = QPen(style.COMB_TOOTH, 1.0)
