@@ -937,6 +937,11 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
                         del ch[i:j], idx[i:j], nodes[i + 1 : j + 1]
                         changed = True
                         break
+                    if is_closed and any(rev[k] for k in idx[j:] + idx[:i]):
+                        # the loop runs round the walk's start: keep the part between
+                        ch, idx, nodes = ch[i:j], idx[i:j], nodes[i : j + 1]
+                        changed = True
+                        break
                 if changed:
                     break
         if not ch:
@@ -951,6 +956,34 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
             continue
         if length > 2 * tol:
             out.append((ch, bool(is_closed)))
+    if closed and any(not cl for _, cl in out) and any(cl for _, cl in out):
+        out = _drop_doubles(out, tol)
+    return out
+
+
+def _drop_doubles(chains, tol: float):
+    """Drop open runs (of a closed contour's offset) lying along a closed one within 8·tol.
+
+    Where a segment ends in a tiny hook, two strands of the raw offset can both stay inside
+    the tolerance band along the same stretch; the walk takes one into the closed contour and
+    leaves the other as an open double of it.
+    """
+    import shapely
+
+    u = np.linspace(0.0, 1.0, 9)
+    rings = [
+        shapely.LineString(_eval(_coef(np.array(ch)), np.tile(u, (len(ch), 1)))[0].reshape(-1, 2))
+        for ch, cl in chains
+        if cl
+    ]
+    whole = shapely.union_all(rings)
+    out = []
+    for ch, cl in chains:
+        if not cl:
+            pts = _eval(_coef(np.array(ch)), np.tile(u, (len(ch), 1)))[0].reshape(-1, 2)
+            if np.max(shapely.distance(shapely.points(pts), whole)) <= 8 * tol:
+                continue
+        out.append((ch, cl))
     return out
 
 
