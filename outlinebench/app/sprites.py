@@ -111,7 +111,11 @@ def stamp(
     corner = q // SPRITE_PHASES - half
     phase = q % SPRITE_PHASES
     code = phase[:, 0] * SPRITE_PHASES + phase[:, 1]
-    for c in np.unique(code).tolist():
-        pm = _sprite(key, draw, half, c // SPRITE_PHASES, c % SPRITE_PHASES, dpr, antialias)
-        for ix, iy in corner[code == c].tolist():
-            draw_pixmap(ix, iy, pm)
+    order = np.argsort(code, kind="stable")  # one pixmap look-up per sub-pixel offset
+    last = -1
+    pm = None
+    for (ix, iy), c in zip(corner[order].tolist(), code[order].tolist(), strict=True):
+        if c != last:
+            last = c
+            pm = _sprite(key, draw, half, c // SPRITE_PHASES, c % SPRITE_PHASES, dpr, antialias)
+        draw_pixmap(ix, iy, pm)
