@@ -327,8 +327,10 @@ def offset_contour(
     2. Each piece gets a cubic fitted to the exact offset (see ``_fit_pieces``); pieces whose
        measured error exceeds ε are halved and refitted (Tiller & Hanson 1984).
     3. At corners turning away from the tool a round join (cubic circular arcs about the
-       corner, radial error ≤ ε) is added; at corners turning toward it the two offsets are
-       joined through the corner point and a sharp corner is reported.
+       corner, radial error ≤ ε) is added; at corners turning toward it a sharp corner is
+       reported and the two offsets are joined the long way round the corner on radius |d|
+       (closed contours; the part of that arc on the wrong side is cut away in step 4, the
+       part round a tip that still sticks out is kept) or through the corner point (open).
     0. A contour that crosses itself has no one inside and outside: it is reported as
        ``self-intersection`` (each crossing, found on the flattening with shapely and confirmed
        on the segments by :func:`outlinebench.geometry.intersect.intersections`) and not
@@ -337,11 +339,14 @@ def offset_contour(
        as ``offset-inaccurate`` with its measured error (never silently).
     4. The raw offset's self-intersections are found on its flattening (shapely noding) and
        refined on the cubics; pieces whose midpoint lies nearer than |d| − ε to the original
-       (loops of concave parts, parts of the shape narrower than the tool) are cut away.
+       (loops of concave parts, parts of the shape narrower than the tool), or for closed
+       contours on the wrong side of it, are cut away.
        Each crossing is solved on both cubics together (Newton's method on A(ta) = B(tb)),
        so the kept pieces meet exactly there; stubs that the cut by distance leaves just
        beyond a crossing are dropped, and the pieces are joined through the crossings into
        contours — a closed contour gives closed contours only (several where it splits).
+       Near-cusp loops that stay inside the tolerance band (they hold a piece where
+       1 + e·κ < 0) are cut out of the walk (see ``_chain``).
     """
     if not math.isfinite(distance):
         raise InvalidGeometryError(f"the offset distance must be a finite number, got {distance}")
