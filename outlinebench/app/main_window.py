@@ -411,7 +411,7 @@ class MainWindow(QMainWindow):
         # Wide enough for long coordinates, so a new position (on every mouse move) repaints
         # only this label instead of laying out and repainting the whole status bar.
         self.pos_label.setMinimumWidth(
-            self.pos_label.fontMetrics().horizontalAdvance("x -00000.000  y -00000.000 mm ")
+            self.pos_label.fontMetrics().horizontalAdvance("x -0000.00  y -0000.00 mm")
         )
         sb.addPermanentWidget(self.pos_label)
         sb.addPermanentWidget(self.zoom_label)
