@@ -45,6 +45,7 @@ __all__ = [
     "teeth_per_segment",
     "as_cubics",
     "comb_tips",
+    "DIRECT_MIN_SPEED",
     "auto_comb_scale",
     "CombCache",
     "paint_comb",
@@ -157,15 +158,76 @@ def sample_comb(
         rows = np.flatnonzero(teeth == n)
         t = np.linspace(0.0, 1.0, n)
         batch = cubic[rows]
-        pts = evaluate(batch, t).reshape(len(rows), n, 2)
-        nor = unit_normal(batch, t).reshape(len(rows), n, 2)
-        kap = np.asarray(curvature(batch, t)).reshape(len(rows), n)
+        pts, nor, kap = _sample_cubics(batch, n)
         idx = (offsets[rows][:, None] + np.arange(n)[None, :]).ravel()
         points[idx] = pts.reshape(-1, 2)
         normals[idx] = nor.reshape(-1, 2)
         kappa[idx] = kap.ravel()
         tt[idx] = np.tile(t, len(rows))
     return CombSamples(points, normals, kappa, seg, tt)
+
+
+# A segment is sampled on the direct path below only when its speed |B′(t)| stays above this
+# fraction of its size at every sample (far above geometry.curvature's
+# ZERO_DERIVATIVE_TOLERANCE, 1e-12) and its size is well inside the float range; otherwise
+# geometry.curvature's one-sided limits are used.
+DIRECT_MIN_SPEED = 1e-6
+_DIRECT_SIZE_RANGE = (1e-100, 1e100)
+_bases: dict[int, tuple[FloatArray, FloatArray, FloatArray]] = {}
+
+
+def _cubic_bases(n: int) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Bernstein weights of B, B′ and B″ of a cubic at ``linspace(0, 1, n)``, ``(n, 4)``."""
+    hit = _bases.get(n)
+    if hit is None:
+        t = np.linspace(0.0, 1.0, n)
+        u = 1.0 - t
+        b0 = np.stack([u**3, 3 * t * u**2, 3 * t**2 * u, t**3], axis=1)
+        # B′ = 3 Σ b²_i (P_{i+1} − P_i), B″ = 6 Σ b¹_i (P_{i+2} − 2 P_{i+1} + P_i) (Farin §5.3)
+        a, b, c = u**2, 2 * t * u, t**2
+        b1 = 3 * np.stack([-a, a - b, b - c, c], axis=1)
+        b2 = 6 * np.stack([u, t - 2 * u, u - 2 * t, t], axis=1)
+        hit = _bases[n] = (b0, b1, b2)
+    return hit
+
+
+def _sample_cubics(batch: FloatArray, n: int) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Points, unit normals and signed curvature of ``(r, 4, 2)`` cubics at ``n`` evenly
+    spaced parameters, ``(r, n, 2)``, ``(r, n, 2)``, ``(r, n)``.
+
+    Notes
+    -----
+    Regular segments (see :data:`DIRECT_MIN_SPEED`) straight from the Bernstein form:
+    N = B′⊥ / |B′| (B′ turned +90°), κ = (x′y″ − y′x″) / |B′|³ (do Carmo §1-5), the same
+    quantities as :func:`outlinebench.geometry.curvature.unit_normal` and
+    :func:`~outlinebench.geometry.curvature.curvature`, which handle the others (retracted
+    handles, cusps) with their one-sided limits. A drag samples a few segments per move;
+    this keeps it to a handful of array operations.
+    """
+    r = batch.shape[0]
+    b0, b1, b2 = _cubic_bases(n)
+    pts = np.einsum("ti,rik->rtk", b0, batch)
+    d1 = np.einsum("ti,rik->rtk", b1, batch)
+    d2 = np.einsum("ti,rik->rtk", b2, batch)
+    speed = np.hypot(d1[..., 0], d1[..., 1])
+    size = np.max(batch.max(axis=1) - batch.min(axis=1), axis=1)
+    lo, hi = _DIRECT_SIZE_RANGE
+    regular = (size > lo) & (size < hi) & np.all(speed > DIRECT_MIN_SPEED * size[:, None], axis=1)
+    nor = np.empty((r, n, 2))
+    kap = np.empty((r, n))
+    if regular.any():
+        sp, v, w = speed[regular], d1[regular], d2[regular]
+        nor[regular, :, 0] = -v[..., 1] / sp
+        nor[regular, :, 1] = v[..., 0] / sp
+        kap[regular] = (v[..., 0] * w[..., 1] - v[..., 1] * w[..., 0]) / sp**3
+    if not regular.all():
+        t = np.linspace(0.0, 1.0, n)
+        other = batch[~regular]
+        m = other.shape[0]
+        nor[~regular] = unit_normal(other, t).reshape(m, n, 2)
+        kap[~regular] = np.asarray(curvature(other, t)).reshape(m, n)
+        pts[~regular] = evaluate(other, t).reshape(m, n, 2)
+    return pts, nor, kap
 
 
 def comb_tips(samples: CombSamples, scale: float) -> FloatArray:

@@ -183,3 +183,20 @@ def test_comb_follows_a_drag_live(window):
     assert canvas.comb_teeth > 0
     assert canvas.comb_scale == scale  # a drag never changes the comb scale
     _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(9.0, 14.0))
+
+
+def test_a_retracted_handle_is_sampled_with_its_one_sided_limits():
+    # P1 = P0: B′(0) = 0, so the direct formulas do not apply at t = 0. Near 0 the curve
+    # leaves along P2 − P0 = (1, 1) (first non-vanishing derivative, Farin §5.3: closed
+    # form), so the normal there is (1, 1)/√2 turned +90°; the curve turns right (the
+    # control polygon bends clockwise), and κ at a retracted handle whose neighbours are not
+    # collinear is unbounded (its limit is −∞: κ ~ const/t as t → 0, closed form).
+    seg = np.array([[0.0, 0.0], [0.0, 0.0], [1.0, 1.0], [2.0, 0.0]])
+    s = sample_comb([seg], np.array([5]))
+    np.testing.assert_allclose(s.normals[0], [-math.sqrt(0.5), math.sqrt(0.5)], atol=1e-12)
+    assert s.kappa[0] == -math.inf
+    # Elsewhere the samples are regular: κ from svgpathtools (unsigned) matches |κ|.
+    ref = _svgpt(seg)
+    for k in range(1, 5):
+        t = float(s.t[k])
+        assert abs(s.kappa[k]) == pytest.approx(float(ref.curvature(t)), rel=1e-9)
