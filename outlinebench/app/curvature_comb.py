@@ -353,22 +353,28 @@ def _near_clip(
     base: FloatArray, tips: FloatArray, breaks: NDArray[np.bool_], clip: QRectF
 ) -> tuple[FloatArray, FloatArray, NDArray[np.bool_]]:
     """The teeth whose line, or a piece of the tip line to a neighbouring tip of the same
-    segment, has a box meeting ``clip`` grown by 2 px; the tip line restarts after a gap."""
+    segment, has a box meeting ``clip`` grown by 2 px (both ends of such a piece are kept, so
+    the piece is drawn); the tip line restarts after a gap."""
     n = len(base)
-    lo = np.minimum(base, tips)
-    hi = np.maximum(base, tips)
-    prev_ok = ~breaks  # tip i is joined to tip i - 1
-    next_ok = np.zeros(n, dtype=bool)
-    next_ok[:-1] = ~breaks[1:]
-    prev_tip = np.roll(tips, 1, axis=0)
-    next_tip = np.roll(tips, -1, axis=0)
-    lo = np.where(prev_ok[:, None], np.minimum(lo, prev_tip), lo)
-    hi = np.where(prev_ok[:, None], np.maximum(hi, prev_tip), hi)
-    lo = np.where(next_ok[:, None], np.minimum(lo, next_tip), lo)
-    hi = np.where(next_ok[:, None], np.maximum(hi, next_tip), hi)
     m = 2.0
-    keep = (hi[:, 0] >= clip.left() - m) & (lo[:, 0] <= clip.right() + m)
-    keep &= (hi[:, 1] >= clip.top() - m) & (lo[:, 1] <= clip.bottom() + m)
+    x0, y0 = clip.left() - m, clip.top() - m
+    x1, y1 = clip.right() + m, clip.bottom() + m
+
+    def meets(a: FloatArray, b: FloatArray) -> NDArray[np.bool_]:
+        lo, hi = np.minimum(a, b), np.maximum(a, b)
+        return (hi[:, 0] >= x0) & (lo[:, 0] <= x1) & (hi[:, 1] >= y0) & (lo[:, 1] <= y1)
+
+    keep = meets(base, tips)
+    # piece[i]: the tip line from tip i - 1 to tip i (same segment) meets the region
+    piece = ~breaks & meets(np.roll(tips, 1, axis=0), tips)
+    keep |= piece
+    keep[:-1] |= piece[1:]
+    # and one more tip on either side, so the line does not restart next to the region
+    # (Qt's 1-px antialiased stroke covers a vertex differently where a line starts)
+    grow = keep.copy()
+    grow[1:] |= keep[:-1] & ~breaks[1:]
+    grow[:-1] |= keep[1:] & ~breaks[1:]
+    keep = grow
     gap = np.ones(n, dtype=bool)  # row i follows a dropped row (or starts the comb)
     gap[1:] = ~keep[:-1]
     return base[keep], tips[keep], (breaks | gap)[keep]

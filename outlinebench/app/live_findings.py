@@ -3,10 +3,13 @@
 :class:`LiveFindings` listens to the session's ``changed`` signal and hands each new document
 to an incremental :class:`outlinebench.diagnostics.Checker`, which recomputes only the
 contours and segments an edit replaced (the model keeps untouched ones as the same objects).
-A small edit therefore costs a fraction of a millisecond. During a drag, a check that took
-longer than :data:`LIVE_BUDGET_MS` is not repeated on every mouse move but at most once per
-:data:`THROTTLE_MS`, so the drag stays smooth on large documents; when the gesture ends the
-document is checked at once.
+A small edit therefore costs a fraction of a millisecond. During a drag the check does not
+run inside the mouse move: it is queued to run right after the frame that shows the moved
+geometry (a zero-interval timer, so the findings follow within one event-loop turn, and at most
+one check is ever pending however many moves arrive). A check that took longer than
+:data:`LIVE_BUDGET_MS` is not repeated on every mouse move but at most once per
+:data:`THROTTLE_MS`, so the drag stays smooth on large documents. Outside a drag (an edit, undo,
+a file opened) the document is checked at once.
 """
 
 from __future__ import annotations
@@ -94,6 +97,11 @@ class LiveFindings(QObject):
         self._timer.setSingleShot(True)
         self._timer.setInterval(THROTTLE_MS)
         self._timer.timeout.connect(self.refresh)
+        # During a drag: the check queued to run after the frame (one at most).
+        self._soon = QTimer(self)
+        self._soon.setSingleShot(True)
+        self._soon.setInterval(0)
+        self._soon.timeout.connect(self._refresh_in_gesture)
         session.changed.connect(self._on_document_changed)
         self.refresh()
 
@@ -112,16 +120,28 @@ class LiveFindings(QObject):
         if self._session.document is self.document:
             return
         # Outside a gesture (an edit, undo, a file opened) the check runs at once; during a
-        # drag it runs at once while the drag's checks are quick, else at most every
-        # THROTTLE_MS. (The first check of a drag always runs: the check of a whole file
-        # that came before says nothing about the cost of one contour.)
+        # drag it runs after the frame (next event-loop turn) while the drag's checks are
+        # quick, else at most every THROTTLE_MS. (The first check of a drag always runs: the
+        # check of a whole file that came before says nothing about the cost of one contour.)
         if not self.in_gesture:
             self.refresh()
         elif self._gesture_ms is None or self._gesture_ms <= LIVE_BUDGET_MS:
-            self.refresh()
-            self._gesture_ms = self.last_ms
+            if not self._timer.isActive():
+                self._soon.start()  # restarting an active zero timer keeps it one check
         elif not self._timer.isActive():
             self._timer.start()
+
+    @property
+    def pending(self) -> bool:
+        """A check of a newer document is queued (the findings are about to follow)."""
+        return self._soon.isActive() or self._timer.isActive()
+
+    def _refresh_in_gesture(self) -> None:
+        if self._session.document is self.document:
+            return
+        self.refresh()
+        if self.in_gesture:
+            self._gesture_ms = self.last_ms
 
     @property
     def in_gesture(self) -> bool:
@@ -131,6 +151,7 @@ class LiveFindings(QObject):
     def refresh(self) -> None:
         """Check the session's document now."""
         self._timer.stop()
+        self._soon.stop()
         doc = self._session.document
         t0 = time.perf_counter()
         try:

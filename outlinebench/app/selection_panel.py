@@ -4,15 +4,20 @@ Shows the point's coordinates, its join's intent, the length and angle of its ha
 length of the segments on either side, in the document's units. Typing a value and pressing
 Enter (or leaving the field) pushes one undoable command; nothing here changes the document
 directly.
+
+During a drag the fields follow the moving point at most every :data:`DRAG_REFRESH_MS` (their
+repaint would otherwise cost a millisecond or more on every mouse move); the exact values are
+shown again as soon as the drag ends.
 """
 
 from __future__ import annotations
 
 import math
+import time
 from typing import TYPE_CHECKING
 
 import numpy as np
-from PySide6.QtCore import QSignalBlocker, Qt
+from PySide6.QtCore import QSignalBlocker, Qt, QTimer
 from PySide6.QtWidgets import (
     QComboBox,
     QDoubleSpinBox,
@@ -31,9 +36,12 @@ from outlinebench.app.lengths import segment_length
 if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
     from outlinebench.app.session import EditorSession
 
-__all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS", "global_contour"]
+__all__ = ["SelectionPanel", "NumberField", "ANGLE_DECIMALS", "DRAG_REFRESH_MS", "global_contour"]
 
 ANGLE_DECIMALS = 3  # degrees shown to 0.001°
+# During a drag the fields are refreshed at most this often (milliseconds): 20 times a second
+# is enough to read a moving value; the exact values follow when the drag ends.
+DRAG_REFRESH_MS = 50
 _BIG = 1e9
 
 _JOIN_CHOICES = [
@@ -191,7 +199,11 @@ class SelectionPanel(QWidget):
         self.seg_in.valueChanged.connect(lambda _v: self._commit_segment_length(0))
         self.seg_out.valueChanged.connect(lambda _v: self._commit_segment_length(1))
 
-        editor.changed.connect(self._on_selection_changed)
+        self._last_shown = -math.inf  # time.perf_counter() of the last refresh
+        self._later = QTimer(self)  # the refresh put off during a drag
+        self._later.setSingleShot(True)
+        self._later.timeout.connect(self._on_selection_changed)
+        editor.changed.connect(self._on_document_changed)
         editor.selection_changed.connect(self._on_selection_changed)
         self._shown_key: pk.Key | None = None
         self._box: tuple[float, float] | None = None
@@ -209,7 +221,19 @@ class SelectionPanel(QWidget):
         self.set_key_open(checked)
 
     # -- model → widget -----------------------------------------------------------------
+    def _on_document_changed(self) -> None:
+        if self._editor.history.in_group:  # a drag: at most every DRAG_REFRESH_MS
+            if self._later.isActive():
+                return
+            wait_ms = DRAG_REFRESH_MS - (time.perf_counter() - self._last_shown) * 1e3
+            if wait_ms > 0:
+                self._later.start(max(1, math.ceil(wait_ms)))
+                return
+        self._on_selection_changed()
+
     def _on_selection_changed(self) -> None:
+        self._later.stop()
+        self._last_shown = time.perf_counter()
         ed = self._editor
         doc = ed.document
         units = ed.units

@@ -49,7 +49,7 @@ def bare_canvas(qtbot):
 
 @pytest.mark.parametrize("zoom", [1.0, 3.0])
 @pytest.mark.parametrize("which", [(0, 0, 1, 1), (0, 0, 1, 0)])  # handle, on-curve point
-def test_a_drag_repaints_what_a_full_repaint_would_show(bare_canvas, zoom, which):
+def test_a_drag_repaints_what_a_full_repaint_would_show(bare_canvas, qtbot, zoom, which):
     canvas, session, live = bare_canvas
     o, c, seg, i = which
     point = session.document.outlines[o].contours[c].segments[seg][i]
@@ -63,6 +63,10 @@ def test_a_drag_repaints_what_a_full_repaint_would_show(bare_canvas, zoom, which
     for k in range(1, 9):
         _send(canvas, QEvent.Type.MouseMove, start + QPointF(6.0 * k, -4.0 * k))
         QApplication.processEvents()  # the event loop paints what update() asked for
+    # The findings follow the moved geometry's frame within one event-loop turn: wait for
+    # them and for the frame that repaints their marks.
+    qtbot.waitUntil(lambda: not live.pending and live.document is session.document)
+    QApplication.processEvents()
     assert session.history.in_group  # still dragging: the frames came from the damage path
     assert canvas.frames_painted > frames
     painted = canvas.last_paint_rect
