@@ -9,6 +9,8 @@ pointer events in document coordinates and the active tool decides what they mea
 from __future__ import annotations
 
 import math
+import time
+from collections import deque
 from operator import attrgetter
 from typing import TYPE_CHECKING
 
@@ -124,6 +126,9 @@ class Canvas(QWidget):
         self._seen_doc: Document | None = None  # document of the last change handled
         self.frames_painted = 0  # paint events handled (the benchmark checks frames happen)
         self.last_paint_rect = QRect()  # the region the last paint event asked for
+        # (frames_painted, time.perf_counter() when that frame's painting ended) of the last
+        # frames: the benchmark times a mouse move to its frame with these
+        self.frame_ends: deque[tuple[int, float]] = deque(maxlen=16)
         self._painted_marks: tuple = (None, None)  # (selection, hover) the last frame drew
         # (key, pixmap, marks, contours being changed) while a gesture runs
         self._backdrop: tuple | None = None
@@ -337,6 +342,7 @@ class Canvas(QWidget):
             self._paint_tool_overlay(p)
         finally:
             p.end()
+        self.frame_ends.append((self.frames_painted, time.perf_counter()))
         if not self._editor.history.in_group:
             self._last_doc = doc
         self._painted_marks = (self._editor.selected_points(), self._editor.hover)
