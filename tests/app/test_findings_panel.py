@@ -11,6 +11,7 @@ pytest.importorskip("PySide6")
 
 from PySide6.QtCore import QEvent, QPointF, Qt  # noqa: E402
 from PySide6.QtTest import QTest  # noqa: E402
+from PySide6.QtWidgets import QApplication  # noqa: E402
 from qt_mouse import _send, screen  # noqa: E402
 
 from outlinebench.app.findings_panel import COLUMNS  # noqa: E402
@@ -326,3 +327,29 @@ def test_a_fault_in_a_check_is_logged_with_its_traceback(window, monkeypatch, ca
     assert "planted fault" in window.live.error
     rec = next(r for r in caplog.records if r.name == "outlinebench.app.live_findings")
     assert rec.exc_info is not None and rec.exc_info[0] is ZeroDivisionError
+
+
+def test_during_a_drag_the_check_follows_the_frame_once_however_many_moves(window, qtbot):
+    # Common practice, no source: the moved geometry is painted first and the live check runs
+    # in the next event-loop turn; moves that arrive before it runs share one check.
+    win, canvas, s = window, window.canvas, window.session
+    s.load(_s_curve_document())
+    canvas.fit_to_outline()
+    QApplication.processEvents()
+    start = screen(canvas, (0.0, 50.0))
+    _send(canvas, QEvent.Type.MouseButtonPress, start)
+    QApplication.processEvents()
+    runs = win.live.checks_run
+    for k in range(1, 4):  # three moves, no event-loop turn between them
+        _send(canvas, QEvent.Type.MouseMove, start + QPointF(0.0, 4.0 * k))
+    assert win.live.pending and win.live.checks_run == runs
+    assert win.live.document is not s.document
+    qtbot.waitUntil(lambda: win.live.document is s.document)
+    assert win.live.checks_run == runs + 1
+    # The findings are those of the moved document, as the batch check computes them.
+    expected = check_document(s.document, win.live.settings)
+    assert sorted((f.kind, f.segment, f.join) for f in win.live.findings) == sorted(
+        (f.kind, f.segment, f.join) for f in expected
+    )
+    assert any(f.kind == "kink" for f in win.live.findings)
+    _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(0.0, 12.0))

@@ -246,3 +246,30 @@ def test_typing_the_left_edge_does_not_move_the_points_vertically(window):
         # Closed form: x + 10, y exactly unchanged (review item 1, applied to the box fields).
         assert float(a[0]) == float(b[0]) + 10.0
         assert float(a[1]) == float(b[1])
+
+
+def test_after_a_drag_the_fields_show_the_exact_point(window, qtbot):
+    # Common practice, no source: during a drag the fields may lag (refreshed at most every
+    # DRAG_REFRESH_MS), but once the drag ends they show the point as the model holds it.
+    from PySide6.QtCore import QEvent, QPointF
+    from PySide6.QtWidgets import QApplication
+    from qt_mouse import _send, screen
+
+    from outlinebench.app import point_keys as pk
+
+    win, canvas, s = window, window.canvas, window.session
+    key = (0, 0, 1, 0)
+    point = pk.point_at(s.document, key)
+    start = screen(canvas, point)
+    s.set_tool("select")
+    _send(canvas, QEvent.Type.MouseButtonPress, start)
+    QApplication.processEvents()
+    for k in range(1, 6):
+        _send(canvas, QEvent.Type.MouseMove, start + QPointF(5.0 * k, 3.0 * k))
+        QApplication.processEvents()
+    _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(25.0, 15.0))
+    moved = pk.point_at(s.document, s.primary)
+    assert not np.allclose(moved, point)
+    # 1 user unit = MM mm (the document's own scale)
+    assert win.panel.x.value() == pytest.approx(moved[0] * MM, abs=1e-3)
+    assert win.panel.y.value() == pytest.approx(moved[1] * MM, abs=1e-3)
