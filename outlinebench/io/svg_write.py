@@ -39,7 +39,14 @@ from outlinebench.io.svg_read import (
 from outlinebench.io.svg_transform import parse_transform
 from outlinebench.model.document import IDENTITY, Contour, Document, Outline
 
-__all__ = ["CUT_CAUTION", "svg_bytes", "write_svg", "polylines_svg", "joins_text"]
+__all__ = [
+    "CUT_CAUTION",
+    "svg_bytes",
+    "write_svg",
+    "write_file_atomic",
+    "polylines_svg",
+    "joins_text",
+]
 
 CUT_CAUTION = (
     "Caution: verify these toolpaths in the machine's own preview before cutting, follow the "
@@ -704,36 +711,33 @@ def _umask() -> int:
     return mask
 
 
-def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:
-    """Save a document atomically.
+def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
+    """Write ``data`` to ``path`` atomically: the old file stays intact on any failure.
 
     Parameters
     ----------
-    document : Document
-    path : str or path-like, optional
-        Target file; default ``document.path``.
+    path : str or path-like
+        Target file. A symbolic link is followed (the file it names is replaced, the link
+        stays).
+    data : bytes
+        The complete new content.
 
     Raises
     ------
     SvgWriteError
-        No target, a read-only target (refused, never replaced), the save check failed, or
-        a disk error; the old file is then left as it was.
+        A read-only target (refused, never replaced), a folder where no file can be
+        created, or a disk error; the old file is then left as it was and no temporary file
+        remains.
 
     Notes
     -----
-    Serialise fully and re-read as a check (:func:`svg_bytes`); write a temporary file in
-    the target's folder, flush and fsync it; ``os.replace`` it over the target (atomic on
-    POSIX and Windows); fsync the folder so the rename itself is durable. A symbolic link is
-    followed (the file it names is replaced, the link stays); the saved file keeps the old
-    file's permission bits, or gets ``0o666`` minus the umask when new, as ``open(2)`` would.
+    Write a temporary file in the target's folder, flush and fsync it; ``os.replace`` it
+    over the target (atomic on POSIX and Windows); fsync the folder so the rename itself is
+    durable. The file keeps the old file's permission bits, or gets ``0o666`` minus the
+    umask when new, as ``open(2)`` would.
     """
-    target_name = path if path is not None else document.path
-    if target_name is None:
-        raise SvgWriteError("no file name to save to")
-    shown = Path(target_name)  # the name the user knows, for messages
-    # A symbolic link stays a link: the file it points to is the one replaced.
+    shown = Path(path)  # the name the user knows, for messages
     target = Path(os.path.realpath(shown))
-    data = svg_bytes(document)
     if target.exists():
         mode = target.stat().st_mode & 0o7777
         # Permission bits too, not only os.access: an administrator could write anyway, but
@@ -763,6 +767,32 @@ def write_svg(document: Document, path: str | os.PathLike[str] | None = None) ->
             raise SvgWriteError(f"{shown}: save failed, the old file is unchanged: {exc}") from None
         raise
     _fsync_dir(directory)
+
+
+def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:
+    """Save a document atomically.
+
+    Parameters
+    ----------
+    document : Document
+    path : str or path-like, optional
+        Target file; default ``document.path``.
+
+    Raises
+    ------
+    SvgWriteError
+        No target, a read-only target (refused, never replaced), the save check failed, or
+        a disk error; the old file is then left as it was.
+
+    Notes
+    -----
+    Serialise fully and re-read as a check (:func:`svg_bytes`), then write through
+    :func:`write_file_atomic`.
+    """
+    target_name = path if path is not None else document.path
+    if target_name is None:
+        raise SvgWriteError("no file name to save to")
+    write_file_atomic(target_name, svg_bytes(document))
 
 
 def polylines_svg(

@@ -11,6 +11,8 @@ Public to the other subcommand modules (not to users):
 - :func:`positive_float`, :func:`nonnegative_float` are argparse ``type=`` checkers whose
   messages name the bad value.
 - :func:`write_json` prints JSON with a trailing newline (non-finite numbers become null).
+- :func:`output_decimals` and :func:`cut_file_bytes` make the cut files of ``flatten`` and
+  ``offset`` (polylines in mm at a stated resolution, with the cutting caution).
 """
 
 from __future__ import annotations
@@ -22,7 +24,10 @@ import sys
 from pathlib import Path
 from typing import Any, TextIO
 
-from outlinebench.errors import UnsafeXmlError, UnsupportedSvgFeature
+import numpy as np
+
+from outlinebench.errors import OutlinebenchError, UnsafeXmlError, UnsupportedSvgFeature
+from outlinebench.io import polylines_svg, read_svg
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -40,6 +45,9 @@ __all__ = [
     "nonnegative_float",
     "clean_json",
     "write_json",
+    "MAX_OUTPUT_RESOLUTION",
+    "output_decimals",
+    "cut_file_bytes",
 ]
 
 # Length units a user can ask for. "user" means the SVG root's user units after all
@@ -155,8 +163,6 @@ def read_svg_file(
     OSError
         The file cannot be opened.
     """
-    from outlinebench.io import read_svg
-
     try:
         result = read_svg(str(path), allow_entities=allow_entities)
     except UnsafeXmlError as exc:
@@ -235,3 +241,71 @@ def write_json(obj: Any, stream: TextIO | None = None) -> None:
     stream = stream or sys.stdout
     json.dump(clean_json(obj), stream, indent=2, ensure_ascii=False, allow_nan=False)
     stream.write("\n")
+
+
+# Coarsest resolution of written coordinates, in the unit written (mm in cut files): finer than
+# any cutter's step; the resolution is also at most 1/1000 of the tolerance (output_decimals).
+MAX_OUTPUT_RESOLUTION = 1e-6
+
+
+def output_decimals(tolerance: float) -> int:
+    """Decimals k of written coordinates: 10^-k ≤ min(MAX_OUTPUT_RESOLUTION, tolerance / 1000).
+
+    Parameters
+    ----------
+    tolerance : float
+        The tolerance in the unit written (> 0).
+
+    Returns
+    -------
+    int
+        k ≥ 6; the resolution is 10^-k.
+    """
+    limit = min(MAX_OUTPUT_RESOLUTION, tolerance / 1000.0)
+    return max(6, int(np.ceil(-np.log10(limit) - 1e-9)))
+
+
+def cut_file_bytes(
+    doc: Document,
+    polylines: list[np.ndarray],
+    closed: list[bool],
+    comment: str,
+    decimals: int | None = None,
+) -> bytes:
+    """An SVG cut file of polylines (document user units converted to mm).
+
+    With ``decimals``, coordinates in mm are rounded to that many decimals (the caller
+    accounts for the rounding in its stated deviation).
+
+    Uses :func:`outlinebench.io.polylines_svg` (which writes the cutting caution as the first
+    comment). The page keeps the document's size when known, else the polylines' extent.
+
+    Raises
+    ------
+    OutlinebenchError
+        A polyline cannot be written (fewer than 2 points, non-finite values).
+    """
+    f = doc.mm_per_unit
+    origin = np.array(doc.view_box[:2]) if doc.view_box else np.zeros(2)
+    keep = [(p, c) for p, c in zip(polylines, closed, strict=True) if len(p) >= 2]
+    pts_mm = [(p - origin) * f for p, _ in keep]
+    if decimals is not None:
+        pts_mm = [np.round(p, decimals) for p in pts_mm]
+    width, height = doc.width_mm, doc.height_mm
+    if not width or not height:
+        if doc.view_box:
+            width, height = doc.view_box[2] * f, doc.view_box[3] * f
+        else:
+            allp = np.vstack(pts_mm) if pts_mm else np.zeros((1, 2))
+            width = max(float(np.max(allp[:, 0])), 1.0)
+            height = max(float(np.max(allp[:, 1])), 1.0)
+    try:
+        return polylines_svg(
+            pts_mm,
+            width_mm=float(width),
+            height_mm=float(height),
+            comment=comment,
+            closed=[c for _, c in keep],
+        )
+    except ValueError as exc:
+        raise OutlinebenchError(f"cannot write the cut file: {exc}") from None

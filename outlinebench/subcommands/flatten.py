@@ -25,9 +25,7 @@ caution and the resolution as XML comments. Lengths are in the document's user u
 from __future__ import annotations
 
 import argparse
-import os
 import sys
-import tempfile
 from pathlib import Path
 from typing import Any
 
@@ -35,39 +33,22 @@ import numpy as np
 
 from outlinebench.errors import OutlinebenchError
 from outlinebench.geometry.flatten import DEFAULT_FLATTEN_TOLERANCE, flatten_contours_bounded
+from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.model.document import Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    cut_file_bytes,
+    output_decimals,
     positive_float,
     read_document,
     unit_factor,
     write_json,
 )
 
-__all__ = [
-    "NAME",
-    "HELP",
-    "CUT_CAUTION_TEXT",
-    "add_arguments",
-    "run",
-    "write_atomic",
-    "cut_file_bytes",
-    "output_decimals",
-    "MAX_OUTPUT_RESOLUTION",
-]
-
-# Coarsest resolution of written coordinates, in the unit written (mm in cut files): finer than
-# any cutter's step; the resolution is also at most 1/1000 of the tolerance (output_decimals).
-MAX_OUTPUT_RESOLUTION = 1e-6
+__all__ = ["NAME", "HELP", "add_arguments", "run", "flatten_document"]
 
 NAME = "flatten"
 HELP = "turn curves into polylines whose deviation stays within a tolerance"
-
-# Used when the SVG reader's own caution constant is not available.
-CUT_CAUTION_TEXT = (
-    "Caution: verify these toolpaths in the machine's own preview before cutting, follow the "
-    "machine maker's instructions, shop safety rules and local codes."
-)
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -90,96 +71,6 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help="unit of the tolerance and of reported lengths: the SVG root's user units "
         "(default) or mm, in, pt, px",
     )
-
-
-def write_atomic(path: str | Path, data: bytes) -> None:
-    """Write ``data`` to ``path`` through a temporary file in the same folder and a rename.
-
-    Raises
-    ------
-    OSError
-        The folder is not writable (the temporary file is removed; ``path`` is untouched).
-    """
-    target = Path(path)
-    folder = target.parent if str(target.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, target)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
-
-
-def output_decimals(tolerance: float) -> int:
-    """Decimals k of written coordinates: 10^-k ≤ min(MAX_OUTPUT_RESOLUTION, tolerance / 1000).
-
-    Parameters
-    ----------
-    tolerance : float
-        The tolerance in the unit written (> 0).
-
-    Returns
-    -------
-    int
-        k ≥ 6; the resolution is 10^-k.
-    """
-    limit = min(MAX_OUTPUT_RESOLUTION, tolerance / 1000.0)
-    return max(6, int(np.ceil(-np.log10(limit) - 1e-9)))
-
-
-def cut_file_bytes(
-    doc: Document,
-    polylines: list[np.ndarray],
-    closed: list[bool],
-    comment: str,
-    decimals: int | None = None,
-) -> bytes:
-    """An SVG cut file of polylines (document user units converted to mm).
-
-    With ``decimals``, coordinates in mm are rounded to that many decimals (the caller
-    accounts for the rounding in its stated deviation).
-
-    Uses :func:`outlinebench.io.polylines_svg` (which writes the cutting caution as the first
-    comment). The page keeps the document's size when known, else the polylines' extent.
-
-    Raises
-    ------
-    OutlinebenchError
-        A polyline cannot be written (fewer than 2 points, non-finite values).
-    """
-    from outlinebench.io import polylines_svg
-
-    f = doc.mm_per_unit
-    origin = np.array(doc.view_box[:2]) if doc.view_box else np.zeros(2)
-    keep = [(p, c) for p, c in zip(polylines, closed, strict=True) if len(p) >= 2]
-    pts_mm = [(p - origin) * f for p, _ in keep]
-    if decimals is not None:
-        pts_mm = [np.round(p, decimals) for p in pts_mm]
-    width, height = doc.width_mm, doc.height_mm
-    if not width or not height:
-        if doc.view_box:
-            width, height = doc.view_box[2] * f, doc.view_box[3] * f
-        else:
-            allp = np.vstack(pts_mm) if pts_mm else np.zeros((1, 2))
-            width = max(float(np.max(allp[:, 0])), 1.0)
-            height = max(float(np.max(allp[:, 1])), 1.0)
-    try:
-        return polylines_svg(
-            pts_mm,
-            width_mm=float(width),
-            height_mm=float(height),
-            comment=comment,
-            closed=[c for _, c in keep],
-        )
-    except ValueError as exc:
-        raise OutlinebenchError(f"cannot write the cut file: {exc}") from None
 
 
 def flatten_document(doc: Document, tolerance: float, rounding: float = 0.0) -> dict[str, Any]:
@@ -244,7 +135,7 @@ def run(args: argparse.Namespace) -> int:
         data = cut_file_bytes(
             doc, polys, [c["closed"] for c in result["contours"]], comment, decimals=k_mm
         )
-        write_atomic(args.output, data)
+        write_file_atomic(args.output, data)
     if args.json:
         out = {
             "file": str(args.file),
@@ -252,7 +143,7 @@ def run(args: argparse.Namespace) -> int:
             "tolerance": args.tolerance,
             "max_deviation": result["max_deviation"] * f,
             "resolution": 10.0**-k_json,
-            "caution": CUT_CAUTION_TEXT,
+            "caution": CUT_CAUTION,
             "contours": [
                 {
                     **c,
@@ -273,5 +164,5 @@ def run(args: argparse.Namespace) -> int:
         )
         if args.output:
             print(f"wrote {args.output}")
-        print(CUT_CAUTION_TEXT)
+        print(CUT_CAUTION)
     return 1 if exceeded else 0

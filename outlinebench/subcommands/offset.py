@@ -30,18 +30,15 @@ import numpy as np
 
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding, is_problem
 from outlinebench.geometry.offset import DEFAULT_OFFSET_TOLERANCE, hole_flags, offset_contour
+from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    cut_file_bytes,
+    output_decimals,
     positive_float,
     read_document,
     unit_factor,
     write_json,
-)
-from outlinebench.subcommands.flatten import (
-    CUT_CAUTION_TEXT,
-    cut_file_bytes,
-    output_decimals,
-    write_atomic,
 )
 
 __all__ = ["NAME", "HELP", "add_arguments", "run"]
@@ -173,7 +170,7 @@ def run(args: argparse.Namespace) -> int:
             comment,
             decimals=k_mm,
         )
-        write_atomic(args.output, data)
+        write_file_atomic(args.output, data)
     if args.json:
         write_json(
             {
@@ -182,7 +179,7 @@ def run(args: argparse.Namespace) -> int:
                 "distance": args.distance,
                 "tolerance": args.tolerance,
                 "resolution": 10.0**-k_json,
-                "caution": CUT_CAUTION_TEXT,
+                "caution": CUT_CAUTION,
                 "contours": [
                     {**c, "points": np.round(np.asarray(c["points"]) * f, k_json).tolist()}
                     for c in contours
@@ -202,5 +199,5 @@ def run(args: argparse.Namespace) -> int:
         )
         if args.output:
             print(f"wrote {args.output}")
-        print(CUT_CAUTION_TEXT)
+        print(CUT_CAUTION)
     return 1 if any(is_problem(x) for x in findings) else 0
