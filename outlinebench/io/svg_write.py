@@ -750,7 +750,9 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
     try:
         fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
     except OSError as exc:
-        raise SvgWriteError(f"{shown}: cannot create a file in {directory}: {exc}") from None
+        raise SvgWriteError(
+            f"{shown}: cannot create a file in {directory}: {exc.strerror or exc}"
+        ) from None
     try:
         with os.fdopen(fd, "wb") as fh:
             _write_all(fh, data)

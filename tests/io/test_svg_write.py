@@ -478,3 +478,15 @@ def test_splicing_keeps_byte_offsets_with_boms_and_other_encodings(head):
     out = svg_bytes(doc)
     assert out.startswith(head) and text in out
     assert b'<path id="p" d="M0.125 0 L1.125 1"/>\r\n</svg>\r\n' in out
+
+
+def test_missing_folder_is_named_without_the_temporary_file(tmp_path):
+    # A user sees the folder and the system's reason (strerror of ENOENT, POSIX), not the
+    # name of an internal temporary file (review of the editor's save message).
+    from outlinebench.io import write_file_atomic
+
+    target = tmp_path / "no-such-folder" / "cut.svg"
+    with pytest.raises(SvgWriteError, match=r"cannot create a file in .*no-such-folder") as err:
+        write_file_atomic(target, b"<svg/>")
+    assert ".tmp" not in str(err.value)
+    assert not target.parent.exists()
