@@ -31,7 +31,7 @@ from numpy.typing import NDArray
 
 from outlinebench.errors import SvgPathError
 from outlinebench.io.numbers import format_number
-from outlinebench.io.svg_arc import ARC_TOLERANCE, arc_to_cubics
+from outlinebench.io.svg_arc import ARC_TOLERANCE, ArcResult, arc_to_cubics
 from outlinebench.model.document import Contour
 
 __all__ = [
@@ -501,6 +501,19 @@ def _apply(points: NDArray[np.float64], matrix: NDArray[np.float64] | None) -> N
     return out
 
 
+def _count_arc(res: ArcResult, counts: dict[str, int]) -> None:
+    """Tally what happened to one arc (for the reader's notes): omitted, made a line,
+    converted; radii negated or scaled up."""
+    keys = []
+    if res.negative_radius:
+        keys.append("arc_negative_radius")
+    if res.radii_scaled:
+        keys.append("arc_radii_scaled")
+    keys.append({"none": "arc_omitted", "line": "arc_zero_radius"}.get(res.kind, "arcs"))
+    for key in keys:
+        counts[key] = counts.get(key, 0) + 1
+
+
 def _build(
     tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float
 ) -> tuple[list[Contour], dict[str, int]]:
@@ -613,18 +626,11 @@ def _build(
         res = arc_to_cubics(
             x1, y1, p[0], p[1], p[2], p[3] != 0.0, p[4] != 0.0, float(X[i]), float(Y[i]), tolerance
         )
-        if res.negative_radius:
-            counts_out["arc_negative_radius"] = counts_out.get("arc_negative_radius", 0) + 1
-        if res.radii_scaled:
-            counts_out["arc_radii_scaled"] = counts_out.get("arc_radii_scaled", 0) + 1
-        if res.kind == "none":
-            counts_out["arc_omitted"] = counts_out.get("arc_omitted", 0) + 1
-        elif res.kind == "line":
-            counts_out["arc_zero_radius"] = counts_out.get("arc_zero_radius", 0) + 1
+        _count_arc(res, counts_out)
+        if res.kind == "line":
             arc_lines.append(i)
             nseg[i] = 1
-        else:
-            counts_out["arcs"] = counts_out.get("arcs", 0) + 1
+        elif res.kind != "none":
             arc_rows.append(i)
             arc_cubics.append(res.cubics)
             nseg[i] = len(res.cubics)
@@ -751,17 +757,10 @@ def _build_small(
             elif cat == 6:
                 res = arc_to_cubics(x0, y0, p[0], p[1], p[2], p[3] != 0.0, p[4] != 0.0, x, y,
                                     tolerance)  # fmt: skip
-                if res.negative_radius:
-                    counts_out["arc_negative_radius"] = counts_out.get("arc_negative_radius", 0) + 1
-                if res.radii_scaled:
-                    counts_out["arc_radii_scaled"] = counts_out.get("arc_radii_scaled", 0) + 1
-                if res.kind == "none":
-                    counts_out["arc_omitted"] = counts_out.get("arc_omitted", 0) + 1
-                elif res.kind == "line":
-                    counts_out["arc_zero_radius"] = counts_out.get("arc_zero_radius", 0) + 1
+                _count_arc(res, counts_out)
+                if res.kind == "line":
                     add([[x0, y0], [x, y]])
-                else:
-                    counts_out["arcs"] = counts_out.get("arcs", 0) + 1
+                elif res.kind != "none":
                     for piece in res.cubics.tolist():
                         add(piece)
             else:  # Z
