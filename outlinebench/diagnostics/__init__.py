@@ -24,6 +24,7 @@ from outlinebench.diagnostics.report import (
     CAUTION,
     convert_units,
     json_report,
+    place_text,
     sort_findings,
     summarize,
     text_report,
@@ -32,6 +33,7 @@ from outlinebench.diagnostics.settings import CheckSettings
 
 __all__ = [
     "CAUTION",
+    "place_text",
     "ERROR",
     "INFO",
     "CHECK_KINDS",

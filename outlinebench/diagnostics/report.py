@@ -29,6 +29,7 @@ __all__ = [
     "convert_units",
     "sort_findings",
     "summarize",
+    "place_text",
     "format_finding",
     "text_report",
     "json_report",
@@ -148,11 +149,23 @@ def _count(n: int, word: str) -> str:
     return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
 
-def format_finding(label: str, f: Finding) -> str:
-    """``label: contour N, segment M: kind value at (x, y) [severity]`` (one line)."""
-    where = f"contour {f.contour}"
+def place_text(f: Finding) -> str:
+    """Where a finding is, in the words every report uses: "contour 5, join 5",
+    "contour 2, segment 1" or "contour 3" (the whole contour).
+
+    The command line's text lines and the editor's findings list both call this, so one place
+    has one name everywhere.
+    """
+    if f.join is not None:
+        return f"contour {f.contour}, join {f.join}"
     if f.segment is not None:
-        where += f", segment {f.segment}"
+        return f"contour {f.contour}, segment {f.segment}"
+    return f"contour {f.contour}"
+
+
+def format_finding(label: str, f: Finding) -> str:
+    """``label: contour N, join J: kind value at (x, y) [severity]`` (one line)."""
+    where = place_text(f)
     return f"{label}: {where}: {f.kind}{_value(f)} at ({_num(f.x)}, {_num(f.y)}) [{f.severity}]"
 
 

@@ -20,9 +20,9 @@ DEFECTS = str(SAMPLES / "signshop-lettering-defects.svg")
 BRACKET = str(SAMPLES / "workshop-bracket.svg")
 BRACKET_DEFECTS = str(SAMPLES / "workshop-bracket-defects.svg")
 
-# "file: contour N, segment M: kind value at (x, y) [severity]" (issue text plus severity)
+# "file: contour N, segment M (or join J): kind value at (x, y) [severity]"
 LINE = re.compile(
-    r"^(?P<file>.+?): contour (?P<c>\d+)(, segment (?P<s>\d+))?: (?P<kind>[a-z-]+)"
+    r"^(?P<file>.+?): contour (?P<c>\d+)(, (segment|join) (?P<s>\d+))?: (?P<kind>[a-z-]+)"
     r"(?P<value>.*) at \((?P<x>[-\d.e+]+), (?P<y>[-\d.e+]+)\) \[(error|warning|info)\]$"
 )
 
