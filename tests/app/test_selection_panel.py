@@ -187,7 +187,7 @@ def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
     # The CLI's own line for the corner at (170, 20) of the stroke (the file's second contour).
     corner = next(f for f in check_document(s.document) if (f.x, f.y) == (170.0, 20.0))
     line = format_finding("f.svg", corner)
-    assert "contour 1, segment 0" in line
+    assert "contour 1, join 0" in line
     assert corner.join == 0
     s.set_selection([(1, 0, 0, 3)])  # that point, the end of segment 0
     # The panel and the findings list (where_text) name it with the CLI's numbers.
