@@ -44,6 +44,7 @@ from outlinebench.geometry.bezier import as_control_points, split_many, to_cubic
 __all__ = [
     "DEFAULT_FLATTEN_TOLERANCE",
     "DEVIATION_ACCURACY",
+    "MAX_CHORDS",
     "flatten_contour",
     "flatten_contours",
     "flatten_contours_bounded",
@@ -91,6 +92,14 @@ _COUNT_MARGIN = 0.0
 
 # Weight of uniform-in-t steps against the old density's shape inside a measured chord.
 _SHAPE_BLEND = 0.5
+
+# Most chords one flattening call may make (all contours together). A tolerance so small
+# that the chords would pass this is refused before any chord is placed, with an error that
+# names the tolerance, the estimated count and the smallest tolerance that fits. Measured:
+# a radius-10 circle at ε = 1e-10 gives 869,793 chords in 2.6 s and 330 MB above the start
+# (about 380 bytes and 3 µs per chord), so the cap keeps one call under about 400 MB and a
+# few seconds; a cut file of a million chords is already some 30 MB of text.
+MAX_CHORDS = 1_000_000
 
 
 # --------------------------------------------------------------------------------------------
@@ -374,6 +383,23 @@ def _check_tolerance(tolerance: float) -> None:
         raise InvalidGeometryError(f"the flattening tolerance must be > 0, got {tolerance!r}")
 
 
+def _check_chord_count(estimate: float, tolerance: float, how: str) -> None:
+    """Refuse a flattening whose chord count would pass :data:`MAX_CHORDS`.
+
+    The count falls as 1/sqrt(ε) (both N* and Wang's count do), so ε·(estimate /
+    MAX_CHORDS)² would just reach the cap; the suggested tolerance is twice that, leaving
+    room (a factor √2 in chords) for the splits of the verification, which add up to about
+    30 % on a circle.
+    """
+    if not estimate <= MAX_CHORDS:
+        fits = 2.0 * tolerance * (estimate / MAX_CHORDS) ** 2 if np.isfinite(estimate) else np.inf
+        raise InvalidGeometryError(
+            f"flattening with tolerance {tolerance:g} needs about {estimate:,.0f} chords "
+            f"({how}), over the cap of {MAX_CHORDS:,} chords per flattening; use a tolerance "
+            f"of at least {fits:.3g}"
+        )
+
+
 # --------------------------------------------------------------------------------------------
 # the flatteners
 # --------------------------------------------------------------------------------------------
@@ -397,8 +423,15 @@ def _flatten_params(
             f"tolerance {tolerance!r} is below the floating-point resolution of coordinates "
             f"of size {scale:g}"
         )
-    tg, cum = _density(cubics)
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        tg, cum = _density(cubics)
     cum = cum / np.sqrt(8.0 * tolerance)  # now in chords: cum[:, -1] is N* per segment
+    if not np.all(np.isfinite(cum[:, -1])):
+        raise InvalidGeometryError(
+            f"coordinates of size {scale:g} are too large to flatten (their curvature "
+            "integral overflows binary64)"
+        )
+    _check_chord_count(float(np.sum(np.ceil(cum[:, -1]))), tolerance, "the sagitta estimate")
     done_seg: list[np.ndarray] = []
     done_t: list[FloatArray] = []
     done_b: list[FloatArray] = []
@@ -488,11 +521,14 @@ def _flatten_params(
         b2a = np.hypot(*(dd[s] + (dd1[s] - dd[s]) * ta[:, None]).T)
         b2b = np.hypot(*(dd[s] + (dd1[s] - dd[s]) * tb[:, None]).T)
         bmax = np.maximum(b2a, b2b)
-        n_wang = np.maximum(2, np.ceil((tb - ta) * np.sqrt(bmax / (8.0 * accept)))).astype(np.intp)
+        n_wang = np.maximum(2.0, np.ceil((tb - ta) * np.sqrt(bmax / (8.0 * accept))))
         # deviation shrinks with the square of the chord length
-        n_dev = np.maximum(2, np.ceil(np.sqrt(dev / accept))).astype(np.intp)
+        n_dev = np.maximum(2.0, np.ceil(np.sqrt(dev / accept)))
         use_wang = (n_wang <= n_dev) | (rnd == _MAX_ROUNDS)
-        cnt = np.where(use_wang, n_wang, n_dev)
+        cnt_f = np.where(use_wang, n_wang, n_dev)
+        placed = sum(len(x) for x in done_seg)
+        _check_chord_count(float(placed + cnt_f.sum()), tolerance, "after verification")
+        cnt = cnt_f.astype(np.intp)
         rs = np.repeat(np.arange(len(s)), cnt)
         kk = np.arange(len(rs)) - np.repeat(np.cumsum(cnt) - cnt, cnt)
         frac = kk / cnt[rs]
@@ -660,8 +696,10 @@ def flatten_contours(
     Raises
     ------
     InvalidGeometryError
-        Bad control points, or a tolerance that is not > 0 or is below the floating-point
-        resolution of the coordinates.
+        Bad control points, a tolerance that is not > 0 or is below the floating-point
+        resolution of the coordinates, or one so small that the chords would pass
+        :data:`MAX_CHORDS` (1,000,000 per call; the message names the tolerance, the
+        estimated count and the smallest tolerance that fits).
 
     Notes
     -----
@@ -796,7 +834,9 @@ def flatten_uniform_wang(
         return [np.zeros((0, 2)) for _ in counts]
     sd = cubics[:, 2:] - 2.0 * cubics[:, 1:-1] + cubics[:, :-2]
     lmax = np.max(np.hypot(sd[..., 0], sd[..., 1]), axis=1)
-    n = np.maximum(1, np.ceil(np.sqrt(6.0 * lmax / (8.0 * tolerance)))).astype(np.intp)
+    nf = np.maximum(1.0, np.ceil(np.sqrt(6.0 * lmax / (8.0 * tolerance))))
+    _check_chord_count(float(nf.sum()), tolerance, "Wang's count")
+    n = nf.astype(np.intp)
     seg = np.repeat(np.arange(len(cubics)), n)
     k = np.arange(len(seg)) - np.repeat(np.cumsum(n) - n, n)
     t = k / n[seg]
