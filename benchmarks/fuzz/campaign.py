@@ -237,6 +237,9 @@ class _Runner:
         if pid == 0:
             try:
                 os.nice(5)
+                # not the repository root: `python -m` puts the working folder first on
+                # sys.path, which would shadow --package-root
+                os.chdir(os.path.dirname(meta["stdout"]))
                 cap_b = int(mem_mb * 2**20)
                 resource.setrlimit(resource.RLIMIT_AS, (cap_b, cap_b))
                 fo = os.open(meta["stdout"], os.O_WRONLY | os.O_CREAT | os.O_TRUNC)
@@ -523,7 +526,8 @@ def main() -> int:  # noqa: C901 - one driver
             out = str(work / f"cli-cut-{k}-{op}.svg")
             meta = {"number": 10_000_000 + k, "op": op, "size": len(data), "path": str(path),
                     "cap": args.cli_time_cap, "mutations": names, "out": out,
-                    "stdout": str(work / f"o-{k}-{op}"), "stderr": str(work / f"e-{k}-{op}")}  # fmt: skip
+                    "stdout": str(work / f"o-{k}-{op}"),
+                    "stderr": str(work / f"e-{k}-{op}")}  # fmt: skip
             argv = [sys.executable, "-m", "outlinebench", *_argv(op, str(path), out)]
             runner.start_exec(argv, env, meta, args.cli_time_cap, args.mem_limit_mb + 2048)
             runs += 1

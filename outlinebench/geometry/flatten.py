@@ -404,7 +404,7 @@ def _check_chord_count(estimate: float, tolerance: float, how: str) -> None:
 # the flatteners
 # --------------------------------------------------------------------------------------------
 def _flatten_params(
-    cubics: FloatArray, tolerance: float
+    cubics: FloatArray, tolerance: float, exp: int = 0
 ) -> tuple[np.ndarray, FloatArray, FloatArray]:
     """Chord start parameters of every segment: (seg, t, bound) sorted by segment then t.
 
@@ -420,18 +420,19 @@ def _flatten_params(
     accept = tolerance - _ROUNDING_MARGIN * max(scale, 1.0)
     if accept <= 0.0:
         raise InvalidGeometryError(
-            f"tolerance {tolerance!r} is below the floating-point resolution of coordinates "
-            f"of size {scale:g}"
+            f"tolerance {float(np.ldexp(tolerance, exp))!r} is below the floating-point "
+            f"resolution of coordinates of size {float(np.ldexp(scale, exp)):g}"
         )
     with np.errstate(over="ignore", invalid="ignore", under="ignore"):
         tg, cum = _density(cubics)
     cum = cum / np.sqrt(8.0 * tolerance)  # now in chords: cum[:, -1] is N* per segment
     if not np.all(np.isfinite(cum[:, -1])):
         raise InvalidGeometryError(
-            f"coordinates of size {scale:g} are too large to flatten (their curvature "
-            "integral overflows binary64)"
+            f"coordinates of size {float(np.ldexp(scale, exp)):g} are too large to flatten "
+            "(their curvature integral overflows binary64)"
         )
-    _check_chord_count(float(np.sum(np.ceil(cum[:, -1]))), tolerance, "the sagitta estimate")
+    shown = float(np.ldexp(tolerance, exp))  # the caller's tolerance, for messages
+    _check_chord_count(float(np.sum(np.ceil(cum[:, -1]))), shown, "the sagitta estimate")
     done_seg: list[np.ndarray] = []
     done_t: list[FloatArray] = []
     done_b: list[FloatArray] = []
@@ -527,7 +528,7 @@ def _flatten_params(
         use_wang = (n_wang <= n_dev) | (rnd == _MAX_ROUNDS)
         cnt_f = np.where(use_wang, n_wang, n_dev)
         placed = sum(len(x) for x in done_seg)
-        _check_chord_count(float(placed + cnt_f.sum()), tolerance, "after verification")
+        _check_chord_count(float(placed + cnt_f.sum()), shown, "after verification")
         cnt = cnt_f.astype(np.intp)
         rs = np.repeat(np.arange(len(s)), cnt)
         kk = np.arange(len(rs)) - np.repeat(np.cumsum(cnt) - cnt, cnt)
@@ -569,10 +570,21 @@ def _assemble(
     t: FloatArray,
     seg_counts: Sequence[int],
     closed: Sequence[bool],
+    exp: int = 0,
+    exact: FloatArray | None = None,
 ) -> list[FloatArray]:
-    """Polylines per contour from chord start parameters (closed: first vertex not repeated)."""
+    """Polylines per contour from chord start parameters (closed: first vertex not repeated).
+
+    With ``exp``, ``cubics`` were scaled by 2^-exp (see :func:`_unit_scale`): vertices are
+    scaled back and the end points taken from ``exact``, the pieces at their own scale.
+    """
     coef = _power_coefficients(cubics) if len(cubics) else np.zeros((0, 4, 2))
     pts = _vertices(cubics, coef, seg, t) if len(seg) else np.zeros((0, 2))
+    if exp:
+        pts = np.ldexp(pts, exp)
+        cubics = exact if exact is not None else np.ldexp(cubics, exp)
+        at0 = t == 0.0
+        pts[at0] = cubics[seg[at0], 0]
     per_seg = np.bincount(seg, minlength=len(cubics)) if len(seg) else np.zeros(0, np.intp)
     seg_end = np.cumsum(per_seg)
     out = []
@@ -767,12 +779,30 @@ def flatten_contours_bounded(
     """
     _check_tolerance(tolerance)
     cubics, counts, closed = _contours_input(contours)
-    pieces, parent = _split_at_sharp_turns(cubics, float(tolerance))
+    exp = _unit_scale(cubics)
+    tol = float(tolerance)
+    work = cubics
+    if exp:
+        # Coordinates near the ends of binary64 (beyond 2^±400): flatten the same curves
+        # scaled by a power of two, which is exact, so no power-basis coefficient or squared
+        # speed overflows or underflows; the tolerance scales with them.
+        work = np.ldexp(cubics, -exp)
+        with np.errstate(over="ignore", under="ignore"):
+            # a tolerance beyond 2^100 times the scaled curve (at most 1 across) changes
+            # nothing: one chord per segment either way
+            tol = min(float(np.ldexp(tol, -exp)), 2.0**100)
+        if not tol > 0.0:
+            raise InvalidGeometryError(
+                f"tolerance {tolerance!r} is below the floating-point resolution of "
+                f"coordinates of size {float(np.max(np.abs(cubics))):g}"
+            )
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        pieces, parent = _split_at_sharp_turns(work, tol)
     if len(pieces) != len(cubics):
         per_parent = np.bincount(parent, minlength=len(cubics))
         edges = np.cumsum([0, *counts])
         counts = [int(per_parent[a:b].sum()) for a, b in zip(edges[:-1], edges[1:], strict=True)]
-    seg, t, bound = _flatten_params(pieces, float(tolerance))
+    seg, t, bound = _flatten_params(pieces, tol, exp)
     per_piece = np.zeros(len(pieces))
     if len(seg):
         np.maximum.at(per_piece, seg, bound)
@@ -780,7 +810,35 @@ def flatten_contours_bounded(
     per_contour = np.array(
         [per_piece[a:b].max() if b > a else 0.0 for a, b in zip(edges[:-1], edges[1:], strict=True)]
     )
-    return _assemble(pieces, seg, t, counts, closed), per_contour
+    if not exp:
+        return _assemble(pieces, seg, t, counts, closed), per_contour
+    exact = np.ldexp(pieces, exp)
+    first = np.ones(len(parent), dtype=bool)
+    first[1:] = parent[1:] != parent[:-1]
+    last = np.ones(len(parent), dtype=bool)
+    last[:-1] = parent[1:] != parent[:-1]
+    exact[first, 0] = cubics[parent[first], 0]  # segment ends bit for bit, as promised
+    exact[last, 3] = cubics[parent[last], 3]
+    polys = _assemble(pieces, seg, t, counts, closed, exp, exact)
+    return polys, np.ldexp(per_contour, exp)
+
+
+# Coordinates beyond 2^±_EXTREME_EXP are flattened at a power-of-two scale (exact): with
+# |coordinates| ≤ 2^400 ≈ 2.6e120, cubes of speeds and squared second derivatives stay far
+# from overflow, and above 2^-400 from underflow.
+_EXTREME_EXP = 400
+
+
+def _unit_scale(cubics: FloatArray) -> int:
+    """0, or the exponent e with max |coordinate| in [2^(e−1), 2^e) when that lies outside
+    2^±_EXTREME_EXP."""
+    if not len(cubics):
+        return 0
+    big = float(np.max(np.abs(cubics)))
+    if big == 0.0:
+        return 0
+    e = int(np.frexp(big)[1])
+    return e if abs(e) > _EXTREME_EXP else 0
 
 
 def flatten_contour(
