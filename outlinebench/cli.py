@@ -6,8 +6,10 @@ Thin by design: it parses arguments, hands them to a subcommand module in
 Exit codes
 ----------
 0  nothing of warning level or worse was found (or the command succeeded);
-1  findings of warning level or worse (or a tolerance was exceeded);
-2  bad input or usage: one line on stderr naming the file and the place, never a traceback.
+1  findings of warning level or worse, a tolerance exceeded, or part of a file not read or
+   nothing in it to check;
+2  bad input or usage: one line on stderr naming the file and the place, never a traceback;
+3  an unexpected internal error (a defect of ours): one line; ``--debug`` adds the traceback.
 """
 
 from __future__ import annotations
@@ -17,18 +19,31 @@ import importlib
 import importlib.util
 import os
 import sys
+import traceback
 from collections.abc import Sequence
 from types import ModuleType
 
 from outlinebench import __version__
 from outlinebench.errors import OutlinebenchError
-from outlinebench.subcommands import SUBCOMMANDS
+from outlinebench.subcommands import (
+    EXIT_BAD_INPUT,
+    EXIT_CODES_TEXT,
+    EXIT_FINDINGS,
+    EXIT_INTERNAL,
+    EXIT_OK,
+    SUBCOMMANDS,
+)
 
-__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
+__all__ = [
+    "main",
+    "build_parser",
+    "EXIT_OK",
+    "EXIT_FINDINGS",
+    "EXIT_BAD_INPUT",
+    "EXIT_INTERNAL",
+]
 
-EXIT_OK = 0
-EXIT_FINDINGS = 1
-EXIT_BAD_INPUT = 2
+_DEBUG_HELP = "on an internal error, print the traceback too"
 
 
 class _Parser(argparse.ArgumentParser):
@@ -53,13 +68,15 @@ def build_parser() -> argparse.ArgumentParser:
             "Check, measure, flatten and offset Bézier outlines in SVG files. "
             "Run 'outlinebench FILE.svg' (no subcommand) to open the editor."
         ),
-        epilog="Exit codes: 0 clean, 1 findings of warning level or worse, 2 bad input.",
+        epilog=EXIT_CODES_TEXT,
     )
     parser.add_argument("--version", action="version", version=f"outlinebench {__version__}")
+    parser.add_argument("--debug", action="store_true", help=_DEBUG_HELP)
     sub = parser.add_subparsers(dest="subcommand", metavar="SUBCOMMAND")
     for mod in _modules():
-        p = sub.add_parser(mod.NAME, help=mod.HELP, description=mod.HELP)
+        p = sub.add_parser(mod.NAME, help=mod.HELP, description=mod.HELP, epilog=EXIT_CODES_TEXT)
         mod.add_arguments(p)
+        p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=_DEBUG_HELP)
         p.set_defaults(_run=mod.run)
     return parser
 
@@ -90,3 +107,25 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("outlinebench: interrupted", file=sys.stderr)
         return 130
+    except Exception as exc:  # noqa: BLE001 - a defect of ours: one line, not a traceback
+        where = " ".join(str(a) for a in _file_args(args))
+        print(
+            f"outlinebench: internal error{f' on {where}' if where else ''}: "
+            f"{type(exc).__name__}: {exc} (a defect; --debug shows the traceback)",
+            file=sys.stderr,
+        )
+        if getattr(args, "debug", False):
+            traceback.print_exc()
+        return EXIT_INTERNAL
+
+
+def _file_args(args: argparse.Namespace) -> list[str]:
+    """The input files named on the command line, for the one-line internal error."""
+    out: list[str] = []
+    for name in ("file", "files", "curves", "polylines"):
+        v = getattr(args, name, None)
+        if isinstance(v, str):
+            out.append(v)
+        elif isinstance(v, list):
+            out.extend(str(x) for x in v)
+    return out

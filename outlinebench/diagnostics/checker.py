@@ -480,6 +480,12 @@ class Checker:
                 fresh if full else None,
             )  # fmt: skip
 
+        # an outline without contours (``d=""``, a lone moveto, a zero-size shape) has no
+        # crossings and no winding, but still has its (empty) state
+        for oi in changed_outlines:
+            if self._outlines[oi] is None:
+                self._outlines[oi] = _OutlineState([], [], None)
+
         # 7. assemble: one list of every outline's block, then the gaps block; after an edit
         # a new FindingSequence shares that list and replaces the changed blocks (sequences
         # returned earlier are never changed afterwards)

@@ -12,6 +12,7 @@ from collections import Counter
 from collections.abc import Sequence
 from typing import Any
 
+from outlinebench.diagnostics.file_findings import FileFinding
 from outlinebench.diagnostics.findings import (
     ERROR,
     INFO,
@@ -31,6 +32,9 @@ __all__ = [
     "summarize",
     "place_text",
     "format_finding",
+    "format_file_finding",
+    "unit_words",
+    "UNIT_WORDS",
     "text_report",
     "json_report",
 ]
@@ -101,8 +105,17 @@ def sort_findings(findings: Sequence[Finding]) -> list[Finding]:
     return sorted(findings, key=key)
 
 
-def summarize(findings: Sequence[Finding]) -> dict[str, Any]:
+def summarize(
+    findings: Sequence[Finding], file_findings: Sequence[FileFinding] = ()
+) -> dict[str, Any]:
     """Counts by severity and by kind, and whether anything of warning level or worse is there.
+
+    Parameters
+    ----------
+    findings : sequence of Finding
+    file_findings : sequence of FileFinding
+        Findings about the file as a whole (what could not be read, nothing to check); they
+        count like the others.
 
     Returns
     -------
@@ -111,21 +124,37 @@ def summarize(findings: Sequence[Finding]) -> dict[str, Any]:
         ``clean`` is True when no finding is a warning or an error.
     """
     sev = Counter(f.severity for f in findings)
-    kinds = Counter(f.kind for f in findings)
+    sev.update(f.severity for f in file_findings)
+    kinds = Counter(f.kind for f in file_findings)
+    kinds.update(f.kind for f in findings)
+    order = [k for k in kinds if k not in KINDS] + [k for k in KINDS if kinds.get(k)]
     return {
-        "total": len(findings),
+        "total": len(findings) + len(file_findings),
         "errors": sev.get(ERROR, 0),
         "warnings": sev.get(WARNING, 0),
         "info": sev.get(INFO, 0),
-        "by_kind": {k: kinds[k] for k in KINDS if kinds.get(k)},
-        "clean": not any(is_problem(f) for f in findings),
+        "by_kind": {k: kinds[k] for k in order},
+        "clean": not any(is_problem(f) for f in findings)
+        and not any(f.severity in (ERROR, WARNING) for f in file_findings),
     }
 
 
-def _num(v: float) -> str:
+def _num(v: float | None) -> str:
+    """A number for text reports: 4 significant digits, no ``-0``."""
     if v is None or not math.isfinite(v):
+        return "n/a" if v is None else str(v)
+    text = f"{v:.4g}"
+    return "0" if text == "-0" else text
+
+
+def _pos(v: float) -> str:
+    """A coordinate for text reports: at least 4 significant digits and two decimals of the
+    unit (``199999.53`` in a 200,000-unit font outline, ``27.12`` on a page), no ``-0``."""
+    if not math.isfinite(v):
         return str(v)
-    return f"{v:.4g}"
+    before = math.floor(math.log10(abs(v))) + 1 if v != 0.0 else 1
+    text = f"{v:.{max(4, before + 2)}g}"
+    return "0" if text == "-0" else text
 
 
 def _value(f: Finding) -> str:
@@ -163,14 +192,47 @@ def place_text(f: Finding) -> str:
     return f"contour {f.contour}"
 
 
+# How the text reports name each length unit ("lengths in inches", "0.01 user units").
+UNIT_WORDS: dict[str, str] = {
+    "user": "user units",
+    "mm": "mm",
+    "in": "inches",
+    "pt": "pt",
+    "px": "px",
+}
+
+# Kinds whose message names a second place (the other contour of a gap or crossing, the outer
+# contour of a hole): text lines carry that explanation too, as JSON does.
+_EXPLAINED = frozenset({"gap", "self-intersection", "wrong-direction", "duplicate-contour"})
+
+
+def unit_words(unit: str) -> str:
+    """The name of a length unit in report sentences: "user units", "mm", "inches", ..."""
+    return UNIT_WORDS.get(unit, unit)
+
+
 def format_finding(label: str, f: Finding) -> str:
-    """``label: contour N, join J: kind value at (x, y) [severity]`` (one line)."""
+    """``label: contour N, join J: kind value at (x, y) [severity]`` (one line), followed by
+    the explanation for findings that involve a second place (``: crosses contour 2 ...``)."""
     where = place_text(f)
-    return f"{label}: {where}: {f.kind}{_value(f)} at ({_num(f.x)}, {_num(f.y)}) [{f.severity}]"
+    line = f"{label}: {where}: {f.kind}{_value(f)} at ({_pos(f.x)}, {_pos(f.y)}) [{f.severity}]"
+    if f.kind in _EXPLAINED and f.other_contour is not None:
+        line += f": {f.message}"
+    return line
+
+
+def format_file_finding(label: str, f: FileFinding) -> str:
+    """``label: kind: message [severity]`` (one line)."""
+    return f"{label}: {f.kind}: {f.message} [{f.severity}]"
 
 
 def text_report(
-    label: str, findings: Sequence[Finding], *, unit: str = "user", show_info: bool = True
+    label: str,
+    findings: Sequence[Finding],
+    *,
+    unit: str = "user",
+    show_info: bool = True,
+    file_findings: Sequence[FileFinding] = (),
 ) -> str:
     """One line per finding in document order, then a summary line.
 
@@ -184,33 +246,51 @@ def text_report(
     show_info : bool
         List info findings (intended corners, straight-into-curve joins, ...) too; the summary
         counts them either way.
+    file_findings : sequence of FileFinding
+        Findings about the file as a whole, listed first.
     """
+    lines = [
+        format_file_finding(label, f)
+        for f in file_findings
+        if show_info or f.severity in (ERROR, WARNING)
+    ]
     shown = findings if show_info else [f for f in findings if is_problem(f)]
-    lines = [format_finding(label, f) for f in sort_findings(shown)]
-    s = summarize(findings)
+    lines.extend(format_finding(label, f) for f in sort_findings(shown))
+    s = summarize(findings, file_findings)
     if s["total"] == 0:
-        lines.append(f"{label}: no findings")
+        lines.append(f"{label}: no findings; clean")
     else:
         kinds = ", ".join(f"{k} {n}" for k, n in s["by_kind"].items())
-        where = "lengths in user units" if unit == "user" else f"lengths in {unit}"
+        verdict = "clean" if s["clean"] else "not clean"
         lines.append(
             f"{label}: {_count(s['total'], 'finding')}: {_count(s['errors'], 'error')}, "
-            f"{_count(s['warnings'], 'warning')}, {s['info']} info ({kinds}); {where}"
+            f"{_count(s['warnings'], 'warning')}, {s['info']} info ({kinds}); "
+            f"lengths in {unit_words(unit)}; {verdict}"
         )
     return "\n".join(lines)
 
 
-def json_report(label: str, findings: Sequence[Finding], *, unit: str = "user") -> dict[str, Any]:
-    """``{"file", "units", "findings": [...], "summary": {...}, "caution"}`` for one file.
+def json_report(
+    label: str,
+    findings: Sequence[Finding],
+    *,
+    unit: str = "user",
+    file_findings: Sequence[FileFinding] = (),
+) -> dict[str, Any]:
+    """``{"file", "units", "clean", "findings": [...], "summary": {...}, "caution"}``.
 
-    Every finding is listed, info ones included, in document order; see
-    :meth:`Finding.to_dict` for the fields.
+    Every finding is listed, info ones included: first the file findings
+    (:meth:`FileFinding.to_dict`, ``"place": "file"``), then the others in document order
+    (:meth:`Finding.to_dict`).
     """
+    summary = summarize(findings, file_findings)
     return {
         "file": label,
         "units": unit,
-        "findings": [f.to_dict() for f in sort_findings(findings)],
-        "summary": summarize(findings),
+        "clean": summary["clean"],
+        "findings": [f.to_dict() for f in file_findings]
+        + [f.to_dict() for f in sort_findings(findings)],
+        "summary": summary,
         "severities": list(SEVERITIES),
         "caution": CAUTION,
     }

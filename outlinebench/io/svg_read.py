@@ -129,6 +129,18 @@ class ReadResult:
     notes: list[ReadNote] = field(default_factory=list)
     error: SvgReadError | None = None
 
+    @property
+    def all_notes(self) -> list[ReadNote]:
+        """Every note, with the first bad-path error among them as an error note (first)."""
+        if self.error is None:
+            return list(self.notes)
+        return [ReadNote("error", str(self.error), "path"), *self.notes]
+
+    @property
+    def errors(self) -> list[str]:
+        """Every error message of the reading, in order (empty when all was read)."""
+        return [n.message for n in self.all_notes if n.level == "error"]
+
 
 @dataclass(eq=False)
 class ElementRef:

@@ -21,13 +21,21 @@ import argparse
 import json
 import math
 import sys
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, TextIO
 
 import numpy as np
 
-from outlinebench.errors import OutlinebenchError, UnsafeXmlError, UnsupportedSvgFeature
+from outlinebench.diagnostics.file_findings import FileFinding, file_findings
+from outlinebench.errors import (
+    OutlinebenchError,
+    SvgReadError,
+    UnsafeXmlError,
+    UnsupportedSvgFeature,
+)
 from outlinebench.io import polylines_svg, read_svg
+from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -38,6 +46,8 @@ __all__ = [
     "axis_scales",
     "read_document",
     "read_svg_file",
+    "read_svg_partly",
+    "PartialRead",
     "ENTITY_OPTION",
     "add_entity_option",
     "note_line",
@@ -134,10 +144,27 @@ def _with_option_hint(err: Exception) -> Exception:
     return type(err)(msg)
 
 
+def _note_dict(n: ReadNote) -> dict[str, Any]:
+    return {"level": n.level, "kind": n.kind, "count": n.count, "message": n.message}
+
+
+def _read(path: str | Path, allow_entities: bool, option_hint: bool) -> ReadResult:
+    try:
+        return read_svg(str(path), allow_entities=allow_entities)
+    except UnsafeXmlError as exc:
+        if option_hint and not allow_entities and "internal entit" in str(exc):
+            raise _with_option_hint(exc) from None
+        raise
+
+
 def read_svg_file(
     path: str | Path, *, allow_entities: bool = False, option_hint: bool = False
 ) -> tuple[Document, list[dict[str, Any]]]:
-    """Read an SVG file into a document, with the reader's notes as JSON-ready dicts.
+    """Read an SVG file into a document, strictly, with the reader's notes as JSON-ready dicts.
+
+    For the commands that write files from the drawing (flatten, offset) or compare two
+    drawings (deviation): a file that could not be read in full is refused, since a cut file
+    of part of a design is silently wrong.
 
     Parameters
     ----------
@@ -158,24 +185,63 @@ def read_svg_file(
     Raises
     ------
     outlinebench.errors.SvgReadError
-        The file is not a readable SVG or a path in it is bad (the message names the file,
-        element and offset).
+        The file is not a readable SVG, or something in it that could be geometry could not
+        be read (the message names the file, element and place, and how many more errors
+        there are).
     OSError
         The file cannot be opened.
     """
-    try:
-        result = read_svg(str(path), allow_entities=allow_entities)
-    except UnsafeXmlError as exc:
-        if option_hint and not allow_entities and "internal entit" in str(exc):
-            raise _with_option_hint(exc) from None
-        raise
-    if result.error is not None:
-        raise result.error
-    notes = [
-        {"level": n.level, "kind": n.kind, "count": n.count, "message": n.message}
-        for n in result.notes
-    ]
-    return result.document, notes
+    result = _read(path, allow_entities, option_hint)
+    errors = [n for n in result.all_notes if n.level == "error"]
+    if errors:
+        more = f" (and {len(errors) - 1} more error(s))" if len(errors) > 1 else ""
+        first = errors[0].message
+        if result.error is not None and first == str(result.error) and not more:
+            raise result.error
+        raise SvgReadError(f"{first}{more}; not all of the file could be read")
+    return result.document, [_note_dict(n) for n in result.notes]
+
+
+@dataclass
+class PartialRead:
+    """A file read as far as it could be: for the commands that report (check, measure).
+
+    Attributes
+    ----------
+    document : Document
+        Everything that could be read.
+    file_findings : list of FileFinding
+        What could not be read, live text, and "nothing to check"
+        (:func:`outlinebench.diagnostics.file_findings.file_findings`).
+    notes : list of dict
+        The other notes of the reader (JSON-ready, as :func:`read_svg_file` gives them).
+    """
+
+    document: Document
+    file_findings: list[FileFinding]
+    notes: list[dict[str, Any]]
+
+
+def read_svg_partly(
+    path: str | Path, *, allow_entities: bool = False, allow_text: bool = False
+) -> PartialRead:
+    """Read an SVG file as far as it can be read, every error kept as a file finding.
+
+    Raises
+    ------
+    outlinebench.errors.SvgReadError
+        Nothing can be read at all: not well-formed XML, not an SVG root, bad root size.
+    outlinebench.errors.UnsafeXmlError
+        Entities, DTDs or a file too large (the message names ``--allow-internal-entities``
+        where it helps).
+    OSError
+        The file cannot be opened.
+    """
+    result = _read(path, allow_entities, True)
+    found, rest = file_findings(
+        result.all_notes, result.document, allow_text=allow_text, where=str(path)
+    )
+    return PartialRead(result.document, found, [_note_dict(n) for n in rest])
 
 
 def note_line(note: dict[str, Any]) -> str:

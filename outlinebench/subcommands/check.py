@@ -1,11 +1,13 @@
 """``outlinebench check FILE...``: report every continuity break and other finding.
 
-One line per finding (``file: contour N, segment M: kind value at (x, y) [severity]``;
+One line per finding (``file: contour N, join J: kind value at (x, y) [severity]``;
 ``--hide-info`` leaves the info ones out) and a summary per file, or with ``--json``
-one object per file listing every finding (a list for several files). Exit code 0 when
-nothing of warning level or worse is found, 1 when something is, 2 when a file cannot be read
-(one line on stderr naming it; the other files are still checked). Several files are checked
-in parallel on all cores.
+one object per file listing every finding (a list for several files). A folder is walked for
+``*.svg`` files. A file read only in part is checked as far as it was read and reports every
+error as a finding; it is not clean, nor is a file with nothing to check. Exit codes: see
+:data:`outlinebench.subcommands.EXIT_CODES_TEXT`; one file that cannot be read, or that hits
+a defect of ours, never stops the others. Several files are checked in parallel on all
+cores.
 """
 
 from __future__ import annotations
@@ -13,7 +15,10 @@ from __future__ import annotations
 import argparse
 import os
 import sys
+import traceback
 from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures.process import BrokenProcessPool
+from pathlib import Path
 from typing import Any
 
 from outlinebench.diagnostics import (
@@ -26,6 +31,7 @@ from outlinebench.diagnostics import (
 )
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
 from outlinebench.errors import OutlinebenchError
+from outlinebench.subcommands import EXIT_BAD_INPUT, EXIT_FINDINGS, EXIT_INTERNAL, EXIT_OK
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     MM_PER,
@@ -34,12 +40,22 @@ from outlinebench.subcommands._common import (
     nonnegative_float,
     note_line,
     positive_float,
-    read_svg_file,
+    read_svg_partly,
     unit_factor,
     write_json,
 )
 
-__all__ = ["NAME", "HELP", "add_arguments", "run", "check_file", "option_problem", "OptionMismatch"]
+__all__ = [
+    "NAME",
+    "HELP",
+    "add_arguments",
+    "run",
+    "check_file",
+    "guarded_check_file",
+    "expand_files",
+    "option_problem",
+    "OptionMismatch",
+]
 
 NAME = "check"
 HELP = "find gaps, kinks, corners, curvature jumps, cusps, self-intersections and more"
@@ -47,7 +63,12 @@ HELP = "find gaps, kinks, corners, curvature jumps, cusps, self-intersections an
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``outlinebench check``."""
-    parser.add_argument("files", nargs="+", metavar="FILE", help="SVG files to check")
+    parser.add_argument(
+        "files",
+        nargs="+",
+        metavar="FILE",
+        help="SVG files to check; a folder is walked for *.svg files (sorted)",
+    )
     parser.add_argument(
         "--json", action="store_true", help="print JSON instead of text (lists every finding)"
     )
@@ -92,6 +113,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         metavar="REL",
         default=defaults.curvature_jump,
         help="largest relative curvature difference at a smooth join (default %(default)s)",
+    )
+    parser.add_argument(
+        "--allow-text",
+        action="store_true",
+        help="live text (text elements not converted to outlines) is reported as info and "
+        "does not block a pass; by default it is an error, since a cutter does not cut text",
     )
     add_entity_option(parser)
     parser.add_argument(
@@ -174,18 +201,26 @@ def _settings(args: dict[str, Any], doc_mm_per: float) -> CheckSettings:
 def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
     """Check one file; a plain dict so it can travel back from a worker process.
 
+    A file that could be read only in part is checked as far as it was read, and everything
+    that could not be read is a file finding (:mod:`outlinebench.diagnostics.file_findings`),
+    so the file is not clean; so is a file with nothing to check.
+
     Returns
     -------
     dict
-        ``{"file", "error"}`` when the file cannot be read or the options do not fit it;
-        otherwise ``{"file", "text" or "json", "problems", "notes"}``; ``notes`` are the
-        reader's notes (dicts, see :func:`~outlinebench.subcommands._common.read_svg_file`)
-        plus one when the file holds no contour, and the JSON object carries them too.
+        ``{"file", "error"}`` when nothing of the file can be read or the options do not fit
+        it; otherwise ``{"file", "text" or "json", "problems", "notes"}``; ``notes`` are the
+        reader's notes that are not findings (dicts, see
+        :func:`~outlinebench.subcommands._common.read_svg_file`), and the JSON object carries
+        them too.
     """
     try:
-        doc, notes = read_svg_file(
-            path, allow_entities=options.get("allow_entities", False), option_hint=True
+        read = read_svg_partly(
+            path,
+            allow_entities=options.get("allow_entities", False),
+            allow_text=options.get("allow_text", False),
         )
+        doc = read.document
         unit = options["units"]
         factor = unit_factor(doc, unit)  # refuses a unit the file's scale cannot give
         settings = _settings(options, mm_per(unit, doc))
@@ -198,28 +233,40 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
             if path not in msg:
                 msg = f"{path}: {msg}"
         return {"file": path, "error": msg}
-    n_contours = sum(len(o.contours) for o in doc.outlines)
-    if n_contours == 0:
-        notes.append(
-            {
-                "level": "warning",
-                "kind": "nothing-checked",
-                "count": 0,
-                "message": f"{path}: no outlines found; 0 contours checked",
-            }
-        )
     shown = convert_units(findings, factor, unit)
+    ff = read.file_findings
     out: dict[str, Any] = {
         "file": path,
-        "problems": not summarize(findings)["clean"],
-        "notes": notes,
+        "problems": not summarize(findings, ff)["clean"],
+        "notes": read.notes,
     }
     if options["json"]:
-        out["json"] = json_report(path, shown, unit=unit)
-        out["json"]["notes"] = notes
+        out["json"] = json_report(path, shown, unit=unit, file_findings=ff)
+        out["json"]["notes"] = read.notes
     else:
-        out["text"] = text_report(path, shown, unit=unit, show_info=not options["hide_info"])
+        out["text"] = text_report(
+            path, shown, unit=unit, show_info=not options["hide_info"], file_findings=ff
+        )
     return out
+
+
+def guarded_check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
+    """:func:`check_file`, with an unexpected internal error reported for its file.
+
+    Returns
+    -------
+    dict
+        As :func:`check_file`, or ``{"file", "crash", "traceback"}`` for an exception that is
+        not the project's own (a defect of ours: the other files are still checked).
+    """
+    try:
+        return check_file(path, options)
+    except Exception as exc:  # noqa: BLE001 - one file's defect must not hide the others
+        return {
+            "file": path,
+            "crash": f"{path}: internal error while checking ({type(exc).__name__}: {exc})",
+            "traceback": traceback.format_exc(),
+        }
 
 
 def _progress(done: int, total: int) -> None:
@@ -231,14 +278,73 @@ def _progress(done: int, total: int) -> None:
     sys.stderr.flush()
 
 
+def expand_files(paths: list[str]) -> list[str]:
+    """The files to check: each file as given, each folder walked for ``*.svg`` (sorted).
+
+    Raises
+    ------
+    OutlinebenchError
+        A folder holds no SVG file.
+    """
+    out: list[str] = []
+    for p in paths:
+        if os.path.isdir(p):
+            found = sorted(
+                str(f) for f in Path(p).rglob("*") if f.suffix.lower() == ".svg" and f.is_file()
+            )
+            if not found:
+                raise OutlinebenchError(f"{p}: folder holds no .svg file")
+            out.extend(found)
+        else:
+            out.append(p)
+    return out
+
+
+def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[dict[str, Any]]:
+    """Check every file, in parallel on all cores for several; one result per file, in order.
+
+    A worker process that dies (killed, out of memory) is a crash of the file it was
+    checking; the files of the broken pool that had not finished are checked again, one
+    worker each, so one bad file never hides another.
+    """
+    if len(files) == 1:
+        return [guarded_check_file(files[0], options)]
+    results: list[dict[str, Any] | None] = [None] * len(files)
+    workers = min(len(files), os.cpu_count() or 1)
+    with ProcessPoolExecutor(max_workers=workers) as pool:
+        futures = [pool.submit(guarded_check_file, f, options) for f in files]
+        for k, fut in enumerate(futures):
+            try:
+                results[k] = fut.result()
+            except BrokenProcessPool:
+                pass
+            if progress:
+                _progress(k + 1, len(files))
+    for k, r in enumerate(results):
+        if r is not None:
+            continue
+        with ProcessPoolExecutor(max_workers=1) as pool:
+            try:
+                results[k] = pool.submit(guarded_check_file, files[k], options).result()
+            except BrokenProcessPool:
+                results[k] = {
+                    "file": files[k],
+                    "crash": f"{files[k]}: internal error: the checking process died (killed "
+                    "or out of memory)",
+                    "traceback": "",
+                }
+    return [r for r in results if r is not None]
+
+
 def run(args: argparse.Namespace) -> int:
-    """Check every file; exit code 0 clean, 1 findings of warning level or worse, 2 bad input."""
+    """Check every file; the exit code is the highest of the files' (see EXIT_CODES_TEXT)."""
     options = {
         k: getattr(args, k)
         for k in (
             "json",
             "hide_info",
             "allow_entities",
+            "allow_text",
             "gap",
             "gap_search",
             "kink_angle",
@@ -250,40 +356,38 @@ def run(args: argparse.Namespace) -> int:
     problem = option_problem(options)
     if problem is not None:
         print(f"outlinebench: error: {problem}", file=sys.stderr)
-        return 2
-    files = list(args.files)
+        return EXIT_BAD_INPUT
+    files = expand_files(list(args.files))
     show_progress = len(files) > 1 and sys.stderr.isatty()
-    results: list[dict[str, Any]] = []
-    if len(files) == 1:
-        results.append(check_file(files[0], options))
-    else:
-        workers = min(len(files), os.cpu_count() or 1)
-        with ProcessPoolExecutor(max_workers=workers) as pool:
-            futures = [pool.submit(check_file, f, options) for f in files]
-            for k, fut in enumerate(futures, start=1):
-                results.append(fut.result())
-                if show_progress:
-                    _progress(k, len(files))
+    results = _run_all(files, options, show_progress)
+    debug = getattr(args, "debug", False)
 
-    code = 0
+    code = EXIT_OK
     payload = []
     for r in results:
+        if "crash" in r:
+            print(f"outlinebench: error: {r['crash']}", file=sys.stderr)
+            if debug and r["traceback"]:
+                print(r["traceback"], file=sys.stderr, end="")
+            code = max(code, EXIT_INTERNAL)
+            payload.append({"file": r["file"], "clean": False, "internal_error": r["crash"]})
+            continue
         if "error" in r:
             print(f"outlinebench: error: {r['error']}", file=sys.stderr)
-            code = 2
-            payload.append({"file": r["file"], "error": r["error"]})
+            code = max(code, EXIT_BAD_INPUT)
+            payload.append({"file": r["file"], "clean": False, "error": r["error"]})
             continue
         for note in r["notes"]:
             print(f"outlinebench: {note_line(note)}", file=sys.stderr)
-        if r["problems"] and code == 0:
-            code = 1
+        if r["problems"]:
+            code = max(code, EXIT_FINDINGS)
         if args.json:
             payload.append(r["json"])
         else:
             print(r["text"])
     if args.json and payload:
         if len(files) == 1:
-            if "error" not in payload[0]:
+            if "json" in results[0]:
                 write_json(payload[0])
         else:
             write_json(payload)

@@ -126,14 +126,17 @@ def test_several_files_give_a_list_and_worst_exit_code(capsys):
 
 
 def test_unreadable_file_one_line_exit_2_others_checked(tmp_path, capsys):
+    # SVG 2 §9.5.4 "Error handling in path data": render up to the error, so the file is read
+    # in part and its error becomes a read-error finding; a missing file is unreadable.
     bad = tmp_path / "broken.svg"
     bad.write_text('<svg xmlns="http://www.w3.org/2000/svg"><path d="M 0 0 L 1 x"/></svg>')
     missing = tmp_path / "missing.svg"
     code, out, err = run([CLEAN, str(bad), str(missing)], capsys)
     assert code == 2
     err_lines = [x for x in err.splitlines() if x.startswith("outlinebench: error")]
-    assert len(err_lines) == 2
-    assert str(bad) in err_lines[0] and str(missing) in err_lines[1]
+    assert len(err_lines) == 1 and str(missing) in err_lines[0]
+    assert f"{bad}: read-error: " in out and "offset 10" in out
+    assert f"{bad}: " in out and out.count("not clean") >= 1
     assert "Traceback" not in err
     assert f"{CLEAN}: " in out  # the good file was still checked
 
@@ -239,25 +242,35 @@ def test_bad_option_combination_is_one_usage_line_before_any_file(tmp_path, caps
 
 
 def test_json_carries_the_readers_notes(tmp_path, capsys):
-    # review item 11: a file whose only content is a <text> element is not "clean" silently;
-    # the reader's warning (text is not converted to outlines) is in the JSON, and an empty
-    # drawing says that nothing was checked
+    # issue "never silently wrong": a file whose only content is a <text> element is not
+    # clean; live text is an error finding unless --allow-text, and an empty drawing is a
+    # nothing-to-check finding (common practice, no source: a gate passes only what it read)
     text_only = tmp_path / "textonly.svg"
     text_only.write_text('<svg xmlns="http://www.w3.org/2000/svg"><text>Harbour</text></svg>')
     code, out, _ = run([str(text_only), "--json"], capsys)
     data = json.loads(out)
-    assert code == 0 and data["findings"] == []
-    (note,) = [n for n in data["notes"] if n["kind"] == "text"]
-    assert note["level"] == "warning" and "text" in note["message"] and note["count"] == 1
-    assert any(n["kind"] == "nothing-checked" for n in data["notes"])
+    assert code == 1 and data["clean"] is False
+    kinds = {f["kind"]: f for f in data["findings"]}
+    assert set(kinds) == {"live-text", "nothing-to-check"}
+    assert kinds["live-text"]["severity"] == "error" and kinds["live-text"]["count"] == 1
+    assert "text" in kinds["live-text"]["message"]
+    code, out, _ = run([str(text_only), "--json", "--allow-text"], capsys)
+    data = json.loads(out)
+    kinds = {f["kind"]: f for f in data["findings"]}
+    assert kinds["live-text"]["severity"] == "info" and code == 1  # still nothing to check
     empty = tmp_path / "empty.svg"
     empty.write_text('<svg xmlns="http://www.w3.org/2000/svg"/>')
-    _, out, err = run([str(empty), "--json"], capsys)
-    (note,) = json.loads(out)["notes"]
-    assert "0 contours checked" in note["message"] and "0 contours checked" in err
-    # a file with outlines has an empty list
-    _, out, _ = run([BRACKET, "--json"], capsys)
-    assert json.loads(out)["notes"] == []
+    code, out, err = run([str(empty), "--json"], capsys)
+    data = json.loads(out)
+    assert code == 1 and [f["kind"] for f in data["findings"]] == ["nothing-to-check"]
+    assert "no outline" in data["findings"][0]["message"]
+    code, out, _ = run([str(empty)], capsys)
+    assert code == 1 and "nothing-to-check" in out and "not clean" in out
+    # a file with outlines has no file findings and an empty list of notes
+    code, out, _ = run([BRACKET, "--json"], capsys)
+    data = json.loads(out)
+    assert data["notes"] == [] and data["clean"] is True and code == 0
+    assert not [f for f in data["findings"] if f.get("place") == "file"]
 
 
 ENTITY_SVG = (

@@ -33,7 +33,7 @@ def test_text_line_format_and_summary():
     assert lines[0] == "a.svg: contour 0: open-contour 19.99 at (0, 0) [warning]"
     assert lines[1] == "a.svg: contour 0, join 0: kink 3° at (10, 0) [warning]"
     assert lines[-1].startswith("a.svg: 2 findings: 0 errors, 2 warnings, 0 info")
-    assert text_report("b.svg", []) == "b.svg: no findings"
+    assert text_report("b.svg", []) == "b.svg: no findings; clean"
 
 
 def test_json_report_is_serialisable_and_complete():
