@@ -9,6 +9,16 @@ from outlinebench.io.svg_write import (
     write_file_atomic,
     write_svg,
 )
+from outlinebench.io.font_read import (
+    FontSource,
+    GlyphRef,
+    contour_origin,
+    is_font_path,
+    load_font,
+    read_font,
+    select_glyphs,
+)
+from outlinebench.io.ufo_write import write_ufo_glyphs
 
 __all__ = [
     "read_svg",
@@ -22,4 +32,12 @@ __all__ = [
     "CUT_CAUTION",
     "svg_bytes",
     "polylines_svg",
+    "read_font",
+    "load_font",
+    "select_glyphs",
+    "is_font_path",
+    "contour_origin",
+    "FontSource",
+    "GlyphRef",
+    "write_ufo_glyphs",
 ]

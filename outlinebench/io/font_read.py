@@ -611,6 +611,17 @@ class _Glyph:
     integer: bool
 
 
+def _first_error(
+    error: Exception | None, new: Exception, notes: list[ReadNote]
+) -> Exception:
+    """Keep the first glyph error as the result's error, later ones as error notes
+    (:attr:`ReadResult.all_notes` lists the first one itself)."""
+    if error is None:
+        return new
+    notes.append(ReadNote("error", str(new), "glyph"))
+    return error
+
+
 def _empty_note(where: str, empty: list[str]) -> ReadNote:
     first = ", ".join(empty[:3])
     return ReadNote(
@@ -722,12 +733,10 @@ def _read_binary(
                     adv = float(hmtx[name][0]) if name in hmtx.metrics else 0.0
                     out.append(_pen_glyph(glyphset, name, where, adv))
             except FontReadError as exc:
-                error = error or exc
-                notes.append(ReadNote("error", str(exc), "glyph"))
+                error = _first_error(error, exc, notes)
             except Exception as exc:  # a damaged glyph: report it, read the others
                 err = FontReadError(f"{where}: glyph {name!r} cannot be read: {exc}")
-                error = error or err
-                notes.append(ReadNote("error", str(err), "glyph"))
+                error = _first_error(error, err, notes)
     finally:
         font.close()
     src = FontSource(path, flavour, upem, tuple(order))
@@ -822,12 +831,10 @@ def _read_ufo(
             contours_of(name, None, None, 0, acc)
             out.append(acc)
         except FontReadError as exc:
-            error = error or exc
-            notes.append(ReadNote("error", str(exc), "glyph"))
+            error = _first_error(error, exc, notes)
         except Exception as exc:
             err = FontReadError(f"{where}: glyph {name!r} cannot be read: {exc}")
-            error = error or err
-            notes.append(ReadNote("error", str(err), "glyph"))
+            error = _first_error(error, err, notes)
     src = FontSource(
         path,
         "ufo",
