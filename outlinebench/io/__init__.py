@@ -1,14 +1,5 @@
 """SVG reading and writing, following the W3C SVG standard."""
 
-from outlinebench.io.svg_path import format_path_data, parse_path_data
-from outlinebench.io.svg_read import ReadNote, ReadResult, load_svg, read_svg
-from outlinebench.io.svg_write import (
-    CUT_CAUTION,
-    polylines_svg,
-    svg_bytes,
-    write_file_atomic,
-    write_svg,
-)
 from outlinebench.io.font_read import (
     FontSource,
     GlyphRef,
@@ -17,6 +8,15 @@ from outlinebench.io.font_read import (
     load_font,
     read_font,
     select_glyphs,
+)
+from outlinebench.io.svg_path import format_path_data, parse_path_data
+from outlinebench.io.svg_read import ReadNote, ReadResult, load_svg, read_svg
+from outlinebench.io.svg_write import (
+    CUT_CAUTION,
+    polylines_svg,
+    svg_bytes,
+    write_file_atomic,
+    write_svg,
 )
 from outlinebench.io.ufo_write import write_ufo_glyphs
 
