@@ -611,9 +611,7 @@ class _Glyph:
     integer: bool
 
 
-def _first_error(
-    error: Exception | None, new: Exception, notes: list[ReadNote]
-) -> Exception:
+def _first_error(error: Exception | None, new: Exception, notes: list[ReadNote]) -> Exception:
     """Keep the first glyph error as the result's error, later ones as error notes
     (:attr:`ReadResult.all_notes` lists the first one itself)."""
     if error is None:

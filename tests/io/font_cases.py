@@ -64,11 +64,11 @@ def draw_washer(pen: Any, quadratic: bool) -> None:
         # outer ring of off-curve points only (every on-curve point implied), clockwise
         pen.qCurveTo((320, 600), (570, 450), (570, 150), (320, 0), (70, 150), (70, 450), None)
         pen.closePath()
-        pen.moveTo((320, 150))
-        pen.qCurveTo((200, 150), (200, 300))
-        pen.qCurveTo((200, 450), (320, 450))
-        pen.qCurveTo((440, 450), (440, 300))
-        pen.qCurveTo((440, 150), (320, 150))
+        pen.moveTo((320, 150))  # the hole, counter-clockwise
+        pen.qCurveTo((440, 150), (440, 300))
+        pen.qCurveTo((440, 450), (320, 450))
+        pen.qCurveTo((200, 450), (200, 300))
+        pen.qCurveTo((200, 150), (320, 150))
         pen.closePath()
     else:
         k = 0.5523
