@@ -342,7 +342,7 @@ def _quadratic_contours(
     per glyph, so neighbours share their end point's memory.
     """
     ends_arr = np.asarray(ends, dtype=np.intp)
-    starts = np.r_[0, ends_arr[:-1] + 1]
+    starts = np.concatenate(([0], ends_arr[:-1] + 1))
     lengths = ends_arr - starts + 1
     keep = np.flatnonzero(lengths >= 2)
     if keep.size == 0:
@@ -370,16 +370,16 @@ def _quadratic_contours(
         counts = np.add.reduceat(rep, starts)
     else:
         p2, o2, counts = xy, on, lengths
-    first = np.r_[0, np.cumsum(counts)[:-1]]
+    first = np.concatenate(([0], np.cumsum(counts)[:-1]))
     # first on-curve point of each contour (every contour has one after the insertion)
     on_idx = np.flatnonzero(o2)
     owner = np.searchsorted(first, on_idx, side="right") - 1
-    head = np.r_[True, owner[1:] != owner[:-1]]
+    head = np.concatenate(([True], owner[1:] != owner[:-1]))
     f_on = np.empty(counts.size, dtype=np.intp)
     f_on[owner[head]] = on_idx[head]
     # rotated and closed: contour c has counts[c] + 1 points
     sizes = counts + 1
-    out_first = np.r_[0, np.cumsum(sizes)[:-1]]
+    out_first = np.concatenate(([0], np.cumsum(sizes)[:-1]))
     local = np.arange(int(sizes.sum())) - np.repeat(out_first, sizes)
     c_of = np.repeat(np.arange(counts.size), sizes)
     src = first[c_of] + (f_on[c_of] - first[c_of] + local) % counts[c_of]
@@ -419,6 +419,21 @@ def _contour_from_segments(
     arr[:, 1] = 0.0 - arr[:, 1]
     _frozen(arr)
     return Contour(tuple(arr[i:j] for i, j in bounds), closed, tuple(joins))
+
+
+def _contour_from_flat(flat: Sequence[float], sizes: Sequence[int], closed: bool) -> Contour:
+    """A contour from flat font coordinates (x0, y0, x1, y1, ...; each segment's first point
+    is the previous one's last, stored once) and each segment's control-point count.
+
+    One read-only array holds the points, y flipped (module docstring); segments are views.
+    """
+    arr = np.array(flat, dtype=np.float64).reshape(-1, 2)
+    arr[:, 1] = 0.0 - arr[:, 1]
+    _frozen(arr)
+    k = np.asarray(sizes, dtype=np.intp) - 1
+    ends = np.cumsum(k).tolist()
+    starts = [0, *ends[:-1]]
+    return Contour(tuple(arr[a : b + 1] for a, b in zip(starts, ends, strict=True)), closed)
 
 
 def _owner(segment: FloatArray) -> FloatArray:
@@ -630,12 +645,357 @@ def _empty_note(where: str, empty: list[str]) -> ReadNote:
     )
 
 
+class _Unsupported(Exception):
+    """Raised by the fast decoders for data they leave to fontTools (read the slow way)."""
+
+
+def _glyf_coordinates(data: bytes, where: str) -> tuple[FloatArray, NDArray[np.bool_], list[int]]:
+    """Points, on-curve flags and contour ends of a simple ``glyf`` glyph, from its bytes.
+
+    Parameters
+    ----------
+    data : bytes
+        The glyph's data block (OpenType "glyf", simple glyph description).
+
+    Returns
+    -------
+    xy : ndarray, shape (N, 2)
+        Font coordinates (y up).
+    on : ndarray of bool, shape (N,)
+    ends : list of int
+        ``endPtsOfContours``.
+
+    Raises
+    ------
+    _Unsupported
+        A composite glyph or one with cubic flags (fontTools reads those).
+    FontReadError
+        Flags or coordinates run past the end of the data.
+
+    Notes
+    -----
+    Layout: numberOfContours (int16), the box (4 × int16), endPtsOfContours (uint16 each),
+    instructionLength (uint16) and the instructions, then the flags (bit 3 REPEAT_FLAG: the
+    next byte repeats it), x then y coordinates. Per coordinate, bit 1/2 (SHORT_VECTOR) means
+    one unsigned byte whose sign is bit 4/5, otherwise bit 4/5 (IS_SAME) means no change and
+    its absence a signed 16-bit delta. Deltas are summed from (0, 0). The flags are read in a
+    loop, the coordinates as arrays.
+    """
+    size = len(data)
+    if size < 12:
+        raise FontReadError(f"{where}: glyph data of {size} bytes is too short")
+    nc = int.from_bytes(data[0:2], "big", signed=True)
+    if nc < 0:
+        raise _Unsupported
+    pos = 10 + 2 * nc
+    if pos + 2 > size:
+        raise FontReadError(f"{where}: glyph data ends inside its contour table")
+    ends_arr = np.frombuffer(data, dtype=">u2", count=nc, offset=10).astype(np.intp)
+    if nc and np.any(np.diff(ends_arr) < 0):
+        raise FontReadError(f"{where}: contour end points are not in order")
+    n = int(ends_arr[-1]) + 1 if nc else 0
+    pos += 2 + int.from_bytes(data[pos : pos + 2], "big")
+    buf = np.frombuffer(data, dtype=np.uint8)
+    parts: list[NDArray[np.uint8]] = []
+    j = 0
+    while j < n:  # runs of plain flags at once; a loop step only per REPEAT_FLAG
+        chunk = buf[pos : pos + (n - j)]
+        if chunk.size < n - j and not np.any(chunk & 0x08):
+            raise FontReadError(f"{where}: glyph flags run past the end of the data")
+        rep = np.flatnonzero(chunk & 0x08)
+        if rep.size == 0:
+            parts.append(chunk)
+            pos += chunk.size
+            j += chunk.size
+            break
+        k = int(rep[0])
+        if pos + k + 1 >= size:
+            raise FontReadError(f"{where}: glyph flags run past the end of the data")
+        r = int(buf[pos + k + 1]) + 1
+        parts.append(chunk[:k])
+        parts.append(np.full(r, chunk[k], dtype=np.uint8))
+        pos += k + 2
+        j += k + r
+    if j != n:
+        raise FontReadError(f"{where}: glyph flags repeat past the last point")
+    fl = np.concatenate(parts) if len(parts) != 1 else parts[0]
+    if np.any(fl & 0x80):
+        raise _Unsupported
+    out = np.empty((n, 2))
+    for axis, short_bit, same_bit in ((0, 0x02, 0x10), (1, 0x04, 0x20)):
+        short = (fl & short_bit) != 0
+        same = (fl & same_bit) != 0
+        step = np.where(short, 1, np.where(same, 0, 2))
+        off = pos + np.cumsum(step) - step
+        pos += int(step.sum())
+        if pos > size:
+            raise FontReadError(f"{where}: glyph coordinates run past the end of the data")
+        last = size - 1
+        b0 = buf[np.minimum(off, last)].astype(np.int64)
+        b1 = buf[np.minimum(off + 1, last)].astype(np.int64)
+        word = (b0 << 8) | b1
+        word = np.where(word >= 32768, word - 65536, word)
+        delta = np.where(short, np.where(same, b0, -b0), np.where(same, 0, word))
+        out[:, axis] = np.cumsum(delta)
+    return out, (fl & 1).astype(bool), ends_arr.tolist()
+
+
+# Type 2 charstring operators the fast decoder reads (Adobe TN #5177, Appendix A).
+_T2_BIAS = ((1240, 107), (33900, 1131))
+
+
+def _t2_bias(count: int) -> int:
+    for limit, bias in _T2_BIAS:
+        if count < limit:
+            return bias
+    return 32768
+
+
+class _T2Reader:
+    """Type 2 charstring outlines (Adobe TN #5177, §4) read straight from the bytecode.
+
+    Path operators, hints (skipped, counting stems for the hint masks), subroutine calls
+    and the optional width are handled; arithmetic and storage operators, ``seac``-style
+    ``endchar`` accents and CFF2's blend raise :class:`_Unsupported`, and fontTools'
+    interpreter reads that glyph instead. Contours are returned as point lists of
+    segments in font coordinates; each ``moveto`` and ``endchar`` closes the current one.
+    """
+
+    def __init__(self, local: Sequence[Any], global_: Sequence[Any]) -> None:
+        self.local = local
+        self.global_ = global_
+        self.lbias = _t2_bias(len(local))
+        self.gbias = _t2_bias(len(global_))
+
+    def read(self, bytecode: bytes) -> list[tuple[list[float], list[int]]]:
+        """Contours of one charstring: (flat x, y list with shared end points stored once,
+        control-point count of each segment), in font coordinates."""
+        self.contours: list[tuple[list[float], list[int]]] = []
+        self.flat: list[float] = []
+        self.sizes: list[int] = []
+        self.start = (0.0, 0.0)
+        self.x = 0.0
+        self.y = 0.0
+        self.stems = 0
+        self.width_done = False
+        self.open = False
+        self.stack: list[float] = []
+        self.ended = False
+        self.run(bytecode, 0)
+        if not self.ended:
+            raise _Unsupported  # no endchar: leave the judgement to fontTools
+        return self.contours
+
+    def close(self) -> None:
+        if self.open and self.sizes:
+            if (self.x, self.y) != self.start:
+                self.flat.extend(self.start)
+                self.sizes.append(2)
+            self.contours.append((self.flat, self.sizes))
+        self.flat = []
+        self.sizes = []
+        self.open = False
+
+    def width(self, expected_even: bool, count: int) -> None:
+        if not self.width_done:
+            self.width_done = True
+            extra = (len(self.stack) % 2 == 1) if expected_even else len(self.stack) > count
+            if extra:
+                del self.stack[0]
+
+    def line(self, dx: float, dy: float) -> None:
+        self.x += dx
+        self.y += dy
+        self.flat.extend((self.x, self.y))
+        self.sizes.append(2)
+
+    def curve(self, a: float, b: float, c: float, d: float, e: float, f: float) -> None:
+        x1 = self.x + a
+        y1 = self.y + b
+        x2 = x1 + c
+        y2 = y1 + d
+        self.x = x2 + e
+        self.y = y2 + f
+        self.flat.extend((x1, y1, x2, y2, self.x, self.y))
+        self.sizes.append(4)
+
+    def move(self, dx: float, dy: float) -> None:
+        self.close()
+        self.x += dx
+        self.y += dy
+        self.start = (self.x, self.y)
+        self.flat = [self.x, self.y]
+        self.open = True
+
+    def run(self, code: bytes, depth: int) -> bool:
+        """Execute ``code``; True when ``endchar`` was reached."""
+        if depth > 10:  # TN #5177: the subroutine nesting limit is 10
+            raise FontReadError("charstring subroutines nest deeper than 10")
+        st = self.stack
+        i = 0
+        n = len(code)
+        while i < n:
+            b0 = code[i]
+            i += 1
+            if b0 >= 32:
+                if b0 <= 246:
+                    st.append(b0 - 139)
+                elif b0 <= 250:
+                    st.append((b0 - 247) * 256 + code[i] + 108)
+                    i += 1
+                elif b0 <= 254:
+                    st.append(-(b0 - 251) * 256 - code[i] - 108)
+                    i += 1
+                else:
+                    st.append(int.from_bytes(code[i : i + 4], "big", signed=True) / 65536.0)
+                    i += 4
+                continue
+            if b0 == 28:
+                st.append(int.from_bytes(code[i : i + 2], "big", signed=True))
+                i += 2
+                continue
+            if b0 == 8:  # rrcurveto
+                for k in range(0, len(st) - 5, 6):
+                    self.curve(*st[k : k + 6])
+            elif b0 == 5:  # rlineto
+                for k in range(0, len(st) - 1, 2):
+                    self.line(st[k], st[k + 1])
+            elif b0 in (6, 7):  # hlineto, vlineto
+                horizontal = b0 == 6
+                for v in st:
+                    if horizontal:
+                        self.line(v, 0.0)
+                    else:
+                        self.line(0.0, v)
+                    horizontal = not horizontal
+            elif b0 in (30, 31):  # vhcurveto, hvcurveto
+                horizontal = b0 == 31
+                k, m = 0, len(st)
+                while k + 4 <= m:
+                    last = st[k + 4] if m - k == 5 else 0.0
+                    a, b, c, d = st[k : k + 4]
+                    if horizontal:
+                        self.curve(a, 0.0, b, c, last, d)
+                    else:
+                        self.curve(0.0, a, b, c, d, last)
+                    k += 5 if m - k == 5 else 4
+                    horizontal = not horizontal
+            elif b0 == 27:  # hhcurveto
+                k = 0
+                dy1 = 0.0
+                if len(st) % 2:
+                    dy1 = st[0]
+                    k = 1
+                while k + 4 <= len(st):
+                    self.curve(st[k], dy1, st[k + 1], st[k + 2], st[k + 3], 0.0)
+                    dy1 = 0.0
+                    k += 4
+            elif b0 == 26:  # vvcurveto
+                k = 0
+                dx1 = 0.0
+                if len(st) % 2:
+                    dx1 = st[0]
+                    k = 1
+                while k + 4 <= len(st):
+                    self.curve(dx1, st[k], st[k + 1], st[k + 2], 0.0, st[k + 3])
+                    dx1 = 0.0
+                    k += 4
+            elif b0 == 24:  # rcurveline
+                m = len(st) - 2
+                for k in range(0, m - 5, 6):
+                    self.curve(*st[k : k + 6])
+                self.line(st[m], st[m + 1])
+            elif b0 == 25:  # rlinecurve
+                m = len(st) - 6
+                for k in range(0, m - 1, 2):
+                    self.line(st[k], st[k + 1])
+                self.curve(*st[m : m + 6])
+            elif b0 == 21:  # rmoveto
+                self.width(False, 2)
+                self.move(st[-2], st[-1])
+            elif b0 == 22:  # hmoveto
+                self.width(False, 1)
+                self.move(st[-1], 0.0)
+            elif b0 == 4:  # vmoveto
+                self.width(False, 1)
+                self.move(0.0, st[-1])
+            elif b0 in (1, 3, 18, 23):  # hstem, vstem, hstemhm, vstemhm
+                self.width(True, 0)
+                self.stems += len(st) // 2
+            elif b0 in (19, 20):  # hintmask, cntrmask (with an implied vstem before)
+                if st:
+                    self.width(True, 0)
+                    self.stems += len(st) // 2
+                self.width_done = True
+                i += (self.stems + 7) // 8
+            elif b0 in (10, 29):  # callsubr, callgsubr
+                subrs, bias = (self.local, self.lbias) if b0 == 10 else (self.global_, self.gbias)
+                index = int(st.pop()) + bias
+                if not 0 <= index < len(subrs):
+                    raise FontReadError(f"charstring calls subroutine {index}, not in the font")
+                sub = subrs[index]
+                code_sub = getattr(sub, "bytecode", None)
+                if code_sub is None:
+                    raise _Unsupported
+                if self.run(code_sub, depth + 1):
+                    return True
+                continue  # the subroutine's operands stay on the stack
+            elif b0 == 11:  # return
+                return False
+            elif b0 == 14:  # endchar
+                if len(st) >= 4:
+                    raise _Unsupported  # seac-style accented glyph (4 arguments)
+                self.width(False, 0)
+                self.close()
+                self.ended = True
+                return True
+            elif b0 == 12:
+                b1 = code[i]
+                i += 1
+                if b1 == 35:  # flex
+                    self.curve(*st[0:6])
+                    self.curve(*st[6:12])
+                elif b1 == 34:  # hflex
+                    dx1, dx2, dy2, dx3, dx4, dx5, dx6 = st[:7]
+                    self.curve(dx1, 0.0, dx2, dy2, dx3, 0.0)
+                    self.curve(dx4, 0.0, dx5, -dy2, dx6, 0.0)
+                elif b1 == 36:  # hflex1
+                    dx1, dy1, dx2, dy2, dx3, dx4, dx5, dy5, dx6 = st[:9]
+                    self.curve(dx1, dy1, dx2, dy2, dx3, 0.0)
+                    self.curve(dx4, 0.0, dx5, dy5, dx6, -(dy1 + dy2 + dy5))
+                elif b1 == 37:  # flex1
+                    d = st[:11]
+                    dx = sum(d[0:10:2])
+                    dy = sum(d[1:10:2])
+                    self.curve(*d[0:6])
+                    if abs(dx) > abs(dy):
+                        self.curve(d[6], d[7], d[8], d[9], d[10], -dy)
+                    else:
+                        self.curve(d[6], d[7], d[8], d[9], -dx, d[10])
+                else:
+                    raise _Unsupported  # arithmetic, storage, dotsection...
+            else:
+                raise _Unsupported  # CFF2 blend / vsindex, reserved operators
+            st.clear()
+        return False
+
+
 def _truetype_glyph(font: Any, name: str, where: str) -> _Glyph:
     glyf = font["glyf"]
-    g = glyf[name]
     advance = float(font["hmtx"][name][0]) if name in font["hmtx"].metrics else 0.0
-    count = g.numberOfContours
-    if count == 0:
+    if name in glyf.glyphs and not getattr(glyf.glyphs[name], "data", True):
+        return _Glyph(name, [], [], (), advance, True)  # no data: an empty glyph
+    raw = getattr(glyf.glyphs.get(name), "data", None)
+    if raw:
+        try:
+            xy, on, ends = _glyf_coordinates(raw, f"{where}: glyph {name!r}")
+            xy[:, 1] = 0.0 - xy[:, 1]
+            contours, _ = _quadratic_contours(xy, on, ends)
+            return _Glyph(name, contours, [None] * len(contours), (), advance, True)
+        except _Unsupported:
+            pass
+    g = glyf[name]
+    if g.numberOfContours == 0:
         return _Glyph(name, [], [], (), advance, True)
     coords, ends, flags = g.getCoordinates(glyf)
     fl = np.frombuffer(bytes(flags), dtype=np.uint8)
@@ -655,6 +1015,35 @@ def _truetype_glyph(font: Any, name: str, where: str) -> _Glyph:
     else:
         origins = [None] * len(contours)
     return _Glyph(name, contours, origins, components, advance, integer)
+
+
+def _cff_glyph(
+    font: Any, readers: dict[int, _T2Reader], name: str, where: str, advance: float
+) -> _Glyph:
+    """A CFF glyph through :class:`_T2Reader`, or fontTools' interpreter for what it leaves."""
+    charstrings = font["CFF "].cff.topDictIndex[0].CharStrings
+    cs = charstrings[name]
+    code = getattr(cs, "bytecode", None)
+    if code is not None:
+        private = cs.private
+        reader = readers.get(id(private))
+        if reader is None:
+            reader = _T2Reader(getattr(private, "Subrs", None) or [], cs.globalSubrs or [])
+            readers[id(private)] = reader
+        try:
+            found = reader.read(code)
+        except _Unsupported:
+            found = None
+        except (IndexError, ValueError) as exc:
+            raise FontReadError(f"{where}: glyph {name!r}: bad charstring: {exc}") from None
+        if found is not None:
+            contours = [_contour_from_flat(flat, sizes, True) for flat, sizes in found]
+            integer = all(
+                bool(np.all(b == np.round(b)))
+                for b in (_owner(c.segments[0]) for c in contours if c.segments)
+            )
+            return _Glyph(name, contours, [None] * len(contours), (), advance, integer)
+    return _pen_glyph(font.getGlyphSet(), name, where, advance)
 
 
 def _truetype_origins(glyf: Any, name: str, prefix: str | None, depth: int) -> list[str | None]:
@@ -721,12 +1110,16 @@ def _read_binary(
             )
         out: list[_Glyph] = []
         error: Exception | None = None
-        glyphset = font.getGlyphSet() if flavour != "truetype" else None
+        glyphset = font.getGlyphSet() if flavour == "cff2" else None
+        readers: dict[int, _T2Reader] = {}
         hmtx = font["hmtx"]
         for name in names:
             try:
                 if flavour == "truetype":
                     out.append(_truetype_glyph(font, name, where))
+                elif flavour == "cff":
+                    adv = float(hmtx[name][0]) if name in hmtx.metrics else 0.0
+                    out.append(_cff_glyph(font, readers, name, where, adv))
                 else:
                     adv = float(hmtx[name][0]) if name in hmtx.metrics else 0.0
                     out.append(_pen_glyph(glyphset, name, where, adv))

@@ -157,7 +157,7 @@ def test_segments_share_end_points_and_are_read_only(fonts: dict[str, Path]) -> 
         for outline in read_font(fonts[kind]).document.outlines:
             for c in outline.contours:
                 assert c.closed
-                for a, b in zip(c.segments, c.segments[1:] + c.segments[:1], strict=False):
+                for a, b in zip(c.segments, c.segments[1:] + c.segments[:1], strict=True):
                     assert np.array_equal(a[-1], b[0])
                     assert not a.flags.writeable
 
@@ -284,3 +284,328 @@ def test_a_broken_glyph_is_an_error_not_a_gap(tmp_path: Path) -> None:
     assert len(result.document.outlines) == len(GLYPH_ORDER) - 1
     with pytest.raises(FontReadError, match="bracket"):
         load_font(path)
+
+
+def _random_glyf_font(path: Path, seed: int) -> Path:
+    """Glyphs of random integer points over the whole int16 range and in small steps, so
+    every flag form occurs (short and long deltas, same-as-before, repeated flags)."""
+    from fontTools.fontBuilder import FontBuilder
+    from fontTools.pens.ttGlyphPen import TTGlyphPen
+
+    rng = np.random.default_rng(seed)
+    order = [".notdef"] + [f"g{k}" for k in range(40)]
+    glyphs = {}
+    for name in order:
+        pen = TTGlyphPen(None)
+        for _ in range(int(rng.integers(1, 4))):
+            n = int(rng.integers(3, 30))
+            big = rng.integers(-16000, 16000, (n, 2))  # deltas stay within int16
+            small = np.cumsum(rng.integers(-3, 4, (n, 2)), axis=0) + 100
+            pts = np.where(rng.random((n, 1)) < 0.5, big, small)
+            pts[rng.random(n) < 0.2, 0] = pts[0, 0]  # same x as some other point
+            pen.moveTo(tuple(int(v) for v in pts[0]))
+            k = 1
+            while k < n:
+                run = int(rng.integers(0, 3))
+                offs = [tuple(int(v) for v in p) for p in pts[k : k + run]]
+                end = tuple(int(v) for v in pts[min(k + run, n - 1)])
+                if offs:
+                    pen.qCurveTo(*offs, end)
+                else:
+                    pen.lineTo(end)
+                k += run + 1
+            pen.closePath()
+        glyphs[name] = pen.glyph()
+    fb = FontBuilder(2048, isTTF=True)
+    fb.setupGlyphOrder(order)
+    fb.setupCharacterMap({})
+    fb.setupGlyf(glyphs)
+    glyf = fb.font["glyf"]
+    for n in order:
+        glyf[n].recalcBounds(glyf)
+    fb.setupHorizontalMetrics({n: (600, int(getattr(glyf[n], "xMin", 0))) for n in order})
+    fb.setupHorizontalHeader(ascent=1800, descent=-400)
+    fb.setupNameTable({"familyName": "Random Parts", "styleName": "Regular"})
+    fb.setupOS2()
+    fb.setupPost()
+    fb.save(str(path))
+    return path
+
+
+def test_glyf_decoder_matches_fonttools(tmp_path: Path) -> None:
+    # Our reading of the glyf bytes (OpenType "glyf", simple glyph description) against
+    # fontTools' own decoding of the same glyphs, point for point and flag for flag.
+    from outlinebench.io.font_read import _glyf_coordinates
+
+    path = _random_glyf_font(tmp_path / "random.ttf", 5)
+    raw = TTFont(path)
+    ref = TTFont(path)
+    glyf, ref_glyf = raw["glyf"], ref["glyf"]
+    for name in raw.getGlyphOrder():
+        data = glyf.glyphs[name].data
+        xy, on, ends = _glyf_coordinates(data, name)
+        coords, ref_ends, flags = ref_glyf[name].getCoordinates(ref_glyf)
+        np.testing.assert_array_equal(xy, np.array(coords).reshape(-1, 2))
+        np.testing.assert_array_equal(on, np.array([f & 1 for f in flags], dtype=bool))
+        assert ends == list(ref_ends)
+    # and the whole font reads to fontTools' segments (through the pen as reference)
+    doc = read_font(path).document
+    gs = TTFont(path).getGlyphSet()
+    for outline in doc.outlines:
+        pen = _Segments(gs)
+        gs[outline.element_id].draw(pen)
+        ours = sorted(_font_points(s) for c in outline.contours for s in c.segments)
+        assert ours == sorted(tuple(map(tuple, s)) for s in pen.segments)
+
+
+def test_glyf_decoder_refuses_truncated_data() -> None:
+    from outlinebench.io.font_read import _glyf_coordinates
+
+    # one contour of 3 points, no instructions, flags say "long x, long y", data cut short
+    data = (1).to_bytes(2, "big") + bytes(8) + (2).to_bytes(2, "big") + bytes(2) + bytes(3)
+    with pytest.raises(FontReadError, match="run past the end"):
+        _glyf_coordinates(data, "font.ttf: glyph 'x'")
+
+
+class _Private:
+    nominalWidthX = 0
+    defaultWidthX = 0
+
+    def __init__(self, subrs):
+        self.Subrs = subrs
+
+
+def _t2(program, private=None, global_subrs=()):
+    from fontTools.misc.psCharStrings import T2CharString
+
+    cs = T2CharString(program=list(program), private=private, globalSubrs=list(global_subrs))
+    cs.compile()
+    return cs
+
+
+def _t2_reference(cs) -> list[tuple]:
+    pen = _Segments(None)
+    cs.draw(pen)
+    return [tuple((float(x), float(y)) for x, y in s) for s in pen.segments]
+
+
+def _t2_ours(cs) -> list[tuple]:
+    from outlinebench.io.font_read import _contour_from_flat, _T2Reader
+
+    reader = _T2Reader(getattr(cs.private, "Subrs", []) or [], cs.globalSubrs or [])
+    return [
+        _font_points(seg)
+        for flat, sizes in reader.read(cs.bytecode)
+        for seg in _contour_from_flat(flat, sizes, True).segments
+    ]
+
+
+def test_charstring_reader_matches_fonttools_on_every_operator() -> None:
+    # Adobe TN #5177 operators, each program read by fontTools' interpreter (reference
+    # library) and by ours: the same segments in the same order.
+    local = [_t2([10, 20, 30, 40, 50, 60, "rrcurveto", "return"]) for _ in range(3)]
+    glob = [_t2([5, 0, "rlineto", "return"]) for _ in range(2)]
+    private = _Private(local)
+    programs = [
+        # width, stems, hint masks with an implied vstem, moves of every kind
+        [
+            77,
+            10,
+            20,
+            30,
+            40,
+            "hstemhm",
+            5,
+            6,
+            "vstemhm",
+            1,
+            2,
+            "hintmask",
+            bytes([0b11100000]),
+            100,
+            200,
+            "rmoveto",
+            50,
+            "hlineto",
+            60,
+            70,
+            80,
+            "vlineto",
+            1,
+            2,
+            3,
+            4,
+            "rlineto",
+            "endchar",
+        ],
+        # curves: rrcurveto, hhcurveto (odd count), vvcurveto (odd), hvcurveto, vhcurveto
+        # with and without the final extra argument, rcurveline, rlinecurve
+        [
+            10,
+            10,
+            "rmoveto",
+            1,
+            2,
+            3,
+            4,
+            5,
+            6,
+            7,
+            8,
+            9,
+            10,
+            11,
+            12,
+            "rrcurveto",
+            3,
+            10,
+            20,
+            30,
+            40,
+            11,
+            21,
+            31,
+            41,
+            "hhcurveto",
+            4,
+            10,
+            20,
+            30,
+            40,
+            "vvcurveto",
+            10,
+            20,
+            30,
+            40,
+            50,
+            60,
+            70,
+            80,
+            "hvcurveto",
+            10,
+            20,
+            30,
+            40,
+            5,
+            "vhcurveto",
+            10,
+            20,
+            30,
+            40,
+            50,
+            60,
+            70,
+            80,
+            "rcurveline",
+            5,
+            6,
+            7,
+            8,
+            10,
+            20,
+            30,
+            40,
+            50,
+            60,
+            "rlinecurve",
+            0,
+            -30,
+            "rmoveto",
+            10,
+            20,
+            30,
+            40,
+            50,
+            "hvcurveto",
+            "endchar",
+        ],
+        # flex family
+        [
+            0,
+            0,
+            "rmoveto",
+            10,
+            5,
+            20,
+            5,
+            30,
+            0,
+            30,
+            0,
+            20,
+            -5,
+            10,
+            -5,
+            50,
+            "flex",
+            10,
+            20,
+            5,
+            30,
+            30,
+            20,
+            10,
+            "hflex",
+            10,
+            5,
+            20,
+            5,
+            30,
+            30,
+            20,
+            -5,
+            10,
+            "hflex1",
+            10,
+            5,
+            20,
+            5,
+            30,
+            0,
+            30,
+            0,
+            20,
+            -5,
+            17,
+            "flex1",
+            5,
+            60,
+            20,
+            5,
+            30,
+            0,
+            30,
+            0,
+            20,
+            -5,
+            17,
+            "flex1",
+            "endchar",
+        ],
+        # subroutines (local and global, with the bias for small indexes: 107)
+        [
+            0,
+            0,
+            "rmoveto",
+            0 - 107,
+            "callsubr",
+            2 - 107,
+            "callsubr",
+            1 - 107,
+            "callgsubr",
+            "endchar",
+        ],
+        # a 16.16 fixed number and a width before a vmoveto
+        [33, 12.5, "vmoveto", 100.25, 3, "rlineto", "endchar"],
+    ]
+    for program in programs:
+        cs = _t2(program, private, glob)
+        assert _t2_ours(cs) == _t2_reference(cs), program
+
+
+def test_charstring_reader_leaves_arithmetic_to_fonttools() -> None:
+    from outlinebench.io.font_read import _T2Reader, _Unsupported
+
+    cs = _t2([0, 0, "rmoveto", 3, 4, "add", 0, "rlineto", "endchar"], _Private([]))
+    with pytest.raises(_Unsupported):
+        _T2Reader([], []).read(cs.bytecode)
