@@ -1046,6 +1046,41 @@ def _cff_glyph(
     return _pen_glyph(font.getGlyphSet(), name, where, advance)
 
 
+def _simple_truetype(
+    simple: list[tuple[int, str, FloatArray, NDArray[np.bool_], list[int]]],
+    slots: list[_Glyph | None],
+    hmtx: Any,
+) -> None:
+    """Outlines of every simple TrueType glyph at once (one :func:`_quadratic_contours` pass
+    over all their points), put into their slots."""
+    counts = [len(ends) for _, _, _, _, ends in simple]
+    sizes = [xy.shape[0] for _, _, xy, _, _ in simple]
+    xy_all = np.concatenate([xy for _, _, xy, _, _ in simple]) if simple else np.zeros((0, 2))
+    xy_all[:, 1] = 0.0 - xy_all[:, 1]
+    on_all = np.concatenate([on for _, _, _, on, _ in simple])
+    base = np.concatenate(([0], np.cumsum(sizes)[:-1])).astype(np.intp)
+    ends_all = (
+        np.concatenate(
+            [
+                np.asarray(e, dtype=np.intp) + b
+                for (_, _, _, _, e), b in zip(simple, base, strict=True)
+            ]
+        )
+        if any(counts)
+        else np.zeros(0, dtype=np.intp)
+    )
+    contours, kept = _quadratic_contours(xy_all, on_all, ends_all.tolist())
+    glyph_of = np.repeat(np.arange(len(simple)), counts)[kept] if kept else np.zeros(0, np.intp)
+    per = np.bincount(glyph_of, minlength=len(simple)).tolist()
+    at = 0
+    metrics = hmtx.metrics
+    for (slot, name, _, _, _), k in zip(simple, per, strict=True):
+        mine = contours[at : at + k]
+        at += k
+        advance = float(metrics[name][0]) if name in metrics else 0.0
+        slots[slot] = _Glyph(name, mine, [None] * k, (), advance, True)
+
+
 def _truetype_origins(glyf: Any, name: str, prefix: str | None, depth: int) -> list[str | None]:
     if depth > 32:
         raise FontReadError(f"component {name!r} nests too deep (a cycle?)")
@@ -1113,21 +1148,35 @@ def _read_binary(
         glyphset = font.getGlyphSet() if flavour == "cff2" else None
         readers: dict[int, _T2Reader] = {}
         hmtx = font["hmtx"]
+        simple: list[tuple[int, str, FloatArray, NDArray[np.bool_], list[int]]] = []
+        slots: list[_Glyph | None] = []
         for name in names:
             try:
                 if flavour == "truetype":
-                    out.append(_truetype_glyph(font, name, where))
+                    raw = getattr(font["glyf"].glyphs.get(name), "data", None)
+                    if raw:
+                        try:
+                            xy, on, ends = _glyf_coordinates(raw, f"{where}: glyph {name!r}")
+                            simple.append((len(slots), name, xy, on, ends))
+                            slots.append(None)
+                            continue
+                        except _Unsupported:
+                            pass
+                    slots.append(_truetype_glyph(font, name, where))
                 elif flavour == "cff":
                     adv = float(hmtx[name][0]) if name in hmtx.metrics else 0.0
-                    out.append(_cff_glyph(font, readers, name, where, adv))
+                    slots.append(_cff_glyph(font, readers, name, where, adv))
                 else:
                     adv = float(hmtx[name][0]) if name in hmtx.metrics else 0.0
-                    out.append(_pen_glyph(glyphset, name, where, adv))
+                    slots.append(_pen_glyph(glyphset, name, where, adv))
             except FontReadError as exc:
                 error = _first_error(error, exc, notes)
             except Exception as exc:  # a damaged glyph: report it, read the others
                 err = FontReadError(f"{where}: glyph {name!r} cannot be read: {exc}")
                 error = _first_error(error, err, notes)
+        if simple:
+            _simple_truetype(simple, slots, hmtx)
+        out = [g for g in slots if g is not None]
     finally:
         font.close()
     src = FontSource(path, flavour, upem, tuple(order))
@@ -1301,6 +1350,7 @@ def read_font(
     integer = True
     lo = np.full(2, np.inf)
     hi = np.full(2, -np.inf)
+    bases: dict[int, FloatArray] = {}
     for g in found:
         ref = GlyphRef(
             g.name,
@@ -1315,10 +1365,10 @@ def read_font(
             empty.append(g.name)
         if g.components:
             composite.append(g.name)
-        bases = {id(b): b for c in g.contours for s in c.segments[:1] for b in (_owner(s),)}
-        for b in bases.values():
-            lo = np.minimum(lo, b.min(axis=0))
-            hi = np.maximum(hi, b.max(axis=0))
+        for c in g.contours:
+            if c.segments:
+                b = _owner(c.segments[0])
+                bases[id(b)] = b
         outlines.append(
             Outline(
                 tuple(g.contours),
@@ -1358,6 +1408,9 @@ def read_font(
         )
     if empty:
         lead.append(_empty_note(where, empty))
+    for b in bases.values():  # each point array once (several glyphs may share one)
+        lo = np.minimum(lo, b.min(axis=0))
+        hi = np.maximum(hi, b.max(axis=0))
     view_box = None
     if np.all(hi > lo):
         view_box = (float(lo[0]), float(lo[1]), float(hi[0] - lo[0]), float(hi[1] - lo[1]))
