@@ -345,6 +345,11 @@ def _crosses(a: list[FloatArray], b: list[FloatArray]) -> bool:
     return ib0 != ib1
 
 
+def _end_distance(t: float | None) -> float:
+    """How far a parameter is from the nearer end of its segment (½ when unknown)."""
+    return 0.5 if t is None else min(t, 1.0 - t)
+
+
 def merge_crossings(
     findings: Sequence[Finding], doc: Document, radius: float, between_severity: str = INFO
 ) -> list[Finding]:
@@ -399,8 +404,8 @@ def merge_crossings(
             for t in (cluster[0].t, cluster[0].other_t)
         ):
             return True  # two segments crossing inside both
-        f = min(cluster, key=lambda g: min(g.t or 0.5, 1 - (g.t or 0.5)))
-        h = min(cluster, key=lambda g: min(g.other_t or 0.5, 1 - (g.other_t or 0.5)))
+        f = min(cluster, key=lambda g: _end_distance(g.t))
+        h = min(cluster, key=lambda g: _end_distance(g.other_t))
         if f.contour not in table or h.other_contour not in table:
             return True
         ca = table[f.contour][2]

@@ -7,11 +7,17 @@ Outlines are built from the outline data the format stores:
 - ``glyf`` (TrueType): quadratic segments. Between two consecutive off-curve points lies an
   implied on-curve point, their midpoint (OpenType specification, chapter "glyf — Glyph
   Data", simple glyph description; Apple *TrueType Reference Manual*, chapter 1 "Digitizing
-  letterform designs"). Points are read straight from the table, all contours of a glyph in
-  one array pass.
-- ``CFF`` / ``CFF2`` (PostScript outlines): cubic segments, decoded by fontTools' charstring
-  interpreter through a pen (Adobe Technical Notes #5176 and #5177). A variable font is read
-  at its default instance.
+  letterform designs"). Simple glyphs are decoded from the table's bytes (flags, then x and
+  y deltas, as arrays) and the outlines of all of them built in one array pass; composite
+  glyphs and the cubic ``glyf`` extension go through fontTools. Coordinates are the stored
+  ones (fontTools' glyph sets shift a glyph by ``hmtx`` lsb − xMin when the two differ; the
+  outline itself is the same). A contour of one point (an anchor) encloses nothing and has
+  no segment: it is left out.
+- ``CFF`` (PostScript outlines): cubic segments, read from the Type 2 charstrings by our
+  reader of the path, hint and subroutine operators (Adobe Technical Notes #5176 and #5177);
+  a charstring using anything else (arithmetic, ``seac`` accents) and ``CFF2`` fonts go
+  through fontTools' interpreter and a pen. A variable font is read at its default
+  instance.
 - ``.ufo`` sources through ufoLib2: ``line``, ``curve`` and ``qcurve`` points (Unified Font
   Object 3, "glif" chapter), including a curve with more than two off-curve points (split
   the way fontTools' pens split it) and a quadratic run with implied on-curve points. A point

@@ -241,3 +241,20 @@ def test_rounding_kinks_are_grid_kinks_for_type(tmp_path: Path, lift, kind, seve
     typed = apply_profile(found, "type", doc)
     at = [f for f in typed if f.x == 60.0 and f.join is not None]
     assert [(f.kind, f.severity) for f in at] == [(kind, severity)]
+
+
+def test_touch_and_crossing_through_a_node_are_told_apart() -> None:
+    # Closed-form geometry: the line x + y = 200 meets the square 0…100 only at its corner
+    # (100, 100), where x + y is largest: a touch. The line y = x runs through the same
+    # corner from inside the square to outside: a crossing (plus the crossing of the
+    # triangle's bottom edge with the square's right side at (100, 50)).
+    square = _square(0, 0, 100, 100)
+    touching = _polygon([(50, 150), (150, 50), (200, 200)])
+    doc = _doc(square, touching)
+    typed = apply_profile(check_document(doc), "type", doc, grid_step=None)
+    assert _kinds(typed) == {("touch", INFO): 1}
+    crossing = _polygon([(50, 50), (150, 150), (150, 50)])
+    doc = _doc(square, crossing)
+    typed = apply_profile(check_document(doc), "type", doc, grid_step=None)
+    assert _kinds(typed) == {("overlap", INFO): 1}
+    assert "crossing at 2 point(s)" in next(f.message for f in typed if f.kind == "overlap")
