@@ -16,6 +16,8 @@ __all__ = [
     "UnsafeXmlError",
     "SvgWriteError",
     "CommandError",
+    "FontReadError",
+    "FontWriteError",
 ]
 
 
@@ -62,3 +64,11 @@ class SvgWriteError(OutlinebenchError):
 
 class CommandError(OutlinebenchError, ValueError):
     """An edit cannot be applied to the document as it is (bad index, wrong segment kind)."""
+
+
+class FontReadError(OutlinebenchError, ValueError):
+    """A font file or UFO source cannot be read, or a glyph selection names no glyph there."""
+
+
+class FontWriteError(OutlinebenchError):
+    """Glyphs cannot be written back (a binary font, an edited component, a failed check)."""

@@ -20,6 +20,20 @@ from outlinebench.diagnostics.findings import (
     Finding,
     is_problem,
 )
+from outlinebench.diagnostics.grid_rounding import (
+    GRID_KINK,
+    explained_by_rounding,
+    grid_kink_findings,
+)
+from outlinebench.diagnostics.profiles import (
+    PROFILE_NAMES,
+    CheckProfile,
+    apply_profile,
+    check_with_profile,
+    default_profile_name,
+    get_profile,
+    profile_settings,
+)
 from outlinebench.diagnostics.report import (
     CAUTION,
     convert_units,
@@ -51,4 +65,14 @@ __all__ = [
     "sort_findings",
     "summarize",
     "text_report",
+    "GRID_KINK",
+    "explained_by_rounding",
+    "grid_kink_findings",
+    "PROFILE_NAMES",
+    "CheckProfile",
+    "apply_profile",
+    "check_with_profile",
+    "default_profile_name",
+    "get_profile",
+    "profile_settings",
 ]

@@ -1,5 +1,14 @@
 """SVG reading and writing, following the W3C SVG standard."""
 
+from outlinebench.io.font_read import (
+    FontSource,
+    GlyphRef,
+    contour_origin,
+    is_font_path,
+    load_font,
+    read_font,
+    select_glyphs,
+)
 from outlinebench.io.svg_path import format_path_data, parse_path_data
 from outlinebench.io.svg_read import ReadNote, ReadResult, load_svg, read_svg
 from outlinebench.io.svg_write import (
@@ -9,6 +18,7 @@ from outlinebench.io.svg_write import (
     write_file_atomic,
     write_svg,
 )
+from outlinebench.io.ufo_write import write_ufo_glyphs
 
 __all__ = [
     "read_svg",
@@ -22,4 +32,12 @@ __all__ = [
     "CUT_CAUTION",
     "svg_bytes",
     "polylines_svg",
+    "read_font",
+    "load_font",
+    "select_glyphs",
+    "is_font_path",
+    "contour_origin",
+    "FontSource",
+    "GlyphRef",
+    "write_ufo_glyphs",
 ]
