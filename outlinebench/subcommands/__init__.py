@@ -2,4 +2,4 @@
 and ``run``. :mod:`outlinebench.cli` discovers them through ``SUBCOMMANDS``."""
 
 # Module names under this package, in the order ``--help`` lists them.
-SUBCOMMANDS: tuple[str, ...] = ("check", "measure", "flatten", "offset", "deviation")
+SUBCOMMANDS: tuple[str, ...] = ("check", "measure", "flatten", "offset", "deviation", "repair")
