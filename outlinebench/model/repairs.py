@@ -380,8 +380,9 @@ class SmoothKink(RepairCommand):
     turned by θ moves by 2ℓ sin(θ/2) ≈ ℓθ; splitting Δ so that both handles move equally,
     θ_in = Δ · ℓ_out/(ℓ_in + ℓ_out) and θ_out = Δ − θ_in, minimises the larger move (the
     shorter handle turns more). Lengths are kept. A line side fixes the tangent: the other
-    handle turns by the whole Δ; so does a side whose tangent is exactly horizontal or
-    vertical (the point is an x/y extremum and stays one). A quadratic's handle also sets its other end's tangent, so it
+    handle turns by the whole Δ. Where exactly one side's tangent is horizontal or vertical
+    (the point is an x/y extremum), that side is kept first, so the point stays an extremum;
+    the weighted split is used when that would change the shape more than allowed. A quadratic's handle also sets its other end's tangent, so it
     is moved along that tangent line to where it meets the new direction (far tangent kept).
     On a grid, every grid point within ±2 steps of each ideal handle is tried and the pair with
     the smallest residual turn kept (ties: the smaller move).
@@ -425,19 +426,28 @@ class SmoothKink(RepairCommand):
         delta = turn_angle(u, v)
         u_axis = bool(u[0] == 0.0 or u[1] == 0.0)
         v_axis = bool(v[0] == 0.0 or v[1] == 0.0)
-        if a.shape[0] == 2 or (u_axis and not v_axis and b.shape[0] > 2):
-            d = u
-        elif b.shape[0] == 2 or (v_axis and not u_axis):
-            d = v
+        if a.shape[0] == 2:
+            directions = [u]
+        elif b.shape[0] == 2:
+            directions = [v]
         else:
-            d = _rotate(u, delta * lb / (la + lb))
-        new_a, new_b = np.array(a), np.array(b)
-        if a.shape[0] > 2:
-            new_a[-2] = self._place(a, p, -d, la, end=True)
-        if b.shape[0] > 2:
-            new_b[1] = self._place(b, p, d, lb, end=False)
-        if self.grid:
-            new_a, new_b = self._snap(a, b, new_a, new_b, p)
+            directions = [_rotate(u, delta * lb / (la + lb))]
+            if u_axis != v_axis:  # keep the extremum point's exact tangent if that fits
+                directions.insert(0, u if u_axis else v)
+        best = None
+        for d in directions:
+            new_a, new_b = np.array(a), np.array(b)
+            if a.shape[0] > 2:
+                new_a[-2] = self._place(a, p, -d, la, end=True)
+            if b.shape[0] > 2:
+                new_b[1] = self._place(b, p, d, lb, end=False)
+            if self.grid:
+                new_a, new_b = self._snap(a, b, new_a, new_b, p)
+            bound = self._measure([a, b], [new_a, new_b])
+            if best is None or (best[0].upper > self.max_change and bound.upper < best[0].upper):
+                best = (bound, new_a, new_b)
+        assert best is not None
+        _, new_a, new_b = best
         ua = _unit(p - new_a[-2]) if a.shape[0] > 2 else u
         vb = _unit(new_b[1] - p) if b.shape[0] > 2 else v
         self.residual_angle = abs(math.degrees(turn_angle(ua, vb)))
