@@ -382,8 +382,9 @@ class SmoothKink(RepairCommand):
     shorter handle turns more). Lengths are kept. A line side fixes the tangent: the other
     handle turns by the whole Δ. Where exactly one side's tangent is horizontal or vertical
     (the point is an x/y extremum), that side is kept first, so the point stays an extremum;
-    the weighted split is used when that would change the shape more than allowed. A quadratic's handle also sets its other end's tangent, so it
-    is moved along that tangent line to where it meets the new direction (far tangent kept).
+    the weighted split is used when that would change the shape more than allowed. A
+    quadratic's handle also sets its other end's tangent, so it is moved along that tangent
+    line to where it meets the new direction (far tangent kept).
     On a grid, every grid point within ±2 steps of each ideal handle is tried and the pair with
     the smallest residual turn kept (ties: the smaller move).
     """
