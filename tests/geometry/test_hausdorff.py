@@ -14,7 +14,7 @@ from outlinebench.geometry.hausdorff import hausdorff_bound, polyline_hausdorff
 # polylines). The sampled polyline lies within Wang's bound Δt²·max|Pᵢ₊₂ − 2Pᵢ₊₁ + Pᵢ|·n(n−1)/8
 # of its curve (Wang 1984, as in Filip, Magedson & Markot 1986), so the sampled distance is
 # within the two curves' bounds of the true one.
-SAMPLES = 3000
+SAMPLES = 2000
 
 
 def sampled(segments):
