@@ -15,6 +15,7 @@ Repairs (kind words in :data:`REPAIR_KINDS`, in the order :data:`REPAIR_ORDER` a
 --------------------------------------------------------------------------------------
 close-gaps        :class:`CloseGap` (G0): an open contour whose ends are within the gap
                   tolerance becomes closed; the ends move to one shared point.
+                  :class:`JoinContours`: two open contours whose ends meet become one.
 fix-direction     :class:`FixDirection`: holes wound opposite to their outer contour where
                   containment is proven; exact duplicate contours removed.
 fit-curves        :class:`FitCurves`: a polyline contour becomes few cubics (corners kept).
@@ -61,6 +62,7 @@ __all__ = [
     "CHANGE_ACCURACY",
     "RepairCommand",
     "CloseGap",
+    "JoinContours",
     "SmoothKink",
     "MatchCurvature",
     "AddExtremumPoints",
@@ -343,6 +345,86 @@ class CloseGap(RepairCommand):
         self.note = f"gap of {gap:.6g} closed at the {name}"
         contour = Contour(tuple(_freeze(s) for s in new), True, joins)
         return doc.replace_contour(self.outline, self.contour, contour), old_parts, new_parts
+
+
+class JoinContours(RepairCommand):
+    """Join two open contours of one outline whose ends lie within the gap tolerance (G0).
+
+    Parameters
+    ----------
+    outline : int
+    contour, other : int
+        The two contours (indices within the outline); ``other`` is removed and its segments
+        continue ``contour``.
+    at_end, other_at_end : bool
+        Which ends meet: the end (True) or the start (False) of each.
+    gap_tolerance : float
+    max_change : float
+
+    Notes
+    -----
+    The contours are oriented so that the first's end meets the second's start (reversing
+    either as needed: the same points, traversed the other way), then joined as in
+    :class:`CloseGap`: the start, the end or the midpoint is tried as the shared point, handles
+    travelling with their points, and the smallest proven change kept. The joined contour
+    stays open (a later close-gaps step closes it when its own ends meet).
+    """
+
+    kind = "close-gaps"
+    label = "Join contours"
+
+    def __init__(
+        self,
+        outline: int,
+        contour: int,
+        other: int,
+        at_end: bool,
+        other_at_end: bool,
+        gap_tolerance: float,
+        max_change: float = DEFAULT_MAX_CHANGE,
+    ) -> None:
+        super().__init__(max_change)
+        self.outline, self.contour, self.other = outline, contour, other
+        self.at_end, self.other_at_end = bool(at_end), bool(other_at_end)
+        self.gap_tolerance = float(gap_tolerance)
+
+    def _repair(self, doc: Document):
+        a = _contour_at(doc, self.outline, self.contour)
+        b = _contour_at(doc, self.outline, self.other)
+        if self.contour == self.other or a.closed or b.closed or not a.segments or not b.segments:
+            raise CommandError("join contours: needs two different open contours")
+        if not self.at_end:
+            a = _reversed_contour(a)
+        if self.other_at_end:
+            b = _reversed_contour(b)
+        end, start = a.segments[-1][-1], b.segments[0][0]
+        gap = float(np.hypot(*(start - end)))
+        if gap > self.gap_tolerance:
+            raise CommandError(
+                f"join contours: the ends are {gap:.6g} apart, farther than the gap tolerance "
+                f"{self.gap_tolerance:.6g}"
+            )
+        best = None
+        for name, target in (("first", end), ("second", start), ("midpoint", 0.5 * (end + start))):
+            last = _move_end(a.segments[-1], target)
+            first = _move_start(b.segments[0], target)
+            first[0] = last[-1]
+            old_parts = [a.segments[-1], b.segments[0]]
+            new_parts = [last, first]
+            bound = self._measure(old_parts, new_parts)
+            if best is None or bound.upper < best[0].upper:
+                best = (bound, name, last, first, old_parts)
+        assert best is not None
+        _, name, last, first, old_parts = best
+        segs = a.segments[:-1] + (_freeze(last), _freeze(first)) + b.segments[1:]
+        joined = Contour(segs, False, a.joins + (None,) + b.joins)
+        o = doc.outlines[self.outline]
+        contours = list(o.contours)
+        contours[self.contour] = joined
+        del contours[self.other]
+        self.note = f"gap of {gap:.6g} joined at the {name} end point"
+        new_doc = doc.replace_outline(self.outline, replace(o, contours=tuple(contours)))
+        return new_doc, old_parts, [last, first]
 
 
 # --------------------------------------------------------------------------------------------
@@ -924,7 +1006,8 @@ class FitCurves(RepairCommand):
     correction, corners by angle, G1 at the splits), with tolerance 0.9 × ``max_change``;
     when the proven change still exceeds ``max_change`` the fit is repeated at half the
     tolerance, up to three times. Refused when the result has no fewer segments. Joins become
-    unstated, except corners, which are stated as corners when the contour stated any intent.
+    unstated; where the contour stated intents, the new joins are stated too (corner where
+    the turn exceeds the corner angle, smooth elsewhere).
     """
 
     kind = "fit-curves"
@@ -963,6 +1046,11 @@ class FitCurves(RepairCommand):
         n = len(segs)
         count = n if c.closed else n - 1
         joins: list[JoinIntent | None] = [None] * count
+        if any(j is not None for j in c.joins):
+            corner = math.radians(self.corner_angle)
+            for j in range(count):
+                a, b = segs[j], segs[(j + 1) % n]
+                joins[j] = "corner" if _join_turn(a, b) > corner else "smooth"
         self.note = f"{len(c.segments)} lines → {n} segments"
         new_c = Contour(tuple(segs), c.closed, tuple(joins))
         return doc.replace_contour(self.outline, self.contour, new_c), list(c.segments), segs

@@ -45,6 +45,7 @@ from outlinebench.model.repairs import (
     CloseGap,
     FitCurves,
     FixDirection,
+    JoinContours,
     MatchCurvature,
     RemoveOverlaps,
     RemoveRedundantPoints,
@@ -199,12 +200,25 @@ def repair_for_finding(
     settings = settings or CheckSettings()
     kind = finding.kind
     if kind in ("gap", "open-contour"):
-        if finding.other_contour is not None and finding.other_contour != finding.contour:
-            return None
         o, c = _locate(doc, finding.contour)
         gap, search = _gap_user(doc, settings)
-        if kind == "open-contour" and (finding.value is None or finding.value > search):
-            return None
+        other = finding.other_contour
+        if kind == "gap" and other is not None and other != finding.contour:
+            o2, c2 = _locate(doc, other)
+            if o2 != o:
+                return None
+            return JoinContours(
+                o, c, c2, finding.t == 1.0, finding.other_t == 1.0, search, max_change
+            )
+        if kind == "open-contour":
+            ends = doc.contour(o, c)
+            if finding.value is None or finding.value > search or finding.severity != "info":
+                # a warning: its ends meet nothing (or are too far apart); an info open
+                # contour whose ends meet other contours is joined through their gaps
+                if finding.value is None or finding.value > search:
+                    return None
+            if ends.closed:
+                return None
         return CloseGap(o, c, search, max_change)
     if kind in ("kink", "corner") and finding.join is not None:
         o, c = _locate(doc, finding.contour)
@@ -227,12 +241,14 @@ def repair_for_finding(
 
 
 def _same_place(a: Finding, b: Finding) -> bool:
-    return (
-        a.kind == b.kind
-        and a.contour == b.contour
-        and a.join == b.join
-        and (a.join is not None or a.segment == b.segment)
-    )
+    """Whether two findings are the same one (before and after an edit)."""
+    if a.kind != b.kind or a.contour != b.contour:
+        return False
+    if a.kind == "gap":  # contours are renumbered by joins: the place is the end point
+        return abs(a.x - b.x) <= 1e-9 * max(1.0, abs(a.x)) and abs(a.y - b.y) <= 1e-9 * max(
+            1.0, abs(a.y)
+        )
+    return a.join == b.join and (a.join is not None or a.segment == b.segment)
 
 
 def _problem_counts(findings: list[Finding], outline_contours: set[int]) -> dict[str, int]:
@@ -359,33 +375,33 @@ def repair_document(
         targets = TARGETS[kind]
         todo = [f for f in run.findings if wanted(f, targets)]
         if kind == "close-gaps":
-            done: set[int] = set()
-            for f in todo:
-                if f.contour in done:
-                    continue
-                done.add(f.contour)
-                cmd = repair_for_finding(run.doc, f, max_change=max_change, settings=settings)
+            # one at a time, re-checking after each: joining two contours renumbers them,
+            # and a joined chain's own ends may then meet
+            tried: set[tuple[str, float, float]] = set()
+            while True:
+                todo = [f for f in run.findings if wanted(f, targets)]
+                todo = [f for f in todo if (f.kind, f.x, f.y) not in tried]
+                if not todo:
+                    break
+                f = todo[0]
+                tried.add((f.kind, f.x, f.y))
                 where = place_text(f)
+                cmd = repair_for_finding(run.doc, f, max_change=max_change, settings=settings)
                 if cmd is None:
                     if f.kind == "open-contour":
-                        run.outcomes.append(
-                            Outcome(
-                                kind, "refused", where, f.kind, None,
-                                f"its ends are {f.value:.6g} apart, beyond the gap search "
-                                "distance: not a gap",
-                            )
-                        )  # fmt: skip
-                    if f.kind == "gap":
-                        run.outcomes.append(
-                            Outcome(
-                                kind, "refused", where, f.kind, None,
-                                f"the gap is to contour {f.other_contour}: joining two "
-                                "contours is not a repair yet",
-                            )
-                        )  # fmt: skip
+                        reason = (
+                            f"its ends are {f.value:.6g} apart, beyond the gap search "
+                            "distance: not a gap"
+                        )
+                    else:
+                        reason = (
+                            f"the gap is to contour {f.other_contour} of another outline: "
+                            "joining outlines is not a repair"
+                        )
+                    if f.kind == "gap" or (f.value or 0.0) > _gap_user(run.doc, settings)[1]:
+                        run.outcomes.append(Outcome(kind, "refused", where, f.kind, None, reason))
                     continue
-                target = f if f.kind == "gap" else None
-                run.attempt(cmd, where, target)
+                run.attempt(cmd, where, f if f.kind == "gap" else None)
         elif kind == "remove-overlaps":
             outlines = sorted({_locate(run.doc, f.contour)[0] for f in todo})
             for o in outlines:

@@ -151,3 +151,16 @@ def test_defect_samples(name, tmp_path):
     assert {f.kind for f in after} <= {f[0] for f in before}
     if name.startswith("workshop"):
         assert res.returncode == 0 and after == []
+
+
+def test_a_run_is_one_undo_step(plate):
+    from outlinebench.model import History, documents_equal
+    from outlinebench.subcommands.repair import repair_document
+
+    doc = load_svg(str(plate))
+    result = repair_document(doc, ["close-gaps", "fix-direction"], max_change=0.2)
+    history = History(doc)
+    history.do(result.command("Repair all"))
+    assert documents_equal(history.document, result.document)
+    assert not [f for f in check_document(history.document, CheckSettings()) if is_problem(f)]
+    assert history.undo() is doc

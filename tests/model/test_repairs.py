@@ -26,6 +26,7 @@ from outlinebench.model.repairs import (
     CloseGap,
     FitCurves,
     FixDirection,
+    JoinContours,
     MatchCurvature,
     RemoveOverlaps,
     RemoveRedundantPoints,
@@ -385,3 +386,26 @@ def test_undo_restores_the_identical_document():
     history.do(SmoothKink(0, 0, 0, 0.5))
     assert not documents_equal(history.document, doc)
     assert history.undo() is doc
+
+
+def test_join_two_open_contours_then_close():
+    a = Contour.from_points([[[10, 10], [70, 10]], [[70, 10], [70, 50]]])
+    b = Contour.from_points([[[10, 10.2], [10, 50]], [[10, 50], [69.8, 50]]])
+    doc = doc_of(a, b)
+    assert has(doc, "gap")
+    # A's start meets B's start: A is reversed, then joined
+    cmd = JoinContours(0, 0, 1, at_end=False, other_at_end=False, gap_tolerance=2.0,
+                       max_change=0.2)  # fmt: skip
+    new = cmd.apply(doc)
+    assert len(new.outlines[0].contours) == 1
+    joined = new.outlines[0].contours[0]
+    assert len(joined.segments) == 4 and not joined.closed
+    # the ends move along the side x = 10 they lie on: at most half the gap off (closed form)
+    assert cmd.change.upper <= 0.1 + 1e-3
+    check_change(cmd, doc, new)
+    close = CloseGap(0, 0, 2.0, 0.2)
+    done = close.apply(new)
+    assert done.outlines[0].contours[0].closed
+    assert not any(f.kind in ("gap", "open-contour") for f in check_document(done, SETTINGS))
+    with pytest.raises(CommandError, match="more than the allowed"):
+        JoinContours(0, 0, 1, False, False, 2.0, 0.05).apply(doc)
