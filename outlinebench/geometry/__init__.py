@@ -49,7 +49,14 @@ from outlinebench.geometry.curvature import (
     unit_tangent,
 )
 from outlinebench.geometry.extrema import bounding_box, extrema_params
-from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.fit import (
+    fit_chain,
+    fit_cubic,
+    fit_polyline,
+    fit_polyline_schneider,
+    max_deviation,
+    polyline_corners,
+)
 from outlinebench.geometry.flatten import (
     DEFAULT_FLATTEN_TOLERANCE,
     Deviation,
@@ -61,6 +68,7 @@ from outlinebench.geometry.flatten import (
     optimal_chord_count,
     polyline_deviation,
 )
+from outlinebench.geometry.hausdorff import HausdorffBound, hausdorff_bound, polyline_hausdorff
 from outlinebench.geometry.intersect import intersections, line_intersection, self_intersections
 from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.offset import (
@@ -131,4 +139,10 @@ __all__ = [
     "offset_contour",
     "offset_contours",
     "hole_flags",
+    "fit_polyline",
+    "fit_polyline_schneider",
+    "polyline_corners",
+    "HausdorffBound",
+    "hausdorff_bound",
+    "polyline_hausdorff",
 ]
