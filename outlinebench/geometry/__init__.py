@@ -39,6 +39,17 @@ from outlinebench.geometry.bezier import (
     subsegment,
     to_cubic,
 )
+from outlinebench.geometry.boolean import (
+    BOOLEAN_OPERATIONS,
+    DEFAULT_BOOLEAN_TOLERANCE,
+    FILL_RULES,
+    BooleanResult,
+    RegionContour,
+    SegmentSource,
+    boolean_op,
+    remove_overlaps,
+    winding_numbers,
+)
 from outlinebench.geometry.curvature import (
     curvature,
     cusps,
@@ -131,4 +142,13 @@ __all__ = [
     "offset_contour",
     "offset_contours",
     "hole_flags",
+    "BOOLEAN_OPERATIONS",
+    "DEFAULT_BOOLEAN_TOLERANCE",
+    "FILL_RULES",
+    "BooleanResult",
+    "RegionContour",
+    "SegmentSource",
+    "boolean_op",
+    "remove_overlaps",
+    "winding_numbers",
 ]
