@@ -77,11 +77,19 @@ from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.offset import (
     DEFAULT_OFFSET_TOLERANCE,
     OffsetContour,
+    OffsetOverlap,
     OffsetProblem,
     OffsetResult,
+    RegionFinding,
+    RegionOffset,
+    ToolpathViolation,
     hole_flags,
+    merge_offsets,
     offset_contour,
     offset_contours,
+    offset_overlaps,
+    offset_region,
+    verify_toolpaths,
 )
 from outlinebench.geometry.quadrature import gauss_legendre
 
@@ -151,4 +159,12 @@ __all__ = [
     "boolean_op",
     "remove_overlaps",
     "winding_numbers",
+    "OffsetOverlap",
+    "RegionFinding",
+    "RegionOffset",
+    "ToolpathViolation",
+    "merge_offsets",
+    "offset_overlaps",
+    "offset_region",
+    "verify_toolpaths",
 ]

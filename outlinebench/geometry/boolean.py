@@ -394,11 +394,14 @@ def _build_edges(inp: _Input, found, tol: float) -> tuple[list[_Edge], list[Floa
             crossings += 1
         pts.union(ia, ib)
     # points closer than the tolerance are one node
-    from scipy.spatial import cKDTree
+    import shapely
 
     allpos = np.array(pts.pos)
-    for i, j in cKDTree(allpos).query_pairs(tol, output_type="ndarray").tolist():
-        pts.union(i, j)
+    geoms = shapely.points(allpos)
+    qi, qj = shapely.STRtree(geoms).query(geoms, predicate="dwithin", distance=tol)
+    for i, j in zip(qi.tolist(), qj.tolist(), strict=True):
+        if i < j:
+            pts.union(i, j)
     roots = np.array([pts.find(i) for i in range(len(pts.parent))])
     node_of_root: dict[int, int] = {}
     node_pos: list[FloatArray] = []
