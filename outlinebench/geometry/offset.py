@@ -1378,7 +1378,10 @@ def offset_region(
             [(oc.segments, True) for _, oc in rings], fill_rule="positive", tolerance=btol
         )
         paths = [list(c.segments) for c in combined.contours]
+        used = {src.contour for c in combined.contours for src in c.sources}
+        dropped = [k for k in range(len(rings)) if k not in used]
     else:
+        dropped = []
         paths = [oc.segments for _, oc in rings]
     times["combine"] = time.perf_counter() - t0
     t0 = time.perf_counter()
@@ -1394,6 +1397,21 @@ def offset_region(
     orig_rings = [shapely.LinearRing(p) for p in orig_polys]
     boundary = shapely.MultiLineString([np.vstack([p, p[:1]]) for p in orig_polys])
     seen_pairs: set[tuple[int, int]] = set()
+    # an offset ring swallowed whole by another (no crossing): the material (or gap)
+    # between its contour and the nearest other contour is narrower than the tool
+    for k in dropped:
+        ck = rings[k][0]
+        others = [rings[j][0] for j in range(len(rings)) if rings[j][0] != ck]
+        if others:
+            dist = [orig_rings[ck].distance(orig_rings[j]) for j in others]
+            meet.append(
+                (
+                    k,
+                    next(
+                        j for j in range(len(rings)) if rings[j][0] == others[int(np.argmin(dist))]
+                    ),
+                )
+            )
     for a, b in meet:
         ca, cb = rings[a][0], rings[b][0]
         if ca == cb or (min(ca, cb), max(ca, cb)) in seen_pairs:
