@@ -1140,7 +1140,9 @@ class RegionFinding:
         corner or a bend of smaller radius than |d|: one summary per region (``count``
         places, ``value`` the smallest radius), plus one finding per bend (radius > 0)
         where the material the tool cannot reach is deeper than the tolerance (``depth``).
-        ``"offset-inaccurate"`` — as :class:`OffsetProblem`.
+        ``"offset-inaccurate"`` and ``"self-intersection"`` — as :class:`OffsetProblem`;
+        ``"offset-failed"`` — a contour's offset did not close, so no toolpath was made
+        from it (never silent: :func:`verify_toolpaths` also refuses the result).
     contour, segment, t : int, int, float or None
         Place on the input (contour and segment indices of the ``contours`` given; None
         where the place is not on one input segment, such as a closing line).
@@ -1355,7 +1357,11 @@ def offset_region(
         if oc.closed and len(oc.polyline) > 2
     ]
     lines = [shapely.LinearRing(oc.polyline) for _, oc in rings]
-    ia, ib = shapely.STRtree(lines).query(lines, predicate="intersects")
+    ia, ib = (
+        shapely.STRtree(lines).query(lines, predicate="intersects")
+        if lines
+        else (np.empty(0, dtype=int), np.empty(0, dtype=int))
+    )
     meet = [(int(a), int(b)) for a, b in zip(ia, ib, strict=True) if a < b]
     if not meet and rings:
         # no crossings: the offsets already bound the result if every counter-clockwise
@@ -1444,6 +1450,25 @@ def offset_region(
     )
     for ci, res in enumerate(per):
         c = region.contours[ci]
+        for oc in res.contours:
+            if not oc.closed:
+                # the per-contour offset of a closed contour came out open: no toolpath is
+                # made from it (verify_toolpaths then reports the missing part)
+                x, y = (float(v) for v in oc.segments[0][0])
+                findings.append(
+                    RegionFinding(
+                        "offset-failed",
+                        c.sources[0].contour,
+                        None,
+                        None,
+                        x,
+                        y,
+                        None,
+                        f"the offset of contour {c.sources[0].contour} did not close near "
+                        f"({x:.6g}, {y:.6g}); no toolpath is made from it",
+                    )
+                )
+                break
         for p in res.problems:
             cont, seg, tt = _map_place(region, ci, p.segment, p.t)
             if cont is None:
