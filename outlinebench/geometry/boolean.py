@@ -57,6 +57,7 @@ from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.area import segment_area_terms
 from outlinebench.geometry.bezier import as_control_points, split_many, subsegment, to_cubic
 from outlinebench.geometry.intersect import intersections, self_intersections
+from outlinebench.geometry.nearest import nearest_point
 
 __all__ = [
     "DEFAULT_BOOLEAN_TOLERANCE",
@@ -167,11 +168,16 @@ class BooleanResult:
         Result contours dropped as thinner than the tolerance.
     crossings : int
         Nodes where segments of the input meet other than at their own joins.
+    tolerance : float
+        The tolerance the result was made with: the one asked for, or a larger one where
+        stretches of the outlines about the tolerance apart left the result open there
+        (each retry ×4, at most 256 × the tolerance asked for).
     """
 
     contours: list[RegionContour] = field(default_factory=list)
     dropped_slivers: int = 0
     crossings: int = 0
+    tolerance: float = 0.0
 
 
 # --------------------------------------------------------------------------------------------
@@ -246,7 +252,7 @@ def _read(contours: Sequence, operand: int, tol: float, into: _Input, where: str
 # --------------------------------------------------------------------------------------------
 # crossings
 # --------------------------------------------------------------------------------------------
-def _candidate_pairs(segs: list[FloatArray], delta: float, tol: float) -> list[tuple[int, int]]:
+def _candidate_pairs(segs: list[FloatArray], delta: float, tol: float):
     """Pairs of segments whose flattenings (within ``delta``) come within 2·delta + tol.
 
     The pair of chords at a join of consecutive segments is left out unless the second
@@ -272,7 +278,7 @@ def _candidate_pairs(segs: list[FloatArray], delta: float, tol: float) -> list[t
     oi, oj = owner[qi], owner[qj]
     sel = oi < oj
     qi, qj, oi, oj = qi[sel], qj[sel], oi[sel], oj[sel]
-    return _drop_join_chords(segs, qi, qj, oi, oj, first, last, starts, ends)
+    return _drop_join_chords(segs, qi, qj, oi, oj, first, last, starts, ends), polys
 
 
 def _drop_join_chords(segs, qi, qj, oi, oj, first, last, starts, ends):
@@ -299,7 +305,8 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
     """(segment, t, segment, t) for every meeting of two segments (or a cubic with itself)."""
     delta = max(tol, 1e-3 * size)
     found: list[tuple[int, float, int, float]] = []
-    for a, b in _candidate_pairs(segs, delta, tol):
+    pairs, polys = _candidate_pairs(segs, delta, tol)
+    for a, b in pairs:
         sa, sb = segs[a], segs[b]
         if sa.shape == sb.shape and np.array_equal(sa, sb):
             found += [(a, 0.0, b, 0.0), (a, 1.0, b, 1.0)]
@@ -313,7 +320,7 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
         if s.shape[0] == 4:
             for t1, t2 in self_intersections(s):
                 found.append((a, float(t1), a, float(t2)))
-    return found
+    return found, polys, delta
 
 
 class _Points:
@@ -367,7 +374,9 @@ class _Edge:
     t1: float
 
 
-def _build_edges(inp: _Input, found, tol: float) -> tuple[list[_Edge], list[FloatArray], int]:
+def _build_edges(
+    inp: _Input, found, tol: float, polys, delta: float
+) -> tuple[list[_Edge], list[FloatArray], int]:
     segs = inp.segs
     pts = _Points()
     start_id = [pts.add(s[0], True) for s in segs]
@@ -396,12 +405,44 @@ def _build_edges(inp: _Input, found, tol: float) -> tuple[list[_Edge], list[Floa
     # points closer than the tolerance are one node
     import shapely
 
+    def union_close() -> None:
+        allpos = np.array(pts.pos)
+        geoms = shapely.points(allpos)
+        qi, qj = shapely.STRtree(geoms).query(geoms, predicate="dwithin", distance=tol)
+        for i, j in zip(qi.tolist(), qj.tolist(), strict=True):
+            if i < j:
+                pts.union(i, j)
+
+    union_close()
+    # a node within the tolerance of a segment it is not on splits that segment there, so
+    # that stretches closer than the tolerance (without crossing) end at common nodes
+    seg_of: dict[int, int] = {start_id[i]: i for i in range(len(segs))}
+    seg_of.update({end_id[i]: i for i in range(len(segs))})
+    for i, lst in enumerate(interior):
+        for _, k in lst:
+            seg_of[k] = i
+    groups: dict[int, list[int]] = {}
+    for i in range(len(pts.parent)):
+        groups.setdefault(pts.find(i), []).append(i)
+    node_ids = list(groups)
+    on = [{seg_of[m] for m in groups[r]} for r in node_ids]
+    npos = np.array([pts.pos[groups[r][0]] for r in node_ids])
+    lines = [shapely.LineString(p) for p in polys]
+    ni, si = shapely.STRtree(lines).query(
+        shapely.points(npos), predicate="dwithin", distance=tol + delta
+    )
+    by_seg: dict[int, list[int]] = {}
+    for n, sg in zip(ni.tolist(), si.tolist(), strict=True):
+        if sg not in on[n]:
+            by_seg.setdefault(sg, []).append(n)
+    for sg, ns in by_seg.items():
+        ts, ds, _ = nearest_point(segs[sg], npos[ns])
+        for n, t, dd in zip(
+            ns, np.atleast_1d(ts).tolist(), np.atleast_1d(ds).tolist(), strict=True
+        ):
+            if dd <= tol:
+                pts.union(point_on(sg, float(t)), groups[node_ids[n]][0])
     allpos = np.array(pts.pos)
-    geoms = shapely.points(allpos)
-    qi, qj = shapely.STRtree(geoms).query(geoms, predicate="dwithin", distance=tol)
-    for i, j in zip(qi.tolist(), qj.tolist(), strict=True):
-        if i < j:
-            pts.union(i, j)
     roots = np.array([pts.find(i) for i in range(len(pts.parent))])
     node_of_root: dict[int, int] = {}
     node_pos: list[FloatArray] = []
@@ -867,14 +908,36 @@ def _run(operands: list[Sequence], op: str, rules: tuple[str, str], tolerance: f
     for k, contours in enumerate(operands):
         _read(contours, k, tolerance, inp, "ab"[k] + ":" if len(operands) > 1 else "")
     if not inp.segs:
-        return BooleanResult()
+        return BooleanResult(tolerance=tolerance)
     allpts = np.vstack(inp.segs)
     size = float(np.ptp(allpts, axis=0).max())
-    found = _crossings(inp.segs, tolerance, size)
-    edges, _nodes, crossings = _build_edges(inp, found, tolerance)
+    tol = tolerance
+    for _ in range(_RETRIES + 1):
+        res, open_at = _run_at(inp, op, rules, tol, size)
+        if open_at is None:
+            return res
+        # Stretches about the tolerance apart can leave kept edges that do not close into
+        # loops (some of their nodes merged, others not): the whole operation is redone
+        # with a larger tolerance, never returned with a contour missing.
+        tol *= _RETRY_FACTOR
+    raise InvalidGeometryError(
+        f"the boolean result does not close near ({open_at[0]:.6g}, {open_at[1]:.6g}) even at "
+        f"tolerance {tol / _RETRY_FACTOR:.3g}: the outlines run about that close without meeting"
+    )
+
+
+# Retries of an operation whose kept edges do not close (see _run) and the factor by which
+# each one widens the tolerance: 4⁴ = 256 × the tolerance at most.
+_RETRIES = 4
+_RETRY_FACTOR = 4.0
+
+
+def _run_at(inp: _Input, op: str, rules: tuple[str, str], tolerance: float, size: float):
+    found, polys, delta = _crossings(inp.segs, tolerance, size)
+    edges, _nodes, crossings = _build_edges(inp, found, tolerance, polys, delta)
     edges = _merge_coincident(edges, tolerance)
     if not edges:
-        return BooleanResult([], 0, crossings)
+        return BooleanResult([], 0, crossings, tolerance), None
     wl, wr = _edge_windings(edges)
     in_l = _inside(wl, rules, op)
     in_r = _inside(wr, rules, op)
@@ -888,14 +951,21 @@ def _run(operands: list[Sequence], op: str, rules: tuple[str, str], tolerance: f
             kept.append((e.pts[::-1].copy(), e.v, e.u, e.src, e.t1, e.t0))
     contours = []
     slivers = 0
-    for loop in _trace(kept):
+    loops = _trace(kept)
+    used = np.zeros(len(kept), dtype=bool)
+    for loop in loops:
+        used[loop] = True
+    if not np.all(used):
+        k = int(np.argmin(used))
+        return None, kept[k][0][0]
+    for loop in loops:
         rc = _assemble(loop, kept, inp)
         per = _control_length(rc.segments)
         if per == 0.0 or 2.0 * abs(rc.area) / per <= tolerance:
             slivers += 1
             continue
         contours.append(rc)
-    return BooleanResult(contours, slivers, crossings)
+    return BooleanResult(contours, slivers, crossings, tolerance), None
 
 
 def boolean_op(

@@ -320,3 +320,32 @@ def test_lettering_sample_union_matches_shapely():
     assert ok, info
     # every letter is a separate outline that crosses nothing: each contour comes back whole
     assert sum(len(c.segments) for c in res.contours) == sum(len(c[0]) for c in contours)
+
+
+@pytest.mark.parametrize("shift", [1e-9, 1e-5, 1.2e-4, 1e-2])
+def test_near_coincident_copies(shift):
+    # a copy moved by less than, about, and more than the tolerance (1e-4); the reference is
+    # shapely's polygonize of the flattened pair with angle-sum winding numbers
+    rng = np.random.default_rng(21)
+    a = random_simple_outline(rng)
+    v = np.array([0.8, -0.6]) * shift
+    b = ([s + v for s in a[0]], True)
+    for op in OPS:
+        res = boolean_op([a], [b], op)
+        ok, info = agree(res, reference_region([[a], [b]], op, "nonzero", EPS_FLAT), [[a], [b]])
+        assert ok, (op, info)
+
+
+def test_copy_turned_by_a_hair_about_a_node():
+    # turned by 1e-7 rad about one of its on-curve points: the copies run within ~4e-6 of
+    # each other and part at the far side (reference as above)
+    rng = np.random.default_rng(8)
+    a = random_outline(rng)
+    v = a[0][2][0]
+    ang = 1e-7
+    rot = np.array([[math.cos(ang), -math.sin(ang)], [math.sin(ang), math.cos(ang)]])
+    b = ([(s - v) @ rot.T + v for s in a[0]], True)
+    for op in ("union", "intersection", "xor"):
+        res = boolean_op([a], [b], op)
+        ok, info = agree(res, reference_region([[a], [b]], op, "nonzero", EPS_FLAT), [[a], [b]])
+        assert ok, (op, info)
