@@ -39,6 +39,17 @@ from outlinebench.geometry.bezier import (
     subsegment,
     to_cubic,
 )
+from outlinebench.geometry.boolean import (
+    BOOLEAN_OPERATIONS,
+    DEFAULT_BOOLEAN_TOLERANCE,
+    FILL_RULES,
+    BooleanResult,
+    RegionContour,
+    SegmentSource,
+    boolean_op,
+    remove_overlaps,
+    winding_numbers,
+)
 from outlinebench.geometry.curvature import (
     curvature,
     cusps,
@@ -74,11 +85,19 @@ from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.offset import (
     DEFAULT_OFFSET_TOLERANCE,
     OffsetContour,
+    OffsetOverlap,
     OffsetProblem,
     OffsetResult,
+    RegionFinding,
+    RegionOffset,
+    ToolpathViolation,
     hole_flags,
+    merge_offsets,
     offset_contour,
     offset_contours,
+    offset_overlaps,
+    offset_region,
+    verify_toolpaths,
 )
 from outlinebench.geometry.quadrature import gauss_legendre
 
@@ -145,4 +164,21 @@ __all__ = [
     "HausdorffBound",
     "hausdorff_bound",
     "polyline_hausdorff",
+    "BOOLEAN_OPERATIONS",
+    "DEFAULT_BOOLEAN_TOLERANCE",
+    "FILL_RULES",
+    "BooleanResult",
+    "RegionContour",
+    "SegmentSource",
+    "boolean_op",
+    "remove_overlaps",
+    "winding_numbers",
+    "OffsetOverlap",
+    "RegionFinding",
+    "RegionOffset",
+    "ToolpathViolation",
+    "merge_offsets",
+    "offset_overlaps",
+    "offset_region",
+    "verify_toolpaths",
 ]
