@@ -50,34 +50,33 @@ class CuttingPanel(QWidget):
         lay.setContentsMargins(6, 4, 6, 4)
         grid = QGridLayout()
         lay.addLayout(grid)
-        self.flatten_on = QCheckBox("Flattening preview, tolerance")
+        self.flatten_on = QCheckBox("Flattening, tolerance")
         self.flatten_on.setToolTip(
             "Chords a cutter gets at this tolerance (largest allowed deviation), with the "
             "proven largest deviation and where it is"
         )
         self.flatten_tol = self._spin(0.0001, 10.0)
         self.flatten_info = self._info()
-        self.flatten_export = QPushButton("Export cut file…")
+        self.flatten_export = QPushButton("Export…")
         self.flatten_export.setToolTip("Write these chords as an SVG cut file (mm)")
         grid.addWidget(self.flatten_on, 0, 0)
         grid.addWidget(self.flatten_tol, 0, 1)
-        grid.addWidget(self.flatten_info, 1, 0, 1, 2)
-        grid.addWidget(self.flatten_export, 2, 1)
-        self.offset_on = QCheckBox("Offset preview, tool radius")
+        grid.addWidget(self.flatten_export, 0, 2)
+        grid.addWidget(self.flatten_info, 1, 0, 1, 3)
+        self.offset_on = QCheckBox("Offset, tool radius")
         self.offset_on.setToolTip(
             "The path of the tool's centre for an outside cut (holes move the other way), "
             "places where the tool does not fit, and where material vanishes"
         )
         self.offset_radius = self._spin(0.001, 100.0)
         self.offset_info = self._info()
-        self.offset_export = QPushButton("Export cut file…")
+        self.offset_export = QPushButton("Export…")
         self.offset_export.setToolTip("Write the offset outline as an SVG cut file (mm)")
-        grid.addWidget(self.offset_on, 3, 0)
-        grid.addWidget(self.offset_radius, 3, 1)
-        grid.addWidget(self.offset_info, 4, 0, 1, 2)
-        grid.addWidget(self.offset_export, 5, 1)
+        grid.addWidget(self.offset_on, 2, 0)
+        grid.addWidget(self.offset_radius, 2, 1)
+        grid.addWidget(self.offset_export, 2, 2)
+        grid.addWidget(self.offset_info, 3, 0, 1, 3)
         grid.setColumnStretch(0, 1)
-        lay.addStretch(1)
         for w in (self.flatten_on, self.offset_on):
             w.toggled.connect(lambda _on: self._on_changed())
         for w in (self.flatten_tol, self.offset_radius):
@@ -111,6 +110,8 @@ class CuttingPanel(QWidget):
             self.flatten_info.setText("")
         if not self.offset_on.isChecked():
             self.offset_info.setText("")
+        self.flatten_info.setVisible(self.flatten_on.isChecked())
+        self.offset_info.setVisible(self.offset_on.isChecked())
         if emit:
             self.changed.emit()
 

@@ -144,7 +144,7 @@ def _order_key(f: Finding) -> tuple:
 # point in the document's display decimals less one.
 COLUMN_SAMPLES = (
     "degenerate-handle",
-    "contour 16, segment 10",
+    "contour 16, segment 9",
     "188.991 mm²",
     "358.0, 140.0",
 )
@@ -153,7 +153,7 @@ COLUMN_SAMPLES = (
 def column_widths(metrics) -> list[int]:
     """Starting widths (logical px) of the list's columns for a font's metrics: each sample
     text of :data:`COLUMN_SAMPLES` plus the cell's padding (and the icon in the first)."""
-    pad = 14
+    pad = 12
     widths = [metrics.horizontalAdvance(t) + pad for t in COLUMN_SAMPLES]
     widths[0] += 20  # the severity icon
     return widths

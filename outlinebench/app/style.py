@@ -91,8 +91,8 @@ MAX_MARKED_POINTS = 1500
 # marks; closer, its marks shrink to the next of MARK_SCALES; below MARK_HIDE_SPACING_PX its
 # points are not marked at all (a join mark reaches 1.45 · MARK_SIZE = 7 px from its point:
 # two marks closer than about twice that overlap each other and the stroke between them).
-MARK_FULL_SPACING_PX = 36.0
-MARK_HIDE_SPACING_PX = 14.0
+MARK_FULL_SPACING_PX = 60.0
+MARK_HIDE_SPACING_PX = 30.0
 MARK_SCALES = (1.0, 0.8, 0.6)
 
 FINDING_ERROR = QColor("#c3122f")  # crimson: redder and darker than the corner rust
