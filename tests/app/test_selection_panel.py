@@ -195,7 +195,8 @@ def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
     window.findings_panel.show_info.setChecked(True)  # the corner is an info finding
     model = window.findings_panel.model
     shown = next(f for f, _ in model.rows if (f.kind, f.join) == ("corner", 0) and f.contour == 1)
-    assert model.cell_text(shown, COLUMNS.index("Where")) == "1 · join 0"
+    # The list's words are the CLI's (outlinebench.diagnostics.place_text).
+    assert model.cell_text(shown, COLUMNS.index("Where")) == "contour 1, join 0"
 
 
 def test_typing_a_curve_length_scales_the_segment_about_its_start(window):
