@@ -233,6 +233,7 @@ def text_report(
     unit: str = "user",
     show_info: bool = True,
     file_findings: Sequence[FileFinding] = (),
+    profile: str | None = None,
 ) -> str:
     """One line per finding in document order, then a summary line.
 
@@ -248,6 +249,8 @@ def text_report(
         counts them either way.
     file_findings : sequence of FileFinding
         Findings about the file as a whole, listed first.
+    profile : str, optional
+        The check profile used, named in the summary line.
     """
     lines = [
         format_file_finding(label, f)
@@ -257,15 +260,16 @@ def text_report(
     shown = findings if show_info else [f for f in findings if is_problem(f)]
     lines.extend(format_finding(label, f) for f in sort_findings(shown))
     s = summarize(findings, file_findings)
+    used = f"; profile {profile}" if profile else ""
     if s["total"] == 0:
-        lines.append(f"{label}: no findings; clean")
+        lines.append(f"{label}: no findings{used}; clean")
     else:
         kinds = ", ".join(f"{k} {n}" for k, n in s["by_kind"].items())
         verdict = "clean" if s["clean"] else "not clean"
         lines.append(
             f"{label}: {_count(s['total'], 'finding')}: {_count(s['errors'], 'error')}, "
             f"{_count(s['warnings'], 'warning')}, {s['info']} info ({kinds}); "
-            f"lengths in {unit_words(unit)}; {verdict}"
+            f"lengths in {unit_words(unit)}{used}; {verdict}"
         )
     return "\n".join(lines)
 

@@ -38,7 +38,7 @@ from outlinebench.errors import (
     UnsafeXmlError,
     UnsupportedSvgFeature,
 )
-from outlinebench.io import polylines_svg, read_svg
+from outlinebench.io import is_font_path, polylines_svg, read_font, read_svg
 from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
 
@@ -54,6 +54,7 @@ __all__ = [
     "PartialRead",
     "ENTITY_OPTION",
     "add_entity_option",
+    "add_glyphs_option",
     "note_line",
     "DEFAULT_TOLERANCE_MM",
     "TOLERANCE_RULE",
@@ -144,6 +145,17 @@ def add_entity_option(parser: argparse.ArgumentParser) -> None:
     )
 
 
+def add_glyphs_option(parser: argparse.ArgumentParser) -> None:
+    """Add ``--glyphs`` (fonts and font sources: which glyphs) to a subcommand's parser."""
+    parser.add_argument(
+        "--glyphs",
+        metavar="NAMES",
+        default=None,
+        help="fonts and font sources only: the glyphs to read, by name or range (e.g. "
+        "'A,B,a-z'); default every glyph",
+    )
+
+
 def _with_option_hint(err: Exception) -> Exception:
     """The reader's entity error, pointing at the command-line option."""
     msg = str(err)
@@ -158,7 +170,13 @@ def _note_dict(n: ReadNote) -> dict[str, Any]:
     return {"level": n.level, "kind": n.kind, "count": n.count, "message": n.message}
 
 
-def _read(path: str | Path, allow_entities: bool, option_hint: bool) -> ReadResult:
+def _read(
+    path: str | Path, allow_entities: bool, option_hint: bool, glyphs: str | None = None
+) -> ReadResult:
+    if is_font_path(path):
+        return read_font(path, glyphs=glyphs)
+    if glyphs is not None:
+        raise OutlinebenchError(f"{path}: --glyphs applies to fonts and font sources only")
     try:
         return read_svg(str(path), allow_entities=allow_entities)
     except UnsafeXmlError as exc:
@@ -168,7 +186,11 @@ def _read(path: str | Path, allow_entities: bool, option_hint: bool) -> ReadResu
 
 
 def read_svg_file(
-    path: str | Path, *, allow_entities: bool = False, option_hint: bool = False
+    path: str | Path,
+    *,
+    allow_entities: bool = False,
+    option_hint: bool = False,
+    glyphs: str | None = None,
 ) -> tuple[Document, list[dict[str, Any]]]:
     """Read an SVG file into a document, strictly, with the reader's notes as JSON-ready dicts.
 
@@ -201,7 +223,7 @@ def read_svg_file(
     OSError
         The file cannot be opened.
     """
-    result = _read(path, allow_entities, option_hint)
+    result = _read(path, allow_entities, option_hint, glyphs)
     errors = [n for n in result.all_notes if n.level == "error"]
     if errors:
         more = f" (and {len(errors) - 1} more error(s))" if len(errors) > 1 else ""
@@ -233,7 +255,11 @@ class PartialRead:
 
 
 def read_svg_partly(
-    path: str | Path, *, allow_entities: bool = False, allow_text: bool = False
+    path: str | Path,
+    *,
+    allow_entities: bool = False,
+    allow_text: bool = False,
+    glyphs: str | None = None,
 ) -> PartialRead:
     """Read an SVG file as far as it can be read, every error kept as a file finding.
 
@@ -247,7 +273,7 @@ def read_svg_partly(
     OSError
         The file cannot be opened.
     """
-    result = _read(path, allow_entities, True)
+    result = _read(path, allow_entities, True, glyphs)
     found, rest = file_findings(
         result.all_notes, result.document, allow_text=allow_text, where=str(path)
     )
@@ -259,7 +285,9 @@ def note_line(note: dict[str, Any]) -> str:
     return f"{note['level']}: {note['message']}"
 
 
-def read_document(path: str | Path, *, allow_entities: bool = False) -> tuple[Document, list[str]]:
+def read_document(
+    path: str | Path, *, allow_entities: bool = False, glyphs: str | None = None
+) -> tuple[Document, list[str]]:
     """Read an SVG file into a document.
 
     Returns
@@ -275,7 +303,7 @@ def read_document(path: str | Path, *, allow_entities: bool = False) -> tuple[Do
     OSError
         The file cannot be opened.
     """
-    doc, notes = read_svg_file(path, allow_entities=allow_entities)
+    doc, notes = read_svg_file(path, allow_entities=allow_entities, glyphs=glyphs)
     return doc, [note_line(n) for n in notes]
 
 

@@ -13,6 +13,7 @@ cores.
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import os
 import sys
 import traceback
@@ -29,13 +30,22 @@ from outlinebench.diagnostics import (
     summarize,
     text_report,
 )
+from outlinebench.diagnostics.profiles import (
+    PROFILE_NAMES,
+    apply_profile,
+    default_profile_name,
+    get_profile,
+    profile_settings,
+)
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
 from outlinebench.errors import OutlinebenchError
+from outlinebench.model.document import Document
 from outlinebench.subcommands import EXIT_BAD_INPUT, EXIT_FINDINGS, EXIT_INTERNAL, EXIT_OK
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     MM_PER,
     add_entity_option,
+    add_glyphs_option,
     mm_per,
     nonnegative_float,
     note_line,
@@ -97,23 +107,34 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--kink-angle",
         type=positive_float,
         metavar="DEG",
-        default=defaults.kink_angle,
-        help="smallest tangent turn at a join that is a G1 break (default %(default)s°)",
+        default=None,
+        help=f"smallest tangent turn at a join that is a G1 break (default {defaults.kink_angle}°)",
     )
     parser.add_argument(
         "--corner-angle",
         type=positive_float,
         metavar="DEG",
-        default=defaults.corner_angle,
-        help="smallest turn taken as an intended corner (default %(default)s°)",
+        default=None,
+        help=f"smallest turn taken as an intended corner (default {defaults.corner_angle}°)",
     )
     parser.add_argument(
         "--curvature-jump",
         type=nonnegative_float,
         metavar="REL",
-        default=defaults.curvature_jump,
-        help="largest relative curvature difference at a smooth join (default %(default)s)",
+        default=None,
+        help="largest relative curvature difference at a smooth join "
+        f"(default {defaults.curvature_jump})",
     )
+    parser.add_argument(
+        "--profile",
+        choices=PROFILE_NAMES,
+        default=None,
+        help="check profile: the tolerances and severities of a trade; 'type' for glyph "
+        "outlines (overlaps and touches are info, direction by the font format, grid-rounding "
+        "kinks), 'cutting' for cut files (every crossing is an error); default: type for "
+        "fonts and font sources, cutting for SVG",
+    )
+    add_glyphs_option(parser)
     parser.add_argument(
         "--allow-text",
         action="store_true",
@@ -145,7 +166,10 @@ def option_problem(args: dict[str, Any]) -> str | None:
     curvature-jump ratio, and --gap-search against --gap (or against the default gap
     tolerance converted to --units when --gap is not given and the unit is a fixed length).
     """
-    kink, corner = args["kink_angle"], args["corner_angle"]
+    defaults = CheckSettings()
+    kink = defaults.kink_angle if args["kink_angle"] is None else args["kink_angle"]
+    corner = defaults.corner_angle if args["corner_angle"] is None else args["corner_angle"]
+    jump = defaults.curvature_jump if args["curvature_jump"] is None else args["curvature_jump"]
     if corner > 180.0:
         return f"--corner-angle ({corner:g}) must be at most 180 degrees"
     if kink >= corner:
@@ -164,38 +188,43 @@ def option_problem(args: dict[str, Any]) -> str | None:
                     f"tolerance {default:.4g} {name} ({DEFAULT_GAP_MM:g} mm); give --gap too"
                 )
     try:
-        CheckSettings(kink_angle=kink, corner_angle=corner, curvature_jump=args["curvature_jump"])
+        CheckSettings(kink_angle=kink, corner_angle=corner, curvature_jump=jump)
     except ValueError as exc:
         return str(exc)
     return None
 
 
-def _settings(args: dict[str, Any], doc_mm_per: float) -> CheckSettings:
-    """Settings for one file: lengths given in --units become mm through that file's scale.
+def _settings(
+    args: dict[str, Any], doc: Document, profile: str, doc_mm_per: float
+) -> CheckSettings:
+    """Settings for one file: the profile's, with the options given on the command line.
+
+    Lengths given in --units become mm through that file's scale.
 
     Raises
     ------
     OptionMismatch
-        --gap-search alone in user units lands below the default gap tolerance of this file.
+        --gap-search alone lands below the gap tolerance of this file.
     """
-    gap = DEFAULT_GAP_MM if args["gap"] is None else args["gap"] * doc_mm_per
+    base = profile_settings(profile, doc)
+    changes: dict[str, Any] = {}
+    gap = base.gap_mm if args["gap"] is None else args["gap"] * doc_mm_per
+    changes["gap_mm"] = gap
     if args["gap_search"] is None:
-        search = max(DEFAULT_GAP_SEARCH_MM, gap)
+        changes["gap_search_mm"] = max(base.gap_search_mm, gap)
     else:
         search = args["gap_search"] * doc_mm_per
         if search < gap:
             raise OptionMismatch(
                 f"--gap-search {args['gap_search']:g} {_unit_name(args['units'])} is below "
-                f"the default gap tolerance of this file ({gap / doc_mm_per:.4g} user units, "
-                f"{DEFAULT_GAP_MM:g} mm); give --gap too"
+                f"the gap tolerance of this file ({gap / doc_mm_per:.4g} "
+                f"{_unit_name(args['units'])}); give --gap too"
             )
-    return CheckSettings(
-        gap_mm=gap,
-        gap_search_mm=search,
-        kink_angle=args["kink_angle"],
-        corner_angle=args["corner_angle"],
-        curvature_jump=args["curvature_jump"],
-    )
+        changes["gap_search_mm"] = search
+    for name in ("kink_angle", "corner_angle", "curvature_jump"):
+        if args[name] is not None:
+            changes[name] = args[name]
+    return dataclasses.replace(base, **changes)
 
 
 def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
@@ -219,12 +248,14 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
             path,
             allow_entities=options.get("allow_entities", False),
             allow_text=options.get("allow_text", False),
+            glyphs=options.get("glyphs"),
         )
         doc = read.document
         unit = options["units"]
         factor = unit_factor(doc, unit)  # refuses a unit the file's scale cannot give
-        settings = _settings(options, mm_per(unit, doc))
-        findings = check_document(doc, settings)
+        profile = options.get("profile") or default_profile_name(doc)
+        settings = _settings(options, doc, profile, mm_per(unit, doc))
+        findings = apply_profile(check_document(doc, settings), profile, doc)
     except (OutlinebenchError, OSError, OptionMismatch) as exc:
         if isinstance(exc, OSError):
             msg = f"{path}: {exc.strerror or exc}"
@@ -240,12 +271,19 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         "problems": not summarize(findings, ff)["clean"],
         "notes": read.notes,
     }
+    title = get_profile(profile).title
     if options["json"]:
         out["json"] = json_report(path, shown, unit=unit, file_findings=ff)
+        out["json"]["profile"] = {"name": profile, "title": title}
         out["json"]["notes"] = read.notes
     else:
         out["text"] = text_report(
-            path, shown, unit=unit, show_info=not options["hide_info"], file_findings=ff
+            path,
+            shown,
+            unit=unit,
+            show_info=not options["hide_info"],
+            file_findings=ff,
+            profile=profile,
         )
     return out
 
@@ -278,6 +316,25 @@ def _progress(done: int, total: int) -> None:
     sys.stderr.flush()
 
 
+_FILE_SUFFIXES = (".svg", ".ttf", ".otf")
+
+
+def _walk(folder: Path) -> list[str]:
+    """``*.svg`` files, font files and ``.ufo`` sources under a folder, sorted; a UFO source
+    is one input (its own folders are not walked)."""
+    out: list[str] = []
+    for root, dirs, names in os.walk(folder):
+        ufos = sorted(d for d in dirs if d.lower().endswith(".ufo"))
+        out.extend(str(Path(root) / d) for d in ufos)
+        dirs[:] = [d for d in dirs if d not in ufos]
+        out.extend(
+            str(Path(root) / n)
+            for n in names
+            if n.lower().endswith(_FILE_SUFFIXES) and (Path(root) / n).is_file()
+        )
+    return sorted(out)
+
+
 def expand_files(paths: list[str]) -> list[str]:
     """The files to check: each file as given, each folder walked for ``*.svg`` (sorted).
 
@@ -288,12 +345,10 @@ def expand_files(paths: list[str]) -> list[str]:
     """
     out: list[str] = []
     for p in paths:
-        if os.path.isdir(p):
-            found = sorted(
-                str(f) for f in Path(p).rglob("*") if f.suffix.lower() == ".svg" and f.is_file()
-            )
+        if os.path.isdir(p) and not p.rstrip("/").lower().endswith(".ufo"):
+            found = _walk(Path(p))
             if not found:
-                raise OutlinebenchError(f"{p}: folder holds no .svg file")
+                raise OutlinebenchError(f"{p}: folder holds no .svg file (nor font)")
             out.extend(found)
         else:
             out.append(p)
@@ -350,6 +405,8 @@ def run(args: argparse.Namespace) -> int:
             "kink_angle",
             "corner_angle",
             "curvature_jump",
+            "profile",
+            "glyphs",
         )
     }
     options["units"] = args.units

@@ -38,6 +38,7 @@ from outlinebench.model.document import Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     TOLERANCE_RULE,
+    add_glyphs_option,
     cut_file_bytes,
     output_decimals,
     positive_float,
@@ -67,6 +68,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help=f"largest allowed deviation of a chord from its curve, in --units ({TOLERANCE_RULE})",
     )
     parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
+    add_glyphs_option(parser)
     parser.add_argument("--json", action="store_true", help="print JSON instead of text")
     parser.add_argument(
         "--units",
@@ -115,7 +117,7 @@ def run(args: argparse.Namespace) -> int:
     """Flatten ``args.file``; exit 0, or 1 if a measured deviation exceeds the tolerance."""
     if args.output:
         refuse_overwrite(args.output, [args.file])
-    doc, notes = read_document(args.file)
+    doc, notes = read_document(args.file, glyphs=args.glyphs)
     for note in notes:
         print(f"outlinebench: {note}", file=sys.stderr)
     require_segments(doc, args.file, "flatten")

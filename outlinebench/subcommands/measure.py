@@ -35,6 +35,7 @@ from outlinebench.subcommands import EXIT_FINDINGS, EXIT_OK
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     add_entity_option,
+    add_glyphs_option,
     note_line,
     read_svg_partly,
     unit_factor,
@@ -50,12 +51,13 @@ HELP = "lengths, areas, bounds and joins of every contour"
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``outlinebench measure``."""
-    parser.add_argument("file", metavar="FILE", help="SVG file to measure")
+    parser.add_argument("file", metavar="FILE", help="SVG file, font or font source to measure")
     parser.add_argument("--json", action="store_true", help="print JSON instead of text")
     parser.add_argument(
         "--joins", action="store_true", help="also list every join: gap, angle, curvatures"
     )
     add_entity_option(parser)
+    add_glyphs_option(parser)
     parser.add_argument(
         "--units",
         choices=LENGTH_UNITS,
@@ -263,7 +265,9 @@ def run(args: argparse.Namespace) -> int:
     nothing to measure (every such error is printed and listed under ``findings``), 2 when
     nothing of it can be read.
     """
-    read = read_svg_partly(args.file, allow_entities=args.allow_entities, allow_text=True)
+    read = read_svg_partly(
+        args.file, allow_entities=args.allow_entities, allow_text=True, glyphs=args.glyphs
+    )
     doc = read.document
     unit_factor(doc, args.units)  # refuses a unit the file's scale cannot give, before notes
     for note in read.notes:

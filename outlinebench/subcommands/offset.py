@@ -35,6 +35,7 @@ from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     TOLERANCE_RULE,
+    add_glyphs_option,
     cut_file_bytes,
     output_decimals,
     positive_float,
@@ -87,6 +88,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "holes of an outline move the other way, so the material grows or shrinks as a whole)",
     )
     parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
+    add_glyphs_option(parser)
     parser.add_argument("--json", action="store_true", help="print JSON instead of text")
     parser.add_argument(
         "--units",
@@ -101,7 +103,7 @@ def run(args: argparse.Namespace) -> int:
     """Offset every contour of ``args.file``; exit 1 when the tool does not fit somewhere."""
     if args.output:
         refuse_overwrite(args.output, [args.file])
-    doc, notes = read_document(args.file)
+    doc, notes = read_document(args.file, glyphs=args.glyphs)
     for note in notes:
         print(f"outlinebench: {note}", file=sys.stderr)
     require_segments(doc, args.file, "offset")
