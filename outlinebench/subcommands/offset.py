@@ -1,21 +1,23 @@
-"""``outlinebench offset FILE --distance d --tolerance ε``: tool-radius offsets of every contour.
+"""``outlinebench offset FILE --distance d``: toolpaths of the filled region, verified.
 
-Closed contours move outward for d > 0 and inward for d < 0; a closed contour nested inside an
-odd number of the other contours of its outline (a hole, by the even-odd rule) moves the other
-way, so the material as a whole grows for d > 0 (``--per-contour`` offsets each contour from
-its own area instead). Open contours move to the side of the normal (T_y, −T_x) (left of the
-direction of travel as seen on an SVG page). Corners
-turning away from the tool get round joins; loops are cut away
-(:func:`outlinebench.geometry.offset_contour`). The places where the tool cannot fit are
-reported as findings: ``tool-does-not-fit`` (a bend toward the tool on a radius smaller than
-|d|: warning; a sharp corner toward the tool, which the tool rounds to radius |d|: info) and
-``vanishes`` (a part or the whole contour narrower than the tool: error). A contour that
-crosses itself is not offset and is reported as ``self-intersection`` (error); a fit that still
-misses the tolerance after the deepest halving is ``offset-inaccurate`` (warning, the value is
-the measured distance from the exact offset). ``--json`` prints the
-offset contours as polylines (``{"closed", "points"}``) with the findings; ``-o OUT.svg``
-writes the polylines as a cut file, atomically, with the cutting caution. Exit code 0 when no
-finding of warning level or worse, 1 otherwise, 2 for unreadable input.
+Each outline's closed contours are offset together as the region they fill under the
+outline's fill rule (:func:`outlinebench.geometry.offset_region`): the region grows for d > 0
+and shrinks for d < 0 by the tool radius |d|, and the toolpaths of one part never cross.
+Where the material (shrinking) or the gap between parts (growing) is narrower than the tool,
+that part vanishes: ``vanishes`` with the place and the width. Inside corners the tool rounds
+are one ``tool-does-not-fit`` summary per outline (info: the normal case of routing, with the
+count and the smallest radius), and individual findings only where the tool leaves material
+deeper than the tolerance. Separate outlines whose toolpaths overlap (neighbouring letters)
+are ``toolpaths-overlap`` errors with the place and area, or one merged region with
+``--merge-outlines``. Open contours move to the side of their normal (T_y, −T_x).
+
+Before anything is written the toolpaths are verified independently
+(:func:`outlinebench.geometry.verify_toolpaths`): no toolpath crosses itself or another, every
+point is |d| ± ε from the region. A violation is an ``unverified-toolpath`` error and no cut
+file is written. ``--json`` prints the toolpaths as polylines with the findings and the
+per-stage times; ``-o OUT.svg`` writes the cut file atomically, with the cutting caution.
+Exit code 0 when no finding of warning level or worse, 1 otherwise, 2 for unreadable input
+or a refused output.
 """
 
 from __future__ import annotations
@@ -27,11 +29,22 @@ from pathlib import Path
 from typing import Any
 
 import numpy as np
+import shapely
 
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding, is_problem
 from outlinebench.diagnostics.report import format_finding
-from outlinebench.geometry.offset import hole_flags, offset_contour
+from outlinebench.errors import OutlinebenchError
+from outlinebench.geometry import (
+    evaluate,
+    merge_offsets,
+    offset_contour,
+    offset_overlaps,
+    offset_region,
+    remove_overlaps,
+    verify_toolpaths,
+)
 from outlinebench.io import CUT_CAUTION, write_file_atomic
+from outlinebench.model.document import Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     TOLERANCE_RULE,
@@ -82,10 +95,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help=f"largest distance of the result from the exact offset, in --units ({TOLERANCE_RULE})",
     )
     parser.add_argument(
-        "--per-contour",
+        "--merge-outlines",
         action="store_true",
-        help="offset every closed contour outward from its own area, holes too (default: "
-        "holes of an outline move the other way, so the material grows or shrinks as a whole)",
+        help="merge the toolpaths of separate outlines that overlap into one region (their "
+        "union: touching lettering cut as one piece); by default overlaps are reported",
     )
     parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
     add_glyphs_option(parser)
@@ -99,8 +112,184 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
 
 
+def _finding(
+    kind: str,
+    severity: str,
+    outline: int,
+    contour: int,
+    segment: int | None,
+    t: float | None,
+    x: float,
+    y: float,
+    value: float | None,
+    unit: str,
+    message: str,
+    limit: float | None = None,
+) -> Finding:
+    return Finding(
+        kind=kind, severity=severity, outline=outline, contour=contour, segment=segment, t=t,
+        x=x, y=y, value=value, unit=unit, message=message, limit=limit,
+    )  # fmt: skip
+
+
+def _severity(kind: str, value: float | None, count: int) -> str:
+    if kind in ("vanishes", "self-intersection", "offset-failed"):
+        return ERROR
+    if kind == "tool-does-not-fit":
+        # the summary of inside corners the tool rounds is the normal case of routing
+        return INFO if count > 1 or value == 0.0 else WARNING
+    return WARNING
+
+
+def _source_contours(paths: list[Any], refs: list[Any], distance: float) -> list[int]:
+    """For each toolpath, the input contour it runs along: the one whose distance from the
+    toolpath's vertices is closest to |d| at the median (shapely distances to the contours
+    flattened at 16 points a segment)."""
+    if not paths:
+        return []
+    if len(refs) == 1:
+        return [refs[0].global_index] * len(paths)
+    t = np.linspace(0.0, 1.0, 17)[:-1]
+    rings = []
+    for r in refs:
+        pts = np.vstack([evaluate(np.asarray(sg), t) for sg in r.contour.segments])
+        rings.append(shapely.LinearRing(pts) if len(pts) >= 3 else shapely.Point(pts[0]))
+    out = []
+    for p in paths:
+        pts = shapely.points(np.asarray(p)[:: max(1, len(p) // 64)])
+        best = min(
+            range(len(refs)),
+            key=lambda k: abs(float(np.median(shapely.distance(rings[k], pts))) - abs(distance)),
+        )
+        out.append(refs[best].global_index)
+    return out
+
+
+def offset_document(
+    doc: Document, distance: float, tolerance: float, *, merge: bool = False
+) -> dict[str, Any]:
+    """Offset the filled region of every outline (user units) and verify the toolpaths.
+
+    Returns
+    -------
+    dict
+        ``toolpaths`` (list of dicts ``{"outline", "contour", "closed", "points"}``),
+        ``problems`` (list of (kind, severity, outline index, global contour, segment, t, x, y,
+        value, message)), ``violations`` (list of ToolpathViolation), ``overlaps``
+        (OffsetOverlap between outlines), ``times`` (seconds per stage, summed).
+
+    Notes
+    -----
+    Closed contours of one outline are offset together as the region they fill under the
+    outline's fill rule (:func:`outlinebench.geometry.offset_region`), so the toolpaths of
+    one part never cross; the result is verified independently
+    (:func:`outlinebench.geometry.verify_toolpaths`) before anything is written. Outlines
+    whose toolpath regions overlap are reported (:func:`offset_overlaps`), or merged into
+    one region (``merge``, :func:`merge_offsets`). Open contours are offset on their own to
+    the side of their normal (:func:`outlinebench.geometry.offset_contour`).
+    """
+    toolpaths: list[dict[str, Any]] = []
+    problems: list[tuple] = []
+    violations: list[Any] = []
+    regions: list[Any] = []
+    region_outline: list[int] = []
+    times: dict[str, float] = {}
+    refs_by_outline: dict[int, list[Any]] = {}
+    closed_refs: dict[int, list[Any]] = {}
+    for ref in doc.contour_refs():
+        refs_by_outline.setdefault(ref.outline, []).append(ref)
+    for oi, refs in refs_by_outline.items():
+        outline = doc.outlines[oi]
+        closed: list[Any] = []
+        for ref in refs:
+            c = ref.contour
+            if not c.segments:
+                continue  # a lone moveto draws nothing
+            pts = np.vstack(c.segments)
+            if float(np.ptp(pts, axis=0).max()) <= tolerance:
+                # all control points within the tolerance of one place: no length, no area,
+                # no toolpath (common practice, no source: a dot is not cut)
+                problems.append(
+                    ("vanishes", WARNING, oi, ref.global_index, None, None, float(pts[0, 0]),
+                     float(pts[0, 1]), 0.0,
+                     "the contour has no length (all its points coincide): no toolpath")
+                )  # fmt: skip
+                continue
+            if c.closed:
+                closed.append(ref)
+                continue
+            res = offset_contour(c.segments, False, distance, tolerance)
+            for oc in res.contours:
+                toolpaths.append(
+                    {"outline": oi, "contour": ref.global_index, "closed": oc.closed,
+                     "points": oc.polyline}
+                )  # fmt: skip
+            for pr in res.problems:
+                sev = ERROR if pr.kind in ("vanishes", "self-intersection") else (
+                    INFO if pr.radius == 0.0 else WARNING)  # fmt: skip
+                value = pr.error if pr.error is not None else pr.radius
+                problems.append(
+                    (pr.kind, sev, oi, ref.global_index, pr.segment, pr.t, pr.x, pr.y, value,
+                     pr.message)
+                )  # fmt: skip
+        if not closed:
+            continue
+        closed_refs[oi] = closed
+        reg = offset_region(
+            [r.contour for r in closed], distance, fill_rule=outline.fill_rule,
+            tolerance=tolerance,
+        )  # fmt: skip
+        for k, v in reg.times.items():
+            times[k] = times.get(k, 0.0) + v
+        regions.append(reg)
+        region_outline.append(oi)
+        for rf in reg.findings:
+            gi = (
+                closed[rf.contour].global_index
+                if rf.contour is not None
+                else closed[0].global_index
+            )
+            problems.append(
+                (rf.kind, _severity(rf.kind, rf.value, rf.count), oi, gi, rf.segment, rf.t,
+                 rf.x, rf.y, rf.value, rf.message)
+            )  # fmt: skip
+    overlaps = offset_overlaps(regions, tolerance=tolerance) if len(regions) > 1 else []
+    if merge and regions:
+        merged = merge_offsets(regions, tolerance=tolerance)
+        all_region = remove_overlaps(
+            [c for r in regions for c in r.region.contours], fill_rule="positive"
+        )
+        violations.extend(
+            verify_toolpaths(all_region.contours, merged, distance, tolerance=tolerance)
+        )
+        for oc in merged:
+            toolpaths.append({"outline": -1, "contour": -1, "closed": True, "points": oc.polyline})
+        overlaps = []
+    else:
+        for reg, oi in zip(regions, region_outline, strict=True):
+            violations.extend(
+                verify_toolpaths(reg.region.contours, reg.contours, distance, tolerance=tolerance)
+            )
+            sources = _source_contours(
+                [oc.polyline for oc in reg.contours], closed_refs[oi], distance
+            )
+            for oc, gi in zip(reg.contours, sources, strict=True):
+                toolpaths.append(
+                    {"outline": oi, "contour": gi, "closed": True, "points": oc.polyline}
+                )
+    return {
+        "region_outline": region_outline,
+        "toolpaths": toolpaths,
+        "problems": problems,
+        "violations": violations,
+        "overlaps": overlaps,
+        "times": times,
+    }
+
+
 def run(args: argparse.Namespace) -> int:
-    """Offset every contour of ``args.file``; exit 1 when the tool does not fit somewhere."""
+    """Offset every outline of ``args.file``; exit 1 when the tool does not fit somewhere or
+    the toolpaths failed their verification (then nothing is written)."""
     if args.output:
         refuse_overwrite(args.output, [args.file])
     doc, notes = read_document(args.file, glyphs=args.glyphs)
@@ -117,84 +306,49 @@ def run(args: argparse.Namespace) -> int:
     k_mm = output_decimals(args.tolerance / f * doc.mm_per_unit)
     rounding = max(10.0**-k_json / f, 10.0**-k_mm / doc.mm_per_unit)
     tol_user = args.tolerance / f - rounding
-    contours: list[dict[str, Any]] = []
+    result = offset_document(doc, d_user, tol_user, merge=args.merge_outlines)
     findings: list[Finding] = []
-    holes: dict[tuple[int, int], bool] = {}
-    if not args.per_contour:
-        for oi, outline in enumerate(doc.outlines):
-            for ci, flag in enumerate(hole_flags(outline.contours, tol_user)):
-                holes[(oi, ci)] = flag
-    for ref in doc.contour_refs():
-        if not ref.contour.segments:
-            continue  # a lone moveto draws nothing
-        pts = np.vstack(ref.contour.segments)
-        if float(np.ptp(pts, axis=0).max()) <= tol_user:
-            # every control point within the tolerance of one place: no length, no area, so
-            # no toolpath (common practice, no source: a dot is not cut)
-            outline = doc.outlines[ref.outline].source_index
-            findings.append(
-                Finding(
-                    kind="vanishes",
-                    severity=WARNING,
-                    outline=outline if outline >= 0 else ref.outline,
-                    contour=ref.global_index,
-                    segment=None,
-                    t=None,
-                    x=float(pts[0, 0]) * f,
-                    y=float(pts[0, 1]) * f,
-                    value=0.0,
-                    unit=args.units,
-                    message="the contour has no length (all its points coincide): no toolpath",
-                )
-            )
-            continue
-        # material grows for d > 0: outer boundaries move outward, holes inward
-        d_here = -d_user if holes.get((ref.outline, ref.index), False) else d_user
-        res = offset_contour(ref.contour.segments, ref.contour.closed, d_here, tol_user)
-        for c in res.contours:
-            contours.append(
-                {
-                    "outline": ref.outline,
-                    "contour": ref.global_index,
-                    "closed": c.closed,
-                    "points": c.polyline,
-                }
-            )
-        for p in res.problems:
-            if p.kind in ("vanishes", "self-intersection"):
-                severity = ERROR
-            elif p.radius == 0.0:
-                severity = INFO
-            else:
-                severity = WARNING
-            outline = doc.outlines[ref.outline].source_index
-            findings.append(
-                Finding(
-                    kind=p.kind,
-                    severity=severity,
-                    outline=outline if outline >= 0 else ref.outline,
-                    contour=ref.global_index,
-                    segment=p.segment,
-                    t=p.t,
-                    x=p.x * f,
-                    y=p.y * f,
-                    value=(
-                        p.error * f
-                        if p.error is not None
-                        else None
-                        if p.radius is None
-                        else p.radius * f
-                    ),
-                    unit=args.units,
-                    message=p.message,
-                    limit=abs(args.distance),
-                )
-            )
+    for kind, sev, oi, gi, seg, t, x, y, value, message in result["problems"]:
+        src = doc.outlines[oi].source_index
+        findings.append(
+            _finding(kind, sev, src if src >= 0 else oi, gi, seg, t, x * f, y * f,
+                     None if value is None else value * f, args.units, message,
+                     limit=abs(args.distance))
+        )  # fmt: skip
+    refs = {r.global_index: r for r in doc.contour_refs()}
+    first_of = {}
+    for r in refs.values():
+        first_of.setdefault(r.outline, r.global_index)
+    for ov in result["overlaps"]:
+        a, b = ov.first, ov.second
+        oa, ob = result_outline(result, a), result_outline(result, b)
+        findings.append(
+            _finding("toolpaths-overlap", ERROR, doc.outlines[ob].source_index,
+                     first_of.get(ob, 0), None, None, ov.x * f, ov.y * f, ov.area * f * f,
+                     f"{args.units}^2", f"the toolpaths of outline {oa} and outline {ob} "
+                     f"overlap ({ov.area * f * f:.4g} {unit_words(args.units)}²): the cuts "
+                     "run into each other; offset less, or merge them with --merge-outlines")
+        )  # fmt: skip
+    for v in result["violations"]:
+        findings.append(
+            _finding("unverified-toolpath", ERROR, -1, -1, None, None, v.x * f, v.y * f,
+                     None if v.value is None else v.value * f, args.units,
+                     f"{v.kind}: {v.message}")
+        )  # fmt: skip
+    verified = not result["violations"]
+    contours = result["toolpaths"]
     if args.output:
+        if not verified:
+            raise OutlinebenchError(
+                f"{args.output}: not written: the toolpaths failed their verification "
+                f"({result['violations'][0].kind}: {result['violations'][0].message}); "
+                "a cut file must be right or absent"
+            )
         comment = (
             f"Offset of {Path(args.file).name} by {args.distance:g} {unit_words(args.units)} "
             f"with tolerance {args.tolerance:.6g} {unit_words(args.units)}, by outlinebench; "
-            f"{sum(is_problem(x) for x in findings)} places where the tool does not fit; "
+            f"toolpaths verified (no crossings, distance within the tolerance); "
+            f"{sum(is_problem(x) for x in findings)} findings of warning level or worse; "
             f"coordinates rounded to {10.0**-k_mm:.0e} mm (included in the tolerance)."
         )
         data = cut_file_bytes(
@@ -213,7 +367,9 @@ def run(args: argparse.Namespace) -> int:
                 "distance": args.distance,
                 "tolerance": args.tolerance,
                 "resolution": 10.0**-k_json,
+                "verified": verified,
                 "caution": CUT_CAUTION,
+                "times": result["times"],
                 "contours": [
                     {**c, "points": np.round(np.asarray(c["points"]) * f, k_json).tolist()}
                     for c in contours
@@ -225,10 +381,16 @@ def run(args: argparse.Namespace) -> int:
         for x in findings:
             print(f"{format_finding(args.file, x)}: {x.message}")
         print(
-            f"{args.file}: {len(contours)} offset contours, {len(findings)} findings "
-            f"({sum(is_problem(x) for x in findings)} of warning level or worse)"
+            f"{args.file}: {len(contours)} toolpaths, {len(findings)} findings "
+            f"({sum(is_problem(x) for x in findings)} of warning level or worse); "
+            + ("toolpaths verified" if verified else "toolpaths FAILED verification")
         )
         if args.output:
             print(f"wrote {args.output}")
         print(CUT_CAUTION)
     return 1 if any(is_problem(x) for x in findings) else 0
+
+
+def result_outline(result: dict[str, Any], k: int) -> int:
+    """The document outline of the k-th region offset."""
+    return result["region_outline"][k]

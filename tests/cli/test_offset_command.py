@@ -70,16 +70,19 @@ WASHER = """<svg xmlns="http://www.w3.org/2000/svg" width="60mm" height="60mm" v
 """
 
 
-def test_holes_move_the_other_way_so_the_material_grows(tmp_path):
-    # Closed form: growing the washer's material by 2 gives radii 22 and 8; with
-    # --per-contour both circles move outward (22 and 12). Cubic circles from the reader are
-    # within 2.73e-4·r of true circles (Dokken et al. 1990).
-    src = tmp_path / "washer.svg"
-    src.write_text(WASHER)
-    for flag, radii in (([], (22, 8)), (["--per-contour"], (22, 12))):
-        res = run("offset", src, "--distance", "2", "--tolerance", "0.01", "--json", *flag)
+def test_holes_follow_the_files_fill_rule(tmp_path):
+    # W3C SVG 1.1 §11.3 "fill-rule": both circles are drawn the same way round, so under
+    # nonzero (the default) the inner one is not a hole (winding 2 inside it): the region is
+    # the disc of radius 20, grown by 2 to one toolpath of radius 22. Under evenodd the inner
+    # circle is a hole: the material grows to radii 22 and 8 (closed form r ± d). Cubic
+    # circles from the reader are within 2.73e-4·r of true circles (Dokken et al. 1990).
+    for rule, radii in (("nonzero", (22,)), ("evenodd", (22, 8))):
+        src = tmp_path / f"washer-{rule}.svg"
+        src.write_text(WASHER.replace("<path ", f'<path fill-rule="{rule}" '))
+        res = run("offset", src, "--distance", "2", "--tolerance", "0.01", "--json")
         assert res.returncode == 0, res.stderr
         data = json.loads(res.stdout)
+        assert data["verified"] is True
         got = []
         for c in data["contours"]:
             pts = np.array(c["points"])
@@ -89,21 +92,24 @@ def test_holes_move_the_other_way_so_the_material_grows(tmp_path):
         assert sorted(got, reverse=True) == pytest.approx(radii, abs=0.02)
 
 
-def test_self_intersecting_contour_is_an_error_finding_and_not_offset(tmp_path):
-    # A figure eight crossing itself at (5, 5) (closed form: the diagonals of a 10 × 10
-    # square meet at its centre), invented for this test.
-    src = tmp_path / "eight.svg"
+def test_a_self_crossing_contour_is_offset_as_the_region_it_fills(tmp_path):
+    # A bow tie crossing itself at (5, 5) (the diagonals of a 10 × 10 square meet at its
+    # centre): under nonzero both triangles are filled (winding ±1), so the toolpath is the
+    # offset of that region, verified; `check` reports the crossing itself.
+    src = tmp_path / "bowtie.svg"
     src.write_text(
         '<svg xmlns="http://www.w3.org/2000/svg" width="20mm" height="20mm" '
         'viewBox="0 0 20 20"><path d="M 0 0 L 10 10 L 10 0 L 0 10 Z"/></svg>'
     )
     res = run("offset", src, "--distance", "1", "--json")
-    assert res.returncode == 1, res.stderr
     data = json.loads(res.stdout)
-    assert data["contours"] == []
-    (f,) = data["findings"]
-    assert f["kind"] == "self-intersection" and f["severity"] == "error"
-    assert (f["x"], f["y"]) == pytest.approx((5, 5), abs=1e-9)
+    assert data["verified"] is True and len(data["contours"]) == 1
+    pts = np.array(data["contours"][0]["points"])
+    # the grown region's box is the square's grown by the tool radius (closed form)
+    assert pts.min(axis=0) == pytest.approx((-1, -1), abs=0.02)
+    assert pts.max(axis=0) == pytest.approx((11, 11), abs=0.02)
+    res = run("check", src, "--json")
+    assert "self-intersection" in {f["kind"] for f in json.loads(res.stdout)["findings"]}
 
 
 def test_written_offset_coordinates_are_rounded(tmp_path):
@@ -140,3 +146,64 @@ def test_sharp_concave_corner_gives_closed_contours_only(tmp_path, d):
     data = json.loads(res.stdout)
     assert [c["contour"] for c in data["contours"]] == [0, 1]
     assert all(c["closed"] is True for c in data["contours"])
+
+
+def _rings(data):
+    import shapely
+
+    return [shapely.LinearRing(c["points"]) for c in data["contours"] if len(c["points"]) >= 3]
+
+
+def _never_cross(rings):
+    """Two toolpaths either miss each other, touch at points, or one holds the other: the
+    area their polygons share is 0 or the whole smaller one (shapely)."""
+    import shapely
+
+    polys = [shapely.Polygon(r) for r in rings]
+    for a in range(len(polys)):
+        for b in range(a + 1, len(polys)):
+            shared = polys[a].intersection(polys[b]).area
+            small = min(polys[a].area, polys[b].area)
+            assert shared <= 1e-6 * small or shared >= small * (1 - 1e-6), (a, b, shared)
+
+
+def test_bracket_shrunk_by_the_tool_radius_never_crosses(tmp_path):
+    # issue regression: the bracket at -4.5 mm used to give an outer contour crossing all
+    # three holes' offsets. Now: the toolpaths are simple and meet nowhere (checked with
+    # shapely), and the material between the holes and the edge that is narrower than the
+    # 9 mm tool is reported as vanishing.
+    from pathlib import Path
+
+    import shapely
+
+    src = Path(__file__).resolve().parents[2] / "samples" / "workshop-bracket.svg"
+    out = tmp_path / "tp.svg"
+    res = run("offset", src, "--distance", "-4.5", "--units", "mm", "--json", "-o", out)
+    data = json.loads(res.stdout)
+    assert data["verified"] is True and out.exists()
+    rings = _rings(data)
+    assert all(r.is_simple for r in rings)
+    _never_cross(rings)
+    assert any(f["kind"] == "vanishes" for f in data["findings"])
+    assert shapely.unary_union([shapely.Polygon(r) for r in rings]).is_valid
+
+
+def test_grown_lettering_overlaps_are_reported_or_merged(tmp_path):
+    # issue regression: growing the lettering by 3.5 mm makes neighbouring letters' toolpaths
+    # overlap; that is an error with the place, and --merge-outlines cuts them as one region
+    # whose toolpaths do not overlap (checked with shapely).
+
+    from pathlib import Path
+
+    src = Path(__file__).resolve().parents[2] / "samples" / "signshop-lettering.svg"
+    res = run("offset", src, "--distance", "3.5", "--units", "mm", "--json")
+    data = json.loads(res.stdout)
+    overlaps = [f for f in data["findings"] if f["kind"] == "toolpaths-overlap"]
+    assert res.returncode == 1 and overlaps and all(f["value"] > 0 for f in overlaps)
+    res = run("offset", src, "--distance", "3.5", "--units", "mm", "--json", "--merge-outlines")
+    data = json.loads(res.stdout)
+    assert data["verified"] is True
+    assert not [f for f in data["findings"] if f["kind"] == "toolpaths-overlap"]
+    rings = _rings(data)
+    _never_cross(rings)
+    assert all(r.is_simple for r in rings)
