@@ -203,7 +203,9 @@ UNIT_WORDS: dict[str, str] = {
 
 # Kinds whose message names a second place (the other contour of a gap or crossing, the outer
 # contour of a hole): text lines carry that explanation too, as JSON does.
-_EXPLAINED = frozenset({"gap", "self-intersection", "wrong-direction", "duplicate-contour"})
+_EXPLAINED = frozenset(
+    {"gap", "self-intersection", "wrong-direction", "duplicate-contour", "overlap", "touch"}
+)
 
 
 def unit_words(unit: str) -> str:

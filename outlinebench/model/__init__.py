@@ -52,7 +52,7 @@ from outlinebench.model.repairs import (
     RemoveRedundantPoints,
     RepairCommand,
     SmoothKink,
-    set_union_engine,
+    union_contours,
 )
 from outlinebench.model.tools import (
     DrawContourTool,
@@ -134,5 +134,5 @@ __all__ = [
     "FitCurves",
     "FixDirection",
     "RemoveOverlaps",
-    "set_union_engine",
+    "union_contours",
 ]

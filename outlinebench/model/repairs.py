@@ -38,7 +38,7 @@ References
 from __future__ import annotations
 
 import math
-from collections.abc import Callable, Sequence
+from collections.abc import Sequence
 from dataclasses import replace
 
 import numpy as np
@@ -47,6 +47,7 @@ from numpy.typing import NDArray
 from outlinebench.errors import CommandError
 from outlinebench.geometry.area import signed_area
 from outlinebench.geometry.bezier import split_many
+from outlinebench.geometry.boolean import remove_overlaps
 from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.extrema import extrema_params
 from outlinebench.geometry.fit import DEFAULT_FIT_CORNER_ANGLE, fit_chain, fit_polyline
@@ -70,8 +71,7 @@ __all__ = [
     "FitCurves",
     "FixDirection",
     "RemoveOverlaps",
-    "UnionEngine",
-    "set_union_engine",
+    "union_contours",
     "on_integer_grid",
     "end_curvature_closed_form",
     "turn_angle",
@@ -1216,19 +1216,17 @@ class FixDirection(RepairCommand):
 
 
 # --------------------------------------------------------------------------------------------
-# remove overlaps: the hook for the boolean engine
+# remove overlaps: the union from the boolean engine
 # --------------------------------------------------------------------------------------------
-UnionEngine = Callable[[Sequence[Contour], str], list[Contour]]
-"""``union(contours, fill_rule) -> contours``: the region the contours fill under
-``fill_rule`` ("nonzero" or "evenodd"), as non-overlapping closed contours."""
-
-_UNION_ENGINE: UnionEngine | None = None
-
-
-def set_union_engine(engine: UnionEngine | None) -> None:
-    """Register the boolean engine's union for :class:`RemoveOverlaps` (None to unregister)."""
-    global _UNION_ENGINE
-    _UNION_ENGINE = engine
+def union_contours(contours: Sequence[Contour], fill_rule: str) -> list[Contour]:
+    """The region the closed contours fill under ``fill_rule``, as contours that neither
+    cross nor overlap (:func:`outlinebench.geometry.remove_overlaps`), with their join intents;
+    open contours are kept as they are (a region has no open edges)."""
+    closed = [c for c in contours if c.closed and c.segments]
+    others = [c for c in contours if not (c.closed and c.segments)]
+    res = remove_overlaps(closed, fill_rule=fill_rule)
+    out = [Contour(tuple(rc.segments), True, tuple(rc.joins)) for rc in res.contours]
+    return out + [c for c in others if c.segments]
 
 
 class RemoveOverlaps(RepairCommand):
@@ -1248,26 +1246,27 @@ class RemoveOverlaps(RepairCommand):
 
     Notes
     -----
-    The union itself comes from the engine registered with :func:`set_union_engine`; without
-    one the command refuses with that reason.
+    The union is :func:`union_contours` (the boolean engine: curves split exactly at their
+    crossings, the pieces on the region's boundary kept).
     """
 
     kind = "remove-overlaps"
     label = "Remove overlaps"
 
     def __init__(
-        self, outline: int, fill_rule: str = "nonzero", max_change: float = DEFAULT_MAX_CHANGE
+        self,
+        outline: int,
+        fill_rule: str | None = None,
+        max_change: float = DEFAULT_MAX_CHANGE,
     ) -> None:
         super().__init__(max_change)
         self.outline, self.fill_rule = outline, fill_rule
 
     def _repair(self, doc: Document):
-        if _UNION_ENGINE is None:
-            raise CommandError("remove overlaps: no boolean engine is available in this build yet")
         if not 0 <= self.outline < len(doc.outlines):
             raise CommandError(f"outline {self.outline} does not exist")
         o = doc.outlines[self.outline]
-        new = list(_UNION_ENGINE(o.contours, self.fill_rule))
+        new = union_contours(o.contours, self.fill_rule or o.fill_rule)
         old_parts = [s for c in o.contours for s in c.segments]
         new_parts = [s for c in new for s in c.segments]
         self.note = f"{len(o.contours)} contours → {len(new)}"

@@ -30,6 +30,7 @@ from outlinebench.diagnostics import (
     summarize,
     text_report,
 )
+from outlinebench.diagnostics.outline_overlaps import outline_overlap_findings
 from outlinebench.diagnostics.profiles import (
     PROFILE_NAMES,
     apply_profile,
@@ -256,6 +257,8 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         profile = options.get("profile") or default_profile_name(doc)
         settings = _settings(options, doc, profile, mm_per(unit, doc))
         findings = apply_profile(check_document(doc, settings), profile, doc)
+        if profile == "cutting":
+            findings += outline_overlap_findings(doc, settings.gap_mm / doc.mm_per_unit)
     except (OutlinebenchError, OSError, OptionMismatch) as exc:
         if isinstance(exc, OSError):
             msg = f"{path}: {exc.strerror or exc}"

@@ -17,6 +17,7 @@ import sympy
 
 from outlinebench.diagnostics import CheckSettings, check_document
 from outlinebench.errors import CommandError
+from outlinebench.geometry.area import signed_area
 from outlinebench.geometry.bezier import evaluate
 from outlinebench.geometry.curvature import end_tangents
 from outlinebench.model import History
@@ -33,7 +34,6 @@ from outlinebench.model.repairs import (
     SmoothKink,
     end_curvature_closed_form,
     on_integer_grid,
-    set_union_engine,
 )
 
 SETTINGS = CheckSettings()
@@ -364,20 +364,24 @@ def test_fix_direction_leaves_unproven_containment_and_removes_duplicates():
     assert cmd.removed == [1] and len(new.outlines[0].contours) == 1
 
 
-def test_remove_overlaps_hook():
+def test_remove_overlaps_is_the_union():
+    # two overlapping squares 40 × 40 at (0, 0) and 20 × 20 at (30, 10): the union's area is
+    # 1600 + 400 − 10 × 20 = 1800 (closed form: inclusion–exclusion), checked with shapely
+    import shapely
+
     doc = doc_of(square(0, 0, 40), square(30, 10, 20))
-    with pytest.raises(CommandError, match="no boolean engine"):
-        RemoveOverlaps(0).apply(doc)
-    # with an engine registered, the command applies it and measures the change; this
-    # engine keeps the first contour only (a stand-in, not a union): the second square's far
-    # side x = 50 is then 10 from the first square's side x = 40 (closed form)
-    set_union_engine(lambda contours, rule: [contours[0]])
-    try:
-        cmd = RemoveOverlaps(0, max_change=100.0)
-        cmd.apply(doc)
-        assert cmd.change.lower <= 10.0 <= cmd.change.upper
-    finally:
-        set_union_engine(None)
+    cmd = RemoveOverlaps(0, max_change=100.0)
+    new = cmd.apply(doc)
+    (c,) = new.outlines[0].contours
+    area = abs(signed_area(list(c.segments)))
+    ref = shapely.union(shapely.box(0, 0, 40, 40), shapely.box(30, 10, 50, 30)).area
+    assert area == pytest.approx(1800.0) and ref == pytest.approx(1800.0)
+    # the pieces inside the union are gone: the farthest removed point is the midpoint
+    # (30, 20) of the second square's side x = 30, 10√2 from the union's nearest corners
+    # (40, 10) and (40, 30) (closed form)
+    want = 10.0 * math.sqrt(2.0)
+    assert cmd.change.lower <= want + 1e-9 and cmd.change.upper >= want - 1e-9
+    assert not [f for f in check_document(new) if f.kind == "self-intersection"]
 
 
 def test_undo_restores_the_identical_document():
