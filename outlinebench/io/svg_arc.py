@@ -81,7 +81,8 @@ class ArcResult:
     Attributes
     ----------
     kind : str
-        "cubics", "line" (a zero radius) or "none" (end point equals start point).
+        "cubics", "line" (a zero radius, or radii whose ratio passes the largest double: an
+        ellipse of zero width, SVG 1.1 F.6.2) or "none" (end point equals start point).
     cubics : ndarray, shape (N, 4, 2)
         The cubic pieces when kind is "cubics"; the first starts exactly at the start point
         and the last ends exactly at the end point.

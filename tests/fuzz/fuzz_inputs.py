@@ -192,6 +192,8 @@ def _svg(body: str, attrs: str = "", head: str = "") -> bytes:
 
 
 def _bit_flips(rng: random.Random, data: bytes) -> bytes:
+    if not data:
+        return data
     b = bytearray(data)
     for _ in range(rng.randint(1, 8)):
         i = rng.randrange(len(b))
