@@ -554,11 +554,14 @@ def _ufo_segments(
         if not on:  # a quadratic ring of off-curve points
             if len(pts) < 2:
                 return [], closed, []
-            offs = [p for p, _, _ in pts]
-            start = (0.5 * (offs[-1][0] + offs[0][0]), 0.5 * (offs[-1][1] + offs[0][1]))
+            ring_pts = [p for p, _, _ in pts]
+            start = (
+                0.5 * (ring_pts[-1][0] + ring_pts[0][0]),
+                0.5 * (ring_pts[-1][1] + ring_pts[0][1]),
+            )
             ring: list[list[tuple[float, float]]] = []
             cur = start
-            for a, b in decomposeQuadraticSegment([*offs, start]):
+            for a, b in decomposeQuadraticSegment([*ring_pts, start]):
                 ring.append([cur, a, b])
                 cur = b
             return ring, closed, [None] * len(ring)
@@ -970,14 +973,14 @@ class _T2Reader:
                     self.curve(dx1, dy1, dx2, dy2, dx3, 0.0)
                     self.curve(dx4, 0.0, dx5, dy5, dx6, -(dy1 + dy2 + dy5))
                 elif b1 == 37:  # flex1
-                    d = st[:11]
-                    dx = sum(d[0:10:2])
-                    dy = sum(d[1:10:2])
-                    self.curve(*d[0:6])
+                    args = st[:11]
+                    dx = sum(args[0:10:2])
+                    dy = sum(args[1:10:2])
+                    self.curve(*args[0:6])
                     if abs(dx) > abs(dy):
-                        self.curve(d[6], d[7], d[8], d[9], d[10], -dy)
+                        self.curve(args[6], args[7], args[8], args[9], args[10], -dy)
                     else:
-                        self.curve(d[6], d[7], d[8], d[9], -dx, d[10])
+                        self.curve(args[6], args[7], args[8], args[9], -dx, args[10])
                 else:
                     raise _Unsupported  # arithmetic, storage, dotsection...
             else:
