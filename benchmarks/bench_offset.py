@@ -6,18 +6,33 @@ d ∈ {−2, 1, 3} at ε = 0.01 (coordinates in a 100-unit box). Prints the meas
 outline, and the time against shapely's round-join buffer of the flattened outline (the
 reference: polygon only, no cubics, no findings).
 
+A second table offsets whole regions (:func:`offset_region`: overlap removal, per-contour
+offsets, their union where they meet) of the same outlines and of the two samples (the
+bracket by −4.5 mm, the lettering by +3.5 mm), against shapely's buffer of the flattened
+region (even-odd), with the largest distance error over ε and the time of each stage summed
+over the set.
+
 Run: python benchmarks/bench_offset.py
 """
 
 from __future__ import annotations
 
+import sys
 import time
+from pathlib import Path
 
 import numpy as np
 import shapely
 
-from outlinebench.geometry.flatten import flatten_contours
-from outlinebench.geometry.offset import offset_contour
+sys.path.insert(0, str(Path(__file__).parents[1]))  # this checkout's package first
+
+from outlinebench.geometry.bezier import to_cubic  # noqa: E402
+from outlinebench.geometry.flatten import flatten_contours  # noqa: E402
+from outlinebench.geometry.offset import (  # noqa: E402
+    offset_contour,
+    offset_region,
+    verify_toolpaths,
+)
 
 
 def outlines(count: int, seed: int = 7) -> list[list[np.ndarray]]:
@@ -80,5 +95,60 @@ def main() -> None:
         print(f"{d:5.1f} | {worst / eps:18.3f} {cubics / len(shapes):14.1f} {t_ours / t_ref:12.1f}")
 
 
+def region_table(name: str, regions: list, d: float, eps: float) -> None:
+    """Region offsets of ``regions`` (lists of (segments, closed)) against shapely buffers."""
+    stages: dict[str, float] = {}
+    t0 = time.perf_counter()
+    results = [offset_region(r, d, fill_rule="evenodd", tolerance=eps) for r in regions]
+    t_ours = time.perf_counter() - t0
+    for res in results:
+        for k, v in res.times.items():
+            stages[k] = stages.get(k, 0.0) + v
+    flats = []
+    for r in regions:
+        g = None
+        for p in flatten_contours(r, eps / 2):
+            g = shapely.Polygon(p) if g is None else g.symmetric_difference(shapely.Polygon(p))
+        flats.append(g)
+    t0 = time.perf_counter()
+    for g in flats:
+        g.buffer(d, quad_segs=32, join_style="round")
+    t_ref = time.perf_counter() - t0
+    worst = 0.0
+    bad = 0
+    for r, res in zip(regions, results, strict=True):
+        orig = shapely.MultiLineString(
+            [samples([to_cubic(np.asarray(x, dtype=float)) for x in s], 2000) for s, _ in r]
+        )
+        for c in res.contours:
+            pts = np.vstack([c.polyline, samples(c.segments, 40)])
+            dist = shapely.distance(shapely.points(pts), orig)
+            worst = max(worst, float(np.max(np.abs(dist - abs(d)))))
+        bad += bool(verify_toolpaths(res.region.contours, res.contours, d, tolerance=eps))
+    parts = " ".join(f"{k}={1e3 * v / len(regions):.1f}" for k, v in stages.items())
+    print(
+        f"{name:>22} {d:6.1f} | {worst / eps:9.3f} {t_ours / t_ref:9.1f} {bad:8d} | "
+        f"ms/outline: {parts}"
+    )
+
+
+def main_regions() -> None:
+    from outlinebench.io import read_svg
+
+    eps = 0.01
+    root = Path(__file__).parents[1] / "samples"
+    print()
+    print(f"region offsets, eps = {eps}")
+    print(f"{'set':>22} {'d':>6} | {'maxerr/eps':>9} {'t/shapely':>9} {'rejected':>8} | stages")
+    shapes = [[(s, True)] for s in outlines(30)]
+    for d in (-2.0, 3.0):
+        region_table("random outlines", shapes, d, eps)
+    for file, dmm in (("workshop-bracket.svg", -4.5), ("signshop-lettering.svg", 3.5)):
+        doc = read_svg(root / file).document
+        regions = [[(c.segments, c.closed) for c in o.contours] for o in doc.outlines]
+        region_table(file, regions, dmm / doc.mm_per_unit, eps)
+
+
 if __name__ == "__main__":
     main()
+    main_regions()

@@ -49,6 +49,7 @@ from outlinebench.app.curvature_comb import (
     paint_comb,
 )
 from outlinebench.app.finding_marks import FRAME_REACH_PX, finding_at, paint_finding_marks
+from outlinebench.app.preview_painter import paint_flatten_preview, paint_offset_preview
 from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
 from outlinebench.diagnostics import Finding
 from outlinebench.model.document import Document
@@ -142,6 +143,11 @@ class Canvas(QWidget):
         self.comb_cache = CombCache()
         self.comb_teeth = 0  # teeth drawn in the last frame
         self.comb_hidden = False  # too many segments in view for a comb
+        # Cutting previews (app.cut_preview results) and the label of the largest deviation;
+        # not drawn while a gesture runs (they belong to the document before it).
+        self.flatten_preview = None
+        self.flatten_label: str | None = None
+        self.offset_preview = None
         self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
         self.setMouseTracking(True)
         self.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
@@ -334,6 +340,7 @@ class Canvas(QWidget):
                 paint_background(p, self.view, doc, w, h, self.devicePixelRatioF())
                 self._paint_comb(p, doc, None)
                 paint_outlines(p, self.view, doc, self.cache, w, h, stats=self.stats)
+                self._paint_previews(p)
                 paint_finding_marks(p, self.view, self.finding_marks, w, h, self.current_finding)
                 sel = self._editor.selected_points()
                 paint_selection(p, self.view, doc, sel, self._editor.hover)
@@ -346,6 +353,20 @@ class Canvas(QWidget):
         if not self._editor.history.in_group:
             self._last_doc = doc
         self._painted_marks = (self._editor.selected_points(), self._editor.hover)
+
+    def set_previews(self, flatten=None, offset=None, flatten_label: str | None = None) -> None:
+        """Show (or, with None, hide) the flattening and offset previews."""
+        self.flatten_preview = flatten
+        self.flatten_label = flatten_label
+        self.offset_preview = offset
+        self._backdrop = None
+        self.update()
+
+    def _paint_previews(self, p: QPainter) -> None:
+        if self.offset_preview is not None:
+            paint_offset_preview(p, self.view, self.offset_preview)
+        if self.flatten_preview is not None:
+            paint_flatten_preview(p, self.view, self.flatten_preview, self.flatten_label)
 
     def _live_outlines(self, doc: Document) -> set[int] | None:
         """Outlines a gesture in progress has changed, or None when no gesture is running.
@@ -444,8 +465,7 @@ class Canvas(QWidget):
 
                 # Contour numbers as the findings list and `outlinebench check` give them.
                 lines = [
-                    f"<b>{f.kind}</b> ({f.severity}) in contour {f.contour}, {where_text(f)}: "
-                    f"{f.message}"
+                    f"<b>{f.kind}</b> ({f.severity}) at {where_text(f)}: {f.message}"
                     for f in hits[:6]
                 ]
                 if len(hits) > 6:

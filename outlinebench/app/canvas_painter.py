@@ -36,6 +36,7 @@ __all__ = [
     "PaintStats",
     "document_bounds",
     "mark_path",
+    "mark_scale",
 ]
 
 
@@ -130,9 +131,11 @@ def _intersects(a: tuple[float, float, float, float], b: tuple[float, float, flo
     return a[0] <= b[2] and b[0] <= a[2] and a[1] <= b[3] and b[1] <= a[3]
 
 
-def mark_path(path: QPainterPath, x: float, y: float, mark: JoinMark) -> None:
-    """Add the outline of one join mark at screen point (x, y) to ``path``."""
-    s = style.MARK_SIZE
+def mark_path(
+    path: QPainterPath, x: float, y: float, mark: JoinMark, size: float = style.MARK_SIZE
+) -> None:
+    """Add the outline of one join mark of half-length ``size`` at screen point (x, y)."""
+    s = size
     dx, dy = mark.direction
     nx, ny = -dy, dx
     if mark.kind == "smooth":
@@ -332,25 +335,30 @@ def paint_outlines(
 SPRITE_ANGLES = 64
 
 
-def _mark_look(spec: tuple) -> tuple[tuple, Callable[[QPainter, float, float], None], int]:
+def _mark_look(
+    spec: tuple, scale: float = 1.0
+) -> tuple[tuple, Callable[[QPainter, float, float], None], int]:
     """Sprite key, painting function and reach (see :func:`sprites.stamp`) of
-    ``("handle", colour)`` or ``("mark", kind, stated, angle index, colour)``."""
+    ``("handle", colour)`` or ``("mark", kind, stated, angle index, colour)``, drawn at
+    ``scale`` times the full mark size."""
     colour = spec[-1]
-    key = (*spec[:-1], colour.rgba(), style.PAPER.rgba(), style.MARK_SIZE, style.HANDLE_RADIUS)
+    size = style.MARK_SIZE * scale
+    radius = style.HANDLE_RADIUS * max(scale, 0.75)
+    key = (*spec[:-1], colour.rgba(), style.PAPER.rgba(), size, radius)
     if spec[0] == "handle":
 
         def draw_handle(sp: QPainter, x: float, y: float) -> None:
             sp.setPen(QPen(colour, 1.4))
             sp.setBrush(style.PAPER)
-            sp.drawEllipse(QPointF(x, y), style.HANDLE_RADIUS, style.HANDLE_RADIUS)
+            sp.drawEllipse(QPointF(x, y), radius, radius)
 
-        return key, draw_handle, math.ceil(style.HANDLE_RADIUS + 0.7 + 1.5)
+        return key, draw_handle, math.ceil(radius + 0.7 + 1.5)
     _, kind, stated, a, _ = spec
 
     def draw_mark(sp: QPainter, x: float, y: float) -> None:
         ang = a * 2 * math.pi / SPRITE_ANGLES
         path = QPainterPath()
-        mark_path(path, x, y, JoinMark(kind, stated, (math.cos(ang), math.sin(ang))))
+        mark_path(path, x, y, JoinMark(kind, stated, (math.cos(ang), math.sin(ang))), size)
         if stated:
             sp.setPen(QPen(colour.darker(130), 1.0))
             sp.setBrush(colour)
@@ -361,13 +369,49 @@ def _mark_look(spec: tuple) -> tuple[tuple, Callable[[QPainter, float, float], N
 
     # A join mark reaches at most 1.45 · MARK_SIZE from its point (see mark_path), plus its
     # pen and a pixel for the antialiased edge.
-    return key, draw_mark, math.ceil(style.MARK_SIZE * 1.45 + 0.8 + 1.5)
+    return key, draw_mark, math.ceil(size * 1.45 + 0.8 + 1.5)
 
 
-def _stamp(p: QPainter, spec: tuple, xy: np.ndarray) -> None:
+def _stamp(p: QPainter, spec: tuple, xy: np.ndarray, scale: float = 1.0) -> None:
     if len(xy):
-        key, draw, half = _mark_look(spec)
+        key, draw, half = _mark_look(spec, scale)
         stamp(p, key, draw, half, xy)
+
+
+def _spacing(g: ContourGraphics) -> float:
+    """Median distance between neighbouring on-curve points of a contour, document units
+    (cached on the graphics object, which lives as long as its contour)."""
+    if g.mark_spacing >= 0.0:
+        return g.mark_spacing
+    pts = g.on_curve
+    if len(pts) < 2:
+        value = math.inf
+    else:
+        d = np.hypot(*np.diff(pts, axis=0).T)
+        d = d[d > 0]
+        value = float(np.median(d)) if len(d) else 0.0
+    g.mark_spacing = value
+    return value
+
+
+def mark_scale(g: ContourGraphics, view_scale: float) -> float:
+    """How large one contour's point marks are drawn at this zoom: 0 (left out), or one of
+    :data:`style.MARK_SCALES` (1 = full size).
+
+    The median on-screen distance between its neighbouring on-curve points decides: at
+    :data:`style.MARK_FULL_SPACING_PX` or more the marks are full size; closer, they shrink
+    (to the nearest smaller step of ``MARK_SCALES``), and below
+    :data:`style.MARK_HIDE_SPACING_PX` they are left out, so at fit-to-view a line of
+    lettering shows its outlines and findings, and the points appear as you zoom in.
+    """
+    px = _spacing(g) * view_scale
+    if px < style.MARK_HIDE_SPACING_PX:
+        return 0.0
+    ratio = px / style.MARK_FULL_SPACING_PX
+    for level in style.MARK_SCALES:
+        if ratio >= level:
+            return level
+    return style.MARK_SCALES[-1]
 
 
 def _paint_marks(
@@ -377,6 +421,26 @@ def _paint_marks(
     width: float,
     height: float,
     clip: QRectF | None = None,
+) -> None:
+    # Contours are grouped by the size their marks are drawn at (mark_scale), then drawn as
+    # arrays per kind and look in batches.
+    groups: dict[float, list] = {}
+    for item in in_view:
+        level = mark_scale(item[2], view.scale)
+        if level > 0:
+            groups.setdefault(level, []).append(item)
+    for level in sorted(groups):
+        _paint_marks_at(p, view, groups[level], width, height, clip, level)
+
+
+def _paint_marks_at(
+    p: QPainter,
+    view: ViewTransform,
+    in_view: Iterable[tuple[int, int, ContourGraphics, np.ndarray, np.ndarray]],
+    width: float,
+    height: float,
+    clip: QRectF | None,
+    scale: float,
 ) -> None:
     # Gathered as arrays over the contours in view, then drawn per kind and look in batches.
     # Marks reach at most this far from their point, handle rings from their handle.
@@ -435,10 +499,10 @@ def _paint_marks(
     for kind, colour in enumerate(colours):
         handle_rows = hcode == kind
         if handle_rows.any():
-            _stamp(p, ("handle", colour), hl[handle_rows, 1])
+            _stamp(p, ("handle", colour), hl[handle_rows, 1], scale)
         batches = sorted(by_kind.get(kind, []), key=lambda b: (not b[0], b[1]))
         for stated, a, rows in batches:
-            _stamp(p, ("mark", MARK_KINDS[kind], stated, a, colour), xy[rows])
+            _stamp(p, ("mark", MARK_KINDS[kind], stated, a, colour), xy[rows], scale)
 
 
 def paint_selection(

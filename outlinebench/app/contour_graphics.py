@@ -146,6 +146,8 @@ class ContourGraphics:
     mark_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
     mark_angle: NDArray[np.float64] = field(default_factory=lambda: np.zeros(0))
     handle_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
+    # median distance of neighbouring on-curve points (canvas_painter.mark_scale); -1: not yet
+    mark_spacing: float = -1.0
 
     def __post_init__(self) -> None:
         if len(self.mark_code) != len(self.marks):

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFileDialog, QMessageBox, QWidget
 
 __all__ = [
@@ -10,6 +11,9 @@ __all__ = [
     "show_error",
     "choose_open_path",
     "choose_save_path",
+    "choose_cut_path",
+    "ask_restore",
+    "show_text",
     "SVG_FILTER",
 ]
 
@@ -67,3 +71,41 @@ def choose_save_path(parent: QWidget, start: str = "") -> str | None:
     if path and not path.lower().endswith(".svg"):
         path += ".svg"
     return path or None
+
+
+def choose_cut_path(parent: QWidget, start: str = "") -> str | None:
+    """Where to write a cut file (a new SVG of polylines; never the drawing itself)."""
+    path, _ = QFileDialog.getSaveFileName(parent, "Export cut file", start, SVG_FILTER)
+    if path and not path.lower().endswith(".svg"):
+        path += ".svg"
+    return path or None
+
+
+def ask_restore(parent: QWidget, what: str, when: str) -> str:
+    """Unsaved work from a session that ended unexpectedly was found: returns "restore",
+    "discard" or "later" (keep the recovery file, ask again next start)."""
+    box = QMessageBox(parent)
+    box.setIcon(QMessageBox.Icon.Question)
+    box.setWindowTitle("Restore unsaved work?")
+    box.setText(f"OutlineBench ended without saving changes to {what} ({when}).")
+    box.setInformativeText("Restore them? Discarding removes the recovery file.")
+    restore = box.addButton("Restore", QMessageBox.ButtonRole.AcceptRole)
+    discard = box.addButton("Discard", QMessageBox.ButtonRole.DestructiveRole)
+    box.addButton("Ask next time", QMessageBox.ButtonRole.RejectRole)
+    box.setDefaultButton(restore)
+    box.exec()
+    clicked = box.clickedButton()
+    if clicked is restore:
+        return "restore"
+    if clicked is discard:
+        return "discard"
+    return "later"
+
+
+def show_text(parent: QWidget, title: str, html: str) -> None:
+    """An information window with rich text (Help ▸ keys and mouse, Help ▸ about)."""
+    box = QMessageBox(parent)
+    box.setWindowTitle(title)
+    box.setTextFormat(Qt.TextFormat.RichText)
+    box.setText(html)
+    box.exec()

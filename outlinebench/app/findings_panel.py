@@ -40,7 +40,7 @@ from PySide6.QtWidgets import (
 from outlinebench.app.finding_marks import finding_icon
 from outlinebench.app.live_findings import LiveFindings
 from outlinebench.app.units import DisplayUnits
-from outlinebench.diagnostics import KINDS, Finding, convert_units
+from outlinebench.diagnostics import KINDS, Finding, convert_units, place_text
 from outlinebench.diagnostics.findings import ERROR, INFO, SEVERITY_RANK, WARNING
 
 __all__ = [
@@ -50,6 +50,8 @@ __all__ = [
     "where_text",
     "short_where_text",
     "COLUMNS",
+    "COLUMN_SAMPLES",
+    "column_widths",
     "LIST_THROTTLE_MS",
     "LIST_LIVE_ROWS",
 ]
@@ -65,8 +67,8 @@ COLUMNS = ("Finding", "Where", "Value", "Position")
 _HEADER_TIPS = (
     "What was found; the icon is its severity (diamond: error, square: warning, dotted: "
     "info). Sorting by this column puts errors first.",
-    "Contour number (counted from 0 through the file, as `outlinebench check` reports it) · "
-    "place in the contour",
+    "Contour number (counted from 0 through the file) and place in it, in the words "
+    "`outlinebench check` prints; ↔ names the other contour of a crossing",
     "The measured value",
     "x, y of the place, in the document's units (full digits in each row's tooltip)",
 )
@@ -99,31 +101,19 @@ def value_text(f: Finding, units: DisplayUnits, detail: bool = True) -> str:
 
 
 def where_text(f: Finding) -> str:
-    """The place within the contour: "join 2", "segment 1", "whole contour", plus the other
-    contour of a gap or crossing between two contours."""
-    if f.join is not None:
-        text = f"join {f.join}"
-    elif f.segment is not None:
-        text = f"segment {f.segment}"
-    else:
-        text = "whole contour"
+    """The place in the command line's words ("contour 5, join 5", "contour 3"), plus the
+    other contour of a gap or crossing between two contours ("↔ contour 2")."""
+    text = place_text(f)
     if f.other_contour is not None and f.other_contour != f.contour:
         text += f" ↔ contour {f.other_contour}"
     return text
 
 
 def short_where_text(f: Finding) -> str:
-    """The list's "Where" cell: contour number, then the place, abbreviated ("3 · join 2",
-    "0 · seg. 6 ↔ 16", "15 · whole"); the row's tooltip has the words of :func:`where_text`."""
-    if f.join is not None:
-        text = f"join {f.join}"
-    elif f.segment is not None:
-        text = f"seg. {f.segment}"
-    else:
-        text = "whole"
-    if f.other_contour is not None and f.other_contour != f.contour:
-        text += f" ↔ {f.other_contour}"
-    return f"{f.contour} · {text}"
+    """The list's "Where" cell: the place in the command line's words,
+    :func:`outlinebench.diagnostics.place_text` ("contour 5, join 5"); the other contour of a
+    crossing is named in the row's tooltip and message, as the command line does."""
+    return place_text(f)
 
 
 def _severity_counts(findings: Sequence[Finding]) -> dict[str, int]:
@@ -147,6 +137,26 @@ def _order_key(f: Finding) -> tuple:
         -1.0 if f.t is None else f.t,
         KINDS.index(f.kind) if f.kind in KINDS else len(KINDS),
     )
+
+
+# Widest texts each column is sized for at the default font: the longest kind name beside its
+# icon, a place with two-digit numbers, a value, and a position of four digits before the
+# point in the document's display decimals less one.
+COLUMN_SAMPLES = (
+    "degenerate-handle",
+    "contour 16, segment 9",
+    "188.991 mm²",
+    "358.0, 140.0",
+)
+
+
+def column_widths(metrics) -> list[int]:
+    """Starting widths (logical px) of the list's columns for a font's metrics: each sample
+    text of :data:`COLUMN_SAMPLES` plus the cell's padding (and the icon in the first)."""
+    pad = 12
+    widths = [metrics.horizontalAdvance(t) + pad for t in COLUMN_SAMPLES]
+    widths[0] += 20  # the severity icon
+    return widths
 
 
 class FindingsModel(QAbstractTableModel):
@@ -194,7 +204,7 @@ class FindingsModel(QAbstractTableModel):
             units = self.units
             assert units is not None
             return (
-                f"<b>{f.kind}</b> ({f.severity}) in contour {f.contour}, {where_text(f)}: "
+                f"<b>{f.kind}</b> ({f.severity}) at {where_text(f)}: "
                 f"{f.message}<br>measured "
                 f"{value_text(f, units)} at x {f.x:.{units.decimals}f}, "
                 f"y {f.y:.{units.decimals}f} {units.name}"
@@ -212,8 +222,9 @@ class FindingsModel(QAbstractTableModel):
             return short_where_text(f)
         if col == 2:
             return value_text(f, units, detail=False)
-        # One digit fewer than the selection panel (0.01 mm): enough to find the place.
-        d = max(units.decimals - 1, 0)
+        # Two digits fewer than the selection panel (0.1 mm), so the column fits the dock at
+        # the default window size: enough to find the place; the tooltip has every digit.
+        d = max(units.decimals - 2, 1)
         return f"{f.x:.{d}f}, {f.y:.{d}f}"
 
     def sort(self, column: int, order: Qt.SortOrder = Qt.SortOrder.AscendingOrder) -> None:
@@ -301,7 +312,8 @@ class FindingsPanel(QWidget):
         self.view.sortByColumn(0, Qt.SortOrder.AscendingOrder)
         header = self.view.header()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        for col, width in enumerate((150, 100, 90, 96)):
+        header.setStretchLastSection(True)
+        for col, width in enumerate(column_widths(self.view.fontMetrics())):
             self.view.setColumnWidth(col, width)
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)

@@ -32,22 +32,43 @@ from PySide6.QtWidgets import (
     QWidgetAction,
 )
 
+from outlinebench import __version__
 from outlinebench.app import dialogs, style
 from outlinebench.app.canvas import Canvas
 from outlinebench.app.canvas_painter import count_points_in_view
 from outlinebench.app.curvature_comb import auto_comb_scale
-from outlinebench.app.findings_panel import FindingsPanel
+from outlinebench.app.cut_preview import (
+    cut_file_bytes,
+    flatten_preview,
+    offset_preview,
+    verify_cut_file,
+)
+from outlinebench.app.cutting_panel import CuttingPanel
+from outlinebench.app.edit_rounding import EDIT_RESOLUTION_MM, edit_decimals, round_edits
+from outlinebench.app.findings_panel import FindingsPanel, column_widths
 from outlinebench.app.icons import icon
 from outlinebench.app.live_findings import LiveFindings, place_of
+from outlinebench.app.recovery import Recovery, RecoveryStore, stale_recoveries
+from outlinebench.app.resources import sample_files, samples_dir
 from outlinebench.app.selection_panel import SelectionPanel
 from outlinebench.app.session import TOOLS, EditorSession
-from outlinebench.app.settings import RecentFiles
+from outlinebench.app.settings import Preferences, RecentFiles, default_settings, recovery_folder
 from outlinebench.app.tolerances_dialog import TolerancesDialog
 from outlinebench.diagnostics import Finding
 from outlinebench.errors import OutlinebenchError
+from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.model.document import Document
 
-__all__ = ["MainWindow", "run_editor", "samples_dir", "new_document", "NAVIGATION_HINT"]
+__all__ = [
+    "MainWindow",
+    "run_editor",
+    "samples_dir",
+    "sample_files",
+    "new_document",
+    "NAVIGATION_HINT",
+    "AUTOSAVE_MS",
+    "KEYS_AND_MOUSE",
+]
 
 NAVIGATION_HINT = (
     "Wheel: scroll · Shift+wheel: scroll sideways · Ctrl+wheel: zoom at pointer · "
@@ -60,6 +81,13 @@ COMB_STEPS = 8
 # Starting width of the findings dock, logical px: the severity, kind, where and value columns
 # (position scrolls into view); at 1280 px the canvas keeps about half the window.
 FINDINGS_DOCK_WIDTH = 380
+# The window's starting size: wide enough for the findings list's four columns, the selection
+# panel and a canvas of 40 % of the width (at 1280 px the findings dock gives way to the
+# canvas, see _fit_findings_dock); smaller screens get their available size.
+DEFAULT_WINDOW_SIZE = (1440, 900)
+# Share of the window's width the canvas keeps when the docks would take more (common
+# practice, no source).
+MIN_CANVAS_SHARE = 0.4
 # The key to the marks in the selection panel starts open when the window is at least this
 # tall (logical px); shorter windows start with it folded so the point's numbers need no
 # scrolling.
@@ -67,6 +95,43 @@ KEY_OPEN_MIN_HEIGHT = 900
 # Zoom 100 % = true size on a screen of 96 logical px per inch (the CSS reference pixel,
 # W3C CSS Values and Units Level 3 §5.2).
 PX_PER_MM_AT_100 = 96.0 / 25.4
+
+# Unsaved work is written to the recovery file this long after the last change (and, during a
+# long drag, this long after the drag's first unsaved move): "a few seconds", so a crash
+# loses at most that much.
+AUTOSAVE_MS = 3000
+# The cutting previews follow an edit this long after it (they take up to a second on a
+# large drawing; a burst of nudges recomputes them once).
+PREVIEW_DELAY_MS = 250
+
+KEYS_AND_MOUSE = """
+<h3>Mouse</h3>
+<table cellspacing=4>
+<tr><td>Click a point</td><td>select it (Shift+click: add or remove)</td></tr>
+<tr><td>Drag on empty canvas</td><td>select the points in the box</td></tr>
+<tr><td>Drag a point or handle</td><td>move it; Alt (or B): break a smooth join;
+Ctrl: keep the two handles equal</td></tr>
+<tr><td>Drag an open end onto its start</td><td>close the contour there</td></tr>
+<tr><td>Wheel / Shift+wheel</td><td>scroll / scroll sideways</td></tr>
+<tr><td>Ctrl+wheel</td><td>zoom at the pointer</td></tr>
+<tr><td>Middle-drag, Space+drag</td><td>pan</td></tr>
+<tr><td>Hover a finding mark</td><td>what was found there</td></tr>
+</table>
+<h3>Keys</h3>
+<table cellspacing=4>
+<tr><td>S, I, D</td><td>select / insert point / draw contour tools</td></tr>
+<tr><td>Arrows (Shift: ×10)</td><td>nudge the selection</td></tr>
+<tr><td>J</td><td>toggle join intent smooth ⇄ corner</td></tr>
+<tr><td>Ctrl+1, 2, 3</td><td>make the segment a line, quadratic, cubic</td></tr>
+<tr><td>Delete, Backspace</td><td>delete points (neighbours refitted)</td></tr>
+<tr><td>Ctrl+Shift+C, R</td><td>close / reverse the contour</td></tr>
+<tr><td>N, Shift+N</td><td>next / previous finding</td></tr>
+<tr><td>F, Ctrl++, Ctrl+−</td><td>fit, zoom in, zoom out</td></tr>
+<tr><td>Ctrl+Shift+K, [ ]</td><td>curvature comb, shorter / longer teeth</td></tr>
+<tr><td>Enter, Esc</td><td>finish an open contour / cancel</td></tr>
+<tr><td>Ctrl+Z, Ctrl+Shift+Z</td><td>undo, redo</td></tr>
+</table>
+"""
 
 # A new drawing: a landscape A4 sheet in millimetres (ISO 216: 297 mm × 210 mm).
 NEW_PAGE_MM = (297.0, 210.0)
@@ -76,21 +141,6 @@ def new_document() -> Document:
     """An empty drawing on a landscape A4 page, one user unit per millimetre."""
     w, h = NEW_PAGE_MM
     return Document(width_mm=w, height_mm=h, view_box=(0.0, 0.0, w, h), mm_per_unit=1.0, units="mm")
-
-
-def samples_dir() -> Path | None:
-    """The bundled ``samples`` folder of a source checkout, or None when absent."""
-    here = Path(__file__).resolve()
-    for parent in here.parents:
-        candidate = parent / "samples"
-        if candidate.is_dir() and (parent / "outlinebench").is_dir():
-            return candidate
-    return None
-
-
-def sample_files() -> list[Path]:
-    base = samples_dir()
-    return sorted(base.glob("*.svg")) if base is not None else []
 
 
 class StartPanel(QFrame):
@@ -131,15 +181,45 @@ class MainWindow(QMainWindow):
     Parameters
     ----------
     settings : QSettings, optional
-        Where recent files are remembered (tests pass a temporary one).
+        Where settings and recent files are remembered (default
+        :func:`outlinebench.app.settings.default_settings`; tests pass a temporary one).
+    recovery_dir : str or Path, optional
+        Folder of recovery files (default beside the settings, see
+        :func:`outlinebench.app.settings.recovery_folder`).
+    autosave_ms : int
+        Delay of the recovery write after a change; 0 turns recovery off (``render``).
     """
 
-    def __init__(self, settings: QSettings | None = None) -> None:
+    def __init__(
+        self,
+        settings: QSettings | None = None,
+        *,
+        recovery_dir=None,
+        autosave_ms: int = AUTOSAVE_MS,
+    ) -> None:
         super().__init__()
+        self.settings = settings if settings is not None else default_settings()
+        self.prefs = Preferences(self.settings)
         self.session = EditorSession(new_document())
+        self.session.set_unit_name(self.prefs.units())
         self.path: str | None = None
         self._partial = False  # opened only the part of a file before a read error
-        self.recent = RecentFiles(settings)
+        self._opened_doc: Document | None = None  # as read: edits are rounded against it
+        self.recent = RecentFiles(self.settings)
+        self.recovery: RecoveryStore | None = None
+        if autosave_ms > 0:
+            folder = recovery_dir if recovery_dir is not None else recovery_folder(self.settings)
+            self.recovery = RecoveryStore(folder)
+        self._autosave = QTimer(self)
+        self._autosave.setSingleShot(True)
+        self._autosave.setInterval(max(int(autosave_ms), 1))
+        self._autosave.timeout.connect(self.write_recovery)
+        self._preview_timer = QTimer(self)
+        self._preview_timer.setSingleShot(True)
+        self._preview_timer.setInterval(PREVIEW_DELAY_MS)
+        self._preview_timer.timeout.connect(self.update_previews)
+        self.flatten_result = None
+        self.offset_result = None
         self.setWindowIcon(icon("app"))
         self.canvas = Canvas(self.session, self)
         self.setCentralWidget(self.canvas)
@@ -157,8 +237,9 @@ class MainWindow(QMainWindow):
         dock.setWidget(scroll)
         dock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)
         self.addDockWidget(Qt.DockWidgetArea.RightDockWidgetArea, dock)
+        self.selection_dock = dock
         # Findings: checked live after every edit, listed in a dock on the left.
-        self.live = LiveFindings(self.session, parent=self)
+        self.live = LiveFindings(self.session, self.prefs.check_settings(), parent=self)
         self.findings_panel = FindingsPanel(self.live, lambda: self.session.units, self)
         fdock = QDockWidget("Findings", self)
         fdock.setObjectName("findingsDock")
@@ -168,8 +249,27 @@ class MainWindow(QMainWindow):
             | QDockWidget.DockWidgetFeature.DockWidgetClosable
         )
         self.addDockWidget(Qt.DockWidgetArea.LeftDockWidgetArea, fdock)
-        self.resizeDocks([fdock], [FINDINGS_DOCK_WIDTH], Qt.Orientation.Horizontal)
         self.findings_dock = fdock
+        # Cutting previews: below the findings.
+        self.cutting = CuttingPanel(lambda: self.session.units, self)
+        cdock = QDockWidget("Cutting", self)
+        cdock.setObjectName("cuttingDock")
+        cdock.setWidget(self.cutting)
+        cdock.setFeatures(
+            QDockWidget.DockWidgetFeature.DockWidgetMovable
+            | QDockWidget.DockWidgetFeature.DockWidgetClosable
+        )
+        self.addDockWidget(Qt.DockWidgetArea.LeftDockWidgetArea, cdock)
+        self.cutting_dock = cdock
+        self.cutting.set_lengths_mm(
+            self.prefs.number("preview/flatten_tolerance_mm", self.cutting.tolerance_mm()),
+            self.prefs.number("preview/offset_radius_mm", self.cutting.radius_mm()),
+        )
+        self.cutting.flatten_on.setChecked(self.prefs.flag("preview/flatten"))
+        self.cutting.offset_on.setChecked(self.prefs.flag("preview/offset"))
+        self.cutting.changed.connect(self._on_previews_changed)
+        self.cutting.export_requested.connect(self.export_cut_file)
+        self.session.close_gap = self._gap_user()
         self.current_finding: Finding | None = None
         self._comb_base: float | None = None  # automatic comb scale of the open document
         self._seen_doc = self.session.document
@@ -189,10 +289,56 @@ class MainWindow(QMainWindow):
         self._on_tool_changed(self.session.tool_name)
         self.canvas.pointer_moved.connect(self._on_pointer_moved)
         self.canvas.view_changed.connect(self._on_view_changed)
-        self.resize(1280, 800)
+        self.session.changed.connect(self._on_change_for_recovery)
+        self.session.changed.connect(self._schedule_previews)
+        self.resize(*self._default_size())
+        geometry, state = self.prefs.layout()
+        if geometry is not None:
+            self.restoreGeometry(geometry)
+        if state is not None:
+            self.restoreState(state)
+        self.comb_slider.setValue(self.prefs.comb_step())
+        if self.prefs.flag("view/comb"):
+            self.set_comb_visible(True)
         self._update_title()
         self._on_document_changed()
         self._on_selection_changed()
+
+    def _default_size(self) -> tuple[int, int]:
+        w, h = DEFAULT_WINDOW_SIZE
+        screen = self.screen()
+        if screen is not None and QApplication.platformName() != "offscreen":
+            avail = screen.availableGeometry()
+            w, h = min(w, avail.width()), min(h, avail.height())
+        return w, h
+
+    def _fit_findings_dock(self) -> None:
+        """Let the findings dock be at most as wide as leaves the canvas MIN_CANVAS_SHARE of
+        the window beside the selection dock (it starts at its full width, all four columns,
+        when there is room)."""
+        if not hasattr(self, "findings_dock"):
+            return
+        right = self.selection_dock
+        right_w = max(right.width(), right.minimumSizeHint().width())
+        room = int(self.width() * (1.0 - MIN_CANVAS_SHARE)) - right_w - 14
+        room = max(room, self.findings_panel.minimumSizeHint().width())
+        width = min(self._findings_dock_width(), room)
+        # Minimum and maximum of the panel (not resizeDocks, which Qt may apply later or not
+        # at all before the first frames): the dock layout honours them at once.
+        self.findings_panel.setMinimumWidth(width)
+        self.findings_panel.setMaximumWidth(max(room, width))
+
+    def showEvent(self, event) -> None:  # noqa: N802 (Qt name)
+        super().showEvent(event)
+        self._fit_findings_dock()
+
+    def _findings_dock_width(self) -> int:
+        """Starting width of the findings dock: its four columns whole (column_widths), the
+        list's frame and scroll bar and the dock's margins, at least FINDINGS_DOCK_WIDTH."""
+        view = self.findings_panel.view
+        columns = sum(column_widths(view.fontMetrics()))
+        extra = view.verticalScrollBar().sizeHint().width() + 2 * view.frameWidth() + 14
+        return max(FINDINGS_DOCK_WIDTH, columns + extra)
 
     # -- actions ------------------------------------------------------------------------
     def _action(self, text, slot, shortcut=None, icon_name=None, tip=None) -> QAction:
@@ -354,7 +500,37 @@ class MainWindow(QMainWindow):
         m_view.addAction(self.act_next_finding)
         m_view.addAction(self.act_prev_finding)
         m_view.addAction(self.act_tolerances)
+        m_units = m_view.addMenu("Length &units")
+        self.unit_group = QActionGroup(self)
+        self.act_units: dict[str, QAction] = {}
+        for name, text in (("", "As written in the file"), ("mm", "mm"), ("cm", "cm"),
+                           ("in", "in"), ("pt", "pt"), ("pc", "pc"), ("px", "px")):  # fmt: skip
+            act = m_units.addAction(text)
+            act.setCheckable(True)
+            act.setChecked(name == self.session.unit_name)
+            act.triggered.connect(lambda _=False, n=name: self.set_units(n))
+            self.unit_group.addAction(act)
+            self.act_units[name] = act
         m_view.addAction(self.findings_dock.toggleViewAction())
+        m_view.addAction(self.cutting_dock.toggleViewAction())
+        m_cut = mb.addMenu("C&ut")
+        self.act_flatten_preview = m_cut.addAction("&Flattening preview")
+        self.act_flatten_preview.setCheckable(True)
+        self.act_flatten_preview.setChecked(self.cutting.flatten_on.isChecked())
+        self.act_flatten_preview.toggled.connect(self.cutting.flatten_on.setChecked)
+        self.cutting.flatten_on.toggled.connect(self.act_flatten_preview.setChecked)
+        self.act_offset_preview = m_cut.addAction("&Offset preview")
+        self.act_offset_preview.setCheckable(True)
+        self.act_offset_preview.setChecked(self.cutting.offset_on.isChecked())
+        self.act_offset_preview.toggled.connect(self.cutting.offset_on.setChecked)
+        self.cutting.offset_on.toggled.connect(self.act_offset_preview.setChecked)
+        m_cut.addSeparator()
+        m_cut.addAction("Export &flattened cut file…", lambda: self.export_cut_file("flatten"))
+        m_cut.addAction("Export &offset cut file…", lambda: self.export_cut_file("offset"))
+        m_help = mb.addMenu("&Help")
+        self.act_help_keys = m_help.addAction("&Keys and mouse", self.show_keys_help)
+        self.act_help_keys.setShortcut(QKeySequence(QKeySequence.StandardKey.HelpContents))
+        self.act_about = m_help.addAction("&About OutlineBench", self.show_about)
         m_tools = mb.addMenu("&Tools")
         for a in self.act_tools.values():
             m_tools.addAction(a)
@@ -450,6 +626,9 @@ class MainWindow(QMainWindow):
 
     def _apply_comb(self) -> None:
         on = self.act_comb.isChecked()
+        if hasattr(self, "prefs"):
+            self.prefs.set_comb_step(self.comb_slider.value())
+            self.prefs.set_flag("view/comb", on)
         factor = 2.0 ** (self.comb_slider.value() / 2.0)
         self.comb_label.setText(f"×{factor:.3g}")
         self.canvas.set_comb(on, self.comb_scale() if on else None)
@@ -544,6 +723,8 @@ class MainWindow(QMainWindow):
         if self.run_dialog(dlg) != QDialog.DialogCode.Accepted:
             return False
         self.live.set_settings(dlg.result_settings())
+        self.prefs.set_check_settings(self.live.settings)
+        self.session.close_gap = self._gap_user()
         s = self.live.settings
         self._show_message(
             f"Checked again: gap {s.gap_mm:g} mm, kink {s.kink_angle:g}°, corner "
@@ -667,6 +848,7 @@ class MainWindow(QMainWindow):
 
     def resizeEvent(self, event) -> None:  # noqa: N802 (Qt name)
         super().resizeEvent(event)
+        self._fit_findings_dock()
         if not self.panel.key_toggled_by_user:
             self.panel.set_key_open(self.height() >= KEY_OPEN_MIN_HEIGHT)
         self._place_start_panel()
@@ -705,7 +887,11 @@ class MainWindow(QMainWindow):
         answer = self.ask_save_changes()
         if answer == "save":
             return self.save()
-        return answer == "discard"
+        if answer == "discard":
+            self._autosave.stop()
+            self._drop_recovery()
+            return True
+        return False
 
     def open_dialog(self) -> bool:
         if not self.maybe_save():
@@ -736,6 +922,7 @@ class MainWindow(QMainWindow):
         ):
             return False
         self.session.load(result.document)  # resets the comb scale, see _on_maybe_new_document
+        self._opened_doc = result.document
         self.path = str(path)
         self._partial = partial
         self.recent.add(self.path)
@@ -781,7 +968,7 @@ class MainWindow(QMainWindow):
             self.show_error("Cannot save", f"The SVG writer is not available ({exc}).")
             return False
         try:
-            write_svg(self.session.document, path)
+            write_svg(self.document_to_save(), path)
         except OutlinebenchError as exc:
             self.show_error("Cannot save", str(exc))
             return False
@@ -789,15 +976,274 @@ class MainWindow(QMainWindow):
             self.show_error("Cannot save", f"{path}: {exc.strerror or exc}")
             return False
         self.session.mark_saved()
+        self._drop_recovery()
         self._on_document_changed()
-        self._show_message(f"Saved {path}")
+        self._show_message(
+            f"Saved {path} (edited coordinates rounded to "
+            f"{10.0 ** -edit_decimals(self.session.document):g} user units)"
+        )
         return True
+
+    def document_to_save(self) -> Document:
+        """The document with the coordinates edits made rounded to the edit grid
+        (:func:`outlinebench.app.edit_rounding.round_edits`; untouched segments keep every
+        digit they were read with)."""
+        return round_edits(self.session.document, self._opened_doc)
 
     def closeEvent(self, event: QCloseEvent) -> None:  # noqa: N802 (Qt name)
         if self.maybe_save():
+            self._save_layout()
+            self._drop_recovery()
             event.accept()
         else:
             event.ignore()
+
+    def _save_layout(self) -> None:
+        self.prefs.set_layout(self.saveGeometry(), self.saveState())
+
+    # -- recovery -----------------------------------------------------------------------
+    def _on_change_for_recovery(self) -> None:
+        if self.recovery is None:
+            return
+        if not self.session.is_dirty:
+            self._autosave.stop()
+            self._drop_recovery()
+        elif self.session.history.in_group:
+            # During a drag the timer is not restarted by each move, so a long drag is
+            # written every AUTOSAVE_MS while it goes on.
+            if not self._autosave.isActive():
+                self._autosave.start()
+        else:
+            self._autosave.start()  # (re)start: a few seconds after the last change
+
+    def write_recovery(self) -> bool:
+        """Write the unsaved work to the recovery file now; True when written."""
+        if self.recovery is None or not self.session.is_dirty:
+            return False
+        try:
+            self.recovery.write(self.document_to_save(), self.path)
+        except (OutlinebenchError, OSError) as exc:
+            self._show_message(f"Could not write the recovery file: {exc}")
+            return False
+        return True
+
+    def _drop_recovery(self) -> None:
+        if self.recovery is not None:
+            self.recovery.remove()
+
+    def ask_restore(self, rec: Recovery) -> str:
+        """ "restore", "discard" or "later" for a recovery file (tests replace this)."""
+        import time as _time
+
+        what = Path(rec.original).name if rec.original else "an untitled drawing"
+        when = _time.strftime("%Y-%m-%d %H:%M:%S", _time.localtime(rec.saved_at))
+        return dialogs.ask_restore(self, what, f"last written {when}")
+
+    def offer_recovery(self) -> bool:
+        """Offer to restore unsaved work left by an editor that ended unexpectedly; True
+        when a document was restored."""
+        if self.recovery is None:
+            return False
+        for rec in stale_recoveries(self.recovery.folder):
+            answer = self.ask_restore(rec)
+            if answer == "discard":
+                rec.remove()
+                continue
+            if answer != "restore":
+                continue
+            if self.restore(rec):
+                return True
+        return False
+
+    def restore(self, rec: Recovery) -> bool:
+        """Open a recovery file as unsaved work belonging to its original file."""
+        from outlinebench.io import read_svg
+
+        try:
+            result = read_svg(str(rec.svg))
+        except (OutlinebenchError, OSError) as exc:
+            self.show_error("Cannot restore", f"{rec.svg}: {exc}")
+            return False
+        if result.error is not None:
+            self.show_error("Cannot restore", str(result.error))
+            return False
+        self.session.load(result.document, dirty=True)
+        self._opened_doc = result.document
+        self.path = rec.original
+        self._partial = False
+        self._update_title()
+        self.canvas.fit_to_outline()
+        self._on_document_changed()
+        rec.remove()
+        self.write_recovery()  # this window's own recovery file holds it from now on
+        self._show_message(
+            f"Restored unsaved work{' on ' + Path(rec.original).name if rec.original else ''}; "
+            "save it to keep it"
+        )
+        return True
+
+    # -- cutting previews ---------------------------------------------------------------
+    def _gap_user(self) -> float:
+        doc = self.session.document
+        return self.live.settings.gap_mm / doc.mm_per_unit if doc.mm_per_unit > 0 else 0.0
+
+    def _on_previews_changed(self) -> None:
+        c = self.cutting
+        self.prefs.set_flag("preview/flatten", c.flatten_on.isChecked())
+        self.prefs.set_flag("preview/offset", c.offset_on.isChecked())
+        self.prefs.set_number("preview/flatten_tolerance_mm", c.tolerance_mm())
+        self.prefs.set_number("preview/offset_radius_mm", c.radius_mm())
+        self.update_previews()
+
+    def _schedule_previews(self) -> None:
+        self.session.close_gap = self._gap_user()
+        if self.cutting.flatten_on.isChecked() or self.cutting.offset_on.isChecked():
+            if self.session.history.in_group:
+                self.canvas.set_previews(None, None)  # stale during a drag
+            else:
+                self._preview_timer.start()
+
+    def update_previews(self) -> None:
+        """Compute and show the previews that are switched on (now)."""
+        self._preview_timer.stop()
+        doc = self.session.document
+        u = self.session.units
+        c = self.cutting
+        per_mm = 1.0 / doc.mm_per_unit if doc.mm_per_unit > 0 else 1.0
+        self.flatten_result = self.offset_result = None
+        label = None
+        if c.flatten_on.isChecked():
+            try:
+                fp = flatten_preview(doc, c.tolerance_mm() * per_mm)
+            except OutlinebenchError as exc:
+                c.flatten_info.setText(f"Cannot flatten: {exc}")
+            else:
+                self.flatten_result = fp
+                if fp.where is None:
+                    c.flatten_info.setText("Nothing to flatten (no segment)")
+                else:
+                    x, y = fp.where
+                    c.flatten_info.setText(
+                        f"<b>{fp.chords} chords</b> · proven largest deviation "
+                        f"<b>{u.text(fp.bound)}</b> (tolerance {u.text(fp.tolerance)}), "
+                        f"in contour {fp.bound_contour}, segment {fp.where_segment}, at x "
+                        f"{u.show(x):.{u.decimals}f}, y {u.show(y):.{u.decimals}f}"
+                    )
+                    label = f"largest deviation {u.text(fp.bound)}"
+        if c.offset_on.isChecked():
+            tol = min(0.01, c.radius_mm() / 100.0) * per_mm  # 0.01 mm, finer for tiny tools
+            try:
+                op = offset_preview(doc, c.radius_mm() * per_mm, tol)
+            except OutlinebenchError as exc:
+                c.offset_info.setText(f"Cannot offset: {exc}")
+            else:
+                self.offset_result = op
+                misfit = sum(p.kind == "tool-does-not-fit" for p in op.places)
+                lost = len(op.vanished)
+                c.offset_info.setText(
+                    f"<b>{len(op.polylines)} offset contours</b> · tool does not fit at "
+                    f"{misfit} places · "
+                    + (
+                        f"<span style='color:#c3122f'><b>material vanishes at {lost}</b></span>"
+                        if lost
+                        else "no material vanishes"
+                    )
+                )
+        self.canvas.set_previews(self.flatten_result, self.offset_result, label)
+
+    def choose_cut_path(self) -> str | None:
+        base = Path(self.path).with_suffix("") if self.path else Path("drawing")
+        return dialogs.choose_cut_path(self, f"{base}-cut.svg")
+
+    def export_cut_file(self, which: str) -> bool:
+        """Write the flattening (``"flatten"``) or offset (``"offset"``) preview as a cut
+        file, verified before it is written; never over the drawing itself."""
+        import os
+
+        doc = self.session.document
+        if which == "flatten" and not self.cutting.flatten_on.isChecked():
+            self.cutting.flatten_on.setChecked(True)
+        if which == "offset" and not self.cutting.offset_on.isChecked():
+            self.cutting.offset_on.setChecked(True)
+        self.update_previews()
+        result = self.flatten_result if which == "flatten" else self.offset_result
+        if result is None or not result.polylines:
+            self.show_error("Nothing to export", "The preview has no polylines to cut.")
+            return False
+        target = self.choose_cut_path()
+        if not target:
+            return False
+        if self.path and os.path.exists(target) and os.path.samefile(target, self.path):
+            self.show_error(
+                "Cut file not written",
+                f"{target} is the drawing itself; a cut file never replaces the drawing.",
+            )
+            return False
+        name = Path(self.path).name if self.path else "an unsaved drawing"
+        u = self.session.units
+        if which == "flatten":
+            fp = result
+            tol = fp.tolerance
+            polys, closed = fp.polylines, fp.closed
+            what = (
+                f"Flattened from {name} by outlinebench (editor) with tolerance "
+                f"{u.text(tol)}; proven largest deviation {u.text(fp.bound)} before rounding"
+            )
+        else:
+            op = result
+            tol = op.tolerance
+            polys, closed = op.polylines, op.closed
+            what = (
+                f"Offset of {name} by {u.text(op.distance)} (tool radius) with tolerance "
+                f"{u.text(tol)}, by outlinebench (editor); {len(op.places)} places where the "
+                f"tool does not fit, material vanishes at {len(op.vanished)}"
+            )
+        try:
+            data, resolution = cut_file_bytes(doc, polys, closed, what, tol)
+            what += f"; coordinates rounded to {resolution:.0e} mm"
+            data, resolution = cut_file_bytes(doc, polys, closed, what, tol)
+            verify_cut_file(data, doc, polys, resolution)
+            write_file_atomic(target, data)
+        except (OutlinebenchError, OSError) as exc:
+            self.show_error("Cut file not written", str(exc))
+            return False
+        self._show_message(f"Wrote {target}. {CUT_CAUTION}")
+        return True
+
+    # -- settings and help --------------------------------------------------------------
+    def set_units(self, name: str) -> None:
+        """Show lengths in ``name`` ("" = as the file was written) and remember it."""
+        self.session.set_unit_name(name)
+        self.prefs.set_units(self.session.unit_name)
+        act = self.act_units.get(self.session.unit_name)
+        if act is not None and not act.isChecked():
+            act.setChecked(True)
+        self.cutting.show_units()
+        self.findings_panel.refresh()
+        self._on_tool_changed(self.session.tool_name)
+        self.update_previews()
+
+    def help_about_text(self) -> str:
+        rec = str(self.recovery.folder) if self.recovery is not None else "(recovery is off)"
+        return (
+            f"<h3>OutlineBench {__version__}</h3>"
+            "<p>Editor and checker for Bézier outlines headed for cutters and typefaces.</p>"
+            f"<p><b>Settings:</b> {self.settings.fileName()}<br>"
+            f"<b>Recovery files:</b> {rec}<br>"
+            f"Unsaved work is written there {AUTOSAVE_MS / 1000:g} s after each change.</p>"
+            f"<p>Edited coordinates are saved rounded to 10<sup>-k</sup> user units, the "
+            f"largest power of ten ≤ {EDIT_RESOLUTION_MM * 1000:g} µm.</p>"
+        )
+
+    def show_keys_help(self) -> None:
+        self.show_info("Keys and mouse", KEYS_AND_MOUSE)
+
+    def show_about(self) -> None:
+        self.show_info("About OutlineBench", self.help_about_text())
+
+    def show_info(self, title: str, html: str) -> None:
+        """Show an information text (tests replace this)."""
+        dialogs.show_text(self, title, html)
 
 
 def run_editor(args: list[str]) -> int:
@@ -810,6 +1256,11 @@ def run_editor(args: list[str]) -> int:
     app.setOrganizationName("OutlineBench")
     window = MainWindow()
     window.show()
-    if args:
-        QTimer.singleShot(0, lambda: window.open_path(args[0]))
+
+    def start() -> None:
+        restored = window.offer_recovery()
+        if args and not restored:
+            window.open_path(args[0])
+
+    QTimer.singleShot(0, start)
     return app.exec()

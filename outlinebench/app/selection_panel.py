@@ -316,13 +316,16 @@ class SelectionPanel(QWidget):
         self.box_size.setText(f"{w:.{units.decimals}f} × {h:.{units.decimals}f} {units.name}")
 
     def _clear(self) -> None:
+        """Nothing selected: every field empty (never the numbers of the point selected
+        before, nor a 0 that reads as a value)."""
         for w in (self.x, self.y, self.in_len, self.in_ang, self.out_len, self.out_ang):
-            w.setValue(0.0)
+            _special(w, " ")
+            w.setValue(w.minimum())
         self.turn.setText("")
         self._seg_keys = (None, None)
         for w in (self.seg_in, self.seg_out):
-            w.setValue(0.0)
-            _special(w, "")
+            _special(w, " ")
+            w.setValue(w.minimum())
         self.contour_info.setText("")
         self.join.setCurrentIndex(2)
 

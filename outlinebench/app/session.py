@@ -17,7 +17,7 @@ from PySide6.QtCore import QObject, Qt, Signal
 from PySide6.QtGui import QKeyEvent, QMouseEvent
 
 from outlinebench.app import point_keys as pk
-from outlinebench.app.units import DisplayUnits, display_units
+from outlinebench.app.units import MM_PER_UNIT_NAME, DisplayUnits, display_units
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model import commands as cmds
 from outlinebench.model import tools
@@ -115,7 +115,13 @@ class EditorSession(QObject):
         self.history.subscribe(self._on_history_changed)
         self.selection = tools.Selection()
         self.selection.subscribe(self.selection_changed.emit)
+        self.unit_name = ""  # "" = the unit the file was written in, else a unit name
         self._units = display_units(document)
+        self._forced_dirty = False  # restored from a recovery file: unsaved until saved
+        # Ends of an open contour within this distance (user units) are merged when the
+        # contour is closed instead of joined by a short line; the window sets it to the
+        # check's gap tolerance.
+        self.close_gap = 0.0
         self.tools: dict[str, tools.Tool] = {
             "select": tools.SelectTool(self.history, self.selection),
             "insert": tools.InsertPointTool(self.history, self.selection),
@@ -151,7 +157,7 @@ class EditorSession(QObject):
 
     @property
     def is_dirty(self) -> bool:
-        return self.history.is_dirty
+        return self.history.is_dirty or self._forced_dirty
 
     @property
     def can_undo(self) -> bool:
@@ -171,12 +177,32 @@ class EditorSession(QObject):
 
     def mark_saved(self) -> None:
         self.history.mark_saved()
+        self._forced_dirty = False
         self.changed.emit()
 
-    def load(self, document: Document) -> None:
-        """Start over with another document (a file was opened)."""
+    def _units_for(self, document: Document) -> DisplayUnits:
+        if self.unit_name in MM_PER_UNIT_NAME and document.mm_per_unit > 0:
+            auto = display_units(document)
+            if auto.name == self.unit_name:
+                return auto
+            factor = document.mm_per_unit / MM_PER_UNIT_NAME[self.unit_name]
+            decimals = {"mm": 3, "cm": 4, "in": 4, "pt": 2, "pc": 3, "px": 2}[self.unit_name]
+            return DisplayUnits(self.unit_name, factor, decimals)
+        return display_units(document)
+
+    def set_unit_name(self, name: str) -> None:
+        """Show lengths in ``name`` (mm, cm, in, pt, pc, px), or "" for the file's own unit."""
+        self.unit_name = name if name in MM_PER_UNIT_NAME else ""
+        self._units = self._units_for(self.document)
+        self.changed.emit()
+        self.selection_changed.emit()
+
+    def load(self, document: Document, *, dirty: bool = False) -> None:
+        """Start over with another document (a file was opened); ``dirty``: it holds work
+        not saved anywhere yet (restored from a recovery file)."""
         self._cancel_gesture()
-        self._units = display_units(document)
+        self._units = self._units_for(document)
+        self._forced_dirty = dirty
         self.selection.clear()
         self.tools["select"].hover = None
         self.history.reset(document)
@@ -463,13 +489,82 @@ class EditorSession(QObject):
             self.message.emit(f"Reversed {len(todo)} contour(s)")
 
     def close_contours(self) -> None:
+        """Close the selected open contours. Ends within :attr:`close_gap` of each other are
+        merged (the end point, with its handle, moves onto the start), else a line closes
+        the contour."""
         doc = self.document
         todo = [(o, c) for o, c in self._selected_contours() if not doc.contour(o, c).closed]
         if not todo:
             self.message.emit("The selected contours are already closed")
             return
-        if self._do_group("Close contour", [cmds.SetClosed(o, c, True) for o, c in todo]):
-            self.message.emit(f"Closed {len(todo)} contour(s)")
+        commands: list[cmds.Command] = []
+        merged = 0
+        for o, c in todo:
+            merge = self._merge_ends(doc, o, c)
+            if merge is not None:
+                commands.append(merge)
+                merged += 1
+            commands.append(cmds.SetClosed(o, c, True))
+        if self._do_group("Close contour", commands):
+            self.set_selection([])
+            text = f"Closed {len(todo)} contour(s)"
+            if merged:
+                text += (
+                    f"; {merged} had ends within the gap tolerance "
+                    f"({self.units.text(self.close_gap)}), merged instead of joined by a line"
+                )
+            self.message.emit(text)
+
+    def _merge_ends(self, doc: Document, o: int, c: int) -> cmds.Command | None:
+        """The command moving an open contour's end onto its start when they lie within
+        :attr:`close_gap` (but do not coincide), else None."""
+        contour = doc.contour(o, c)
+        if contour.closed or len(contour.segments) < 2:
+            return None
+        start, end = contour.segments[0][0], contour.segments[-1][-1]
+        d = float(np.hypot(*(end - start)))
+        if d == 0.0 or d > self.close_gap:
+            return None
+        last = len(contour.segments) - 1
+        k = contour.segments[last].shape[0] - 1
+        return cmds.SetPoint(cmds.PointRef(o, c, last, k), (float(start[0]), float(start[1])))
+
+    def _end_dropped_on_start(self, x: float, y: float, radius: float) -> list[cmds.Command]:
+        """When the select tool is about to drop one end of an open contour within
+        ``radius`` of the contour's other end: the commands that put it exactly there and
+        close the contour (run inside the drag's undo step), else []."""
+        tool = self.tools["select"]
+        if self.tool_name != "select" or not self.history.in_group:
+            return []
+        refs = getattr(tool, "_drag_refs", ())
+        if len(refs) != 1:
+            return []
+        doc = self.document
+        o, c, s, i = refs[0]
+        try:
+            contour = doc.contour(o, c)
+        except IndexError:
+            return []
+        n = len(contour.segments)
+        if contour.closed or n < 2:
+            return []
+        last_k = contour.segments[-1].shape[0] - 1
+        key = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, s, i)))
+        first = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, 0, 0)))
+        final = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, n - 1, last_k)))
+        if key == final:
+            moving, target = cmds.PointRef(o, c, n - 1, last_k), contour.segments[0][0]
+        elif key == first:
+            moving, target = cmds.PointRef(o, c, 0, 0), contour.segments[-1][-1]
+        else:
+            return []
+        here = contour.segments[moving.segment][moving.index]
+        if float(np.hypot(*(here - target))) > radius:
+            return []
+        return [
+            cmds.SetPoint(moving, (float(target[0]), float(target[1]))),
+            cmds.SetClosed(o, c, True),
+        ]
 
     def delete_contours(self) -> None:
         todo = sorted(self._selected_contours(), reverse=True)
@@ -555,15 +650,20 @@ class EditorSession(QObject):
         tool = self.tool
         tool.pick_radius = canvas.pick_radius()
         before = self.document
+        closing = self._end_dropped_on_start(x, y, tool.pick_radius) if kind == "release" else []
         try:
+            for command in closing:  # inside the drag's undo step, before it ends
+                self.history.do(command)
             repaint = tool.handle(ev)
         except OutlinebenchError as exc:
             tool.cancel()
             self.message.emit(f"{TOOLS[self.tool_name][0]}: not done — {exc}")
             repaint = True
+        if closing and not tool.message:
+            self.message.emit("The end was dropped on the start: contour closed")
         if tool.message:
             self.message.emit(tool.message)
-        elif self.document is not before and not self.history.in_group:
+        elif self.document is not before and not self.history.in_group and not closing:
             done = self._inserted_message() if self.tool_name == "insert" else None
             done = done or (self._drawn_message(before) if self.tool_name == "draw" else None)
             if done:

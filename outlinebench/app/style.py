@@ -48,6 +48,9 @@ __all__ = [
     "HANDLE_RADIUS",
     "PICK_RADIUS_PX",
     "MAX_MARKED_POINTS",
+    "MARK_FULL_SPACING_PX",
+    "MARK_HIDE_SPACING_PX",
+    "MARK_SCALES",
     "FINDING_ERROR",
     "FINDING_WARNING",
     "FINDING_INFO",
@@ -83,6 +86,14 @@ PICK_RADIUS_PX = 7.0  # how close the pointer must be to pick a point, logical p
 # Above this many on-curve points in view, marks are left out (only the outline and the
 # selection are drawn) so that painting stays within one frame; zooming in brings them back.
 MAX_MARKED_POINTS = 1500
+# Marks thin out at low zoom (canvas_painter.mark_scale): a contour whose neighbouring
+# on-curve points lie at least MARK_FULL_SPACING_PX apart on screen (median) gets full-size
+# marks; closer, its marks shrink to the next of MARK_SCALES; below MARK_HIDE_SPACING_PX its
+# points are not marked at all (a join mark reaches 1.45 · MARK_SIZE = 7 px from its point:
+# two marks closer than about twice that overlap each other and the stroke between them).
+MARK_FULL_SPACING_PX = 60.0
+MARK_HIDE_SPACING_PX = 30.0
+MARK_SCALES = (1.0, 0.8, 0.6)
 
 FINDING_ERROR = QColor("#c3122f")  # crimson: redder and darker than the corner rust
 FINDING_WARNING = QColor("#a87400")  # ochre: darker and browner than the selection amber

@@ -41,15 +41,17 @@ from outlinebench.diagnostics.contour_checks import (
     OpenEnd,
     containment_pairs,
     crossing_findings,
+    duplicate_pairs,
     lines_may_meet,
     narrow_pairs,
     open_end_findings,
     overlapping_pairs,
+    same_closed_contour,
     wrong_direction_findings,
 )
 from outlinebench.diagnostics.finding_sequence import FindingSequence
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding
-from outlinebench.diagnostics.messages import CURVATURE_JUMP_USER
+from outlinebench.diagnostics.messages import CURVATURE_JUMP_USER, duplicate_message
 from outlinebench.diagnostics.segment_checks import (
     Limits,
     SegmentTable,
@@ -738,9 +740,54 @@ class Checker:
             bmin = np.minimum.reduceat(table.box[rows, :2], seg_start)
             bmax = np.maximum.reduceat(table.box[rows, 2:], seg_start)
             cgroup = np.array(c_group, dtype=np.intp)[cl]
-            inner, outer = containment_pairs(
-                probes, poly, pstart, plen, np.concatenate([bmin, bmax], axis=1), cgroup
-            )
+            boxes = np.concatenate([bmin, bmax], axis=1)
+            inner, outer = containment_pairs(probes, poly, pstart, plen, boxes, cgroup)
+            gi_cl = np.array([cs[c].global_index for c in cl], dtype=np.intp)
+            # containment is proven only where the two contours do not cross, and duplicates
+            # are neither holes nor crossings: they get their own finding
+            crossing = {
+                (min(f.contour, f.other_contour), max(f.contour, f.other_contour))
+                for oi in dirty_outlines
+                for _, _, f in kept[oi]
+                if f.other_contour is not None and f.other_contour != f.contour
+            }
+            dups = duplicate_pairs(poly, pstart, plen, boxes, areas, cgroup, limits.gap_search)
+            dup_keys = {(int(gi_cl[a]), int(gi_cl[b])) for a, b, _ in dups}
+            if dups:
+                outline_of_gi = {st.global_index: c_group[ci] for ci, st in enumerate(cs)}
+                for a, b, dist in dups:
+                    ga, gb = int(gi_cl[a]), int(gi_cl[b])
+                    if same_closed_contour(cs[cl[a]].contour.segments, cs[cl[b]].contour.segments):
+                        dist = 0.0
+                    direction[outline_of_gi[gb]].append(
+                        Finding(
+                            "duplicate-contour", ERROR, cs[cl[b]].outline, gb, None, None,
+                            float(probes[b, 0]), float(probes[b, 1]), dist, "user",
+                            duplicate_message(dist, ga), limit=limits.gap_search,
+                            other_contour=ga,
+                        )
+                    )  # fmt: skip
+                for oi in dirty_outlines:
+                    kept[oi] = [
+                        h
+                        for h in kept[oi]
+                        if h[2].other_contour is None
+                        or (
+                            min(h[2].contour, h[2].other_contour),
+                            max(h[2].contour, h[2].other_contour),
+                        )
+                        not in dup_keys
+                    ]
+            if inner.size and (crossing or dup_keys):
+                keep = np.array(
+                    [
+                        (min(x, y), max(x, y)) not in crossing
+                        and (min(x, y), max(x, y)) not in dup_keys
+                        for x, y in zip(gi_cl[inner].tolist(), gi_cl[outer].tolist(), strict=True)
+                    ],
+                    dtype=bool,
+                )
+                inner, outer = inner[keep], outer[keep]
             found = wrong_direction_findings(
                 inner, outer, areas, probes,
                 np.array([cs[c].outline for c in cl]), np.array([cs[c].global_index for c in cl]),

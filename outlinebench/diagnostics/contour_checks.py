@@ -25,6 +25,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+import shapely
 from numpy.typing import NDArray
 
 from outlinebench.diagnostics.continuity import (
@@ -353,6 +354,84 @@ def containment_pairs(
     hits = np.bincount(pair_of_edge, weights=crossing, minlength=inner.size)
     inside = (hits.astype(np.int64) % 2) == 1
     return inner[inside], outer[inside]
+
+
+# Two closed contours are near duplicates when every point of each lies within this share of
+# the contour's size (box diagonal) of the other, and within the gap-search distance: drawn
+# on one another, they are one line a cutter would cut twice (common practice, no source).
+DUPLICATE_SHARE = 0.01
+
+
+def duplicate_pairs(
+    polygons: FloatArray,
+    poly_start: NDArray[np.intp],
+    poly_len: NDArray[np.intp],
+    boxes: FloatArray,
+    areas: FloatArray,
+    group: NDArray[np.intp],
+    limit: float,
+) -> list[tuple[int, int, float]]:
+    """Pairs of closed contours of one outline that are exact or near duplicates.
+
+    Parameters
+    ----------
+    polygons, poly_start, poly_len, boxes, group
+        As :func:`containment_pairs`.
+    areas : ndarray, shape (C,)
+        Exact signed area of each contour.
+    limit : float
+        Largest distance considered (the gap-search distance, user units).
+
+    Returns
+    -------
+    list of (i, j, distance)
+        ``i < j``; ``distance`` is the Hausdorff distance between the two flattened contours
+        (shapely, densified to a tenth of the box diagonal share), 0 when the polygons are the
+        same point sets.
+
+    Notes
+    -----
+    Screened by boxes that agree within the threshold d = min(limit, DUPLICATE_SHARE · size)
+    and absolute areas that agree within d · perimeter (a band of width d around the
+    contour holds any contour within d of it); measured on the candidates only.
+    """
+    i, j = overlapping_pairs(boxes, group, 0.0)
+    out: list[tuple[int, int, float]] = []
+    if i.size == 0:
+        return out
+    size = np.hypot(boxes[:, 2] - boxes[:, 0], boxes[:, 3] - boxes[:, 1])
+    d = np.minimum(limit, DUPLICATE_SHARE * np.maximum(size[i], size[j]))
+    close = np.all(np.abs(boxes[i] - boxes[j]) <= d[:, None], axis=1)
+    for a, b, dd in zip(i[close].tolist(), j[close].tolist(), d[close].tolist(), strict=True):
+        pa = polygons[poly_start[a] : poly_start[a] + poly_len[a]]
+        pb = polygons[poly_start[b] : poly_start[b] + poly_len[b]]
+        perim = float(np.hypot(*np.diff(np.vstack([pa, pa[:1]]), axis=0).T).sum())
+        if abs(abs(float(areas[a])) - abs(float(areas[b]))) > dd * perim + 1e-12 * perim**2:
+            continue
+        la, lb = shapely.LinearRing(pa), shapely.LinearRing(pb)
+        dist = float(shapely.hausdorff_distance(la, lb, densify=0.1))
+        if dist <= dd:
+            out.append((min(a, b), max(a, b), dist))
+    return out
+
+
+def same_closed_contour(a: tuple, b: tuple) -> bool:
+    """Two closed contours draw exactly the same curve: the same segments, point for point,
+    from any starting segment and in either direction."""
+    n = len(a)
+    if n != len(b) or n == 0:
+        return False
+    kinds = [s.shape[0] for s in a]
+    for rev in (False, True):
+        bb = [s[::-1] for s in reversed(b)] if rev else list(b)
+        for shift in range(n):
+            if all(
+                kinds[k] == bb[(k + shift) % n].shape[0]
+                and np.array_equal(a[k], bb[(k + shift) % n])
+                for k in range(n)
+            ):
+                return True
+    return False
 
 
 def wrong_direction_findings(

@@ -7,10 +7,10 @@ measured (``value`` with its ``unit``). Checks return findings and never print; 
 
 Severities
 ----------
-error: gap, cusp, self-intersection, wrong-direction, and a kink or corner at a join the file
-marks smooth. warning: kink, curvature-jump between two curved pieces, open-contour,
-tiny-segment, degenerate-handle. info: corner, curvature-jump where a straight piece runs
-into a curve (both configurable in :class:`~outlinebench.diagnostics.CheckSettings`),
+error: gap, cusp, self-intersection, wrong-direction, duplicate-contour, and a kink or corner
+at a join the file marks smooth. warning: kink, curvature-jump between two curved pieces,
+open-contour, tiny-segment, degenerate-handle. info: corner, curvature-jump where a straight
+piece runs into a curve (both configurable in :class:`~outlinebench.diagnostics.CheckSettings`),
 missing-extremum, and an open contour whose ends all meet other ends. ``check`` exits with 1
 when anything of warning level or worse is found.
 
@@ -61,6 +61,7 @@ CHECK_KINDS: tuple[str, ...] = (
     "degenerate-handle",
     "missing-extremum",
     "wrong-direction",
+    "duplicate-contour",
 )
 # Kinds only the offset (tool radius compensation) reports: the tool cannot follow a concave
 # feature tighter than its radius; a part of the outline disappears at this offset; a fitted

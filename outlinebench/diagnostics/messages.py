@@ -18,6 +18,7 @@ __all__ = [
     "degenerate_handle_message",
     "missing_extremum_message",
     "curvature_jump_message",
+    "duplicate_message",
     "CURVATURE_JUMP_USER",
     "message_in_unit",
 ]
@@ -89,6 +90,15 @@ def curvature_jump_message(
     )
 
 
+def duplicate_message(distance: float, other: int, unit: str = _USER) -> str:
+    """``duplicate-contour``: a closed contour lying on another of its outline."""
+    if distance == 0.0:
+        how = "an exact duplicate of"
+    else:
+        how = f"a near duplicate of (at most {_length(distance, unit)} from)"
+    return f"contour is {how} contour {other}; a cutter would cut the line twice: remove one"
+
+
 def message_in_unit(f: Finding, unit: str) -> str:
     """The message of ``f`` written again from its fields, which are in ``unit``.
 
@@ -113,6 +123,8 @@ def message_in_unit(f: Finding, unit: str) -> str:
         return gap_message(f.value, other, unit)
     if kind == "open-contour" and f.severity == WARNING and f.value is not None:
         return open_contour_message(f.value, unit)
+    if kind == "duplicate-contour" and f.value is not None and f.other_contour is not None:
+        return duplicate_message(f.value, f.other_contour, unit)
     if kind == "tiny-segment" and f.value is not None and f.limit is not None:
         return tiny_segment_message(f.value, f.limit, unit)
     if kind == "degenerate-handle" and f.value is not None:

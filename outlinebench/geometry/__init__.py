@@ -39,6 +39,17 @@ from outlinebench.geometry.bezier import (
     subsegment,
     to_cubic,
 )
+from outlinebench.geometry.boolean import (
+    BOOLEAN_OPERATIONS,
+    DEFAULT_BOOLEAN_TOLERANCE,
+    FILL_RULES,
+    BooleanResult,
+    RegionContour,
+    SegmentSource,
+    boolean_op,
+    remove_overlaps,
+    winding_numbers,
+)
 from outlinebench.geometry.curvature import (
     curvature,
     cusps,
@@ -49,7 +60,14 @@ from outlinebench.geometry.curvature import (
     unit_tangent,
 )
 from outlinebench.geometry.extrema import bounding_box, extrema_params
-from outlinebench.geometry.fit import fit_chain, fit_cubic, max_deviation
+from outlinebench.geometry.fit import (
+    fit_chain,
+    fit_cubic,
+    fit_polyline,
+    fit_polyline_schneider,
+    max_deviation,
+    polyline_corners,
+)
 from outlinebench.geometry.flatten import (
     DEFAULT_FLATTEN_TOLERANCE,
     Deviation,
@@ -61,16 +79,25 @@ from outlinebench.geometry.flatten import (
     optimal_chord_count,
     polyline_deviation,
 )
+from outlinebench.geometry.hausdorff import HausdorffBound, hausdorff_bound, polyline_hausdorff
 from outlinebench.geometry.intersect import intersections, line_intersection, self_intersections
 from outlinebench.geometry.nearest import distance_to, nearest_point
 from outlinebench.geometry.offset import (
     DEFAULT_OFFSET_TOLERANCE,
     OffsetContour,
+    OffsetOverlap,
     OffsetProblem,
     OffsetResult,
+    RegionFinding,
+    RegionOffset,
+    ToolpathViolation,
     hole_flags,
+    merge_offsets,
     offset_contour,
     offset_contours,
+    offset_overlaps,
+    offset_region,
+    verify_toolpaths,
 )
 from outlinebench.geometry.quadrature import gauss_legendre
 
@@ -131,4 +158,27 @@ __all__ = [
     "offset_contour",
     "offset_contours",
     "hole_flags",
+    "fit_polyline",
+    "fit_polyline_schneider",
+    "polyline_corners",
+    "HausdorffBound",
+    "hausdorff_bound",
+    "polyline_hausdorff",
+    "BOOLEAN_OPERATIONS",
+    "DEFAULT_BOOLEAN_TOLERANCE",
+    "FILL_RULES",
+    "BooleanResult",
+    "RegionContour",
+    "SegmentSource",
+    "boolean_op",
+    "remove_overlaps",
+    "winding_numbers",
+    "OffsetOverlap",
+    "RegionFinding",
+    "RegionOffset",
+    "ToolpathViolation",
+    "merge_offsets",
+    "offset_overlaps",
+    "offset_region",
+    "verify_toolpaths",
 ]

@@ -56,12 +56,23 @@ def normalized(pts: FloatArray) -> tuple[FloatArray, FloatArray]:
 
     Returns ``(q, scale)`` with ``q = (P − P0) / scale``; a segment whose points all coincide
     keeps ``scale = 0`` and gets ``q = 0``. Working on ``q`` keeps squared and cubed lengths
-    inside float64's range for coordinates from 1e-150 to 1e150 (curvature, tangents).
+    inside float64's range for coordinates from 1e-150 to 1e150 (curvature, tangents). A
+    span beyond the largest double (about 1.8e308) gives ``scale = inf`` and still finite
+    ``q`` (computed from halved points).
     """
-    scale = segment_scale(pts)
-    safe = np.where(scale > 0.0, scale, 1.0)
-    q = (pts - pts[:, :1, :]) / safe[:, None, None]
-    return q, scale
+    with np.errstate(over="ignore", invalid="ignore"):
+        scale = segment_scale(pts)
+    if np.all(np.isfinite(scale)):
+        safe = np.where(scale > 0.0, scale, 1.0)
+        q = (pts - pts[:, :1, :]) / safe[:, None, None]
+        return q, scale
+    # Spans beyond the largest double (points near ±1.8e308): the same quotient from halved
+    # points, (P/2 − P0/2) / (scale/2), in which no difference overflows; halving is exact.
+    half = np.max(np.ptp(pts * 0.5, axis=-2), axis=-1)
+    safe = np.where(half > 0.0, half, 1.0)
+    q = (pts * 0.5 - pts[:, :1, :] * 0.5) / safe[:, None, None]
+    with np.errstate(over="ignore"):
+        return q, half * 2.0
 
 
 def cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:

@@ -22,6 +22,8 @@ from outlinebench.errors import InvalidGeometryError
 __all__ = ["signed_area", "segment_area_terms", "green_matrix"]
 
 FloatArray = NDArray[np.float64]
+# Coordinates beyond 2^±_EXTREME_EXP are summed at a power-of-two scale (see signed_area).
+_EXTREME_EXP = 400
 
 
 @lru_cache(maxsize=8)
@@ -99,7 +101,10 @@ def signed_area(segments: Sequence[ArrayLike]) -> float:
     A = ½ ∮ (x dy − y dx) (Green's theorem), summed segment by segment with the exact
     Bernstein formula of :func:`segment_area_terms`. All points are first moved so the
     contour's first point is the origin: the sum is unchanged for a closed contour, and far
-    from the origin (coordinates ~1e9) no large products cancel.
+    from the origin (coordinates ~1e9) no large products cancel. Coordinates beyond 2^±400
+    are scaled by a power of two first (exact), so products neither overflow nor underflow;
+    the result is ±inf only when the area itself passes the largest double (a contour some
+    1e154 across), never NaN.
 
     Examples
     --------
@@ -121,10 +126,25 @@ def signed_area(segments: Sequence[ArrayLike]) -> float:
     if not segs:
         return 0.0
     origin = segs[0][0].copy()
+    with np.errstate(over="ignore", invalid="ignore"):
+        shifted = [arr - origin for arr in segs]
+    exp2 = 0  # the area is total · 2^exp2
+    if not all(np.all(np.isfinite(a)) for a in shifted):
+        # a span beyond the largest double: halved points (exact), area × 4
+        shifted = [arr * 0.5 - origin * 0.5 for arr in segs]
+        exp2 = 2
+    big = max(float(np.max(np.abs(a))) for a in shifted)
+    e = int(np.frexp(big)[1]) if big > 0.0 else 0
+    if abs(e) > _EXTREME_EXP:
+        # near the ends of binary64 the products x·y over- or underflow: work at a
+        # power-of-two scale (exact) and scale the area back by its square
+        shifted = [np.ldexp(a, -e) for a in shifted]
+        exp2 += 2 * e
     total = 0.0
-    for arr in segs:
-        total += segment_area_terms(arr - origin)
-    end, start = segs[-1][-1] - origin, segs[0][0] - origin
+    for arr in shifted:
+        total += segment_area_terms(arr)
+    end, start = shifted[-1][-1], shifted[0][0]
     if np.any(end != start):
         total += 0.5 * (end[0] * start[1] - end[1] * start[0])
-    return float(total)
+    with np.errstate(over="ignore", under="ignore"):
+        return float(np.ldexp(total, exp2)) if exp2 else float(total)

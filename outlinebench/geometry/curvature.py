@@ -124,7 +124,8 @@ def curvature(points: ArrayLike, t: ArrayLike) -> FloatArray | float:
     κ(0) = ((n − 1)/n) · (P1 − P0) × (P2 − P1) / |P1 − P0|³ (Farin §11.2), and symmetrically
     at t = 1. The points are first moved to the origin and scaled to unit size, so the cube of
     the speed neither overflows nor underflows for coordinates between about 1e-150 and 1e150;
-    κ scales as 1/size.
+    κ scales as 1/size, so a segment smaller than about 1e-308 (subnormal coordinates) has a
+    curvature beyond the largest double and gets ±inf.
 
     Examples
     --------
@@ -137,7 +138,9 @@ def curvature(points: ArrayLike, t: ArrayLike) -> FloatArray | float:
     tt, scalar_t = as_params(t)
     q, scale = normalized(pts)
     kappa = _curvature_normalized(q, tt)
-    with np.errstate(divide="ignore", invalid="ignore"):
+    # |κ| scales as 1/size: for segments below ~1e-308 it passes the largest double and is
+    # ±inf, the same value as at a cusp (documented; not a warning).
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         kappa = np.where(
             scale[:, None] > 0.0, kappa / np.where(scale > 0.0, scale, 1.0)[:, None], 0.0
         )

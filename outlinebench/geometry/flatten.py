@@ -44,6 +44,7 @@ from outlinebench.geometry.bezier import as_control_points, split_many, to_cubic
 __all__ = [
     "DEFAULT_FLATTEN_TOLERANCE",
     "DEVIATION_ACCURACY",
+    "MAX_CHORDS",
     "flatten_contour",
     "flatten_contours",
     "flatten_contours_bounded",
@@ -91,6 +92,14 @@ _COUNT_MARGIN = 0.0
 
 # Weight of uniform-in-t steps against the old density's shape inside a measured chord.
 _SHAPE_BLEND = 0.5
+
+# Most chords one flattening call may make (all contours together). A tolerance so small
+# that the chords would pass this is refused before any chord is placed, with an error that
+# names the tolerance, the estimated count and the smallest tolerance that fits. Measured:
+# a radius-10 circle at ε = 1e-10 gives 869,793 chords in 2.6 s and 330 MB above the start
+# (about 380 bytes and 3 µs per chord), so the cap keeps one call under about 400 MB and a
+# few seconds; a cut file of a million chords is already some 30 MB of text.
+MAX_CHORDS = 1_000_000
 
 
 # --------------------------------------------------------------------------------------------
@@ -374,11 +383,28 @@ def _check_tolerance(tolerance: float) -> None:
         raise InvalidGeometryError(f"the flattening tolerance must be > 0, got {tolerance!r}")
 
 
+def _check_chord_count(estimate: float, tolerance: float, how: str) -> None:
+    """Refuse a flattening whose chord count would pass :data:`MAX_CHORDS`.
+
+    The count falls as 1/sqrt(ε) (both N* and Wang's count do), so ε·(estimate /
+    MAX_CHORDS)² would just reach the cap; the suggested tolerance is twice that, leaving
+    room (a factor √2 in chords) for the splits of the verification, which add up to about
+    30 % on a circle.
+    """
+    if not estimate <= MAX_CHORDS:
+        fits = 2.0 * tolerance * (estimate / MAX_CHORDS) ** 2 if np.isfinite(estimate) else np.inf
+        raise InvalidGeometryError(
+            f"flattening with tolerance {tolerance:g} needs about {estimate:,.0f} chords "
+            f"({how}), over the cap of {MAX_CHORDS:,} chords per flattening; use a tolerance "
+            f"of at least {fits:.3g}"
+        )
+
+
 # --------------------------------------------------------------------------------------------
 # the flatteners
 # --------------------------------------------------------------------------------------------
 def _flatten_params(
-    cubics: FloatArray, tolerance: float
+    cubics: FloatArray, tolerance: float, exp: int = 0
 ) -> tuple[np.ndarray, FloatArray, FloatArray]:
     """Chord start parameters of every segment: (seg, t, bound) sorted by segment then t.
 
@@ -394,11 +420,19 @@ def _flatten_params(
     accept = tolerance - _ROUNDING_MARGIN * max(scale, 1.0)
     if accept <= 0.0:
         raise InvalidGeometryError(
-            f"tolerance {tolerance!r} is below the floating-point resolution of coordinates "
-            f"of size {scale:g}"
+            f"tolerance {float(np.ldexp(tolerance, exp))!r} is below the floating-point "
+            f"resolution of coordinates of size {float(np.ldexp(scale, exp)):g}"
         )
-    tg, cum = _density(cubics)
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        tg, cum = _density(cubics)
     cum = cum / np.sqrt(8.0 * tolerance)  # now in chords: cum[:, -1] is N* per segment
+    if not np.all(np.isfinite(cum[:, -1])):
+        raise InvalidGeometryError(
+            f"coordinates of size {float(np.ldexp(scale, exp)):g} are too large to flatten "
+            "(their curvature integral overflows binary64)"
+        )
+    shown = float(np.ldexp(tolerance, exp))  # the caller's tolerance, for messages
+    _check_chord_count(float(np.sum(np.ceil(cum[:, -1]))), shown, "the sagitta estimate")
     done_seg: list[np.ndarray] = []
     done_t: list[FloatArray] = []
     done_b: list[FloatArray] = []
@@ -488,11 +522,14 @@ def _flatten_params(
         b2a = np.hypot(*(dd[s] + (dd1[s] - dd[s]) * ta[:, None]).T)
         b2b = np.hypot(*(dd[s] + (dd1[s] - dd[s]) * tb[:, None]).T)
         bmax = np.maximum(b2a, b2b)
-        n_wang = np.maximum(2, np.ceil((tb - ta) * np.sqrt(bmax / (8.0 * accept)))).astype(np.intp)
+        n_wang = np.maximum(2.0, np.ceil((tb - ta) * np.sqrt(bmax / (8.0 * accept))))
         # deviation shrinks with the square of the chord length
-        n_dev = np.maximum(2, np.ceil(np.sqrt(dev / accept))).astype(np.intp)
+        n_dev = np.maximum(2.0, np.ceil(np.sqrt(dev / accept)))
         use_wang = (n_wang <= n_dev) | (rnd == _MAX_ROUNDS)
-        cnt = np.where(use_wang, n_wang, n_dev)
+        cnt_f = np.where(use_wang, n_wang, n_dev)
+        placed = sum(len(x) for x in done_seg)
+        _check_chord_count(float(placed + cnt_f.sum()), shown, "after verification")
+        cnt = cnt_f.astype(np.intp)
         rs = np.repeat(np.arange(len(s)), cnt)
         kk = np.arange(len(rs)) - np.repeat(np.cumsum(cnt) - cnt, cnt)
         frac = kk / cnt[rs]
@@ -533,10 +570,21 @@ def _assemble(
     t: FloatArray,
     seg_counts: Sequence[int],
     closed: Sequence[bool],
+    exp: int = 0,
+    exact: FloatArray | None = None,
 ) -> list[FloatArray]:
-    """Polylines per contour from chord start parameters (closed: first vertex not repeated)."""
+    """Polylines per contour from chord start parameters (closed: first vertex not repeated).
+
+    With ``exp``, ``cubics`` were scaled by 2^-exp (see :func:`_unit_scale`): vertices are
+    scaled back and the end points taken from ``exact``, the pieces at their own scale.
+    """
     coef = _power_coefficients(cubics) if len(cubics) else np.zeros((0, 4, 2))
     pts = _vertices(cubics, coef, seg, t) if len(seg) else np.zeros((0, 2))
+    if exp:
+        pts = np.ldexp(pts, exp)
+        cubics = exact if exact is not None else np.ldexp(cubics, exp)
+        at0 = t == 0.0
+        pts[at0] = cubics[seg[at0], 0]
     per_seg = np.bincount(seg, minlength=len(cubics)) if len(seg) else np.zeros(0, np.intp)
     seg_end = np.cumsum(per_seg)
     out = []
@@ -660,8 +708,10 @@ def flatten_contours(
     Raises
     ------
     InvalidGeometryError
-        Bad control points, or a tolerance that is not > 0 or is below the floating-point
-        resolution of the coordinates.
+        Bad control points, a tolerance that is not > 0 or is below the floating-point
+        resolution of the coordinates, or one so small that the chords would pass
+        :data:`MAX_CHORDS` (1,000,000 per call; the message names the tolerance, the
+        estimated count and the smallest tolerance that fits).
 
     Notes
     -----
@@ -729,12 +779,30 @@ def flatten_contours_bounded(
     """
     _check_tolerance(tolerance)
     cubics, counts, closed = _contours_input(contours)
-    pieces, parent = _split_at_sharp_turns(cubics, float(tolerance))
+    exp = _unit_scale(cubics)
+    tol = float(tolerance)
+    work = cubics
+    if exp:
+        # Coordinates near the ends of binary64 (beyond 2^±400): flatten the same curves
+        # scaled by a power of two, which is exact, so no power-basis coefficient or squared
+        # speed overflows or underflows; the tolerance scales with them.
+        work = np.ldexp(cubics, -exp)
+        with np.errstate(over="ignore", under="ignore"):
+            # a tolerance beyond 2^100 times the scaled curve (at most 1 across) changes
+            # nothing: one chord per segment either way
+            tol = min(float(np.ldexp(tol, -exp)), 2.0**100)
+        if not tol > 0.0:
+            raise InvalidGeometryError(
+                f"tolerance {tolerance!r} is below the floating-point resolution of "
+                f"coordinates of size {float(np.max(np.abs(cubics))):g}"
+            )
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        pieces, parent = _split_at_sharp_turns(work, tol)
     if len(pieces) != len(cubics):
         per_parent = np.bincount(parent, minlength=len(cubics))
         edges = np.cumsum([0, *counts])
         counts = [int(per_parent[a:b].sum()) for a, b in zip(edges[:-1], edges[1:], strict=True)]
-    seg, t, bound = _flatten_params(pieces, float(tolerance))
+    seg, t, bound = _flatten_params(pieces, tol, exp)
     per_piece = np.zeros(len(pieces))
     if len(seg):
         np.maximum.at(per_piece, seg, bound)
@@ -742,7 +810,35 @@ def flatten_contours_bounded(
     per_contour = np.array(
         [per_piece[a:b].max() if b > a else 0.0 for a, b in zip(edges[:-1], edges[1:], strict=True)]
     )
-    return _assemble(pieces, seg, t, counts, closed), per_contour
+    if not exp:
+        return _assemble(pieces, seg, t, counts, closed), per_contour
+    exact = np.ldexp(pieces, exp)
+    first = np.ones(len(parent), dtype=bool)
+    first[1:] = parent[1:] != parent[:-1]
+    last = np.ones(len(parent), dtype=bool)
+    last[:-1] = parent[1:] != parent[:-1]
+    exact[first, 0] = cubics[parent[first], 0]  # segment ends bit for bit, as promised
+    exact[last, 3] = cubics[parent[last], 3]
+    polys = _assemble(pieces, seg, t, counts, closed, exp, exact)
+    return polys, np.ldexp(per_contour, exp)
+
+
+# Coordinates beyond 2^±_EXTREME_EXP are flattened at a power-of-two scale (exact): with
+# |coordinates| ≤ 2^400 ≈ 2.6e120, cubes of speeds and squared second derivatives stay far
+# from overflow, and above 2^-400 from underflow.
+_EXTREME_EXP = 400
+
+
+def _unit_scale(cubics: FloatArray) -> int:
+    """0, or the exponent e with max |coordinate| in [2^(e−1), 2^e) when that lies outside
+    2^±_EXTREME_EXP."""
+    if not len(cubics):
+        return 0
+    big = float(np.max(np.abs(cubics)))
+    if big == 0.0:
+        return 0
+    e = int(np.frexp(big)[1])
+    return e if abs(e) > _EXTREME_EXP else 0
 
 
 def flatten_contour(
@@ -796,7 +892,9 @@ def flatten_uniform_wang(
         return [np.zeros((0, 2)) for _ in counts]
     sd = cubics[:, 2:] - 2.0 * cubics[:, 1:-1] + cubics[:, :-2]
     lmax = np.max(np.hypot(sd[..., 0], sd[..., 1]), axis=1)
-    n = np.maximum(1, np.ceil(np.sqrt(6.0 * lmax / (8.0 * tolerance)))).astype(np.intp)
+    nf = np.maximum(1.0, np.ceil(np.sqrt(6.0 * lmax / (8.0 * tolerance))))
+    _check_chord_count(float(nf.sum()), tolerance, "Wang's count")
+    n = nf.astype(np.intp)
     seg = np.repeat(np.arange(len(cubics)), n)
     k = np.arange(len(seg)) - np.repeat(np.cumsum(n) - n, n)
     t = k / n[seg]

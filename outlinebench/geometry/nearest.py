@@ -54,14 +54,18 @@ def _nearest_many(pts: FloatArray, qs: FloatArray) -> tuple[FloatArray, FloatArr
     elif pts.shape[0] == 2:
         # A line: the projection of each query point, clipped (closed form); inside the
         # segment the distance is |(p − P0) × d| / |d|, exact 0 for a point on the line.
+        # Both vectors scaled by the same power of two (exact) so that d·d and the cross
+        # product neither overflow nor underflow at coordinates near the ends of binary64.
         d = pts[1] - pts[0]
         rel = qs - pts[0]
+        k = int(np.frexp(float(np.max(np.abs(d))))[1])
+        d, rel = np.ldexp(d, -k), np.ldexp(rel, -k)
         t = np.clip(rel @ d / float(d @ d), 0.0, 1.0)
         on = evaluate(pts, t)
         dist = np.hypot(on[:, 0] - qs[:, 0], on[:, 1] - qs[:, 1])
         inside = (t > 0.0) & (t < 1.0)
         perp = np.abs(rel[:, 0] * d[1] - rel[:, 1] * d[0]) / float(np.hypot(d[0], d[1]))
-        dist = np.where(inside, perp, dist)
+        dist = np.where(inside, np.ldexp(perp, k), dist)
         return t, dist, on
     else:
         q = (pts - pts[0]) / scale  # unit size, starting at the origin

@@ -41,6 +41,14 @@ __all__ = [
     "offset_contour",
     "offset_contours",
     "hole_flags",
+    "RegionFinding",
+    "RegionOffset",
+    "ToolpathViolation",
+    "OffsetOverlap",
+    "offset_region",
+    "verify_toolpaths",
+    "offset_overlaps",
+    "merge_offsets",
 ]
 
 FloatArray = NDArray[np.float64]
@@ -1114,3 +1122,654 @@ def hole_flags(contours: Sequence, tolerance: float = DEFAULT_OFFSET_TOLERANCE) 
         )
         flags.append(inside % 2 == 1)
     return flags
+
+
+# --------------------------------------------------------------------------------------------
+# offsets of whole regions
+# --------------------------------------------------------------------------------------------
+@dataclass(frozen=True, slots=True)
+class RegionFinding:
+    """Something found while offsetting a region, placed on the input outline.
+
+    Attributes
+    ----------
+    kind : str
+        ``"vanishes"`` — the material (shrinking) or the gap (growing) is narrower than the
+        tool diameter there, so part of the toolpath vanishes or two toolpaths merge; ``value``
+        is the width measured across it. ``"tool-does-not-fit"`` — the tool rounds an inside
+        corner or a bend of smaller radius than |d|: one summary per region (``count``
+        places, ``value`` the smallest radius), plus one finding per bend (radius > 0)
+        where the material the tool cannot reach is deeper than the tolerance (``depth``).
+        ``"offset-inaccurate"`` and ``"self-intersection"`` — as :class:`OffsetProblem`;
+        ``"offset-failed"`` — a contour's offset did not close, so no toolpath was made
+        from it (never silent: :func:`verify_toolpaths` also refuses the result).
+    contour, segment, t : int, int, float or None
+        Place on the input (contour and segment indices of the ``contours`` given; None
+        where the place is not on one input segment, such as a closing line).
+    x, y : float
+        Position (user units).
+    value : float or None
+        Width (vanishes), radius (tool-does-not-fit), error (offset-inaccurate).
+    count : int
+        Places summarised by this finding (1 for a single place).
+    depth : float or None
+        For tool-does-not-fit: distance from the outline to the toolpath less |d| — how
+        far the tool stays from the drawn outline there.
+    message : str
+        One sentence for people.
+    """
+
+    kind: str
+    contour: int | None
+    segment: int | None
+    t: float | None
+    x: float
+    y: float
+    value: float | None
+    message: str
+    count: int = 1
+    depth: float | None = None
+
+
+@dataclass(frozen=True, eq=False)
+class RegionOffset:
+    """Toolpaths of a region offset, findings and per-stage times.
+
+    Attributes
+    ----------
+    contours : list of OffsetContour
+        Closed toolpaths that never cross one another: outer ones counter-clockwise in y-up
+        axes, holes clockwise; fitted cubics and polylines within the tolerance.
+    findings : list of RegionFinding
+    region : BooleanResult
+        The input region without overlaps (the contours the offset started from).
+    times : dict of str to float
+        Seconds per stage: ``region`` (overlap removal), ``offset`` (per-contour fitting and
+        trimming), ``combine`` (the positive-winding union of the offsets), ``flatten``,
+        ``findings``.
+    """
+
+    contours: list[OffsetContour]
+    findings: list[RegionFinding]
+    region: object
+    times: dict[str, float]
+
+
+@dataclass(frozen=True, slots=True)
+class ToolpathViolation:
+    """A reason a set of toolpaths must not be written.
+
+    ``kind`` is ``"toolpath-crosses-itself"``, ``"toolpaths-cross"``, ``"wrong-distance"``
+    (``value`` the distance from the region's boundary, which should be |d| ± ε),
+    ``"wrong-side"`` or ``"toolpath-missing"`` (``value`` the area where the toolpaths and an
+    independent buffer of the region disagree).
+    """
+
+    kind: str
+    x: float
+    y: float
+    value: float | None
+    message: str
+
+
+@dataclass(frozen=True, slots=True)
+class OffsetOverlap:
+    """Offsets of two separate outlines that overlap (neighbouring letters grown into each
+    other): outline indices ``first`` < ``second`` as given, a point inside the overlap and
+    its area."""
+
+    first: int
+    second: int
+    x: float
+    y: float
+    area: float
+    message: str
+
+
+def _boolean_tolerance(tolerance: float) -> float:
+    return min(1e-4, tolerance * 1e-2)
+
+
+def _map_place(region, ci: int, seg: int | None, t: float | None):
+    """(contour, segment, t) on the input for a place on region contour ``ci``."""
+    if seg is None:
+        return None, None, None
+    src = region.contours[ci].sources[seg]
+    if src.segment < 0:
+        return src.contour, None, None
+    tt = None if t is None else src.t0 + float(t) * (src.t1 - src.t0)
+    return src.contour, src.segment, tt
+
+
+def _width_at(p: FloatArray, boundary, inward: FloatArray, reach: float) -> float | None:
+    """Distance from p on the boundary along ``inward`` to the next boundary crossing."""
+    import shapely
+
+    ray = shapely.LineString([p + inward * reach * 1e-6, p + inward * reach])
+    hit = shapely.intersection(ray, boundary)
+    if hit.is_empty:
+        return None
+    pts = shapely.get_coordinates(hit)
+    return float(np.min(np.hypot(*(pts - p).T)))
+
+
+def offset_region(
+    contours: Sequence,
+    distance: float,
+    *,
+    fill_rule: str = "nonzero",
+    tolerance: float = DEFAULT_OFFSET_TOLERANCE,
+) -> RegionOffset:
+    """Offset the filled region of one outline (outer contours and holes together).
+
+    Parameters
+    ----------
+    contours : sequence
+        The outline's contours: objects with ``segments`` and ``closed`` or pairs
+        ``(segments, closed)`` (open ones are filled as if closed, W3C SVG 1.1 §11.3).
+    distance : float
+        d: the region grows by d > 0 (outer contours move out, holes in) and shrinks for
+        d < 0; |d| is the tool radius.
+    fill_rule : {"nonzero", "evenodd"}
+        The outline's fill rule, which says which contours are holes.
+    tolerance : float
+        ε: every toolpath point is within ε of the exact offset of the region.
+
+    Returns
+    -------
+    RegionOffset
+        Toolpaths that never cross one another, findings placed on the input, per-stage
+        times.
+
+    Raises
+    ------
+    InvalidGeometryError
+        Bad control points, a non-finite distance, a tolerance not > 0, an unknown fill rule.
+
+    Notes
+    -----
+    The offset of a region R by a disc of radius r is R ⊕ B_r (d > 0) or R ⊖ B_r (d < 0)
+    (Minkowski sum and difference; J. Serra, *Image Analysis and Mathematical Morphology*,
+    1982, ch. II). Its boundary lies on the offsets of R's boundary, so:
+
+    1. R is rewritten without overlaps (:func:`~outlinebench.geometry.boolean.remove_overlaps`):
+       outer contours counter-clockwise, holes clockwise, winding 1 inside.
+    2. Each contour is offset on its own (:func:`offset_contour`) to its right, away from R
+       for d > 0 (outer contours out, holes in) and into R for d < 0.
+    3. Where offsets of different contours meet, their pieces are merged or cut by the
+       boolean engine: the result is where the offsets' winding numbers sum to > 0 (each
+       offset keeps its contour's orientation; a hole grown past the shrunk outer contour
+       has winding −1 there, and overlapping grown outer contours add up).
+    4. Findings: where offsets of two contours met, the material (d < 0) or gap (d > 0)
+       between them is narrower than 2|d|: ``vanishes`` at the narrowest place between the
+       two contours, with that width; a contour whose offset vanishes or splits is reported
+       with the width across the region along the inward normal there. Inside corners and
+       tight bends (``tool-does-not-fit`` of :func:`offset_contour`) form one summary with
+       the count and smallest radius; a bend (radius > 0) is also reported on its own where
+       its depth — distance from the outline to the toolpaths minus |d| — exceeds ε.
+    """
+    import time
+
+    import shapely
+
+    from outlinebench.geometry.boolean import remove_overlaps
+
+    if not math.isfinite(distance):
+        raise InvalidGeometryError(f"the offset distance must be a finite number, got {distance}")
+    if not (math.isfinite(tolerance) and tolerance > 0):
+        raise InvalidGeometryError(f"the offset tolerance must be > 0, got {tolerance!r}")
+    if fill_rule not in ("nonzero", "evenodd"):
+        raise InvalidGeometryError(
+            f"unknown fill rule {fill_rule!r}; expected one of nonzero, evenodd"
+        )
+    times: dict[str, float] = {}
+    btol = _boolean_tolerance(tolerance)
+    t0 = time.perf_counter()
+    region = remove_overlaps(contours, fill_rule=fill_rule, tolerance=btol)
+    times["region"] = time.perf_counter() - t0
+    r = abs(distance)
+    findings: list[RegionFinding] = []
+    if distance == 0 or not region.contours:
+        t0 = time.perf_counter()
+        out = [
+            OffsetContour(
+                list(c.segments), True, flatten_contours([(list(c.segments), True)], tolerance)[0]
+            )
+            for c in region.contours
+        ]
+        times["flatten"] = time.perf_counter() - t0
+        return RegionOffset(out, [], region, times)
+
+    # 2. each contour to its right (away from the region for d > 0)
+    t0 = time.perf_counter()
+    per: list[OffsetResult] = []
+    for c in region.contours:
+        d_here = distance if c.area > 0 else -distance
+        per.append(offset_contour(list(c.segments), True, d_here, tolerance))
+    times["offset"] = time.perf_counter() - t0
+
+    # 3. combine where offsets of different contours meet
+    t0 = time.perf_counter()
+    rings = [
+        (ci, oc)
+        for ci, res in enumerate(per)
+        for oc in res.contours
+        if oc.closed and len(oc.polyline) > 2
+    ]
+    lines = [shapely.LinearRing(oc.polyline) for _, oc in rings]
+    ia, ib = (
+        shapely.STRtree(lines).query(lines, predicate="intersects")
+        if lines
+        else (np.empty(0, dtype=int), np.empty(0, dtype=int))
+    )
+    meet = [(int(a), int(b)) for a, b in zip(ia, ib, strict=True) if a < b]
+    if not meet and rings:
+        # no crossings: the offsets already bound the result if every counter-clockwise
+        # ring lies where the others wind 0 and every clockwise one where they wind 1
+        # (a grown dot swallowed by a neighbour's offset, or a hole's offset outside the
+        # shrunk outer contour, are not)
+        areas = np.array([signed_area(oc.segments) for _, oc in rings])
+        shapes = [shapely.Polygon(oc.polyline) for _, oc in rings]
+        firsts = shapely.points(np.array([oc.polyline[0] for _, oc in rings]))
+        pi, si = shapely.STRtree(shapes).query(firsts, predicate="within")
+        wind = np.zeros(len(rings))
+        for a, b in zip(pi.tolist(), si.tolist(), strict=True):
+            if a != b:
+                wind[a] += 1.0 if areas[b] > 0 else -1.0
+        consistent = bool(np.all(np.where(areas > 0, wind == 0, wind == 1)))
+    else:
+        consistent = not rings
+    if not consistent:
+        combined = remove_overlaps(
+            [(oc.segments, True) for _, oc in rings], fill_rule="positive", tolerance=btol
+        )
+        paths = [list(c.segments) for c in combined.contours]
+        used = {src.contour for c in combined.contours for src in c.sources}
+        dropped = [k for k in range(len(rings)) if k not in used]
+    else:
+        dropped = []
+        paths = [oc.segments for _, oc in rings]
+    times["combine"] = time.perf_counter() - t0
+    t0 = time.perf_counter()
+    polys = flatten_contours([(p, True) for p in paths], 0.5 * tolerance) if paths else []
+    out = [OffsetContour(p, True, poly) for p, poly in zip(paths, polys, strict=True)]
+    times["flatten"] = time.perf_counter() - t0
+
+    # 4. findings
+    t0 = time.perf_counter()
+    orig_polys = flatten_contours(
+        [(list(c.segments), True) for c in region.contours], tolerance / 4
+    )
+    orig_rings = [shapely.LinearRing(p) for p in orig_polys]
+    boundary = shapely.MultiLineString([np.vstack([p, p[:1]]) for p in orig_polys])
+    seen_pairs: set[tuple[int, int]] = set()
+    # an offset ring swallowed whole by another (no crossing): the material (or gap)
+    # between its contour and the nearest other contour is narrower than the tool
+    for k in dropped:
+        ck = rings[k][0]
+        others = [rings[j][0] for j in range(len(rings)) if rings[j][0] != ck]
+        if others:
+            dist = [orig_rings[ck].distance(orig_rings[j]) for j in others]
+            meet.append(
+                (
+                    k,
+                    next(
+                        j for j in range(len(rings)) if rings[j][0] == others[int(np.argmin(dist))]
+                    ),
+                )
+            )
+    for a, b in meet:
+        ca, cb = rings[a][0], rings[b][0]
+        if ca == cb or (min(ca, cb), max(ca, cb)) in seen_pairs:
+            continue
+        seen_pairs.add((min(ca, cb), max(ca, cb)))
+        line = shapely.shortest_line(orig_rings[ca], orig_rings[cb])
+        (x0, y0), (x1, y1) = shapely.get_coordinates(line)
+        width = float(math.hypot(x1 - x0, y1 - y0))
+        what = "material" if distance < 0 else "gap"
+        src_a = region.contours[ca].sources[0].contour
+        src_b = region.contours[cb].sources[0].contour
+        findings.append(
+            RegionFinding(
+                "vanishes",
+                src_a,
+                None,
+                None,
+                0.5 * (x0 + x1),
+                0.5 * (y0 + y1),
+                width,
+                f"the {what} between contours {src_a} and {src_b} is {width:.4g} wide, "
+                f"narrower than the tool ({2 * r:.4g}): the toolpath vanishes there",
+            )
+        )
+    fits: list[RegionFinding] = []
+    all_paths = (
+        shapely.MultiLineString([np.vstack([o.polyline, o.polyline[:1]]) for o in out])
+        if out
+        else None
+    )
+    for ci, res in enumerate(per):
+        c = region.contours[ci]
+        for oc in res.contours:
+            if not oc.closed:
+                # the per-contour offset of a closed contour came out open: no toolpath is
+                # made from it (verify_toolpaths then reports the missing part)
+                x, y = (float(v) for v in oc.segments[0][0])
+                findings.append(
+                    RegionFinding(
+                        "offset-failed",
+                        c.sources[0].contour,
+                        None,
+                        None,
+                        x,
+                        y,
+                        None,
+                        f"the offset of contour {c.sources[0].contour} did not close near "
+                        f"({x:.6g}, {y:.6g}); no toolpath is made from it",
+                    )
+                )
+                break
+        for p in res.problems:
+            cont, seg, tt = _map_place(region, ci, p.segment, p.t)
+            if cont is None:
+                cont = c.sources[0].contour
+            if p.kind == "vanishes":
+                width = None
+                if p.segment is not None:
+                    seg_pts = np.asarray(c.segments[p.segment], dtype=float)
+                    cub = _as_cubic_batch([seg_pts])[0]
+                    _, tan, _, _ = _offset_points(_coef(cub[None]), np.array([[p.t]]), 1.0)
+                    tx, ty = tan[0, 0]
+                    inward = np.array([-ty, tx])  # left of travel: into the region
+                    width = _width_at(np.array([p.x, p.y]), boundary, inward, 4 * r + 1.0)
+                msg = (
+                    p.message
+                    if width is None
+                    else (f"{p.message} (width {width:.4g} across the region there)")
+                )
+                findings.append(RegionFinding("vanishes", cont, seg, tt, p.x, p.y, width, msg))
+            elif p.kind == "tool-does-not-fit":
+                depth = None
+                if all_paths is not None:
+                    depth = float(shapely.distance(shapely.Point(p.x, p.y), all_paths)) - r
+                fits.append(
+                    RegionFinding(
+                        "tool-does-not-fit", cont, seg, tt, p.x, p.y, p.radius, p.message, 1, depth
+                    )
+                )
+            else:
+                findings.append(RegionFinding(p.kind, cont, seg, tt, p.x, p.y, p.error, p.message))
+    if fits:
+        smallest = min(fits, key=lambda f: f.value if f.value is not None else math.inf)
+        deepest = max((f.depth for f in fits if f.depth is not None), default=None)
+        findings.append(
+            RegionFinding(
+                "tool-does-not-fit",
+                smallest.contour,
+                smallest.segment,
+                smallest.t,
+                smallest.x,
+                smallest.y,
+                smallest.value,
+                f"the tool (radius {r:.4g}) rounds {len(fits)} inside corner(s) or bend(s); "
+                f"smallest radius {smallest.value:.4g}"
+                + (f", the tool stays up to {deepest:.4g} from the outline" if deepest else ""),
+                len(fits),
+                deepest,
+            )
+        )
+        for f in fits:
+            if f.value and f.depth is not None and f.depth > tolerance:
+                findings.append(f)
+    times["findings"] = time.perf_counter() - t0
+    return RegionOffset(out, findings, region, times)
+
+
+def verify_toolpaths(
+    region_contours: Sequence,
+    toolpaths: Sequence,
+    distance: float,
+    *,
+    tolerance: float = DEFAULT_OFFSET_TOLERANCE,
+) -> list[ToolpathViolation]:
+    """Check toolpaths against the region they were offset from, before they are cut.
+
+    Parameters
+    ----------
+    region_contours : sequence
+        Closed contours of the region that do not cross (``RegionOffset.region.contours``
+        or any objects with ``segments``); the region is their even-odd fill.
+    toolpaths : sequence
+        Objects with ``polyline`` (P, 2) closed rings (``RegionOffset.contours``) or arrays.
+    distance : float
+        The offset d the toolpaths are meant to have.
+    tolerance : float
+        ε: the allowed distance error.
+
+    Returns
+    -------
+    list of ToolpathViolation
+        Empty when the toolpaths may be written.
+
+    Notes
+    -----
+    Independent of the offset code, with shapely on flattenings:
+
+    - every ring is simple (``LinearRing.is_simple``), and two rings meet nowhere except at
+      common vertices (points where the boolean engine's contours touch);
+    - every vertex and chord midpoint lies at |d| ± ε from the region's boundary (flattened
+      within ε/10), on the outside of the region for d > 0 and inside for d < 0;
+    - the toolpaths' region (even-odd) and shapely's round buffer of the flattened region
+      (arcs within ε/10) differ by an area of at most ε × their perimeter, so no part is
+      missing or extra (where the region vanishes, the buffer has nothing either).
+    """
+    import shapely
+
+    r = abs(distance)
+    out: list[ToolpathViolation] = []
+    segs = [
+        (list(c.segments), True) if hasattr(c, "segments") else (list(c[0]), True)
+        for c in region_contours
+    ]
+    ref_polys = flatten_contours(segs, tolerance / 10) if segs else []
+    region = None
+    for p in ref_polys:
+        if len(p) > 2:
+            poly = shapely.Polygon(p)
+            region = poly if region is None else region.symmetric_difference(poly)
+    rings = [np.asarray(getattr(t, "polyline", t), dtype=float) for t in toolpaths]
+    rings = [p for p in rings if len(p) > 2]
+    if region is None:
+        if rings:
+            p = rings[0][0]
+            out.append(
+                ToolpathViolation(
+                    "wrong-side", float(p[0]), float(p[1]), None, "toolpaths for an empty region"
+                )
+            )
+        return out
+    boundary = shapely.MultiLineString([np.vstack([p, p[:1]]) for p in ref_polys if len(p) > 2])
+    lr = [shapely.LinearRing(p) for p in rings]
+    for ring, p in zip(lr, rings, strict=True):
+        if not ring.is_simple:
+            q = shapely.get_coordinates(shapely.node(ring))
+            x, y = q[0] if len(q) else p[0]
+            out.append(
+                ToolpathViolation(
+                    "toolpath-crosses-itself",
+                    float(x),
+                    float(y),
+                    None,
+                    f"a toolpath crosses itself near ({x:.6g}, {y:.6g})",
+                )
+            )
+    if lr:
+        tree = shapely.STRtree(lr)
+        ia, ib = tree.query(lr, predicate="intersects")
+        for a, b in zip(ia.tolist(), ib.tolist(), strict=True):
+            if a >= b:
+                continue
+            hit = shapely.get_coordinates(shapely.intersection(lr[a], lr[b]))
+            va = {tuple(v) for v in rings[a]}
+            vb = {tuple(v) for v in rings[b]}
+            bad = [h for h in hit if not (tuple(h) in va and tuple(h) in vb)]
+            if bad:
+                x, y = bad[0]
+                out.append(
+                    ToolpathViolation(
+                        "toolpaths-cross",
+                        float(x),
+                        float(y),
+                        None,
+                        f"two toolpaths cross near ({x:.6g}, {y:.6g})",
+                    )
+                )
+    slack = tolerance * 1.1  # ε plus the reference's flattening ε/10
+    for p in rings:
+        q = np.vstack([p, 0.5 * (p + np.roll(p, -1, axis=0))])
+        dist = shapely.distance(shapely.points(q), boundary)
+        err = np.abs(dist - r)
+        k = int(np.argmax(err))
+        if err[k] > slack:
+            out.append(
+                ToolpathViolation(
+                    "wrong-distance",
+                    float(q[k, 0]),
+                    float(q[k, 1]),
+                    float(dist[k]),
+                    f"a toolpath point at ({q[k, 0]:.6g}, {q[k, 1]:.6g}) is {dist[k]:.6g} from "
+                    f"the outline, not {r:.6g} ± {tolerance:.3g}",
+                )
+            )
+        inside = shapely.contains_xy(region, q[:, 0], q[:, 1])
+        wrong = inside if distance > 0 else ~inside
+        wrong &= err <= slack  # far points are already reported
+        if np.any(wrong):
+            k = int(np.argmax(wrong))
+            out.append(
+                ToolpathViolation(
+                    "wrong-side",
+                    float(q[k, 0]),
+                    float(q[k, 1]),
+                    None,
+                    f"a toolpath point at ({q[k, 0]:.6g}, {q[k, 1]:.6g}) lies on the wrong side "
+                    "of the outline",
+                )
+            )
+    # completeness against an independent buffer
+    quad = max(
+        8, math.ceil(math.pi / 2 / math.acos(max(-1.0, 1 - tolerance / (10 * r)))) if r > 0 else 8
+    )
+    ref = region.buffer(distance, quad_segs=min(quad, 512), join_style="round")
+    ours = None
+    for p in rings:
+        poly = shapely.Polygon(p)
+        ours = poly if ours is None else ours.symmetric_difference(poly)
+    ours = shapely.Polygon() if ours is None else ours
+    if not ours.is_valid:
+        ours = shapely.make_valid(ours)
+    diff = ours.symmetric_difference(ref)
+    limit = tolerance * (ours.length + ref.length)
+    if diff.area > limit:
+        parts = list(getattr(diff, "geoms", [diff]))
+        big = max(parts, key=lambda g: g.area)
+        c = big.representative_point()
+        out.append(
+            ToolpathViolation(
+                "toolpath-missing",
+                float(c.x),
+                float(c.y),
+                float(diff.area),
+                f"the toolpaths and a buffer of the outline differ by area {diff.area:.4g} "
+                f"(allowed {limit:.4g}), largest near ({c.x:.6g}, {c.y:.6g})",
+            )
+        )
+    return out
+
+
+def offset_overlaps(
+    offsets: Sequence, *, tolerance: float = DEFAULT_OFFSET_TOLERANCE
+) -> list[OffsetOverlap]:
+    """Pairs of separate outlines whose toolpath regions overlap.
+
+    Parameters
+    ----------
+    offsets : sequence
+        Per outline, a :class:`RegionOffset` (or a list of objects with ``polyline``).
+    tolerance : float
+        Overlaps of area ≤ ε² are not reported (touching within the flattening).
+
+    Returns
+    -------
+    list of OffsetOverlap
+        One per overlapping pair, with a point inside the overlap and its area.
+
+    Notes
+    -----
+    Each outline's toolpath region is the even-odd fill of its polylines (they do not cross);
+    pairs are found with a shapely STRtree and measured by shapely's polygon intersection.
+    """
+    import shapely
+
+    polys = []
+    for item in offsets:
+        paths = item.contours if hasattr(item, "contours") else item
+        g = None
+        for pth in paths:
+            p = np.asarray(getattr(pth, "polyline", pth), dtype=float)
+            if len(p) > 2:
+                poly = shapely.Polygon(p)
+                g = poly if g is None else g.symmetric_difference(poly)
+        polys.append(shapely.Polygon() if g is None else g)
+    tree = shapely.STRtree(polys)
+    ia, ib = tree.query(polys, predicate="intersects")
+    out = []
+    for a, b in zip(ia.tolist(), ib.tolist(), strict=True):
+        if a >= b:
+            continue
+        inter = polys[a].intersection(polys[b])
+        if inter.area <= tolerance * tolerance:
+            continue
+        pt = inter.representative_point()
+        out.append(
+            OffsetOverlap(
+                a,
+                b,
+                float(pt.x),
+                float(pt.y),
+                float(inter.area),
+                f"the offsets of outlines {a} and {b} overlap (area {inter.area:.4g}) near "
+                f"({pt.x:.6g}, {pt.y:.6g}): their toolpaths cut into each other",
+            )
+        )
+    return out
+
+
+def merge_offsets(
+    offsets: Sequence, *, tolerance: float = DEFAULT_OFFSET_TOLERANCE
+) -> list[OffsetContour]:
+    """One toolpath region from the offsets of several outlines (their union).
+
+    Parameters
+    ----------
+    offsets : sequence of RegionOffset (or lists of OffsetContour)
+    tolerance : float
+        ε of the polylines returned.
+
+    Returns
+    -------
+    list of OffsetContour
+        Toolpaths of the union (:func:`~outlinebench.geometry.boolean.remove_overlaps`
+        with the positive fill rule: each region's contours wind once round it), which never
+        cross.
+    """
+    from outlinebench.geometry.boolean import remove_overlaps
+
+    items = []
+    for item in offsets:
+        paths = item.contours if hasattr(item, "contours") else item
+        items.extend((list(p.segments), True) for p in paths)
+    res = remove_overlaps(items, fill_rule="positive", tolerance=_boolean_tolerance(tolerance))
+    paths = [list(c.segments) for c in res.contours]
+    polys = flatten_contours([(p, True) for p in paths], 0.5 * tolerance) if paths else []
+    return [OffsetContour(p, True, q) for p, q in zip(paths, polys, strict=True)]

@@ -5,6 +5,19 @@ caller allows harmless internal ones, external entities are never resolved or fe
 byte offsets of every start and end tag are kept so the writer can splice changes into the
 original bytes and leave everything else exactly as it was.
 
+Document type declarations, exactly:
+
+- a DOCTYPE naming an external DTD (``SYSTEM`` or ``PUBLIC`` identifier) is refused with
+  :class:`~outlinebench.errors.UnsafeXmlError`, except the W3C's own SVG 1.0 and 1.1 DTDs
+  (:data:`SVG_DTD_PUBLIC_IDS`, the declaration exporters write), which are accepted and never
+  fetched: their attribute defaults are the ones the SVG specification states, which the
+  reader applies anyway. Another external DTD could declare defaults that change the
+  drawing, and reading it would mean opening another file or the network;
+- a DOCTYPE without an external identifier (``<!DOCTYPE svg>``, ``<!DOCTYPE svg [ ... ]>``)
+  is accepted; in its internal subset, entity declarations are refused unless allowed
+  (then short, non-nested internal ones only), parameter entities are always refused, and
+  attribute-list declarations apply their defaults as XML 1.0 §3.3.2 requires.
+
 References
 ----------
 defusedxml documentation, "Attack vectors" (billion laughs, quadratic blowup, external entity
@@ -22,7 +35,7 @@ from defusedxml.ElementTree import DefusedXMLParser
 
 from outlinebench.errors import SvgReadError, UnsafeXmlError
 
-__all__ = ["MAX_BYTES", "MAX_ENTITY_CHARS", "XmlSource", "parse_xml"]
+__all__ = ["MAX_BYTES", "MAX_ENTITY_CHARS", "SVG_DTD_PUBLIC_IDS", "XmlSource", "parse_xml"]
 
 # Largest file read (bytes): big enough for a tens-of-megabyte path, small enough to refuse
 # absurd inputs before reading them.
@@ -30,6 +43,18 @@ MAX_BYTES = 256 * 1024 * 1024
 # Longest replacement text of one internal entity when entities are allowed (characters);
 # with nesting refused this caps expansion at this factor per reference.
 MAX_ENTITY_CHARS = 1024
+# Public identifiers of the W3C SVG DTDs (SVG 1.0 Recommendation, Appendix A; SVG 1.1 Second
+# Edition, Appendix A.1 and the SVG Mobile 1.1 profiles): an external DTD with one of these
+# is accepted and never fetched.
+SVG_DTD_PUBLIC_IDS = frozenset(
+    {
+        "-//W3C//DTD SVG 1.0//EN",
+        "-//W3C//DTD SVG 1.1//EN",
+        "-//W3C//DTD SVG 1.1 Basic//EN",
+        "-//W3C//DTD SVG 1.1 Tiny//EN",
+        "-//W3C//DTD SVG 1.1 Full//EN",
+    }
+)
 
 
 @dataclass
@@ -55,9 +80,21 @@ class XmlSource:
     encoding: str = "utf-8"
 
 
+class _Builder(ET.TreeBuilder):
+    """The standard tree builder, told about the DOCTYPE (ElementTree's parser reports it to
+    a target's ``doctype`` method; expat's own doctype handler is taken by that parser)."""
+
+    def __init__(self, on_doctype: Any) -> None:
+        super().__init__(insert_comments=True, insert_pis=True)
+        self.on_doctype = on_doctype
+
+    def doctype(self, name: str, pubid: str | None, system: str | None) -> None:
+        self.on_doctype(name, system, pubid)
+
+
 class _Parser(DefusedXMLParser):
     def __init__(self, allow_entities: bool, max_entity_chars: int, where: str) -> None:
-        builder = ET.TreeBuilder(insert_comments=True, insert_pis=True)
+        builder = _Builder(self._doctype)
         super().__init__(target=builder, forbid_dtd=False, forbid_entities=True)
         self.where = where
         self.allow_entities = allow_entities
@@ -120,6 +157,16 @@ class _Parser(DefusedXMLParser):
                 f"{self.max_entity_chars}"
             )
 
+    def _doctype(self, name: str, sysid: str | None, pubid: str | None) -> None:
+        if not (sysid or pubid) or pubid in SVG_DTD_PUBLIC_IDS:
+            return
+        shown = " ".join(repr(x) for x in (pubid, sysid) if x)
+        raise UnsafeXmlError(
+            f"{self.where}: the DOCTYPE names the external DTD {shown}; external DTDs are "
+            "refused (never fetched: they could change the drawing through attribute "
+            "defaults), except the W3C SVG 1.0 and 1.1 DTDs"
+        )
+
     def _unparsed_entity(self, name: str, *args: Any) -> None:
         raise UnsafeXmlError(f"{self.where}: unparsed external entity {name!r} refused")
 
@@ -141,7 +188,8 @@ def parse_xml(
     Raises
     ------
     UnsafeXmlError
-        Entity declarations (unless allowed and harmless), external entities.
+        Entity declarations (unless allowed and harmless), external entities, a DOCTYPE
+        naming an external DTD other than the W3C SVG DTDs (see the module notes).
     SvgReadError
         Malformed XML (message with line and column).
     """

@@ -139,17 +139,36 @@ def arc_to_cubics(
     Returns
     -------
     ArcResult
+        Never drops an arc whose end points differ and whose radii are not zero: radii far
+        larger than the chord give a near-straight cubic, radii too small are scaled up.
+        Coordinates are not finite only when the arc itself does not fit in binary64 (the
+        caller reports that as an overflow).
 
     Notes
     -----
     Follows SVG 1.1 Appendix F.6: an arc whose end point equals its start point is omitted
     (F.6.2); a zero radius makes a straight line (F.6.2); radii too small are scaled by √Λ
-    with Λ = x1'²/rx² + y1'²/ry² (F.6.6); the centre comes from F.6.5.2 with the square-root
-    argument clamped at 0 (it can be slightly negative from rounding when Λ ≈ 1); angles
-    come from ``atan2`` (never an unclamped ``acos``). The sweep is split into
-    :func:`arc_pieces` equal parts, each a cubic with handles 4/3·tan(δ/4) on the unit circle,
-    mapped by the ellipse's affine map (exact for Béziers).
+    with Λ = x1'²/rx² + y1'²/ry² (F.6.6).
+
+    The arc is computed in the frame of its chord rather than from its centre (F.6.5), so
+    that radii of any size, up to the largest double, neither overflow nor lose the arc to
+    cancellation. Map the ellipse to the unit circle; there the chord's half length is
+    L = √Λ ≤ 1, so the small arc sweeps δ = 2·asin(L) and the large one 2π − δ (exact
+    for every size, where the centre-and-angles form loses everything once L is below the
+    rounding of 1). With φ from −δ/2 to δ/2 and the chord along the x axis, the unit arc is
+    X = sin φ, Y = cos φ − cos(δ/2) = 2·sin((δ/2 + φ)/2)·sin((δ/2 − φ)/2) (the product form
+    has no cancellation), and the arc lies left of the chord when it turns in the negative
+    angle direction (sweep-flag 0), right of it otherwise. Mapped back by
+    p = M + R(φ_x)·diag(rx, ry)·(X·e + Y·n) with M the chord's midpoint, e the chord's unit
+    direction and n its normal in the unit frame; diag(rx, ry)·e = −(x1', y1')/L, so the
+    end points come out as ±(x1', y1') with no large intermediate. The sweep is split into
+    :func:`arc_pieces` equal parts, each a cubic with handles 4/3·tan(σ/4) along the unit
+    tangents (cos φ, −sin φ), mapped by the same affine map (exact for Béziers). Half-sums
+    ``x1/2 + x2/2`` keep the midpoint and chord finite for coordinates near the largest
+    double.
     """
+    x1, y1, x2, y2 = float(x1), float(y1), float(x2), float(y2)
+    rx, ry, phi_degrees = float(rx), float(ry), float(phi_degrees)
     negative = rx < 0.0 or ry < 0.0
     if x1 == x2 and y1 == y2:
         return ArcResult("none", negative_radius=negative)
@@ -158,57 +177,68 @@ def arc_to_cubics(
         return ArcResult("line", negative_radius=negative)
     phi = math.radians(math.fmod(phi_degrees, 360.0))
     cos_phi, sin_phi = math.cos(phi), math.sin(phi)
-    dx2, dy2 = (x1 - x2) / 2.0, (y1 - y2) / 2.0
+    dx2, dy2 = x1 / 2.0 - x2 / 2.0, y1 / 2.0 - y2 / 2.0
     x1p = cos_phi * dx2 + sin_phi * dy2
     y1p = -sin_phi * dx2 + cos_phi * dy2
-    a, b = x1p / rx, y1p / ry
-    lam = a * a + b * b  # may be inf for tiny radii (float products do not raise)
+    half = math.hypot(x1p, y1p)
+    if half == 0.0:  # end points one rounding step apart: the arc is that straight step
+        return _straight(x1, y1, x2, y2, negative)
+    # Half chord in the unit-circle frame, L = √Λ (hypot of the two ratios cannot overflow
+    # unless a radius is below the chord by a factor of 1e308, then L is inf and scaled).
+    ell = math.hypot(x1p / rx, y1p / ry)
     scaled = False
-    if lam > 1.0:
-        # rx·√Λ = √(x1'² + (y1'·rx/ry)²), written so that it cannot overflow when the radii
-        # are tiny (√Λ alone can be inf); likewise ry·√Λ.
+    if not ell <= 1.0:
+        # F.6.6: rx·√Λ = √(x1'² + (y1'·rx/ry)²), written so that it cannot overflow when
+        # the radii are tiny (√Λ alone can be inf); likewise ry·√Λ.
         rx, ry = math.hypot(x1p, y1p * (rx / ry)), math.hypot(x1p * (ry / rx), y1p)
+        if not (math.isfinite(rx) and math.isfinite(ry)) or rx == 0.0 or ry == 0.0:
+            # an aspect ratio beyond 1e308: an ellipse of zero width (F.6.2, a line)
+            return ArcResult("line", negative_radius=negative, radii_scaled=True)
+        ell = 1.0
         scaled = True
-    # F.6.5.2's (rx²ry² − rx²y1'² − ry²x1'²) / (rx²y1'² + ry²x1'²), divided through by
-    # rx²ry²: (1 − Λ) / Λ, which cannot overflow for huge radii; 0 once the radii were scaled
-    # (then Λ is 1 by construction).
-    coef = 0.0 if scaled else math.sqrt(max(0.0, (1.0 - lam) / lam))
-    if large_arc == sweep:
-        coef = -coef
-    cxp = coef * (rx / ry) * y1p  # ratios first: rx·y1' alone can overflow
-    cyp = -coef * (ry / rx) * x1p
-    cx = cos_phi * cxp - sin_phi * cyp + (x1 + x2) / 2.0
-    cy = sin_phi * cxp + cos_phi * cyp + (y1 + y2) / 2.0
-    theta1 = math.atan2((y1p - cyp) / ry, (x1p - cxp) / rx)
-    theta2 = math.atan2((-y1p - cyp) / ry, (-x1p - cxp) / rx)
-    delta = theta2 - theta1
-    if not sweep and delta > 0.0:
-        delta -= _TWO_PI
-    elif sweep and delta < 0.0:
-        delta += _TWO_PI
+    small = 2.0 * math.asin(ell)
+    delta = (_TWO_PI - small) if large_arc else small
+    if delta == 0.0:  # radii beyond 1e308 times the chord: straight to the last digit
+        return _straight(x1, y1, x2, y2, negative)
     n = arc_pieces(delta, tolerance)
-    if n == 0:
-        return ArcResult("none", negative_radius=negative, radii_scaled=scaled)
     step = delta / n
-    angles = theta1 + step * np.arange(n + 1)
-    cos_a, sin_a = np.cos(angles), np.sin(angles)
+    phis = -delta / 2.0 + step * np.arange(n + 1)
+    phis[-1] = delta / 2.0
+    big_x = np.sin(phis)
+    big_y = 2.0 * np.sin((delta / 2.0 + phis) / 2.0) * np.sin((delta / 2.0 - phis) / 2.0)
     h = 4.0 / 3.0 * math.tan(step / 4.0)
-    # Unit-circle control points of every piece: P0, P0 + h·P0⊥, P3 − h·P3⊥, P3.
+    tx, ty = np.cos(phis), -np.sin(phis)
     u = np.empty((n, 4, 2))
-    u[:, 0, 0], u[:, 0, 1] = cos_a[:-1], sin_a[:-1]
-    u[:, 3, 0], u[:, 3, 1] = cos_a[1:], sin_a[1:]
-    u[:, 1, 0] = cos_a[:-1] - h * sin_a[:-1]
-    u[:, 1, 1] = sin_a[:-1] + h * cos_a[:-1]
-    u[:, 2, 0] = cos_a[1:] + h * sin_a[1:]
-    u[:, 2, 1] = sin_a[1:] - h * cos_a[1:]
-    # Ellipse map: p = C + R(φ)·diag(rx, ry)·u.
-    ex = u[..., 0] * rx
-    ey = u[..., 1] * ry
-    out = np.empty_like(u)
-    out[..., 0] = cos_phi * ex - sin_phi * ey + cx
-    out[..., 1] = sin_phi * ex + cos_phi * ey + cy
+    u[:, 0, 0], u[:, 0, 1] = big_x[:-1], big_y[:-1]
+    u[:, 3, 0], u[:, 3, 1] = big_x[1:], big_y[1:]
+    u[:, 1, 0] = big_x[:-1] + h * tx[:-1]
+    u[:, 1, 1] = big_y[:-1] + h * ty[:-1]
+    u[:, 2, 0] = big_x[1:] - h * tx[1:]
+    u[:, 2, 1] = big_y[1:] - h * ty[1:]
+    # Unit-frame axes mapped by diag(rx, ry): the chord direction e = −(x1'/rx, y1'/ry)/L
+    # gives diag·e = −(x1', y1')/L; the normal on the arc's side gives diag·n =
+    # ±(rx·(y1'/ry), −ry·(x1'/rx))/L (left of e for sweep-flag 0).
+    side = -1.0 if sweep else 1.0
+    ex, ey = -x1p / ell, -y1p / ell
+    nx, ny = side * rx * (y1p / ry) / ell, -side * ry * (x1p / rx) / ell
+    with np.errstate(over="ignore", invalid="ignore"):
+        px = u[..., 0] * ex + u[..., 1] * nx
+        py = u[..., 0] * ey + u[..., 1] * ny
+        out = np.empty_like(u)
+        out[..., 0] = cos_phi * px - sin_phi * py + (x1 / 2.0 + x2 / 2.0)
+        out[..., 1] = sin_phi * px + cos_phi * py + (y1 / 2.0 + y2 / 2.0)
     # Shared end points exactly: the pieces' joins and the arc's own ends.
     out[1:, 0] = out[:-1, 3]
     out[0, 0] = (x1, y1)
     out[-1, 3] = (x2, y2)
     return ArcResult("cubics", out, negative_radius=negative, radii_scaled=scaled)
+
+
+def _straight(x1: float, y1: float, x2: float, y2: float, negative: bool) -> ArcResult:
+    """An arc straight to the last digit, as one cubic with handles at thirds of the chord."""
+    out = np.empty((1, 4, 2))
+    out[0, 0] = (x1, y1)
+    out[0, 1] = (x1 + (x2 / 3.0 - x1 / 3.0), y1 + (y2 / 3.0 - y1 / 3.0))
+    out[0, 2] = (x2 - (x2 / 3.0 - x1 / 3.0), y2 - (y2 / 3.0 - y1 / 3.0))
+    out[0, 3] = (x2, y2)
+    return ArcResult("cubics", out, negative_radius=negative)

@@ -20,6 +20,7 @@ complete parameter group before the first error is kept and returned together wi
 
 from __future__ import annotations
 
+import math
 import re
 import warnings
 from collections.abc import Sequence
@@ -373,7 +374,17 @@ def _lex_general(d: str) -> _Tokens:
                     error = _error(d, base + end, "a number")
                 elif args.rstrip(_WSP).endswith(","):
                     error = _error(d, offset, "a number")
-        if error is None and arity and (len(got) < arity or len(got) % arity):
+        bad = _first_out_of_range(got)
+        if bad >= 0:
+            # An out-of-range number ("1e999") is the error, at its own offset, even when
+            # the command goes wrong later; the groups before it are kept.
+            pos = _number_offset(d, base, args, arity, bad)
+            token = _token_at(d, pos)
+            error = SvgPathError(
+                f"number out of range at offset {pos}, found {token!r}", pos, token
+            )
+            got = got[:bad]
+        elif error is None and arity and (len(got) < arity or len(got) % arity):
             error = _error(d, offset, "a number")
         if arity:
             got = got[: len(got) - len(got) % arity]
@@ -396,12 +407,7 @@ def _lex_general(d: str) -> _Tokens:
         j = int(np.searchsorted(starts, g, side="right")) - 1
         k = g - starts[j]
         base, args = spans[j]
-        if _ARITY[commands[j].upper()] == 7:
-            arc_starts: list[int] = []
-            _lex_arc_args(d, args, base, [], arc_starts)
-            pos = base + arc_starts[k]
-        else:
-            pos = base + [m.start() for m in _NUM_RE.finditer(args)][k]
+        pos = _number_offset(d, base, args, _ARITY[commands[j].upper()], k)
         token = _token_at(d, pos)
         error = SvgPathError(f"number out of range at offset {pos}, found {token!r}", pos, token)
         arity = _ARITY[commands[j].upper()]
@@ -420,6 +426,27 @@ def _lex_general(d: str) -> _Tokens:
     )
 
 
+def _first_out_of_range(texts: list[str]) -> int:
+    """Index of the first number text that overflows binary64 ("1e999"), or -1."""
+    for k, t in enumerate(texts):
+        if ("e" in t or "E" in t or len(t) > 300) and not math.isfinite(float(t)):
+            return k
+    return -1
+
+
+def _number_offset(d: str, base: int, args: str, arity: int, k: int) -> int:
+    """Offset in ``d`` of the k-th number of a command whose arguments ``args`` start at
+    ``base``."""
+    if arity == 7:
+        arc_starts: list[int] = []
+        _lex_arc_args(d, args, base, [], arc_starts)
+        return base + arc_starts[k]
+    for i, m in enumerate(_NUM_RE.finditer(args)):
+        if i == k:
+            return base + m.start()
+    return base + len(args)  # pragma: no cover - k always names a number that was read
+
+
 def _lex_arc_args(
     d: str, args: str, base: int, out: list[str], starts: list[int] | None = None
 ) -> SvgPathError | None:
@@ -435,6 +462,7 @@ def _lex_arc_args(
             m = (_FLAG_RE if j in (3, 4) else _NUM_RE).match(args, pos)
             if m is None:
                 what = "an arc flag (0 or 1)" if j in (3, 4) else "a number"
+                out.extend(group)  # the caller keeps complete groups only
                 return _error(d, base + pos, what)
             group.append(m.group())
             if starts is not None:
@@ -443,6 +471,9 @@ def _lex_arc_args(
             if pos < n and args[pos] == ",":
                 pos = _SKIP_WSP.match(args, pos + 1).end()
                 if pos >= n:
+                    # A complete group before a trailing comma is kept, as for every other
+                    # command (SVG 2 §9.5.4): the error is the missing next group.
+                    out.extend(group)
                     return _error(d, base + n, "a number")
         out.extend(group)
 
@@ -840,27 +871,46 @@ def _build_finite(
 def _up_to_overflow(
     d: str, tok: _Tokens, matrix: NDArray[np.float64] | None, tolerance: float
 ) -> PathData:
-    """The geometry before the first command whose coordinates overflow, and that error.
+    """The geometry before the first parameter group whose coordinates overflow, and that
+    error (SVG 2 §9.5.4: everything up to the last good group is kept).
 
-    Whether the data up to a command builds finite geometry only turns false once, so the
-    command is found by bisection over command letters (a logarithmic number of linear
-    reads, only on this error path).
+    Whether the first r groups build finite geometry only turns false once, so the group is
+    found by bisection over the groups, on the tokens already read (a logarithmic number
+    of builds, only on this error path).
     """
-    end = tok.error.offset if tok.error is not None else len(d)
-    starts = [m.start() for m in _SPLIT_RE.finditer(d, 0, end)] + [len(d)]
-    lo, hi = 0, len(starts) - 1  # data before starts[lo] builds; before starts[hi] does not
+    codes = tok.commands
+    arity = [_ARITY[chr(c).upper()] for c in codes]
+    groups = [cnt // a if a else 1 for cnt, a in zip(tok.counts.tolist(), arity, strict=True)]
+    cum = np.cumsum(groups) if groups else np.zeros(0, np.int64)
+    num_start = np.cumsum(tok.counts) - tok.counts
+
+    def head(rows: int) -> _Tokens:
+        j = int(np.searchsorted(cum, rows, side="left"))  # command holding row rows - 1
+        before = int(cum[j - 1]) if j else 0
+        counts = tok.counts[: j + 1].copy()
+        counts[j] = (rows - before) * arity[j]
+        numbers = tok.numbers[: int(num_start[j]) + int(counts[j])]
+        return _Tokens(codes[: j + 1], counts, numbers, tok.trailing_dot)
+
+    lo, hi = 0, int(cum[-1]) if groups else 0  # the first lo rows build; the first hi do not
     best = PathData([], None, {})
+    small = len(d) <= _SMALL
     while hi - lo > 1:
         mid = (lo + hi) // 2
-        head = d[: starts[mid]]
-        part = _lex_general(head) if len(head) <= _SMALL else _lex(head)
-        built = _build_finite(part, matrix, tolerance, len(head) <= _SMALL)
+        built = _build_finite(head(mid), matrix, tolerance, small)
         if built is None:
             hi = mid
         else:
             lo = mid
             best = PathData(built[0], None, built[1])
-    pos = starts[lo]
+    # Row lo is the first bad one: command j, group g within it.
+    j = int(np.searchsorted(cum, lo, side="right"))
+    g = lo - (int(cum[j - 1]) if j else 0)
+    letters = [m.start() for m in _SPLIT_RE.finditer(d)]
+    pos = letters[j]
+    if g:
+        args_end = letters[j + 1] if j + 1 < len(letters) else len(d)
+        pos = _number_offset(d, pos + 1, d[pos + 1 : args_end], arity[j], g * arity[j])
     token = _token_at(d, pos)
     best.error = SvgPathError(f"coordinates overflow at offset {pos}, found {token!r}", pos, token)
     return best

@@ -29,6 +29,7 @@ from outlinebench.io._xml import MAX_BYTES, MAX_ENTITY_CHARS, XmlSource, parse_x
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_arc import ARC_TOLERANCE
 from outlinebench.io.svg_path import _found, _token_at, read_path_data
+from outlinebench.io.svg_style import StyleResolver, css_transform
 from outlinebench.io.svg_transform import is_mirroring, parse_transform, translation
 from outlinebench.io.svg_units import (
     PX_PER_INCH,
@@ -206,31 +207,94 @@ def describe(el: Any, index: int | None = None, line: int | None = None) -> str:
     return f"<{tag}> at line {line}" if line is not None else f"<{tag}>"
 
 
-def _style_flags(el: Any) -> tuple[str | None, str | None]:
-    display = el.get("display")
-    visibility = el.get("visibility")
-    style = el.get("style")
-    if style and ("display" in style or "visibility" in style):
-        for name, value in _STYLE_RE.findall(style):
-            if name == "display":
-                display = value
-            else:
-                visibility = value
-    return display, visibility
+# CSS "medium": the initial font-size, 16 px in every common renderer (CSS Fonts 3 §3.5
+# leaves it to the user agent; common practice, no source for the number).
+INITIAL_FONT_PX = 16.0
+# CSS Fonts 3 §3.5, absolute-size keywords as factors of "medium".
+_FONT_KEYWORDS = {
+    "xx-small": 3 / 5, "x-small": 3 / 4, "small": 8 / 9, "medium": 1.0, "large": 6 / 5,
+    "x-large": 3 / 2, "xx-large": 2.0, "xxx-large": 3.0,
+}  # fmt: skip
+# CSS Fonts 3 §3.5: "larger"/"smaller" step by a factor; 1.2 is the common choice.
+_FONT_STEP = 1.2
+
+Axis = Literal["x", "y", "xy"]
+# (name, axis, default) -> user units; the default when the attribute is absent or "auto".
+Resolve = Any
 
 
-def _length(el: Any, name: str, where: str, ppi: float, default: float = 0.0) -> float:
-    ln = parse_length(el.get(name), where)
-    if ln is None:
-        return default
-    value = ln.to_user(ppi)
-    if value is None:
-        raise SvgReadError(f"{where}: relative length {name}={el.get(name)!r} is not supported")
-    return value
+@dataclass(frozen=True, slots=True)
+class _Frame:
+    """What an element inherits: its parent's state while walking the tree."""
+
+    matrix: NDArray[np.float64]
+    hidden: bool
+    chain: tuple[int, ...]  # ids of the elements instantiated by use on the way down
+    use: Any  # (outer use element, its coordinate system, refers straight to geometry?)
+    viewport: tuple[float, float] | None  # width, height of the nearest viewport, user units
+    font: float  # computed font-size, user units
+    fill_rule: str
+    size: tuple[float | None, float | None] | None = None  # a use's width/height override
 
 
-def shape_path_data(el: Any, where: str, ppi: float = PX_PER_INCH) -> str | None:
+def _percent_base(viewport: tuple[float, float], axis: Axis) -> float:
+    """SVG 1.1 §7.10: x and widths against the viewport width, y and heights against its
+    height, other lengths against sqrt((w² + h²) / 2)."""
+    w, h = viewport
+    if axis == "x":
+        return w
+    if axis == "y":
+        return h
+    return math.sqrt((w * w + h * h) / 2.0)
+
+
+def _to_user(
+    ln: Any, axis: Axis, ppi: float, viewport: tuple[float, float] | None, font: float
+) -> float | None:
+    """A parsed length in user units; None when it is relative to a viewport we do not know."""
+    if ln.unit == "%":
+        return None if viewport is None else ln.value / 100.0 * _percent_base(viewport, axis)
+    if ln.unit == "em":
+        return ln.value * font
+    if ln.unit == "ex":
+        # CSS Values 3 §6.1.1: where the x-height cannot be determined, 0.5em is assumed.
+        return ln.value * font * 0.5
+    return ln.to_user(ppi)
+
+
+def _absolute_resolver(el: Any, where: str, ppi: float) -> Resolve:
+    """Lengths read from the element's attributes alone (absolute units, em against 16 px)."""
+
+    def resolve(name: str, axis: Axis, default: float = 0.0) -> float:
+        text = el.get(name)
+        ln = parse_length(text, where)
+        if ln is None:
+            return default
+        v = _to_user(ln, axis, ppi, None, INITIAL_FONT_PX)
+        if v is None:
+            raise SvgReadError(f"{where}: relative length {name}={text!r} is not supported")
+        return v
+
+    resolve.given = lambda name: parse_length(el.get(name), where) is not None  # type: ignore[attr-defined]
+    return resolve
+
+
+def shape_path_data(
+    el: Any, where: str, ppi: float = PX_PER_INCH, resolve: Resolve | None = None
+) -> str | None:
     """Path data equivalent to a basic shape (SVG 2 §10.2-10.7), or None if it renders nothing.
+
+    Parameters
+    ----------
+    el : Element
+    where : str
+        For messages.
+    ppi : float
+        CSS pixels per inch.
+    resolve : callable(name, axis, default) -> float, optional
+        The lengths of the shape in user units (the reader's resolver knows the viewport for
+        percentages, the font size for em and ex, and the CSS cascade); by default the
+        element's attributes in absolute units.
 
     Raises
     ------
@@ -239,27 +303,25 @@ def shape_path_data(el: Any, where: str, ppi: float = PX_PER_INCH) -> str | None
         path (``x + width``, ``cx + r``, ...) that overflow a double.
     """
     try:
-        return _shape_path_data(el, where, ppi)
+        return _shape_path_data(el, where, resolve or _absolute_resolver(el, where, ppi))
     except SvgReadError:
         raise
     except ValueError:  # format_number of an infinite sum
         raise SvgReadError(f"{where}: coordinates out of range (they overflow a double)") from None
 
 
-def _shape_path_data(el: Any, where: str, ppi: float) -> str | None:
+def _shape_path_data(el: Any, where: str, L: Resolve) -> str | None:
     tag = _local(el.tag)
     f = format_number
     if tag == "rect":
-        x, y = _length(el, "x", where, ppi), _length(el, "y", where, ppi)
-        w, h = _length(el, "width", where, ppi), _length(el, "height", where, ppi)
+        x, y = L("x", "x"), L("y", "y")
+        w, h = L("width", "x"), L("height", "y")
         if w < 0 or h < 0:
             raise SvgReadError(f"{where}: negative rect width or height")
         if w == 0 or h == 0:
             return None
-        rx_given = parse_length(el.get("rx"), where) is not None and el.get("rx") != "auto"
-        ry_given = parse_length(el.get("ry"), where) is not None and el.get("ry") != "auto"
-        rx = _length(el, "rx", where, ppi) if rx_given else None
-        ry = _length(el, "ry", where, ppi) if ry_given else None
+        rx = L("rx", "x") if L.given("rx") else None
+        ry = L("ry", "y") if L.given("ry") else None
         if (rx is not None and rx < 0) or (ry is not None and ry < 0):
             raise SvgReadError(f"{where}: negative rect corner radius")
         # SVG 1.1 §9.2: a missing radius takes the other's value; clamp to half the size.
@@ -288,15 +350,16 @@ def _shape_path_data(el: Any, where: str, ppi: float) -> str | None:
         parts.append(f"A{f(rx)} {f(ry)} 0 0 1 {f(x + rx)} {f(y)} Z")
         return " ".join(parts)
     if tag in ("circle", "ellipse"):
-        cx, cy = _length(el, "cx", where, ppi), _length(el, "cy", where, ppi)
+        cx, cy = L("cx", "x"), L("cy", "y")
         if tag == "circle":
-            rx = ry = _length(el, "r", where, ppi)
+            rx = ry = L("r", "xy")
         else:
-            rx, ry = _length(el, "rx", where, ppi), _length(el, "ry", where, ppi)
-            if el.get("rx") in (None, "auto") and el.get("ry") not in (None, "auto"):
-                rx = ry
-            if el.get("ry") in (None, "auto") and el.get("rx") not in (None, "auto"):
-                ry = rx
+            has_rx, has_ry = L.given("rx"), L.given("ry")
+            rx = L("rx", "x") if has_rx else None
+            ry = L("ry", "y") if has_ry else None
+            # SVG 2 §10.4: "auto" (or absent) takes the other radius
+            rx = rx if rx is not None else (ry if ry is not None else 0.0)
+            ry = ry if ry is not None else rx
         if rx < 0 or ry < 0:
             raise SvgReadError(f"{where}: negative radius")
         if rx == 0 or ry == 0:
@@ -308,22 +371,9 @@ def _shape_path_data(el: Any, where: str, ppi: float) -> str | None:
             f"{a}{f(cx)} {f(cy - ry)} {a}{f(cx + rx)} {f(cy)} Z"
         )
     if tag == "line":
-        x1, y1 = _length(el, "x1", where, ppi), _length(el, "y1", where, ppi)
-        x2, y2 = _length(el, "x2", where, ppi), _length(el, "y2", where, ppi)
+        x1, y1 = L("x1", "x"), L("y1", "y")
+        x2, y2 = L("x2", "x"), L("y2", "y")
         return f"M{f(x1)} {f(y1)} L{f(x2)} {f(y2)}"
-    if tag in ("polyline", "polygon"):
-        text = el.get("points") or ""
-        m = _POINTS_OK.match(text)
-        ok_text = text[: m.end()]
-        values = _POINTS_RE.findall(ok_text)
-        if m.end() < len(text.rstrip(" \t\r\n\f")) or len(values) % 2:
-            raise SvgPathError(
-                f"{where}: points: expected a number at offset {m.end()}", m.end(), text[m.end() :]
-            )
-        if len(values) < 4:
-            return None
-        pairs = [f"{values[i]} {values[i + 1]}" for i in range(0, len(values), 2)]
-        return "M" + pairs[0] + " L" + " ".join(pairs[1:]) + (" Z" if tag == "polygon" else "")
     return None
 
 
@@ -357,11 +407,19 @@ def _href(el: Any) -> str | None:
 
 
 class _Reader:
-    def __init__(self, where: str, ppi: float, on_unsupported: str, tolerance: float) -> None:
+    def __init__(
+        self,
+        where: str,
+        ppi: float,
+        on_unsupported: str,
+        tolerance: float,
+        languages: tuple[str, ...] = ("en",),
+    ) -> None:
         self.where = where
         self.ppi = ppi
         self.on_unsupported = on_unsupported
         self.tolerance = tolerance
+        self.languages = tuple(x.strip().lower() for x in languages if x.strip())
         self.notes: list[ReadNote] = []
         self.error: SvgReadError | None = None
         self.outlines: list[Outline] = []
@@ -370,7 +428,9 @@ class _Reader:
         self.use_instances = 0
         self.root: Any = None
         self.xml: XmlSource | None = None
+        self.style: StyleResolver | None = None
         self._newlines: NDArray[np.intp] | None = None
+        self._parents: dict[int, Any] | None = None
 
     def name(self, el: Any) -> str:
         """:func:`describe` with the element's line in the file when it has no id."""
@@ -385,6 +445,9 @@ class _Reader:
         self.counts[kind] = self.counts.get(kind, 0) + n
         self.examples.setdefault(kind, example)
 
+    def note(self, level: Level, message: str, kind: str) -> None:
+        self.notes.append(ReadNote(level, message, kind))
+
     def unsupported(self, kind: str, el: Any) -> None:
         if self.on_unsupported == "raise":
             raise UnsupportedSvgFeature(
@@ -392,170 +455,362 @@ class _Reader:
             )
         self.count(kind, self.name(el))
 
-    def walk(self, root: Any, ids: dict[str, Any], root_matrix: NDArray[np.float64]) -> None:
-        # Stack entries: (element, parent matrix, hidden, use chain, outer use element).
-        stack: list[tuple[Any, NDArray[np.float64], bool, tuple[int, ...], Any]] = [
-            (root, root_matrix, False, (), None)
-        ]
+    # -- conditional processing (SVG 1.1 §5.8, SVG 2 §5.8) ------------------------------
+    def conditions_hold(self, el: Any) -> bool:
+        """requiredExtensions and systemLanguage on any element; requiredFeatures is ignored.
+
+        SVG 2 §5.8.5: we implement no extension, so ``requiredExtensions`` — even empty —
+        evaluates to false. ``systemLanguage`` is true when one of the user's languages
+        (``languages=``) equals a listed tag or is its prefix followed by "-". SVG 2 removed
+        ``requiredFeatures``: it no longer takes part (as in current renderers).
+        """
+        get = el.get
+        if get("requiredExtensions") is not None:
+            return False
+        lang = get("systemLanguage")
+        if lang is None:
+            return True
+        self.count("language", self.name(el))
+        tags = [t.strip().lower() for t in lang.split(",") if t.strip()]
+        return any(t == u or t.startswith(u + "-") for t in tags for u in self.languages)
+
+    # -- lengths ------------------------------------------------------------------------
+    def resolver(self, el: Any, decl: dict[str, Any], frame: _Frame, where: str) -> Resolve:
+        """Lengths of this element's geometry properties (cascade, %, em, ex) in user units."""
+        ppi = self.ppi
+
+        def text_of(name: str) -> str | None:
+            d = decl.get(name)
+            if d is not None:
+                return d[0]
+            return el.get(name)  # attributes that are not CSS properties (x1, y1, ...)
+
+        def resolve(name: str, axis: Axis, default: float = 0.0) -> float:
+            text = text_of(name)
+            ln = parse_length(text, where)
+            if ln is None:
+                return default
+            v = _to_user(ln, axis, ppi, frame.viewport, frame.font)
+            if v is None:
+                raise SvgReadError(
+                    f"{where}: {name}={text!r} is relative to a viewport whose size is not "
+                    "known (the root svg has no viewBox and no absolute width/height)"
+                )
+            return v
+
+        resolve.given = lambda name: parse_length(text_of(name), where) is not None  # type: ignore[attr-defined]
+        return resolve
+
+    def font_size(self, decl: dict[str, Any], parent: float, where: str) -> float:
+        """The computed font-size (user units) from the declared value and the parent's."""
+        d = decl.get("font-size")
+        if d is None:
+            return parent
+        text = d[0].strip().lower()
+        if text in ("inherit", "unset", ""):
+            return parent
+        if text == "initial":
+            return INITIAL_FONT_PX
+        if text in _FONT_KEYWORDS:
+            return INITIAL_FONT_PX * _FONT_KEYWORDS[text]
+        if text == "larger":
+            return parent * _FONT_STEP
+        if text == "smaller":
+            return parent / _FONT_STEP
+        ln = parse_length(text, where)
+        if ln is None:
+            return parent
+        if ln.unit == "%":
+            return parent * ln.value / 100.0
+        if ln.unit in ("em", "ex"):
+            return parent * ln.value * (0.5 if ln.unit == "ex" else 1.0)
+        v = ln.to_user(self.ppi)
+        return parent if v is None or v < 0 else v
+
+    def transform_of(
+        self, el: Any, decl: dict[str, Any], frame: _Frame, where: str
+    ) -> NDArray[np.float64] | None:
+        """The element's own transform (attribute or CSS), None when it has none."""
+        d = decl.get("transform")
+        if d is None or not d[0].strip():
+            return None
+        text, from_css = d
+        if not from_css:
+            return parse_transform(text, where)
+
+        def to_px(value: float, unit: str) -> float | None:
+            if unit in ("em", "ex"):
+                return value * frame.font * (0.5 if unit == "ex" else 1.0)
+            from outlinebench.io.svg_units import Length
+
+            return Length(value, unit).to_user(self.ppi)
+
+        m = css_transform(text, where, to_px)
+        origin = decl.get("transform-origin")
+        if origin is not None and origin[0].strip():
+            # CSS Transforms 1 §7: the matrix applies about the origin, T(o) · M · T(−o);
+            # for SVG elements the initial origin is 0 0 (transform-box: view-box).
+            words = origin[0].replace(",", " ").split()
+            keyword = {"left": 0.0, "top": 0.0, "center": None, "right": None, "bottom": None}
+            if any(w.lower() in keyword for w in words):
+                raise SvgReadError(
+                    f"{where}: transform-origin {origin[0]!r}: keywords need the element's "
+                    "box, which is not computed"
+                )
+            oy_text = words[1] if len(words) > 1 else "0"
+            res = self.resolver(el, {"ox": (words[0], True), "oy": (oy_text, True)}, frame, where)
+            ox, oy = res("ox", "x"), res("oy", "y")
+            m = translation(ox, oy) @ m @ translation(-ox, -oy)
+        return m
+
+    # -- the walk -----------------------------------------------------------------------
+    def walk(self, root: Any, ids: dict[str, Any], first: _Frame) -> None:
+        stack: list[tuple[Any, _Frame]] = [(root, first)]
+        style = self.style
+        assert style is not None
         while stack:
-            el, parent, hidden, chain, use = stack.pop()
+            el, frame = stack.pop()
             tag = _local(el.tag)
             if not tag:
                 continue  # comment or processing instruction
-            display, visibility = _style_flags(el)
-            if display == "none":
+            if tag in _NOT_RENDERED or tag.startswith("{"):
+                continue
+            decl = style.declared(el, tag)
+            disp = decl.get("display")
+            if disp is not None and disp[0].strip().lower() == "none":
                 if tag in _GEOMETRY or tag in _CONTAINERS or tag in ("use", "text", "image"):
                     self.count("hidden", self.name(el))
                 continue
-            if tag in _NOT_RENDERED or tag.startswith("{"):
+            if not self.conditions_hold(el):
+                self.count("conditional", self.name(el))
                 continue
             if tag in _NOT_GEOMETRY:
-                self.unsupported(tag, el)
+                vis = decl.get("visibility")
+                hidden_text = frame.hidden if vis is None else vis[0].strip().lower() in (
+                    "hidden", "collapse"
+                )  # fmt: skip
+                if hidden_text and tag == "text":
+                    self.count("hidden", self.name(el))
+                else:
+                    self.unsupported(tag, el)
                 continue
-            where = ""
-            transform = el.get("transform")
-            matrix = parent
-            if transform:
-                where = f"{self.where}: {self.name(el)}"
+            where = f"{self.where}: {self.name(el)}"
+            font = self.font_size(decl, frame.font, where)
+            matrix = frame.matrix
+            if el is not self.root:
                 try:
                     with np.errstate(over="ignore", invalid="ignore"):
-                        matrix = parent @ parse_transform(transform, where)
-                    if not np.isfinite(matrix).all():
-                        raise SvgReadError(
-                            f"{where}: transform {transform!r} is out of range (with its "
-                            "parents' it overflows a double)"
-                        )
+                        own = self.transform_of(el, decl, frame, where)
+                        if own is not None:
+                            matrix = matrix @ own
+                        if not np.isfinite(matrix).all():
+                            raise SvgReadError(
+                                f"{where}: transform {decl['transform'][0]!r} is out of range "
+                                "(with its parents' it overflows a double)"
+                            )
                 except SvgReadError as exc:
-                    self.notes.append(ReadNote("error", f"{exc}; element skipped", "transform"))
+                    self.note("error", f"{exc}; element skipped", "transform")
                     continue
-            if tag == "svg" or tag == "use":
-                where = where or f"{self.where}: {self.name(el)}"
-            if visibility in ("hidden", "collapse"):
-                hidden_here = True
-            elif visibility == "visible":
-                hidden_here = False
-            else:
-                hidden_here = hidden
+            vis = decl.get("visibility")
+            hidden = frame.hidden
+            if vis is not None:
+                v = vis[0].strip().lower()
+                if v in ("hidden", "collapse"):
+                    hidden = True
+                elif v == "visible":
+                    hidden = False
+            fr = decl.get("fill-rule")
+            fill_rule = frame.fill_rule
+            if fr is not None and fr[0].strip().lower() in ("nonzero", "evenodd"):
+                fill_rule = fr[0].strip().lower()
+            here = _Frame(matrix, hidden, frame.chain, frame.use, frame.viewport, font, fill_rule)
             if tag in _CONTAINERS:
                 if tag == "svg" and el is not self.root:
                     try:
-                        matrix = matrix @ self.nested_viewport(el, where)
+                        vm, vp = self.viewport(el, decl, here, frame.size, where)
                     except SvgReadError as exc:
-                        self.notes.append(ReadNote("error", f"{exc}; element skipped", "svg"))
+                        self.note("error", f"{exc}; element skipped", "svg")
                         continue
-                children = list(el)
+                    if vm is None:
+                        self.count("empty-viewport", self.name(el))
+                        continue
+                    here = _Frame(matrix @ vm, hidden, frame.chain, frame.use, vp, font, fill_rule)
+                children = [c for c in el if isinstance(c.tag, str)]
                 if tag == "switch":
-                    # SVG 1.1 §5.8.2: only the first child whose conditions hold is rendered;
-                    # we support no extensions and take any language.
+                    # SVG 1.1 §5.8.2 / SVG 2 §5.8.3: only the first direct child whose
+                    # conditions evaluate to true is rendered.
                     children = [
                         c
                         for c in children
-                        if isinstance(c.tag, str) and c.get("requiredExtensions") is None
+                        if _local(c.tag) not in _NOT_RENDERED and self.conditions_hold(c)
                     ][:1]
                 for child in reversed(children):
-                    stack.append((child, matrix, hidden_here, chain, use))
+                    stack.append((child, here))
                 continue
             if tag == "use":
-                self.expand_use(el, matrix, hidden_here, chain, use, ids, stack, where)
+                self.expand_use(el, decl, here, ids, stack, where)
                 continue
             if tag in _GEOMETRY:
-                if hidden_here:
+                if hidden:
                     self.count("hidden", self.name(el))
                     continue
-                self.read_geometry(el, tag, matrix, use)
+                self.read_geometry(el, tag, decl, here)
 
-    def nested_viewport(self, el: Any, where: str) -> NDArray[np.float64]:
-        x = _length(el, "x", where, self.ppi)
-        y = _length(el, "y", where, self.ppi)
-        m = translation(x, y)
+    def viewport(
+        self,
+        el: Any,
+        decl: dict[str, Any],
+        frame: _Frame,
+        size: tuple[float | None, float | None] | None,
+        where: str,
+    ) -> tuple[NDArray[np.float64] | None, tuple[float, float] | None]:
+        """A nested ``svg`` or a used ``symbol``: its viewport's matrix and size for its content.
+
+        SVG 2 §5.1.2 and §8.2: x, y place the viewport (0 by default), width and height
+        default to 100 % of the parent viewport ("auto"), and a ``use`` that references the
+        element overrides them with its own width and height when it has them (§5.6.2);
+        with a viewBox, preserveAspectRatio maps it onto the viewport (§8.5, §8.6). A width
+        or height of zero disables rendering (None).
+        """
+        res = self.resolver(el, decl, frame, where)
+        x, y = res("x", "x"), res("y", "y")
         vb = parse_view_box(el.get("viewBox"), where)
+        w = size[0] if size is not None and size[0] is not None else None
+        h = size[1] if size is not None and size[1] is not None else None
+        if w is None and res.given("width"):
+            w = res("width", "x")
+        if h is None and res.given("height"):
+            h = res("height", "y")
+        if frame.viewport is not None:  # "auto": 100 % of the parent viewport
+            w = frame.viewport[0] if w is None else w
+            h = frame.viewport[1] if h is None else h
+        if (w is not None and w < 0) or (h is not None and h < 0):
+            raise SvgReadError(f"{where}: negative width or height")
+        if w == 0 or h == 0:
+            return None, None
+        m = translation(x, y)
         if vb is not None:
-            w = _length(el, "width", where, self.ppi, vb[2])
-            h = _length(el, "height", where, self.ppi, vb[3])
+            if w is None or h is None:
+                raise SvgReadError(
+                    f"{where}: the viewport's size is not known (100 % of a root without a "
+                    "viewBox or absolute size), so its viewBox cannot be applied"
+                )
             m = m @ view_box_transform(vb, w, h, parse_aspect(el.get("preserveAspectRatio")))
-        return m
+            return m, (vb[2], vb[3])
+        # without a viewBox the content keeps its units: only percentages need the size
+        return m, (w, h) if w is not None and h is not None else None
+
+    def _is_ancestor(self, target: Any, el: Any) -> bool:
+        """``target`` is ``el`` or one of its ancestors in the document tree."""
+        if self._parents is None:
+            self._parents = {id(c): p for p in self.root.iter() for c in p}
+        node = el
+        while node is not None:
+            if node is target:
+                return True
+            node = self._parents.get(id(node))
+        return False
 
     def expand_use(
         self,
         el: Any,
-        matrix: NDArray[np.float64],
-        hidden: bool,
-        chain: tuple[int, ...],
-        use: Any,
+        decl: dict[str, Any],
+        frame: _Frame,
         ids: dict[str, Any],
         stack: list,
         where: str,
     ) -> None:
+        """A ``use`` element: its referenced element drawn at x, y (SVG 2 §5.6).
+
+        A reference to an element that is the ``use`` itself or one of its ancestors, in the
+        document or in the chain of uses that led here, is a circular reference: an error
+        for that ``use`` only, which draws nothing (§5.6.2). A ``use`` whose target is
+        another ``use`` is a chain, not a cycle.
+        """
         href = _href(el)
         if not href:
-            self.notes.append(ReadNote("warning", f"{where}: use without a reference", "use"))
+            self.note("warning", f"{where}: use without a reference", "use")
             return
         if not href.startswith("#"):
             self.count("external", f"{self.name(el)} → {href}")
             return
         target = ids.get(href[1:])
         if target is None:
-            self.notes.append(
-                ReadNote("error", f"{where}: reference {href} not found in the file", "use")
-            )
+            self.note("error", f"{where}: reference {href} not found in the file", "use")
             return
-        if id(el) in chain or id(target) in chain:
-            self.notes.append(
-                ReadNote(
-                    "error",
-                    f"{where}: reference {href} leads back to itself (a use cycle); this element "
-                    "was not expanded",
-                    "use-cycle",
-                )
+        if id(target) in frame.chain or self._is_ancestor(target, el):
+            self.note(
+                "error",
+                f"{where}: reference {href} leads back to itself (a use cycle); this use "
+                "draws nothing",
+                "use-cycle",
             )
             return
         self.use_instances += 1
         if self.use_instances > MAX_USE_INSTANCES:
             if self.use_instances == MAX_USE_INSTANCES + 1:
-                self.notes.append(
-                    ReadNote(
-                        "error",
-                        f"{where}: more than {MAX_USE_INSTANCES} use instances; the rest were "
-                        "not expanded",
-                        "use-budget",
-                    )
+                self.note(
+                    "error",
+                    f"{where}: more than {MAX_USE_INSTANCES} use instances; the rest were "
+                    "not expanded",
+                    "use-budget",
                 )
             return
-        ux = _length(el, "x", where, self.ppi)
-        uy = _length(el, "y", where, self.ppi)
-        m = matrix @ translation(ux, uy)
-        new_chain = chain + (id(el), id(target))
+        try:
+            res = self.resolver(el, decl, frame, where)
+            ux, uy = res("x", "x"), res("y", "y")
+            size = (
+                res("width", "x") if res.given("width") else None,
+                res("height", "y") if res.given("height") else None,
+            )
+        except SvgReadError as exc:
+            self.note("error", f"{exc}; element skipped", "use")
+            return
+        m = frame.matrix @ translation(ux, uy)
+        chain = frame.chain + (id(target),)
         # The outermost use: (element, its coordinate system, refers straight to geometry?).
-        if use is None:
-            outer = (el, matrix, _local(target.tag) in _GEOMETRY)
-        else:
-            outer = (use[0], use[1], False)
         ttag = _local(target.tag)
+        if frame.use is None:
+            outer = (el, frame.matrix, ttag in _GEOMETRY)
+        else:
+            outer = (frame.use[0], frame.use[1], False)
+        inner = _Frame(m, frame.hidden, chain, outer, frame.viewport, frame.font,
+                       frame.fill_rule, size)  # fmt: skip
         if ttag == "symbol":
-            vb = parse_view_box(target.get("viewBox"), where)
-            if vb is not None:
-                w = _length(el, "width", where, self.ppi, vb[2])
-                h = _length(el, "height", where, self.ppi, vb[3])
-                m = m @ view_box_transform(
-                    vb, w, h, parse_aspect(target.get("preserveAspectRatio"))
-                )
-            for child in reversed(list(target)):
-                stack.append((child, m, hidden, new_chain, outer))
+            tdecl = self.style.declared(target, ttag) if self.style is not None else {}
+            try:
+                vm, vp = self.viewport(target, tdecl, inner, size, where)
+            except SvgReadError as exc:
+                self.note("error", f"{exc}; element skipped", "use")
+                return
+            if vm is None:
+                self.count("empty-viewport", self.name(el))
+                return
+            content = _Frame(m @ vm, frame.hidden, chain, outer, vp, frame.font, frame.fill_rule)
+            for child in reversed([c for c in target if isinstance(c.tag, str)]):
+                stack.append((child, content))
             return
-        stack.append((target, m, hidden, new_chain, outer))
+        if ttag not in ("svg",):
+            inner = _Frame(m, frame.hidden, chain, outer, frame.viewport, frame.font,
+                           frame.fill_rule)  # fmt: skip
+        stack.append((target, inner))
 
-    def read_geometry(self, el: Any, tag: str, matrix: NDArray[np.float64], use: Any) -> None:
+    def read_geometry(self, el: Any, tag: str, decl: dict[str, Any], frame: _Frame) -> None:
         index = len(self.outlines)
         where = f"{self.where}: {describe(el, index)}"
+        matrix = frame.matrix
         m = None if np.array_equal(matrix, IDENTITY) else matrix
         path_error = False
         if tag in ("polyline", "polygon"):
-            self.read_points(el, tag, index, where, m, use)
+            self.read_points(el, tag, index, where, m, frame)
             return
         try:
-            d = el.get("d") or "" if tag == "path" else shape_path_data(el, where, self.ppi)
+            if tag == "path":
+                d = el.get("d") or ""
+            else:
+                d = shape_path_data(el, where, self.ppi, self.resolver(el, decl, frame, where))
         except SvgReadError as exc:
-            self.notes.append(ReadNote("error", f"{exc}; element skipped", "shape"))
+            self.note("error", f"{exc}; element skipped", "shape")
             if self.error is None and isinstance(exc, SvgPathError):
                 self.error = exc
             return
@@ -571,10 +826,10 @@ class _Reader:
                 if self.error is None:
                     self.error = err
                 else:
-                    self.notes.append(ReadNote("error", str(err), "path"))
+                    self.note("error", str(err), "path")
             for key, n in res.counts.items():
                 self.count(key, describe(el, index), n)
-        self.add_outline(el, tag, index, where, m, use, contours, path_error)
+        self.add_outline(el, tag, index, where, m, frame, contours, path_error)
 
     def read_points(
         self,
@@ -583,12 +838,15 @@ class _Reader:
         index: int,
         where: str,
         m: NDArray[np.float64] | None,
-        use: Any,
+        frame: _Frame,
     ) -> None:
         """A polyline or polygon, read up to the first bad number of its ``points``.
 
         SVG 2 §10.6-10.7: bad points are in error like bad path data, so the pairs before the
         error are kept (§9.5.4) and the error names its offset in the ``points`` attribute.
+        An odd number of coordinates is in error too, and there the standard says what to
+        draw: "the user agent will drop the last, odd coordinate and otherwise render the
+        shape" — a polygon stays closed — and the note says what was kept.
         """
         text = el.get("points") or ""
         ok_end = _POINTS_OK.match(text).end()
@@ -601,8 +859,9 @@ class _Reader:
                 break
         if bad is None and ok_end < len(text.rstrip(" \t\r\n\f")):
             bad = (ok_end, "expected a number")
-        elif bad is None and len(found) % 2:
-            bad = (len(text), "expected a number")
+        odd: tuple[int, str] | None = None
+        if bad is None and len(found) % 2:
+            odd = found[-1]
         found = found[: len(found) - len(found) % 2]
         dots = sum(1 for _, v in found if _TRAILING_DOT.search(v))
         if dots:
@@ -634,7 +893,16 @@ class _Reader:
                 self.error = err
             else:
                 self.notes.append(ReadNote("error", str(err), "path"))
-        self.add_outline(el, tag, index, where, m, use, contours, bad is not None)
+        if odd is not None:
+            self.note(
+                "error",
+                f"{where}: points: odd number of coordinates ({len(found) + 1}); the last one, "
+                f"{odd[1]!r} at offset {odd[0]}, is dropped and the {len(pairs)} point(s) "
+                f"before it are drawn{' as a closed polygon' if tag == 'polygon' else ''} "
+                "(SVG 2 §10.6-10.7)",
+                "points-odd",
+            )
+        self.add_outline(el, tag, index, where, m, frame, contours, bad is not None)
 
     def add_outline(
         self,
@@ -643,10 +911,11 @@ class _Reader:
         index: int,
         where: str,
         m: NDArray[np.float64] | None,
-        use: Any,
+        frame: _Frame,
         contours: list[Contour],
         path_error: bool,
     ) -> None:
+        use = frame.use
         contours = _read_joins(el, contours, where, self.notes)
         if m is not None and is_mirroring(m):
             self.count("mirror", describe(el, index))
@@ -667,6 +936,7 @@ class _Reader:
                 tag=tag,
                 transform=m if m is not None else IDENTITY,
                 source=ref,
+                fill_rule=frame.fill_rule,
             )
         )
 
@@ -681,7 +951,8 @@ class _Reader:
             ("foreignObject", "warning", "{n} foreignObject element(s) kept, not geometry"),
             ("hidden", "info", "{n} hidden element(s) (display:none or visibility:hidden) kept, "
              "not read as outlines (first: {e})"),
-            ("external", "warning", "{n} external reference(s) not fetched (first: {e})"),
+            ("external", "error", "{n} external reference(s) not fetched: what they draw is "
+             "not read (first: {e})"),
             ("arcs", "info", f"{{n}} arc(s) converted to cubics within {self.tolerance:g} of "
              "the radius (first in {e})"),
             ("arc_negative_radius", "warning", "{n} arc(s) with a negative radius: absolute "
@@ -696,6 +967,13 @@ class _Reader:
             ("mirror", "info", "{n} outline(s) under a mirroring transform: their winding is "
              "reversed in page coordinates (first: {e})"),
             ("empty-shape", "info", "{n} shape(s) with zero size render nothing (first: {e})"),
+            ("empty-viewport", "info", "{n} viewport(s) of zero width or height render "
+             "nothing (first: {e})"),
+            ("conditional", "info", "{n} element(s) not rendered: their conditional "
+             "attributes (requiredExtensions, systemLanguage) evaluate to false (first: {e})"),
+            ("language", "warning", f"{{n}} element(s) with systemLanguage evaluated for the "
+             f"language(s) {', '.join(self.languages) or 'none'}; a renderer set to another "
+             "language may draw a different choice (first: {e})"),
         ]  # fmt: skip
         if self.on_unsupported == "skip":
             table = [t for t in table if t[0] not in _NOT_GEOMETRY]
@@ -777,6 +1055,51 @@ def _physical(root: Any, where: str, ppi: float, notes: list[ReadNote]) -> dict[
     }
 
 
+def _root_frame(reader: _Reader, root: Any, phys: dict[str, Any], where: str) -> _Frame:
+    """The state the root's content starts from.
+
+    Coordinates of the model are the root's user units (inside its viewBox). A ``transform``
+    on the root (SVG 2 allows it) acts on the root's viewport, outside the viewBox, so in user
+    units it is V⁻¹ · T · V with V the viewBox-to-viewport matrix: applied once, here.
+    Percentages resolve against the viewBox size, or the width and height in user units.
+    """
+    assert reader.style is not None
+    decl = reader.style.declared(root, "svg")
+    vb = phys["view_box"]
+    ppi = reader.ppi
+    width = parse_length(root.get("width"), f"{where}: <svg> width")
+    height = parse_length(root.get("height"), f"{where}: <svg> height")
+    w_px = width.to_user(ppi) if width is not None else None
+    h_px = height.to_user(ppi) if height is not None else None
+    if vb is not None:
+        viewport: tuple[float, float] | None = (vb[2], vb[3])
+        if w_px is None and h_px is None:
+            w_px, h_px = vb[2], vb[3]
+        elif w_px is None:
+            w_px = h_px * vb[2] / vb[3]  # type: ignore[operator]
+        elif h_px is None:
+            h_px = w_px * vb[3] / vb[2]
+    else:
+        viewport = (w_px, h_px) if w_px is not None and h_px is not None else None
+    font = reader.font_size(decl, INITIAL_FONT_PX, f"{where}: <svg>")
+    fr = decl.get("fill-rule")
+    fill_rule = fr[0].strip().lower() if fr and fr[0].strip().lower() == "evenodd" else "nonzero"
+    first = _Frame(IDENTITY, False, (), None, viewport, font, fill_rule)
+    with np.errstate(over="ignore", invalid="ignore"):
+        own = reader.transform_of(root, decl, first, f"{where}: <svg>")
+    matrix = IDENTITY
+    if own is not None:
+        if vb is not None and w_px and h_px:
+            v = view_box_transform(vb, w_px, h_px, parse_aspect(root.get("preserveAspectRatio")))
+            with np.errstate(over="ignore", invalid="ignore"):
+                matrix = np.linalg.inv(v) @ own @ v
+        else:
+            matrix = own
+        if not np.isfinite(matrix).all():
+            raise SvgReadError(f"{where}: <svg> transform is out of range")
+    return _Frame(matrix, False, (), None, viewport, font, fill_rule)
+
+
 def read_svg(
     source: str | os.PathLike[str] | bytes,
     *,
@@ -786,6 +1109,7 @@ def read_svg(
     max_bytes: int = MAX_BYTES,
     max_entity_chars: int = MAX_ENTITY_CHARS,
     tolerance: float = ARC_TOLERANCE,
+    languages: tuple[str, ...] | list[str] = ("en",),
 ) -> ReadResult:
     """Read an SVG file (or its bytes) into a document, with notes and the first path error.
 
@@ -809,6 +1133,9 @@ def read_svg(
         Longest entity replacement text when entities are allowed.
     tolerance : float
         Arc-to-cubic error bound relative to each arc's larger radius.
+    languages : sequence of str
+        The user's languages for ``systemLanguage`` (BCP 47 tags, SVG 2 §5.8.5); what a
+        renderer draws depends on its user's, so a note names the ones assumed.
 
     Returns
     -------
@@ -862,11 +1189,11 @@ def read_svg(
         eid = el.get("id") if isinstance(el.tag, str) else None
         if eid and eid not in ids:
             ids[eid] = el
-    reader = _Reader(where, px_per_inch, on_unsupported, tolerance)
+    reader = _Reader(where, px_per_inch, on_unsupported, tolerance, tuple(languages))
     reader.root = root
     reader.xml = xml
-    root_matrix = parse_transform(root.get("transform"), f"{where}: <svg>")
-    reader.walk(root, ids, root_matrix)
+    reader.style = StyleResolver(root, reader.note, where)
+    reader.walk(root, ids, _root_frame(reader, root, phys, where))
     reader.summary_notes()
     doc = Document(
         outlines=tuple(reader.outlines),

@@ -12,9 +12,11 @@ same folder, fsync it, ``os.replace`` it over the target, fsync the folder.
 
 from __future__ import annotations
 
+import codecs
 import math
 import os
 import re
+import stat
 import tempfile
 from collections.abc import Sequence
 from pathlib import Path
@@ -46,6 +48,7 @@ __all__ = [
     "write_file_atomic",
     "polylines_svg",
     "joins_text",
+    "one_line",
 ]
 
 CUT_CAUTION = (
@@ -70,6 +73,22 @@ _TAG_NAME_RE = re.compile(rb"<([^\s/>]+)")
 _END_TAG_RE = re.compile(rb"</([^\s>]+)")
 _TAG_END_RE = re.compile(rb"\s*(/?)>")
 _NS_DECL_RE = re.compile(r"xmlns:([A-Za-z_][\w.-]*)")
+_CONTROL_RE = re.compile(r"[\x00-\x1f\x7f\x85\u2028\u2029]")
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks and other control characters written as escapes.
+
+    An id or name from a file goes into one-line messages; a newline in it (allowed in
+    XML attribute values as ``&#10;``) would split the message and could make its second
+    line pose as a message about another file. ``"a\\nb"`` is written ``a\\nb``.
+
+    Examples
+    --------
+    >>> one_line("logo\\nfake.svg: error")
+    'logo\\\\nfake.svg: error'
+    """
+    return _CONTROL_RE.sub(lambda m: repr(m.group())[1:-1], text)
 
 
 def joins_text(contours: Sequence[Contour]) -> str | None:
@@ -167,12 +186,28 @@ def _element_contours(outline: Outline, matrix: NDArray[np.float64]) -> list[Con
     return out
 
 
+def _codec(encoding: str) -> str:
+    """The Python codec of a declared encoding; ASCII (with character references for the
+    rest) when Python does not know the name."""
+    try:
+        return codecs.lookup(encoding).name
+    except LookupError:
+        return "ascii"
+
+
 class _Splicer:
     def __init__(self, src: SvgSource) -> None:
         self.src = src
         self.data = src.xml.data
         self.edits: list[tuple[int, int, bytes]] = []
         self.prefix = self._joins_prefix()
+        self.codec = _codec(src.xml.encoding)
+
+    def encode(self, text: str) -> bytes:
+        """Text spliced into the file, in the file's own encoding (XML 1.0 §4.3.3); a
+        character the encoding cannot hold becomes a character reference (§4.1), which
+        reads back as the same character."""
+        return text.encode(self.codec, "xmlcharrefreplace")
 
     def _root_start(self) -> tuple[int, int]:
         start = self.src.xml.spans[id(self.src.xml.root)][0]
@@ -232,14 +267,14 @@ class _Splicer:
             elif name in values:
                 if values[name] is not None:
                     q = a.group(2)[:1]
-                    pieces.append(tag[pos : a.start(2)] + q + values[name].encode() + q)
+                    pieces.append(tag[pos : a.start(2)] + q + self.encode(values[name]) + q)
                 done.add(name)
             else:
                 pieces.append(tag[pos : a.end()])
             pos = a.end()
         for name, value in values.items():
             if name not in done and value is not None:
-                pieces.append(f' {name}="{value}"'.encode())
+                pieces.append(self.encode(f' {name}="{value}"'))
         pieces.append(tag[pos:])
         self.edits.append((start, end, b"".join(pieces)))
         if rename_to:
@@ -417,7 +452,7 @@ def _fork_use(sp: _Splicer, use: Any, outlines: Sequence[Outline]) -> None:
     remove = [n for n in raw_names if n in ("x", "y", "width", "height", "href")]
     remove += [n for n in raw_names if n.endswith(":href")]
     sp.set_attrs(use, {}, remove=remove, rename_to="g")
-    sp.fill(use, "".join(parts).encode(), "g")
+    sp.fill(use, sp.encode("".join(parts)), "g")
 
 
 # Containers whose content is not drawn where it stands (checked no further for a fork).
@@ -466,7 +501,7 @@ def _refuse_lossy_fork(src: SvgSource, members: Sequence[Outline]) -> None:
         where = src.path or "<bytes>"
         eid = use.get("id")
         if eid:
-            label = f'<use id="{eid}">'
+            label = f'<use id="{one_line(eid)}">'
         else:
             line = src.xml.data.count(b"\n", 0, src.xml.spans[id(use)][0]) + 1
             label = f"<use> at line {line}"
@@ -553,7 +588,7 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
             parts.append(
                 _path_element(format_path_data(contours), joins, outline.element_id, sp.prefix[0])
             )
-        sp.append(b"".join(parts))
+        sp.append(sp.encode(b"".join(parts).decode("utf-8")))
     if need_prefix:
         sp.declare_prefix()
     written_old.sort(key=lambda t: t[0])
@@ -711,35 +746,85 @@ def _umask() -> int:
     return mask
 
 
+def _temporary_prefix(target: Path) -> str:
+    return f".{target.name}."
+
+
+def _remove_stale_temporaries(target: Path) -> None:
+    """Remove temporary files that earlier saves of ``target`` left behind.
+
+    A save killed between creating its temporary file and renaming it (power cut, SIGKILL)
+    leaves ``.NAME.PID.XXXX.tmp`` beside the target. The next save of the same target
+    removes every such file whose process is gone; one whose process still runs may be a
+    save in progress and is left alone.
+    """
+    prefix = _temporary_prefix(target)
+    try:
+        names = [e.name for e in os.scandir(target.parent) if e.name.startswith(prefix)]
+    except OSError:
+        return
+    for name in names:
+        rest = name[len(prefix) :]
+        pid_text, _, tail = rest.partition(".")
+        if not (tail.endswith(".tmp") and pid_text.isdigit()):
+            continue
+        pid = int(pid_text)
+        if pid != os.getpid():
+            try:
+                os.kill(pid, 0)
+                continue  # that process still runs: maybe a save in progress
+            except ProcessLookupError:
+                pass
+            except OSError:
+                continue  # another user's process: not ours to judge
+        try:
+            os.unlink(target.parent / name)
+        except OSError:
+            pass
+
+
 def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
     """Write ``data`` to ``path`` atomically: the old file stays intact on any failure.
 
     Parameters
     ----------
     path : str or path-like
-        Target file. A symbolic link is followed (the file it names is replaced, the link
-        stays).
+        Target file: a regular file or a new name. A symbolic link is followed (the file it
+        names is replaced, the link stays).
     data : bytes
         The complete new content.
 
     Raises
     ------
     SvgWriteError
-        A read-only target (refused, never replaced), a folder where no file can be
-        created, or a disk error; the old file is then left as it was and no temporary file
-        remains.
+        A target that is not a regular file (a FIFO, a device node such as ``/dev/null``,
+        a folder, a socket: refused, never replaced), a read-only target (refused), a
+        folder where no file can be created, or a disk error; the old file is then left as
+        it was and no temporary file remains.
 
     Notes
     -----
-    Write a temporary file in the target's folder, flush and fsync it; ``os.replace`` it
-    over the target (atomic on POSIX and Windows); fsync the folder so the rename itself is
-    durable. The file keeps the old file's permission bits, or gets ``0o666`` minus the
-    umask when new, as ``open(2)`` would.
+    Write a temporary file ``.NAME.PID.XXXX.tmp`` in the target's folder, flush and fsync
+    it; ``os.replace`` it over the target (atomic on POSIX and Windows); fsync the folder so
+    the rename itself is durable. The file keeps the old file's permission bits, or gets
+    ``0o666`` minus the umask when new, as ``open(2)`` would. Temporary files of earlier
+    saves of the same target whose process is gone (a killed save) are removed first.
     """
     shown = Path(path)  # the name the user knows, for messages
     target = Path(os.path.realpath(shown))
-    if target.exists():
-        mode = target.stat().st_mode & 0o7777
+    try:
+        st = os.stat(target)
+    except FileNotFoundError:
+        st = None
+    except OSError as exc:
+        raise SvgWriteError(f"{shown}: cannot save: {exc.strerror or exc}") from None
+    if st is not None:
+        if not stat.S_ISREG(st.st_mode):
+            raise SvgWriteError(
+                f"{shown}: not a regular file ({_file_kind(st.st_mode)}); refused, nothing was "
+                "written (save to a file name)"
+            )
+        mode = st.st_mode & 0o7777
         # Permission bits too, not only os.access: an administrator could write anyway, but
         # a file marked read-only is not meant to be replaced.
         if not os.access(target, os.W_OK) or not mode & 0o222:
@@ -747,8 +832,11 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
     else:
         mode = 0o666 & ~_umask()  # what open(2) would give a new file
     directory = target.parent
+    _remove_stale_temporaries(target)
     try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
+        fd, tmp = tempfile.mkstemp(
+            prefix=f"{_temporary_prefix(target)}{os.getpid()}.", suffix=".tmp", dir=directory
+        )
     except OSError as exc:
         raise SvgWriteError(
             f"{shown}: cannot create a file in {directory}: {exc.strerror or exc}"
@@ -769,6 +857,19 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
             raise SvgWriteError(f"{shown}: save failed, the old file is unchanged: {exc}") from None
         raise
     _fsync_dir(directory)
+
+
+def _file_kind(mode: int) -> str:
+    for test, name in (
+        (stat.S_ISFIFO, "a FIFO"),
+        (stat.S_ISCHR, "a character device"),
+        (stat.S_ISBLK, "a block device"),
+        (stat.S_ISDIR, "a folder"),
+        (stat.S_ISSOCK, "a socket"),
+    ):
+        if test(mode):
+            return name
+    return "not a plain file"
 
 
 def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:

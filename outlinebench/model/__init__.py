@@ -38,6 +38,22 @@ from outlinebench.model.document import (
     frozen_points,
 )
 from outlinebench.model.history import HISTORY_LIMIT, History
+from outlinebench.model.repairs import (
+    DEFAULT_MAX_CHANGE,
+    REPAIR_KINDS,
+    REPAIR_ORDER,
+    AddExtremumPoints,
+    CloseGap,
+    FitCurves,
+    FixDirection,
+    JoinContours,
+    MatchCurvature,
+    RemoveOverlaps,
+    RemoveRedundantPoints,
+    RepairCommand,
+    SmoothKink,
+    set_union_engine,
+)
 from outlinebench.model.tools import (
     DrawContourTool,
     InsertPointTool,
@@ -104,4 +120,19 @@ __all__ = [
     "nudge",
     "pick_point",
     "points_in_rect",
+    # repairs
+    "DEFAULT_MAX_CHANGE",
+    "REPAIR_KINDS",
+    "REPAIR_ORDER",
+    "RepairCommand",
+    "CloseGap",
+    "JoinContours",
+    "SmoothKink",
+    "MatchCurvature",
+    "AddExtremumPoints",
+    "RemoveRedundantPoints",
+    "FitCurves",
+    "FixDirection",
+    "RemoveOverlaps",
+    "set_union_engine",
 ]

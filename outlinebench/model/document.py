@@ -189,6 +189,9 @@ class Outline:
         of every ``transform`` on the way down). The writer applies its inverse.
     source : Any
         Opaque handle the SVG writer uses to find the element again (None when new).
+    fill_rule : {"nonzero", "evenodd"}
+        The SVG ``fill-rule`` the outline is drawn with (W3C SVG 2 §13.4.2): which parts of
+        the plane its contours fill.
     """
 
     contours: tuple[Contour, ...]
@@ -197,6 +200,7 @@ class Outline:
     tag: str = "path"
     transform: NDArray[np.float64] = field(default_factory=lambda: IDENTITY)
     source: Any = None
+    fill_rule: str = "nonzero"
 
     def __post_init__(self) -> None:
         if self.transform is not IDENTITY:

@@ -12,7 +12,7 @@ Exit codes (every subcommand; the highest one wins when several files are checke
 """
 
 # Module names under this package, in the order ``--help`` lists them.
-SUBCOMMANDS: tuple[str, ...] = ("check", "measure", "flatten", "offset", "deviation")
+SUBCOMMANDS: tuple[str, ...] = ("check", "measure", "flatten", "offset", "deviation", "repair")
 
 EXIT_OK = 0
 EXIT_FINDINGS = 1

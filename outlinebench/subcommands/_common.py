@@ -20,6 +20,8 @@ from __future__ import annotations
 import argparse
 import json
 import math
+import os
+import stat
 import sys
 from dataclasses import dataclass
 from pathlib import Path
@@ -27,7 +29,9 @@ from typing import Any, TextIO
 
 import numpy as np
 
-from outlinebench.diagnostics.file_findings import FileFinding, file_findings
+from outlinebench.diagnostics.file_findings import FileFinding, file_findings, has_segments
+from outlinebench.diagnostics.report import unit_words as _unit_words
+from outlinebench.diagnostics.settings import DEFAULT_GAP_MM
 from outlinebench.errors import (
     OutlinebenchError,
     SvgReadError,
@@ -51,6 +55,12 @@ __all__ = [
     "ENTITY_OPTION",
     "add_entity_option",
     "note_line",
+    "DEFAULT_TOLERANCE_MM",
+    "TOLERANCE_RULE",
+    "tolerance_user",
+    "refuse_overwrite",
+    "require_segments",
+    "unit_words",
     "positive_float",
     "nonnegative_float",
     "clean_json",
@@ -267,6 +277,79 @@ def read_document(path: str | Path, *, allow_entities: bool = False) -> tuple[Do
     """
     doc, notes = read_svg_file(path, allow_entities=allow_entities)
     return doc, [note_line(n) for n in notes]
+
+
+# Default tolerance of flatten, offset and deviation: the same physical length as check's gap
+# tolerance (0.01 mm), converted to each file's user units through its scale, so the three
+# commands mean the same thing by "the default" on the same file.
+DEFAULT_TOLERANCE_MM = DEFAULT_GAP_MM
+TOLERANCE_RULE = (
+    f"default {DEFAULT_TOLERANCE_MM:g} mm, converted through the file's width/height and "
+    "viewBox (96 px per inch where it states no unit): the same physical length as check's "
+    "default gap tolerance"
+)
+
+
+def tolerance_user(doc: Document, given: float | None, unit: str) -> float:
+    """A tolerance in the document's user units: ``given`` in ``unit``, or the default.
+
+    The default is :data:`DEFAULT_TOLERANCE_MM` millimetres through the file's scale
+    (:attr:`Document.mm_per_unit`), whatever ``--units`` says.
+    """
+    if given is None:
+        return DEFAULT_TOLERANCE_MM / doc.mm_per_unit
+    return given / unit_factor(doc, unit)
+
+
+def refuse_overwrite(output: str | os.PathLike[str], inputs: list[str]) -> None:
+    """Refuse an output path that is one of the inputs, or not a regular file.
+
+    Compared by file identity (device and inode, :func:`os.path.samefile`), not by name, so
+    ``./a.svg``, a hard link or a symbolic link to an input are refused too. An existing
+    target that is not a regular file (a device, a FIFO, a folder) is refused: replacing it
+    would change what it is.
+
+    Raises
+    ------
+    OutlinebenchError
+        One line naming the output and the input it would overwrite.
+    """
+    out = os.fspath(output)
+    try:
+        st = os.stat(out)
+    except FileNotFoundError:
+        return
+    except OSError as exc:
+        raise OutlinebenchError(f"{out}: cannot write the output here ({exc.strerror})") from None
+    if not stat.S_ISREG(st.st_mode):
+        raise OutlinebenchError(f"{out}: output refused: it exists and is not a regular file")
+    for src in inputs:
+        try:
+            same = os.path.samefile(out, src)
+        except OSError:
+            continue
+        if same:
+            raise OutlinebenchError(
+                f"{out}: output refused: it is the input file {src}; write to a new file"
+            )
+
+
+def unit_words(unit: str) -> str:
+    """The name of a length unit in sentences: "user units", "mm", "inches", "pt", "px"."""
+    return _unit_words(unit)
+
+
+def require_segments(doc: Document, path: str | Path, verb: str) -> None:
+    """Refuse a document with nothing to work on: no contour of it has a segment.
+
+    Raises
+    ------
+    OutlinebenchError
+        ``FILE: nothing to <verb>: no outline has a segment`` (an empty cut file would be
+        silently wrong).
+    """
+    if not has_segments(doc):
+        raise OutlinebenchError(f"{path}: nothing to {verb}: no outline of the file has a segment")
 
 
 def positive_float(text: str) -> float:

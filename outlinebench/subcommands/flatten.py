@@ -32,16 +32,21 @@ from typing import Any
 import numpy as np
 
 from outlinebench.errors import OutlinebenchError
-from outlinebench.geometry.flatten import DEFAULT_FLATTEN_TOLERANCE, flatten_contours_bounded
+from outlinebench.geometry.flatten import flatten_contours_bounded
 from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.model.document import Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    TOLERANCE_RULE,
     cut_file_bytes,
     output_decimals,
     positive_float,
     read_document,
+    refuse_overwrite,
+    require_segments,
+    tolerance_user,
     unit_factor,
+    unit_words,
     write_json,
 )
 
@@ -57,10 +62,9 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--tolerance",
         type=positive_float,
-        default=DEFAULT_FLATTEN_TOLERANCE,
+        default=None,
         metavar="EPS",
-        help=f"largest allowed deviation of a chord from its curve, in --units "
-        f"(default {DEFAULT_FLATTEN_TOLERANCE})",
+        help=f"largest allowed deviation of a chord from its curve, in --units ({TOLERANCE_RULE})",
     )
     parser.add_argument("-o", "--output", metavar="OUT.svg", help="write the polylines here")
     parser.add_argument("--json", action="store_true", help="print JSON instead of text")
@@ -109,11 +113,15 @@ def flatten_document(doc: Document, tolerance: float, rounding: float = 0.0) -> 
 
 def run(args: argparse.Namespace) -> int:
     """Flatten ``args.file``; exit 0, or 1 if a measured deviation exceeds the tolerance."""
+    if args.output:
+        refuse_overwrite(args.output, [args.file])
     doc, notes = read_document(args.file)
     for note in notes:
-        print(f"outlinebench: {args.file}: {note}", file=sys.stderr)
+        print(f"outlinebench: {note}", file=sys.stderr)
+    require_segments(doc, args.file, "flatten")
     f = unit_factor(doc, args.units)
-    tol_user = args.tolerance / f
+    tol_user = tolerance_user(doc, args.tolerance, args.units)
+    args.tolerance = tol_user * f  # in --units from here on
     # resolution of the written coordinates: JSON in --units, the cut file in mm
     k_json = output_decimals(args.tolerance)
     k_mm = output_decimals(tol_user * doc.mm_per_unit)
@@ -127,9 +135,9 @@ def run(args: argparse.Namespace) -> int:
     if args.output:
         comment = (
             f"Flattened from {Path(args.file).name} by outlinebench with tolerance "
-            f"{args.tolerance:g} {args.units}; coordinates rounded to {10.0**-k_mm:.0e} mm; "
-            f"proven largest deviation including that rounding "
-            f"{result['max_deviation'] * f:.6g} {args.units}."
+            f"{args.tolerance:.6g} {unit_words(args.units)}; coordinates rounded to "
+            f"{10.0**-k_mm:.0e} mm; proven largest deviation including that rounding "
+            f"{result['max_deviation'] * f:.6g} {unit_words(args.units)}."
         )
         polys = [c["points"] for c in result["contours"]]
         data = cut_file_bytes(
@@ -158,8 +166,8 @@ def run(args: argparse.Namespace) -> int:
         chords = sum(len(c["points"]) - (0 if c["closed"] else 1) for c in result["contours"])
         print(
             f"{args.file}: {len(result['contours'])} contours, {chords} chords, "
-            f"tolerance {args.tolerance:g} {args.units}, proven largest deviation "
-            f"{result['max_deviation'] * f:.6g} {args.units}"
+            f"tolerance {args.tolerance:.6g} {unit_words(args.units)}, proven largest "
+            f"deviation {result['max_deviation'] * f:.6g} {unit_words(args.units)}"
             + (" — EXCEEDS the tolerance" if exceeded else "")
         )
         if args.output:

@@ -21,6 +21,7 @@ import numpy as np
 from outlinebench.diagnostics import check_document
 from outlinebench.diagnostics.continuity import turn_angles
 from outlinebench.diagnostics.enclosed_area import enclosed_area
+from outlinebench.diagnostics.report import format_file_finding
 from outlinebench.geometry import (
     KIND_BY_DEGREE,
     arc_length,
@@ -30,12 +31,14 @@ from outlinebench.geometry import (
     signed_area,
 )
 from outlinebench.model.document import Contour, Document
+from outlinebench.subcommands import EXIT_FINDINGS, EXIT_OK
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     add_entity_option,
     note_line,
-    read_svg_file,
+    read_svg_partly,
     unit_factor,
+    unit_words,
     write_json,
 )
 
@@ -176,8 +179,10 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
             bbox = None
         first += n
         cuts = crossings.get(ref.global_index)
-        if not (c.closed and c.segments):
-            area = None
+        if not c.closed:
+            area = None  # an open contour encloses nothing
+        elif not c.segments:
+            area = 0.0  # a closed lone moveto ("M x y Z") draws a point
         elif cuts is None:
             area = abs(float(signed_area(list(c.segments)))) * f * f
         else:
@@ -212,12 +217,14 @@ def measure_document(doc: Document, unit: str = "user", joins: bool = False) -> 
 
 
 def _fmt(v: float | None) -> str:
-    return "null" if v is None else f"{v:.6g}"
+    if v is None:
+        return "n/a"
+    text = f"{v:.6g}" if abs(v) < 1e5 else f"{v:.9g}"
+    return "0" if text == "-0" else text
 
 
 def _text(label: str, m: dict[str, Any]) -> str:
-    u = m["units"]
-    unit_name = "user units" if u == "user" else u
+    unit_name = unit_words(m["units"])
     t = m["totals"]
     lines = [
         f"{label}: {t['contours']} contours, {t['segments']} segments, total length "
@@ -232,9 +239,10 @@ def _text(label: str, m: dict[str, Any]) -> str:
         state = "closed" if c["closed"] else f"open (ends {_fmt(c.get('ends_distance'))} apart)"
         if c["self_intersecting"]:
             state += ", crosses itself"
+        area = f"area {_fmt(c['area'])}" if c["area"] is not None else "no area (open)"
         lines.append(
             f"contour {c['contour']} (outline {c['outline']}{name}): {state}, length "
-            f"{_fmt(c['length'])}, area {_fmt(c['area'])}, bbox {box_s}"
+            f"{_fmt(c['length'])}, {area}, bbox {box_s}"
         )
         for k, s in enumerate(c["segments"]):
             lines.append(f"  segment {k}: {s['kind']}, length {_fmt(s['length'])}")
@@ -249,14 +257,31 @@ def _text(label: str, m: dict[str, Any]) -> str:
 
 
 def run(args: argparse.Namespace) -> int:
-    """Measure one file; exit code 0, or 2 when it cannot be read (raised to the CLI)."""
-    doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
+    """Measure one file as far as it can be read.
+
+    Exit code 0 when all of it was read, 1 when part of it could not be read or it holds
+    nothing to measure (every such error is printed and listed under ``findings``), 2 when
+    nothing of it can be read.
+    """
+    read = read_svg_partly(args.file, allow_entities=args.allow_entities, allow_text=True)
+    doc = read.document
     unit_factor(doc, args.units)  # refuses a unit the file's scale cannot give, before notes
-    for note in notes:
+    for note in read.notes:
         print(f"outlinebench: {note_line(note)}", file=sys.stderr)
     m = measure_document(doc, args.units, args.joins)
+    problems = [f for f in read.file_findings if f.severity in ("error", "warning")]
     if args.json:
-        write_json({"file": args.file, **m, "notes": notes})
+        write_json(
+            {
+                "file": args.file,
+                "complete": not problems,
+                **m,
+                "findings": [f.to_dict() for f in read.file_findings],
+                "notes": read.notes,
+            }
+        )
     else:
+        for f in read.file_findings:
+            print(format_file_finding(args.file, f))
         print(_text(args.file, m))
-    return 0
+    return EXIT_FINDINGS if problems else EXIT_OK

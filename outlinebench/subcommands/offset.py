@@ -29,15 +29,21 @@ from typing import Any
 import numpy as np
 
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING, Finding, is_problem
-from outlinebench.geometry.offset import DEFAULT_OFFSET_TOLERANCE, hole_flags, offset_contour
+from outlinebench.diagnostics.report import format_finding
+from outlinebench.geometry.offset import hole_flags, offset_contour
 from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
+    TOLERANCE_RULE,
     cut_file_bytes,
     output_decimals,
     positive_float,
     read_document,
+    refuse_overwrite,
+    require_segments,
+    tolerance_user,
     unit_factor,
+    unit_words,
     write_json,
 )
 
@@ -70,10 +76,9 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--tolerance",
         type=positive_float,
-        default=DEFAULT_OFFSET_TOLERANCE,
+        default=None,
         metavar="EPS",
-        help=f"largest distance of the result from the exact offset, in --units "
-        f"(default {DEFAULT_OFFSET_TOLERANCE})",
+        help=f"largest distance of the result from the exact offset, in --units ({TOLERANCE_RULE})",
     )
     parser.add_argument(
         "--per-contour",
@@ -94,10 +99,14 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     """Offset every contour of ``args.file``; exit 1 when the tool does not fit somewhere."""
+    if args.output:
+        refuse_overwrite(args.output, [args.file])
     doc, notes = read_document(args.file)
     for note in notes:
-        print(f"outlinebench: {args.file}: {note}", file=sys.stderr)
+        print(f"outlinebench: {note}", file=sys.stderr)
+    require_segments(doc, args.file, "offset")
     f = unit_factor(doc, args.units)
+    args.tolerance = tolerance_user(doc, args.tolerance, args.units) * f  # in --units
     d_user = args.distance / f
     # written coordinates are rounded (JSON in --units, the cut file in mm; see
     # outlinebench.subcommands.flatten): the offset is computed within the tolerance less
@@ -114,6 +123,29 @@ def run(args: argparse.Namespace) -> int:
             for ci, flag in enumerate(hole_flags(outline.contours, tol_user)):
                 holes[(oi, ci)] = flag
     for ref in doc.contour_refs():
+        if not ref.contour.segments:
+            continue  # a lone moveto draws nothing
+        pts = np.vstack(ref.contour.segments)
+        if float(np.ptp(pts, axis=0).max()) <= tol_user:
+            # every control point within the tolerance of one place: no length, no area, so
+            # no toolpath (common practice, no source: a dot is not cut)
+            outline = doc.outlines[ref.outline].source_index
+            findings.append(
+                Finding(
+                    kind="vanishes",
+                    severity=WARNING,
+                    outline=outline if outline >= 0 else ref.outline,
+                    contour=ref.global_index,
+                    segment=None,
+                    t=None,
+                    x=float(pts[0, 0]) * f,
+                    y=float(pts[0, 1]) * f,
+                    value=0.0,
+                    unit=args.units,
+                    message="the contour has no length (all its points coincide): no toolpath",
+                )
+            )
+            continue
         # material grows for d > 0: outer boundaries move outward, holes inward
         d_here = -d_user if holes.get((ref.outline, ref.index), False) else d_user
         res = offset_contour(ref.contour.segments, ref.contour.closed, d_here, tol_user)
@@ -158,8 +190,8 @@ def run(args: argparse.Namespace) -> int:
             )
     if args.output:
         comment = (
-            f"Offset of {Path(args.file).name} by {args.distance:g} {args.units} with "
-            f"tolerance {args.tolerance:g} {args.units}, by outlinebench; "
+            f"Offset of {Path(args.file).name} by {args.distance:g} {unit_words(args.units)} "
+            f"with tolerance {args.tolerance:.6g} {unit_words(args.units)}, by outlinebench; "
             f"{sum(is_problem(x) for x in findings)} places where the tool does not fit; "
             f"coordinates rounded to {10.0**-k_mm:.0e} mm (included in the tolerance)."
         )
@@ -189,10 +221,7 @@ def run(args: argparse.Namespace) -> int:
         )
     else:
         for x in findings:
-            print(
-                f"{args.file}: contour {x.contour}, segment {x.segment}: {x.kind} at "
-                f"({x.x:.6g}, {x.y:.6g}) [{x.severity}]: {x.message}"
-            )
+            print(f"{format_finding(args.file, x)}: {x.message}")
         print(
             f"{args.file}: {len(contours)} offset contours, {len(findings)} findings "
             f"({sum(is_problem(x) for x in findings)} of warning level or worse)"

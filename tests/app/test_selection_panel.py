@@ -187,7 +187,7 @@ def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
     # The CLI's own line for the corner at (170, 20) of the stroke (the file's second contour).
     corner = next(f for f in check_document(s.document) if (f.x, f.y) == (170.0, 20.0))
     line = format_finding("f.svg", corner)
-    assert "contour 1, segment 0" in line
+    assert "contour 1, join 0" in line
     assert corner.join == 0
     s.set_selection([(1, 0, 0, 3)])  # that point, the end of segment 0
     # The panel and the findings list (where_text) name it with the CLI's numbers.
@@ -195,7 +195,8 @@ def test_contours_and_segments_are_numbered_as_the_check_command_does(window):
     window.findings_panel.show_info.setChecked(True)  # the corner is an info finding
     model = window.findings_panel.model
     shown = next(f for f, _ in model.rows if (f.kind, f.join) == ("corner", 0) and f.contour == 1)
-    assert model.cell_text(shown, COLUMNS.index("Where")) == "1 · join 0"
+    # The list's words are the CLI's (outlinebench.diagnostics.place_text).
+    assert model.cell_text(shown, COLUMNS.index("Where")) == "contour 1, join 0"
 
 
 def test_typing_a_curve_length_scales_the_segment_about_its_start(window):

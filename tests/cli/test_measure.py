@@ -80,7 +80,7 @@ def test_text_output_and_open_contour(tmp_path, capsys):
     )
     code, out, _ = measure([str(f)], capsys)
     assert code == 0
-    assert "contour 0 (outline 0, id stroke): open (ends 5 apart), length 5, area null" in out
+    assert "contour 0 (outline 0, id stroke): open (ends 5 apart), length 5, no area (open)" in out
     _, out, _ = measure([str(f), "--json"], capsys)
     c = json.loads(out)["contours"][0]
     assert c["area"] is None and c["length"] == pytest.approx(5.0)  # 3-4-5 triangle
@@ -93,15 +93,35 @@ def test_missing_file_exit_2_one_line(tmp_path, capsys):
 
 
 def test_json_carries_the_readers_notes(tmp_path, capsys):
-    # review item 11: the reader's warning about an unconverted <text> is in the JSON too
+    # the unconverted <text> is listed (info: measuring does not cut) and the file is complete
     f = tmp_path / "mixed.svg"
     f.write_text(
         '<svg xmlns="http://www.w3.org/2000/svg"><text>Kestrel</text><path d="M0,0 L3,4"/></svg>'
     )
     code, out, _ = measure([str(f), "--json"], capsys)
     data = json.loads(out)
-    assert code == 0 and [n["kind"] for n in data["notes"]] == ["text"]
-    assert data["notes"][0]["level"] == "warning"
+    assert code == 0 and data["complete"] is True
+    assert [(x["kind"], x["severity"]) for x in data["findings"]] == [("live-text", "info")]
+
+
+def test_a_partly_readable_file_is_measured_and_every_error_listed(tmp_path, capsys):
+    # SVG 2 §9.5.4: path data is rendered up to its first error; the second path's error and
+    # a rect with a bad width (skipped) are listed too, not only the first. The first path
+    # keeps M0,0 L3,4 (length 5: the 3-4-5 triangle), the third is whole (length 10).
+    f = tmp_path / "partly.svg"
+    f.write_text(
+        '<svg xmlns="http://www.w3.org/2000/svg"><path d="M0,0 L3,4 L x"/>'
+        '<path d="M0,0 Q"/><rect width="bad" height="3"/><path d="M0,0 H10"/></svg>'
+    )
+    code, out, _ = measure([str(f), "--json"], capsys)
+    data = json.loads(out)
+    assert code == 1 and data["complete"] is False
+    errs = [x for x in data["findings"] if x["kind"] == "read-error"]
+    assert len(errs) == 3
+    lengths = [c["length"] for c in data["contours"]]
+    assert lengths[0] == pytest.approx(5.0) and lengths[-1] == pytest.approx(10.0)
+    code, out, _ = measure([str(f)], capsys)
+    assert code == 1 and out.count("read-error") == 3
 
 
 def test_internal_entities_need_the_command_line_option(tmp_path, capsys):

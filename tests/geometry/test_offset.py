@@ -8,6 +8,7 @@ import pytest
 import shapely
 
 from outlinebench.errors import InvalidGeometryError
+from outlinebench.geometry.flatten import flatten_contours
 from outlinebench.geometry.offset import offset_contour
 
 # Radial error of the cubic quarter circle with handle 4/3·tan(π/8): 2.73e-4 of the radius
@@ -435,3 +436,166 @@ def test_open_corner_offsets_to_one_open_contour(d):
     assert shapely.hausdorff_distance(shapely.LineString(c.polyline), ref, densify=0.01) <= (
         0.01 + 1e-4
     )
+
+
+# --------------------------------------------------------------------------------------------
+# offsets of whole regions (issue 10)
+# --------------------------------------------------------------------------------------------
+def _sample_doc(name):
+    from pathlib import Path
+
+    from outlinebench.io import read_svg
+
+    return read_svg(Path(__file__).parents[2] / "samples" / name).document
+
+
+def _check_toolpaths_with_shapely(res, region_contours, d, eps):
+    """No crossings and every point at |d| ± ε from the region, measured with shapely on
+    the `bezier` library's samples of the fitted cubics and on the polylines."""
+    rings = [shapely.LinearRing(c.polyline) for c in res.contours]
+    assert all(r.is_simple for r in rings)
+    # toolpaths may touch at single points (the bracket's hole at (23, 20) is exactly 2|d|
+    # from the outer edge) but never cross: the rings' even-odd region is a valid shapely
+    # geometry, and where two rings meet they share vertices only
+    region = None
+    for r in rings:
+        p = shapely.Polygon(r)
+        region = p if region is None else region.symmetric_difference(p)
+    assert region is None or region.is_valid
+    for i in range(len(rings)):
+        for j in range(i + 1, len(rings)):
+            meet = shapely.get_coordinates(rings[i].intersection(rings[j]))
+            assert len(meet) <= 2, (i, j)
+    boundary = shapely.MultiLineString([dense(c, 400) for c in region_contours])
+    pts = result_samples(res)
+    err = np.abs(shapely.distance(shapely.points(pts), boundary) - abs(d))
+    # ε plus the reference's chord error between 400 samples per segment (≤ 1e-4 here)
+    assert np.max(err) <= eps + 1e-4
+
+
+def test_bracket_shrunk_by_4_5_mm_keeps_holes_and_outer_apart():
+    from outlinebench.geometry.offset import offset_region, verify_toolpaths
+
+    doc = _sample_doc("workshop-bracket.svg")
+    outline = doc.outlines[0]
+    d, eps = -4.5 / doc.mm_per_unit, 0.01
+    # before: each contour on its own — the shrunk outer contour crosses the grown holes
+    # (the bug of issue 10, seen with shapely)
+    holes = [False, True, True, True]
+    alone = [
+        offset_contour(c.segments, True, -d if h else d, eps).contours[0].polyline
+        for c, h in zip(outline.contours, holes, strict=True)
+    ]
+    outer = shapely.LinearRing(alone[0])
+    assert sum(outer.intersects(shapely.LinearRing(p)) for p in alone[1:]) == 3
+    # after: the region offset as a whole
+    res = offset_region(outline.contours, d, fill_rule="evenodd", tolerance=eps)
+    _check_toolpaths_with_shapely(res, [c.segments for c in outline.contours], d, eps)
+    assert verify_toolpaths(res.region.contours, res.contours, d, tolerance=eps) == []
+    # the region matches shapely's buffer of the flattened bracket (no curves; 64 chords
+    # per quarter circle, chord error 4.5·(1 − cos(π/256)) < 4e-4)
+    flat = [shapely.Polygon(p) for p in flatten_contours(outline.contours, eps / 10)]
+    region = flat[0].difference(shapely.union_all(flat[1:]))
+    ref = region.buffer(d, quad_segs=64)
+    ours = shapely.Polygon(res.contours[0].polyline)
+    for c in res.contours[1:]:
+        ours = ours.symmetric_difference(shapely.Polygon(c.polyline))
+    assert ours.symmetric_difference(ref).area <= 2 * eps * ref.length
+    # vanishing: where each hole is nearer the outer edge than the tool's diameter, reported
+    # once with the narrowest width (shapely distance between the contours)
+    vanish = [f for f in res.findings if f.kind == "vanishes"]
+    widths = sorted(
+        shapely.LinearRing(flat[0].exterior).distance(shapely.LinearRing(h.exterior))
+        for h in flat[1:]
+    )
+    narrow = [w for w in widths if w < 2 * abs(d)]
+    assert sorted(f.value for f in vanish) == pytest.approx(narrow, abs=eps)
+    assert len(vanish) == 3
+
+
+def test_lettering_grown_by_3_5_mm_reports_touching_letters():
+    from outlinebench.geometry.offset import (
+        merge_offsets,
+        offset_overlaps,
+        offset_region,
+        verify_toolpaths,
+    )
+
+    doc = _sample_doc("signshop-lettering.svg")
+    d, eps = 3.5 / doc.mm_per_unit, 0.01
+    results = []
+    for o in doc.outlines:
+        res = offset_region(o.contours, d, fill_rule="evenodd", tolerance=eps)
+        _check_toolpaths_with_shapely(res, [c.segments for c in o.contours], d, eps)
+        assert verify_toolpaths(res.region.contours, res.contours, d, tolerance=eps) == []
+        summaries = [f for f in res.findings if f.kind == "tool-does-not-fit" and f.count > 1]
+        singles = [f for f in res.findings if f.kind == "tool-does-not-fit" and f.count == 1]
+        # once per outline as a summary; alone only for bends deeper than the tolerance
+        assert len(summaries) <= 1
+        assert all(f.value > 0 and f.depth > eps for f in singles)
+        results.append(res)
+    # reference: pairs of letters whose shapely buffers (flattened, round joins) overlap
+    flat = []
+    for o in doc.outlines:
+        g = None
+        for p in flatten_contours(o.contours, eps / 10):
+            g = shapely.Polygon(p) if g is None else g.symmetric_difference(shapely.Polygon(p))
+        flat.append(g.buffer(d, quad_segs=64))
+    want = {
+        (i, j)
+        for i in range(len(flat))
+        for j in range(i + 1, len(flat))
+        if flat[i].intersection(flat[j]).area > eps * eps
+    }
+    found = offset_overlaps(results, tolerance=eps)
+    assert {(f.first, f.second) for f in found} == want and want
+    for f in found:
+        assert flat[f.first].intersection(flat[f.second]).area == pytest.approx(f.area, rel=0.05)
+    merged = merge_offsets(results, tolerance=eps)
+    rings = [shapely.LinearRing(c.polyline) for c in merged]
+    assert all(r.is_simple for r in rings)
+    ours = None
+    for c in merged:
+        p = shapely.Polygon(c.polyline)
+        ours = p if ours is None else ours.symmetric_difference(p)
+    ref = shapely.union_all(flat)
+    assert ours.symmetric_difference(ref).area <= 2 * eps * ref.length
+
+
+def test_verify_toolpaths_refuses_crossing_and_misplaced_paths():
+    from outlinebench.geometry.offset import offset_region, verify_toolpaths
+
+    doc = _sample_doc("workshop-bracket.svg")
+    outline = doc.outlines[0]
+    d, eps = -4.5, 0.01
+    res = offset_region(outline.contours, d, fill_rule="evenodd", tolerance=eps)
+    holes = [False, True, True, True]
+    alone = [
+        offset_contour(c.segments, True, -d if h else d, eps).contours[0]
+        for c, h in zip(outline.contours, holes, strict=True)
+    ]
+    kinds = {v.kind for v in verify_toolpaths(res.region.contours, alone, d, tolerance=eps)}
+    assert "toolpaths-cross" in kinds
+    moved = [c.polyline + np.array([3 * eps, 0.0]) for c in res.contours]
+    kinds = {v.kind for v in verify_toolpaths(res.region.contours, moved, d, tolerance=eps)}
+    assert "wrong-distance" in kinds
+    kinds = {
+        v.kind for v in verify_toolpaths(res.region.contours, res.contours[:1], d, tolerance=eps)
+    }
+    assert "toolpath-missing" in kinds
+
+
+def test_region_offset_of_a_washer_moves_both_contours():
+    from outlinebench.geometry.offset import offset_region
+
+    # Closed form: a washer of radii 10 and 4 grown by 1 has radii 11 and 3; shrunk by 2,
+    # radii 8 and 6; shrunk by 3.5 it vanishes (its 6-wide ring is narrower than 7).
+    washer = [(circle(10.0), True), (circle(4.0), True)]
+    for d, radii in ((1.0, [3.0, 11.0]), (-2.0, [6.0, 8.0])):
+        res = offset_region(washer, d, fill_rule="evenodd", tolerance=0.01)
+        got = sorted(float(np.mean(np.hypot(*c.polyline.T))) for c in res.contours)
+        assert got == pytest.approx(radii, abs=0.01 + QUARTER_ARC_ERROR * 10)
+    res = offset_region(washer, -3.5, fill_rule="evenodd", tolerance=0.01)
+    assert res.contours == []
+    assert [f.kind for f in res.findings].count("vanishes") >= 1
+    assert set(res.times) >= {"region", "offset", "combine", "flatten", "findings"}

@@ -190,7 +190,7 @@ _PAD = " L0 0" * 500
     [
         ("M1e308 0 l1e308 0", "l1e308"),  # relative sum overflows
         ("M1e308 0 C0 0 -1.7e308 0 1.5e308 0 S0 0 0 0", "S0"),  # reflected handle overflows
-        ("M-1e308 0 A1 1 0 0 1 1e308 0", "A1"),  # arc: half the chord overflows
+        ("M-1e308 1e308 A1 1 0 0 0 1e308 1e308", "A1"),  # scaled radius: bulges to y = 2e308
         ("M0 0 A1e308 1e308 0 1 1 1e308 0", "A1e308"),  # arc: its far side is beyond 1.8e308
     ],
 )

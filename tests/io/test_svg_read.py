@@ -179,7 +179,6 @@ def test_elements_without_id_outside_the_outlines_are_named_by_line():
         # occurs with an incorrectly specified 'path' element", i.e. render up to the error
         # (§9.5.4). Offsets are in the points attribute, counted by hand.
         ("0,0 10,\u00a010 20,0", 7, "\u00a010", 0),  # no-break space is not white space
-        ("0,0 10,10 20,0 5", 16, "", 2),  # odd count: the last number has no partner
         ("0,0 10,10 1e999,0", 10, "1e999", 1),  # overflows a double
         ("0,0 10,10 20,0 x", 15, "x", 2),
     ],
