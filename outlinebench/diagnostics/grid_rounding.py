@@ -79,7 +79,7 @@ ROUNDING_SLACK = 8.0 * np.finfo(np.float64).eps
 FloatArray = NDArray[np.float64]
 
 
-def chebyshev_distance_to_segment(p: ArrayLike, a: ArrayLike, b: ArrayLike) -> FloatArray:
+def chebyshev_distance_to_segment(p: ArrayLike, a: ArrayLike, b: ArrayLike) -> float | FloatArray:
     """L∞ distance from point(s) p to segment(s) ab: min over t in [0, 1] of
     max(|x(t) − p_x|, |y(t) − p_y|).
 
@@ -160,8 +160,8 @@ def explained_by_rounding(
     if not (step > 0 and math.isfinite(step)):
         raise ValueError(f"the grid step must be a positive number, got {step!r}")
     d = chebyshev_distance_to_segment(at, before, after)
-    ok = d <= step * (1.0 + ROUNDING_SLACK)
-    return bool(ok) if np.ndim(ok) == 0 else ok
+    ok = np.asarray(d) <= step * (1.0 + ROUNDING_SLACK)
+    return bool(ok) if ok.ndim == 0 else ok
 
 
 def max_rounding_angle(

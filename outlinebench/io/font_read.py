@@ -554,11 +554,14 @@ def _ufo_segments(
         if not on:  # a quadratic ring of off-curve points
             if len(pts) < 2:
                 return [], closed, []
-            offs = [p for p, _, _ in pts]
-            start = (0.5 * (offs[-1][0] + offs[0][0]), 0.5 * (offs[-1][1] + offs[0][1]))
+            ring_pts = [p for p, _, _ in pts]
+            start = (
+                0.5 * (ring_pts[-1][0] + ring_pts[0][0]),
+                0.5 * (ring_pts[-1][1] + ring_pts[0][1]),
+            )
             ring: list[list[tuple[float, float]]] = []
             cur = start
-            for a, b in decomposeQuadraticSegment([*offs, start]):
+            for a, b in decomposeQuadraticSegment([*ring_pts, start]):
                 ring.append([cur, a, b])
                 cur = b
             return ring, closed, [None] * len(ring)
@@ -970,14 +973,14 @@ class _T2Reader:
                     self.curve(dx1, dy1, dx2, dy2, dx3, 0.0)
                     self.curve(dx4, 0.0, dx5, dy5, dx6, -(dy1 + dy2 + dy5))
                 elif b1 == 37:  # flex1
-                    d = st[:11]
-                    dx = sum(d[0:10:2])
-                    dy = sum(d[1:10:2])
-                    self.curve(*d[0:6])
+                    args = st[:11]
+                    dx = sum(args[0:10:2])
+                    dy = sum(args[1:10:2])
+                    self.curve(*args[0:6])
                     if abs(dx) > abs(dy):
-                        self.curve(d[6], d[7], d[8], d[9], d[10], -dy)
+                        self.curve(args[6], args[7], args[8], args[9], args[10], -dy)
                     else:
-                        self.curve(d[6], d[7], d[8], d[9], -dx, d[10])
+                        self.curve(args[6], args[7], args[8], args[9], -dx, args[10])
                 else:
                     raise _Unsupported  # arithmetic, storage, dotsection...
             else:
@@ -1050,6 +1053,13 @@ def _cff_glyph(
             )
             return _Glyph(name, contours, [None] * len(contours), (), advance, integer)
     return _pen_glyph(font.getGlyphSet(), name, where, advance)
+
+
+# Simple TrueType glyphs built together in one array pass: enough to spread the per-call
+# cost of numpy over many glyphs, few enough that the pass's temporary arrays stay small
+# next to the outlines (measured on benchmarks/bench_fonts.py's 150,000-segment font: peak
+# memory of reading 239 bytes per segment with batches of 256 glyphs, 497 in one pass).
+_GLYPH_BATCH = 256
 
 
 def _simple_truetype(
@@ -1165,6 +1175,9 @@ def _read_binary(
                             xy, on, ends = _glyf_coordinates(raw, f"{where}: glyph {name!r}")
                             simple.append((len(slots), name, xy, on, ends))
                             slots.append(None)
+                            if len(simple) == _GLYPH_BATCH:
+                                _simple_truetype(simple, slots, hmtx)
+                                simple = []
                             continue
                         except _Unsupported:
                             pass
@@ -1218,12 +1231,16 @@ def _read_ufo(
     cmap: dict[int, str] = {}
     notes: list[ReadNote] = []
     error: Exception | None = None
-    for n in order:
-        try:
-            for u in layer[n].unicodes:
-                cmap.setdefault(u, n)
-        except Exception:  # an unreadable glif is reported below when selected
-            pass
+    wants_cmap = glyphs is not None and "u+" in (
+        glyphs.lower() if isinstance(glyphs, str) else ",".join(glyphs).lower()
+    )
+    if wants_cmap:  # loading every glyph only to map code points: only when asked for
+        for n in order:
+            try:
+                for u in layer[n].unicodes:
+                    cmap.setdefault(u, n)
+            except Exception:  # an unreadable glif is reported below when selected
+                pass
     names = select_glyphs(glyphs, order, cmap, where)
     upem = font.info.unitsPerEm
     others = [ly.name for ly in font.layers if ly is not layer]
@@ -1340,6 +1357,8 @@ def read_font(
     """
     p = os.fspath(path)
     where = p
+    if glyphs is not None and not isinstance(glyphs, str):
+        glyphs = list(glyphs)  # read twice (code points asked for? then the selection)
     suffix = Path(p.rstrip("/\\")).suffix.lower()
     if suffix == ".ufo":
         found, src, notes, error = _read_ufo(p, where, glyphs)

@@ -609,3 +609,9 @@ def test_charstring_reader_leaves_arithmetic_to_fonttools() -> None:
     cs = _t2([0, 0, "rmoveto", 3, 4, "add", 0, "rlineto", "endchar"], _Private([]))
     with pytest.raises(_Unsupported):
         _T2Reader([], []).read(cs.bytecode)
+
+
+def test_ufo_selection_by_code_point_and_by_name(fonts: dict[str, Path]) -> None:
+    # the UFO's own unicodes (glif <unicode hex>) serve U+ items; names need no glyph loaded
+    doc = read_font(fonts["ufo"], glyphs=iter(["U+0057", "peg"])).document
+    assert [o.element_id for o in doc.outlines] == ["washer", "peg"]
