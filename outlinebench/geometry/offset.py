@@ -1306,10 +1306,11 @@ def offset_region(
        boolean engine: the result is where the offsets' winding numbers sum to > 0 (each
        offset keeps its contour's orientation; a hole grown past the shrunk outer contour
        has winding −1 there, and overlapping grown outer contours add up).
-    4. Findings: where offsets of two contours met, the material (d < 0) or gap (d > 0)
-       between them is narrower than 2|d|: ``vanishes`` at the narrowest place between the
-       two contours, with that width; a contour whose offset vanishes or splits is reported
-       with the width across the region along the inward normal there. Inside corners and
+    4. Findings: where offsets of two contours met (crossed, or one was swallowed whole by
+       the union), the material (d < 0) or gap (d > 0) between them is narrower than 2|d|:
+       ``vanishes`` at the narrowest place between the two contours, with that width; a
+       contour whose offset vanishes or splits is reported with the width across the
+       region along the inward normal there. Inside corners and
        tight bends (``tool-does-not-fit`` of :func:`offset_contour`) form one summary with
        the count and smallest radius; a bend (radius > 0) is also reported on its own where
        its depth — distance from the outline to the toolpaths minus |d| — exceeds ε.
