@@ -1482,6 +1482,29 @@ def offset_region(
                 cont = c.sources[0].contour
             if p.kind == "vanishes":
                 width = None
+                if p.segment is None and len(orig_polys[ci]) > 2:
+                    # the whole contour: its widest place is the largest circle inside it
+                    # (shapely's maximum inscribed circle of the flattened contour)
+                    mic = shapely.maximum_inscribed_circle(
+                        shapely.Polygon(orig_polys[ci]), tolerance / 4
+                    )
+                    (cx, cy), (ex, ey) = shapely.get_coordinates(mic)
+                    width = 2.0 * float(math.hypot(ex - cx, ey - cy))
+                    what = "hole" if c.area < 0 else "contour"
+                    findings.append(
+                        RegionFinding(
+                            "vanishes",
+                            cont,
+                            None,
+                            None,
+                            float(cx),
+                            float(cy),
+                            width,
+                            f"the whole {what} vanishes: it is nowhere wider than the tool "
+                            f"({2 * r:.4g}); its widest place is {width:.4g} across",
+                        )
+                    )
+                    continue
                 if p.segment is not None:
                     seg_pts = np.asarray(c.segments[p.segment], dtype=float)
                     cub = _as_cubic_batch([seg_pts])[0]
