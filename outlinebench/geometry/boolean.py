@@ -255,8 +255,9 @@ def _read(contours: Sequence, operand: int, tol: float, into: _Input, where: str
 def _candidate_pairs(segs: list[FloatArray], delta: float, tol: float):
     """Pairs of segments whose flattenings (within ``delta``) come within 2·delta + tol.
 
-    The pair of chords at a join of consecutive segments is left out unless the second
-    chord runs back over the first (a fold that may share a stretch).
+    The pair of chords at a join of consecutive segments is left out where the contour turns
+    there by less than 90°; at sharper turns the segments may cross again near the join (a
+    hairpin) or share a stretch (a fold), so the pair is intersected.
     """
     import shapely
 
@@ -295,8 +296,8 @@ def _drop_join_chords(segs, qi, qj, oi, oj, first, last, starts, ends):
             d_in = ends[join[0]] - starts[join[0]]
             d_out = ends[join[1]] - starts[join[1]]
             n = float(np.hypot(*d_in) * np.hypot(*d_out))
-            if n > 0 and float(d_in @ d_out) > -0.99 * n:
-                continue  # the two chords meet only at the join
+            if n > 0 and float(d_in @ d_out) > 0.0:
+                continue  # turning by less than 90°: the two chords meet only at the join
         pairs.add((a, b))
     return sorted(pairs)
 

@@ -697,11 +697,11 @@ def _trim(
         tree = shapely.STRtree(shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1)))
         hits = tree.query(shapely.points(cut_pts), predicate="dwithin", distance=tol * 1e-6)
         at: dict[int, list[tuple[int, float]]] = {}
-        for pi, ci in zip(*hits, strict=True):
-            k = int(owner[ci])
-            local = int(ci - np.searchsorted(owner, k))
-            cnt = len(pts[k])
-            t = _project(raw[k], cut_pts[pi], (local + 0.5) / cnt)
+        hit_k = owner[hits[1]]
+        hit_t = _project_many(raw[hit_k], cut_pts[hits[0]]) if len(hit_k) else []
+        for pi, k, t in zip(
+            hits[0].tolist(), hit_k.tolist(), np.asarray(hit_t).tolist(), strict=True
+        ):
             locs = at.setdefault(int(pi), [])
             if all(k != k2 or abs(t - t2) > 1e-7 for k2, t2 in locs):
                 locs.append((k, t))
@@ -804,20 +804,26 @@ def _refine_crossing(a: FloatArray, b: FloatArray, ta: float, tb: float):
     return min(1.0, max(0.0, ta)), min(1.0, max(0.0, tb))
 
 
-def _project(c: FloatArray, p: FloatArray, t: float) -> float:
-    """Parameter of the point of cubic c nearest p: best of 65 samples, then Newton."""
-    coef = _coef(c[None])
+def _project_many(c: FloatArray, p: FloatArray) -> FloatArray:
+    """Parameters of the points of cubics nearest to points, pairwise: c (N, 4, 2), p (N, 2) → (N,).
+
+    Best of 65 samples, then up to 20 Newton steps on (B − p)·B′ = 0, each pair frozen
+    where the second derivative of the squared distance is not positive.
+    """
+    coef = _coef(c)
     ts = np.linspace(0.0, 1.0, 65)
-    pts, _, _ = _eval(coef, ts[None])
-    t = float(ts[int(np.argmin(np.hypot(*(pts[0] - p).T)))])
+    pts, _, _ = _eval(coef, np.tile(ts, (len(c), 1)))
+    d = np.hypot(pts[..., 0] - p[:, None, 0], pts[..., 1] - p[:, None, 1])
+    t = ts[np.argmin(d, axis=1)]
+    live = np.ones(len(c), dtype=bool)
     for _ in range(20):
-        b, d1, d2 = _eval(coef, np.array([[t]]))
-        b, d1, d2 = b[0, 0], d1[0, 0], d2[0, 0]
-        g = float(np.dot(b - p, d1))
-        gp = float(np.dot(d1, d1) + np.dot(b - p, d2))
-        if gp <= 0:
-            break
-        t = min(1.0, max(0.0, t - g / gp))
+        b, d1, d2 = _eval(coef, t[:, None])
+        b, d1, d2 = b[:, 0], d1[:, 0], d2[:, 0]
+        g = np.sum((b - p) * d1, axis=1)
+        gp = np.sum(d1 * d1, axis=1) + np.sum((b - p) * d2, axis=1)
+        live &= gp > 0
+        step = np.divide(g, gp, out=np.zeros_like(g), where=live)
+        t = np.where(live, np.clip(t - step, 0.0, 1.0), t)
     return t
 
 
@@ -1300,10 +1306,11 @@ def offset_region(
        boolean engine: the result is where the offsets' winding numbers sum to > 0 (each
        offset keeps its contour's orientation; a hole grown past the shrunk outer contour
        has winding −1 there, and overlapping grown outer contours add up).
-    4. Findings: where offsets of two contours met, the material (d < 0) or gap (d > 0)
-       between them is narrower than 2|d|: ``vanishes`` at the narrowest place between the
-       two contours, with that width; a contour whose offset vanishes or splits is reported
-       with the width across the region along the inward normal there. Inside corners and
+    4. Findings: where offsets of two contours met (crossed, or one was swallowed whole by
+       the union), the material (d < 0) or gap (d > 0) between them is narrower than 2|d|:
+       ``vanishes`` at the narrowest place between the two contours, with that width; a
+       contour whose offset vanishes or splits is reported with the width across the
+       region along the inward normal there. Inside corners and
        tight bends (``tool-does-not-fit`` of :func:`offset_contour`) form one summary with
        the count and smallest radius; a bend (radius > 0) is also reported on its own where
        its depth — distance from the outline to the toolpaths minus |d| — exceeds ε.
@@ -1475,6 +1482,29 @@ def offset_region(
                 cont = c.sources[0].contour
             if p.kind == "vanishes":
                 width = None
+                if p.segment is None and len(orig_polys[ci]) > 2:
+                    # the whole contour: its widest place is the largest circle inside it
+                    # (shapely's maximum inscribed circle of the flattened contour)
+                    mic = shapely.maximum_inscribed_circle(
+                        shapely.Polygon(orig_polys[ci]), tolerance / 4
+                    )
+                    (cx, cy), (ex, ey) = shapely.get_coordinates(mic)
+                    width = 2.0 * float(math.hypot(ex - cx, ey - cy))
+                    what = "hole" if c.area < 0 else "contour"
+                    findings.append(
+                        RegionFinding(
+                            "vanishes",
+                            cont,
+                            None,
+                            None,
+                            float(cx),
+                            float(cy),
+                            width,
+                            f"the whole {what} vanishes: it is nowhere wider than the tool "
+                            f"({2 * r:.4g}); its widest place is {width:.4g} across",
+                        )
+                    )
+                    continue
                 if p.segment is not None:
                     seg_pts = np.asarray(c.segments[p.segment], dtype=float)
                     cub = _as_cubic_batch([seg_pts])[0]

@@ -599,3 +599,15 @@ def test_region_offset_of_a_washer_moves_both_contours():
     assert res.contours == []
     assert [f.kind for f in res.findings].count("vanishes") >= 1
     assert set(res.times) >= {"region", "offset", "combine", "flatten", "findings"}
+
+
+def test_whole_contour_vanishing_is_placed_at_its_widest():
+    from outlinebench.geometry.offset import offset_region
+
+    # Closed form: a disc of radius 2 is nowhere wider than a tool of radius 3; its widest
+    # place is its centre, 4 across (the diameter)
+    res = offset_region([(circle(2.0, 5.0, 1.0), True)], -3.0, tolerance=0.01)
+    assert res.contours == []
+    (v,) = [f for f in res.findings if f.kind == "vanishes"]
+    assert v.value == pytest.approx(4.0, abs=0.01 + QUARTER_ARC_ERROR * 2)
+    assert (v.x, v.y) == pytest.approx((5.0, 1.0), abs=0.01)
