@@ -394,24 +394,34 @@ def _spacing(g: ContourGraphics) -> float:
     return value
 
 
-def mark_scale(g: ContourGraphics, view_scale: float) -> float:
-    """How large one contour's point marks are drawn at this zoom: 0 (left out), or one of
-    :data:`style.MARK_SCALES` (1 = full size).
-
-    The median on-screen distance between its neighbouring on-curve points decides: at
-    :data:`style.MARK_FULL_SPACING_PX` or more the marks are full size; closer, they shrink
-    (to the nearest smaller step of ``MARK_SCALES``), and below
-    :data:`style.MARK_HIDE_SPACING_PX` they are left out, so at fit-to-view a line of
-    lettering shows its outlines and findings, and the points appear as you zoom in.
-    """
-    px = _spacing(g) * view_scale
-    if px < style.MARK_HIDE_SPACING_PX:
+def _level(px: float, hide: float, full: float) -> float:
+    if px < hide:
         return 0.0
-    ratio = px / style.MARK_FULL_SPACING_PX
+    ratio = px / full
     for level in style.MARK_SCALES:
         if ratio >= level:
             return level
     return style.MARK_SCALES[-1]
+
+
+def mark_scale(g: ContourGraphics, view_scale: float) -> float:
+    """How large one contour's point marks are drawn at this zoom: 0 (left out), or one of
+    :data:`style.MARK_SCALES` (1 = full size).
+
+    Two measures on screen decide, the smaller level winning: the median distance between
+    the contour's neighbouring on-curve points (:data:`style.MARK_FULL_SPACING_PX`, below
+    :data:`style.MARK_HIDE_SPACING_PX` left out) and the larger side of its box
+    (:data:`style.MARK_FULL_SIZE_PX`, below :data:`style.MARK_HIDE_SIZE_PX` left out). So at
+    fit-to-view a line of lettering shows its outlines and findings, and the points appear
+    as you zoom in.
+    """
+    x0, y0, x1, y1 = g.bounds
+    size = max(x1 - x0, y1 - y0) * view_scale
+    by_size = _level(size, style.MARK_HIDE_SIZE_PX, style.MARK_FULL_SIZE_PX)
+    if by_size == 0.0:
+        return 0.0
+    spacing = _spacing(g) * view_scale
+    return min(by_size, _level(spacing, style.MARK_HIDE_SPACING_PX, style.MARK_FULL_SPACING_PX))
 
 
 def _paint_marks(

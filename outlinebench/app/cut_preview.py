@@ -19,6 +19,7 @@ Qt-free, so the previews can be tested against the library directly:
 
 from __future__ import annotations
 
+import logging
 import math
 from dataclasses import dataclass, field
 
@@ -47,6 +48,8 @@ __all__ = [
     "CUT_CAUTION",
     "MAX_CUT_RESOLUTION_MM",
 ]
+
+log = logging.getLogger(__name__)
 
 # Coarsest resolution of a cut file's coordinates, mm; also at most 1/1000 of the tolerance
 # (cut_decimals). The same rule as the command line's cut files (1e-6 mm: far finer than any
@@ -176,8 +179,24 @@ def compute_offset(doc: Document, distance: float, tolerance: float) -> OffsetPr
     for ref in doc.contour_refs():
         if not ref.contour.segments:
             continue
+        pts = np.concatenate(ref.contour.segments)
+        if float(np.max(np.ptp(pts, axis=0))) == 0.0:
+            # every control point in one place: no outline for the tool to follow
+            x, y = (float(v) for v in pts[0])
+            message = "the contour has no extent (all its points coincide): nothing to cut"
+            places.append(OffsetPlace("vanishes", ref.global_index, None, x, y, message))
+            continue
         d = -distance if holes.get((ref.outline, ref.index), False) else distance
-        res = offset_contour(ref.contour.segments, ref.contour.closed, d, tolerance)
+        try:
+            res = offset_contour(ref.contour.segments, ref.contour.closed, d, tolerance)
+        except OutlinebenchError:
+            raise
+        except Exception as exc:  # noqa: BLE001 — a fault in the offset must not end editing
+            log.exception("offset of contour %d failed", ref.global_index)
+            x, y = (float(v) for v in pts[0])
+            message = f"the offset could not be computed ({type(exc).__name__}: {exc})"
+            places.append(OffsetPlace("offset-failed", ref.global_index, None, x, y, message))
+            continue
         for c in res.contours:
             if len(c.polyline) >= 2:
                 polylines.append(np.asarray(c.polyline, dtype=float))

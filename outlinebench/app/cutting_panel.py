@@ -79,8 +79,8 @@ class CuttingPanel(QWidget):
         grid.setColumnStretch(0, 1)
         for w in (self.flatten_on, self.offset_on):
             w.toggled.connect(lambda _on: self._on_changed())
-        for w in (self.flatten_tol, self.offset_radius):
-            w.valueChanged.connect(lambda _v: self.changed.emit())
+        self.flatten_tol.valueChanged.connect(lambda v: self._typed("flatten", v))
+        self.offset_radius.valueChanged.connect(lambda v: self._typed("offset", v))
         self.flatten_export.clicked.connect(lambda: self.export_requested.emit("flatten"))
         self.offset_export.clicked.connect(lambda: self.export_requested.emit("offset"))
         self._mm = {"flatten": DEFAULT_PREVIEW_TOLERANCE_MM, "offset": DEFAULT_TOOL_RADIUS_MM}
@@ -121,22 +121,22 @@ class CuttingPanel(QWidget):
         per = MM_PER_UNIT_NAME.get(u.name, 1.0)
         for key, spin in (("flatten", self.flatten_tol), ("offset", self.offset_radius)):
             spin.blockSignals(True)
+            spin.setDecimals({"in": 5, "cm": 5, "pc": 4}.get(u.name, 4))
             spin.setSuffix(f" {u.name}")
             spin.setRange(0.0001 / per, 100.0 / per)
             spin.setValue(self._mm[key] / per)
             spin.blockSignals(False)
 
-    def _read_mm(self) -> None:
-        per = MM_PER_UNIT_NAME.get(self._units().name, 1.0)
-        self._mm["flatten"] = self.flatten_tol.value() * per
-        self._mm["offset"] = self.offset_radius.value() * per
+    def _typed(self, key: str, shown: float) -> None:
+        # Only a value the user typed replaces the exact millimetres kept (the field shows
+        # them rounded to its decimals).
+        self._mm[key] = shown * MM_PER_UNIT_NAME.get(self._units().name, 1.0)
+        self.changed.emit()
 
     def tolerance_mm(self) -> float:
-        self._read_mm()
         return self._mm["flatten"]
 
     def radius_mm(self) -> float:
-        self._read_mm()
         return self._mm["offset"]
 
     def set_lengths_mm(self, tolerance_mm: float, radius_mm: float) -> None:

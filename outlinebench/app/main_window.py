@@ -297,8 +297,9 @@ class MainWindow(QMainWindow):
             self.restoreGeometry(geometry)
         if state is not None:
             self.restoreState(state)
+        comb_on = self.prefs.flag("view/comb")  # read before the slider writes it back
         self.comb_slider.setValue(self.prefs.comb_step())
-        if self.prefs.flag("view/comb"):
+        if comb_on:
             self.set_comb_visible(True)
         self._update_title()
         self._on_document_changed()

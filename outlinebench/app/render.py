@@ -163,10 +163,21 @@ def render_canvas(doc, args) -> tuple:
     _fit(canvas, args.region)
     notes: list[str] = []
     if args.findings:
-        found = check_document(doc)
-        shown = [f for f in found if args.info or f.severity != "info"]
-        canvas.set_finding_marks(shown)
-        notes.append(f"{len(shown)} findings framed")
+        try:
+            found = check_document(doc)
+        except Exception as exc:  # noqa: BLE001 — a fault in a check: said, not raised
+            found = None
+            print(
+                f"outlinebench render: the check failed ({type(exc).__name__}: {exc}); "
+                "no findings are framed",
+                file=sys.stderr,
+            )
+        if found is not None:
+            shown = [f for f in found if args.info or f.severity != "info"]
+            canvas.set_finding_marks(shown)
+            notes.append(f"{len(shown)} findings framed")
+        else:
+            notes.append("check failed: no findings framed")
     if args.combs:
         canvas.set_comb(True, auto_comb_scale(doc))
     per_mm = 1.0 / doc.mm_per_unit if doc.mm_per_unit > 0 else 1.0

@@ -51,6 +51,8 @@ __all__ = [
     "MARK_FULL_SPACING_PX",
     "MARK_HIDE_SPACING_PX",
     "MARK_SCALES",
+    "MARK_FULL_SIZE_PX",
+    "MARK_HIDE_SIZE_PX",
     "FINDING_ERROR",
     "FINDING_WARNING",
     "FINDING_INFO",
@@ -93,6 +95,10 @@ MAX_MARKED_POINTS = 1500
 # two marks closer than about twice that overlap each other and the stroke between them).
 MARK_FULL_SPACING_PX = 60.0
 MARK_HIDE_SPACING_PX = 30.0
+# The same by the larger side of the contour's box on screen: a letter 120 px tall carries
+# about ten marks of 14 px across its strokes, which then hide the letter's shape.
+MARK_FULL_SIZE_PX = 240.0
+MARK_HIDE_SIZE_PX = 120.0
 MARK_SCALES = (1.0, 0.8, 0.6)
 
 FINDING_ERROR = QColor("#c3122f")  # crimson: redder and darker than the corner rust

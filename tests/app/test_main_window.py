@@ -210,6 +210,14 @@ def test_entry_point_opens_the_file_and_runs(qtbot, plate, monkeypatch, tmp_path
     QTimer.singleShot(300, look_and_quit)
     assert entry.main([str(plate)]) == 0
     assert seen == [(str(plate), 2)]
+    # Closing the last window quits once and look_and_quit once more: the second quit is
+    # delivered after the event loop ended and would leave Qt's "quit now" flag set, so
+    # every later event loop (pytest-qt's waits) would return at once and no timer of a
+    # later test would fire. One more short run of the event loop clears it (QCoreApplication
+    # resets the flag when exec() returns).
+    QApplication.sendPostedEvents()
+    QTimer.singleShot(0, QApplication.quit)
+    QApplication.instance().exec()
     assert main_window.run_editor(["a.svg", "b.svg"]) == 2  # one file at a time
 
 
