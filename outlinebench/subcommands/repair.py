@@ -199,6 +199,7 @@ def repair_for_finding(
     """
     settings = settings or CheckSettings()
     kind = finding.kind
+    grid = 1.0 if on_integer_grid(doc) else None
     if kind in ("gap", "open-contour"):
         o, c = _locate(doc, finding.contour)
         gap, search = _gap_user(doc, settings)
@@ -208,7 +209,7 @@ def repair_for_finding(
             if o2 != o:
                 return None
             return JoinContours(
-                o, c, c2, finding.t == 1.0, finding.other_t == 1.0, search, max_change
+                o, c, c2, finding.t == 1.0, finding.other_t == 1.0, search, max_change, grid
             )
         if kind == "open-contour":
             ends = doc.contour(o, c)
@@ -219,10 +220,10 @@ def repair_for_finding(
                     return None
             if ends.closed:
                 return None
-        return CloseGap(o, c, search, max_change)
+        return CloseGap(o, c, search, max_change, grid)
     if kind in ("kink", "corner") and finding.join is not None:
         o, c = _locate(doc, finding.contour)
-        return SmoothKink(o, c, finding.join, max_change, 1.0 if on_integer_grid(doc) else None)
+        return SmoothKink(o, c, finding.join, max_change, grid)
     if kind == "curvature-jump" and finding.join is not None:
         o, c = _locate(doc, finding.contour)
         return MatchCurvature(o, c, finding.join, max_change)
