@@ -1149,7 +1149,7 @@ class FixDirection(RepairCommand):
             raise CommandError(f"outline {self.outline} does not exist")
         o = doc.outlines[self.outline]
         contours = list(o.contours)
-        keep = []
+        keep: list[int] = []
         for idx, c in enumerate(contours):
             if any(_same_contour(c, contours[j]) for j in keep):
                 self.removed.append(idx)
@@ -1181,7 +1181,8 @@ class FixDirection(RepairCommand):
                             undecided.update((i, j))
                             continue
                         probe = shapely.Point(polys[x][0])
-                        inside[(i, j)] = bool(shapes[y].contains(probe))
+                        shape = shapes[y]
+                        inside[(i, j)] = shape is not None and bool(shape.contains(probe))
                 if not undecided or attempt == 1:
                     break
                 eps /= 10.0

@@ -415,9 +415,9 @@ def repair_document(
             for o in range(len(run.doc.outlines)):
                 if contours is not None and not (_contours_of(run.doc, o) & contours):
                     continue
-                f = by_outline.get(o)
-                where = place_text(f) if f is not None else f"outline {o}"
-                run.attempt(FixDirection(o, max_change), where, f)
+                found = by_outline.get(o)
+                where = place_text(found) if found is not None else f"outline {o}"
+                run.attempt(FixDirection(o, max_change), where, found)
         elif kind in ("fit-curves", "remove-points"):
             tiny = {f.contour: f for f in todo}
             for ref in list(run.doc.contour_refs()):
@@ -427,14 +427,14 @@ def repair_document(
                 if kind == "fit-curves":
                     if not _polyline_like(c, settings.corner_angle):
                         continue
-                    cmd: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
+                    job: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
                 else:
-                    cmd = RemoveRedundantPoints(
+                    job = RemoveRedundantPoints(
                         ref.outline, ref.index, max_change, settings.corner_angle
                     )
-                f = tiny.get(ref.global_index)
-                where = place_text(f) if f is not None else f"contour {ref.global_index}"
-                run.attempt(cmd, where, f)
+                found = tiny.get(ref.global_index)
+                where = place_text(found) if found is not None else f"contour {ref.global_index}"
+                run.attempt(job, where, found)
         else:
             # join and segment fixes: later segments first, so earlier indices stay valid
             todo.sort(
@@ -512,6 +512,12 @@ def run(args: argparse.Namespace) -> int:
     doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
     for note in notes:
         print(f"outlinebench: {note_line(note)}", file=sys.stderr)
+    if not any(o.contours for o in doc.outlines):
+        print(
+            f"outlinebench: warning: {args.file}: no outlines found; 0 contours checked, "
+            "nothing repaired",
+            file=sys.stderr,
+        )
     factor = unit_factor(doc, args.units)
     if args.max_change is None:
         max_change = DEFAULT_MAX_CHANGE_MM / doc.mm_per_unit
