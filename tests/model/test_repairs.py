@@ -419,3 +419,17 @@ def test_close_gap_on_the_integer_grid():
     new = CloseGap(0, 0, 10.0, 5.0, grid=1.0).apply(doc)
     assert on_integer_grid(new)
     assert new.outlines[0].contours[0].closed
+
+
+def test_smooth_kink_with_a_quadratic_keeps_its_far_tangent():
+    q = [[0, 0], [25, 30], [50, 0]]
+    b = [[50, 0], [60, -14], [90, -20], [100, 0]]
+    doc = doc_of(Contour.from_points([q, b]))
+    assert has(doc, "kink", join=0)
+    cmd = SmoothKink(0, 0, 0, max_change=5.0)
+    new = cmd.apply(doc)
+    nq = new.outlines[0].contours[0].segments[0]
+    # the quadratic's handle stays on its start tangent line through (0, 0) and (25, 30)
+    assert abs(nq[1][0] * 30 - nq[1][1] * 25) <= 1e-9 * 30 * 25
+    assert not has(new, "kink")
+    check_change(cmd, doc, new)
