@@ -251,6 +251,10 @@ def _with(c: Contour, segments: Sequence[FloatArray], joins: Sequence[JoinIntent
 # --------------------------------------------------------------------------------------------
 # G0: close a gap
 # --------------------------------------------------------------------------------------------
+def _on_grid(p: FloatArray, grid: float | None) -> FloatArray:
+    return p if not grid else np.round(p / grid) * grid
+
+
 def _move_start(seg: FloatArray, to: FloatArray) -> FloatArray:
     out = np.array(seg)
     delta = to - seg[0]
@@ -286,7 +290,8 @@ class CloseGap(RepairCommand):
     moves), and the midpoint (both move by half the gap). A cubic's end handle travels with its
     point (P₁ += Δ at the start, P₂ += Δ at the end), so tangent directions are kept; a
     quadratic's handle stays (it also holds the other end's tangent). The candidate with the
-    smallest proven shape change is kept; ends that already coincide are simply closed.
+    smallest proven shape change is kept; ends that already coincide are simply closed. With
+    a ``grid`` the shared point is rounded to it (handles move by the same grid vector).
     """
 
     kind = "close-gaps"
@@ -298,10 +303,12 @@ class CloseGap(RepairCommand):
         contour: int,
         gap_tolerance: float,
         max_change: float = DEFAULT_MAX_CHANGE,
+        grid: float | None = None,
     ) -> None:
         super().__init__(max_change)
         self.outline, self.contour = outline, contour
         self.gap_tolerance = float(gap_tolerance)
+        self.grid = grid
 
     def _repair(self, doc: Document):
         c = _contour_at(doc, self.outline, self.contour)
@@ -327,6 +334,7 @@ class CloseGap(RepairCommand):
             )
         best = None
         for name, target in (("start", start), ("end", end), ("midpoint", 0.5 * (start + end))):
+            target = _on_grid(target, self.grid)
             new = list(segs)
             if len(new) == 1:
                 s = _move_end(_move_start(new[0], target), target)
@@ -382,11 +390,13 @@ class JoinContours(RepairCommand):
         other_at_end: bool,
         gap_tolerance: float,
         max_change: float = DEFAULT_MAX_CHANGE,
+        grid: float | None = None,
     ) -> None:
         super().__init__(max_change)
         self.outline, self.contour, self.other = outline, contour, other
         self.at_end, self.other_at_end = bool(at_end), bool(other_at_end)
         self.gap_tolerance = float(gap_tolerance)
+        self.grid = grid
 
     def _repair(self, doc: Document):
         a = _contour_at(doc, self.outline, self.contour)
@@ -406,6 +416,7 @@ class JoinContours(RepairCommand):
             )
         best = None
         for name, target in (("first", end), ("second", start), ("midpoint", 0.5 * (end + start))):
+            target = _on_grid(target, self.grid)
             last = _move_end(a.segments[-1], target)
             first = _move_start(b.segments[0], target)
             first[0] = last[-1]
@@ -1138,7 +1149,7 @@ class FixDirection(RepairCommand):
             raise CommandError(f"outline {self.outline} does not exist")
         o = doc.outlines[self.outline]
         contours = list(o.contours)
-        keep = []
+        keep: list[int] = []
         for idx, c in enumerate(contours):
             if any(_same_contour(c, contours[j]) for j in keep):
                 self.removed.append(idx)
@@ -1170,7 +1181,8 @@ class FixDirection(RepairCommand):
                             undecided.update((i, j))
                             continue
                         probe = shapely.Point(polys[x][0])
-                        inside[(i, j)] = bool(shapes[y].contains(probe))
+                        shape = shapes[y]
+                        inside[(i, j)] = shape is not None and bool(shape.contains(probe))
                 if not undecided or attempt == 1:
                     break
                 eps /= 10.0

@@ -12,8 +12,10 @@ fix-direction, fit-curves, remove-points, smooth-kinks, match-curvature, add-ext
 The result is written (``-o OUT.svg``, or ``--in-place``) through the SVG write-back, which
 keeps every byte of the file that no fix touched, atomically; the output is never the input
 file (compared by file identity: device and inode) unless ``--in-place`` is given.
-``--dry-run`` reports the same and writes nothing. Exit codes: 0 every targeted finding fixed
-(or none found), 1 some fix refused, 2 bad input or options.
+``--dry-run`` reports the same and writes nothing. Problems still found afterwards are listed
+as ``left`` with the reason (no repair for that kind, or not among the chosen kinds). Exit
+codes: 0 nothing of warning level or worse remains, 1 some fix was refused or problems
+remain, 2 bad input or options.
 
 Public helpers for the editor: :func:`repair_for_finding` (the command that fixes one finding)
 and :func:`repair_document` (every fix of some kinds, as one undo step).
@@ -107,14 +109,17 @@ class Outcome:
     """One fix: applied or refused, with the measured change and a one-line reason or note."""
 
     kind: str
-    status: str  # "fixed" or "refused"
+    status: str  # "fixed", "refused", or "left" (still found, no chosen repair answered)
     where: str
     finding: str | None
     change: float | None
     reason: str
+    at: tuple[float, float] | None = None  # the finding's position (user units)
 
     def to_dict(self, factor: float) -> dict[str, Any]:
         return {
+            "x": None if self.at is None else self.at[0] * factor,
+            "y": None if self.at is None else self.at[1] * factor,
             "kind": self.kind,
             "status": self.status,
             "where": self.where,
@@ -199,6 +204,7 @@ def repair_for_finding(
     """
     settings = settings or CheckSettings()
     kind = finding.kind
+    grid = 1.0 if on_integer_grid(doc) else None
     if kind in ("gap", "open-contour"):
         o, c = _locate(doc, finding.contour)
         gap, search = _gap_user(doc, settings)
@@ -208,7 +214,7 @@ def repair_for_finding(
             if o2 != o:
                 return None
             return JoinContours(
-                o, c, c2, finding.t == 1.0, finding.other_t == 1.0, search, max_change
+                o, c, c2, finding.t == 1.0, finding.other_t == 1.0, search, max_change, grid
             )
         if kind == "open-contour":
             ends = doc.contour(o, c)
@@ -219,10 +225,10 @@ def repair_for_finding(
                     return None
             if ends.closed:
                 return None
-        return CloseGap(o, c, search, max_change)
+        return CloseGap(o, c, search, max_change, grid)
     if kind in ("kink", "corner") and finding.join is not None:
         o, c = _locate(doc, finding.contour)
-        return SmoothKink(o, c, finding.join, max_change, 1.0 if on_integer_grid(doc) else None)
+        return SmoothKink(o, c, finding.join, max_change, grid)
     if kind == "curvature-jump" and finding.join is not None:
         o, c = _locate(doc, finding.contour)
         return MatchCurvature(o, c, finding.join, max_change)
@@ -290,12 +296,15 @@ class _Runner:
 
     def attempt(self, cmd: RepairCommand, where: str, target: Finding | None) -> None:
         label = None if target is None else f"{target.kind}"
+        at = None if target is None else (target.x, target.y)
         try:
             new = cmd.apply(self.doc)
         except CommandError as exc:
             if target is not None:
                 change = cmd.change.upper if cmd.change is not None else None
-                self.outcomes.append(Outcome(cmd.kind, "refused", where, label, change, str(exc)))
+                self.outcomes.append(
+                    Outcome(cmd.kind, "refused", where, label, change, str(exc), at)
+                )
             return
         outline = getattr(cmd, "outline", None)
         after = list(self.checker.update(new))
@@ -322,12 +331,12 @@ class _Runner:
         if reason is not None:
             self.checker.update(self.doc)
             if target is not None or cmd.kind in ("fit-curves", "remove-points"):
-                self.outcomes.append(Outcome(cmd.kind, "refused", where, label, change, reason))
+                self.outcomes.append(Outcome(cmd.kind, "refused", where, label, change, reason, at))
             return
         self.doc = new
         self.findings = after
         self.commands.append(cmd)
-        self.outcomes.append(Outcome(cmd.kind, "fixed", where, label, change, cmd.note))
+        self.outcomes.append(Outcome(cmd.kind, "fixed", where, label, change, cmd.note, at))
 
 
 def repair_document(
@@ -399,7 +408,9 @@ def repair_document(
                             "joining outlines is not a repair"
                         )
                     if f.kind == "gap" or (f.value or 0.0) > _gap_user(run.doc, settings)[1]:
-                        run.outcomes.append(Outcome(kind, "refused", where, f.kind, None, reason))
+                        run.outcomes.append(
+                            Outcome(kind, "refused", where, f.kind, None, reason, (f.x, f.y))
+                        )
                     continue
                 run.attempt(cmd, where, f if f.kind == "gap" else None)
         elif kind == "remove-overlaps":
@@ -414,9 +425,9 @@ def repair_document(
             for o in range(len(run.doc.outlines)):
                 if contours is not None and not (_contours_of(run.doc, o) & contours):
                     continue
-                f = by_outline.get(o)
-                where = place_text(f) if f is not None else f"outline {o}"
-                run.attempt(FixDirection(o, max_change), where, f)
+                found = by_outline.get(o)
+                where = place_text(found) if found is not None else f"outline {o}"
+                run.attempt(FixDirection(o, max_change), where, found)
         elif kind in ("fit-curves", "remove-points"):
             tiny = {f.contour: f for f in todo}
             for ref in list(run.doc.contour_refs()):
@@ -426,14 +437,14 @@ def repair_document(
                 if kind == "fit-curves":
                     if not _polyline_like(c, settings.corner_angle):
                         continue
-                    cmd: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
+                    job: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
                 else:
-                    cmd = RemoveRedundantPoints(
+                    job = RemoveRedundantPoints(
                         ref.outline, ref.index, max_change, settings.corner_angle
                     )
-                f = tiny.get(ref.global_index)
-                where = place_text(f) if f is not None else f"contour {ref.global_index}"
-                run.attempt(cmd, where, f)
+                found = tiny.get(ref.global_index)
+                where = place_text(found) if found is not None else f"contour {ref.global_index}"
+                run.attempt(job, where, found)
         else:
             # join and segment fixes: later segments first, so earlier indices stay valid
             todo.sort(
@@ -448,6 +459,23 @@ def repair_document(
                 )
                 if cmd is not None:
                     run.attempt(cmd, place_text(f), fresh[0])
+    # what is still found and no chosen repair answered for: say so, one line each
+    answered = {(o.where, o.finding) for o in run.outcomes}
+    answered_at = {(o.finding, o.at) for o in run.outcomes if o.at is not None}
+    targeted = {k for kind in kinds for k in TARGETS[kind]}
+    for f in run.findings:
+        if not is_problem(f) or (contours is not None and f.contour not in contours):
+            continue
+        if (place_text(f), f.kind) in answered or (f.kind, (f.x, f.y)) in answered_at:
+            continue
+        if f.kind in targeted:
+            reason = "still found after the chosen repairs"
+        elif any(f.kind in TARGETS[k] for k in REPAIR_ORDER):
+            names = [k for k in REPAIR_ORDER if f.kind in TARGETS[k]]
+            reason = f"not among the chosen kinds (--fix {','.join(names)})"
+        else:
+            reason = f"no repair fixes a {f.kind}"
+        run.outcomes.append(Outcome("-", "left", place_text(f), f.kind, None, reason, (f.x, f.y)))
     return RepairRun(doc, run.doc, run.outcomes, run.commands)
 
 
@@ -498,7 +526,8 @@ def _same_file(a: str, b: str) -> bool:
 
 
 def run(args: argparse.Namespace) -> int:
-    """Repair ``args.file``; exit 0 all targeted findings fixed, 1 some refused, 2 bad input."""
+    """Repair ``args.file``; exit 0 nothing of warning level or worse is left, 1 some fix was
+    refused or problems remain, 2 bad input."""
     kinds = parse_kinds(args.fix)
     if not args.dry_run and not args.output and not args.in_place:
         raise OutlinebenchError(
@@ -511,6 +540,12 @@ def run(args: argparse.Namespace) -> int:
     doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
     for note in notes:
         print(f"outlinebench: {note_line(note)}", file=sys.stderr)
+    if not any(o.contours for o in doc.outlines):
+        print(
+            f"outlinebench: warning: {args.file}: no outlines found; 0 contours checked, "
+            "nothing repaired",
+            file=sys.stderr,
+        )
     factor = unit_factor(doc, args.units)
     if args.max_change is None:
         max_change = DEFAULT_MAX_CHANGE_MM / doc.mm_per_unit
@@ -526,6 +561,7 @@ def run(args: argparse.Namespace) -> int:
             write_file_atomic(target, svg_bytes(result.document))
     remaining = [f for f in check_document(result.document, settings) if is_problem(f)]
     refused = [o for o in result.outcomes if o.status == "refused"]
+    left = [o for o in result.outcomes if o.status == "left"]
     if args.json:
         write_json(
             {
@@ -538,6 +574,7 @@ def run(args: argparse.Namespace) -> int:
                 "fixes": [o.to_dict(factor) for o in result.outcomes],
                 "fixed": sum(o.status == "fixed" for o in result.outcomes),
                 "refused": len(refused),
+                "left": len(left),
                 "remaining_problems": len(remaining),
             }
         )
@@ -545,6 +582,9 @@ def run(args: argparse.Namespace) -> int:
         for o in result.outcomes:
             change = "" if o.change is None else f" change ≤ {o.change * factor:.4g} {args.units}"
             what = f" {o.finding}" if o.finding else ""
+            if o.status == "left":
+                print(f"{args.file}: {o.where}:{what} left: {o.reason}")
+                continue
             print(f"{args.file}: {o.where}:{what} {o.kind} {o.status}{change}: {o.reason}")
         fixed = sum(o.status == "fixed" for o in result.outcomes)
         verb = "would be " if args.dry_run else ""
@@ -553,4 +593,4 @@ def run(args: argparse.Namespace) -> int:
             f"{max_change * factor:.4g} {args.units}; {len(remaining)} problems remain"
             + (f"; wrote {target}" if target and (changed or not args.in_place) else "")
         )
-    return 1 if refused else 0
+    return 1 if refused or remaining else 0

@@ -148,6 +148,10 @@ def test_defect_samples(name, tmp_path):
     before = {(f.kind, f.contour) for f in problems(src)}
     after = problems(out)
     assert len(after) < len(before)
+    # every problem still found is answered for: refused with a reason, or left with one
+    unanswered = len(after) - sum(f["status"] in ("refused", "left") for f in report["fixes"])
+    assert unanswered <= 0
+    assert report["remaining_problems"] == len(after)
     assert {f.kind for f in after} <= {f[0] for f in before}
     if name.startswith("workshop"):
         assert res.returncode == 0 and after == []

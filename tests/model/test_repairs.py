@@ -413,3 +413,27 @@ def test_join_two_open_contours_then_close():
     assert not any(f.kind in ("gap", "open-contour") for f in check_document(done, SETTINGS))
     with pytest.raises(CommandError, match="more than the allowed"):
         JoinContours(0, 0, 1, False, False, 2.0, 0.05).apply(doc)
+
+
+def test_close_gap_on_the_integer_grid():
+    # font units: the midpoint of (0, 0) and (0, 3) is (0, 1.5); on the grid it is rounded
+    c = Contour.from_points([[[0, 3], [400, 0]], [[400, 0], [400, 400]], [[400, 400], [0, 0]]])
+    doc = doc_of(c)
+    assert on_integer_grid(doc)
+    new = CloseGap(0, 0, 10.0, 5.0, grid=1.0).apply(doc)
+    assert on_integer_grid(new)
+    assert new.outlines[0].contours[0].closed
+
+
+def test_smooth_kink_with_a_quadratic_keeps_its_far_tangent():
+    q = [[0, 0], [25, 30], [50, 0]]
+    b = [[50, 0], [60, -14], [90, -20], [100, 0]]
+    doc = doc_of(Contour.from_points([q, b]))
+    assert has(doc, "kink", join=0)
+    cmd = SmoothKink(0, 0, 0, max_change=5.0)
+    new = cmd.apply(doc)
+    nq = new.outlines[0].contours[0].segments[0]
+    # the quadratic's handle stays on its start tangent line through (0, 0) and (25, 30)
+    assert abs(nq[1][0] * 30 - nq[1][1] * 25) <= 1e-9 * 30 * 25
+    assert not has(new, "kink")
+    check_change(cmd, doc, new)
