@@ -62,6 +62,9 @@ CHECK_KINDS: tuple[str, ...] = (
     "missing-extremum",
     "wrong-direction",
     "duplicate-contour",
+    "overlap",
+    "touch",
+    "grid-kink",
 )
 # Kinds only the offset (tool radius compensation) reports: the tool cannot follow a concave
 # feature tighter than its radius; a part of the outline disappears at this offset; a fitted

@@ -24,7 +24,13 @@ from typing import Any, Literal
 import numpy as np
 from numpy.typing import NDArray
 
-from outlinebench.errors import SvgPathError, SvgReadError, UnsafeXmlError, UnsupportedSvgFeature
+from outlinebench.errors import (
+    OutlinebenchError,
+    SvgPathError,
+    SvgReadError,
+    UnsafeXmlError,
+    UnsupportedSvgFeature,
+)
 from outlinebench.io._xml import MAX_BYTES, MAX_ENTITY_CHARS, XmlSource, parse_xml
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_arc import ARC_TOLERANCE
@@ -128,7 +134,7 @@ class ReadResult:
 
     document: Document
     notes: list[ReadNote] = field(default_factory=list)
-    error: SvgReadError | None = None
+    error: OutlinebenchError | None = None
 
     @property
     def all_notes(self) -> list[ReadNote]:

@@ -126,4 +126,10 @@ def parse_transform(text: str | None, where: str = "") -> NDArray[np.float64]:
 
 def is_mirroring(matrix: NDArray[np.float64]) -> bool:
     """True when the matrix reverses orientation (negative determinant of its 2×2 part)."""
-    return float(matrix[0, 0] * matrix[1, 1] - matrix[0, 1] * matrix[1, 0]) < 0.0
+    a, b, c, d = (
+        float(matrix[0, 0]),
+        float(matrix[1, 0]),
+        float(matrix[0, 1]),
+        float(matrix[1, 1]),
+    )
+    return a * d - c * b < 0.0  # Python floats: an overflow is ±inf, not a warning

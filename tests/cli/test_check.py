@@ -49,8 +49,9 @@ def test_defects_sample_exits_1_and_has_every_kind(capsys):
     assert set(data) >= {"findings", "summary", "file", "units", "caution"}
     kinds = {f["kind"] for f in data["findings"]}
     # every kind is planted (samples/README.md); duplicate contours are checked in
-    # tests/diagnostics/test_duplicates.py
-    assert kinds == set(CHECK_KINDS) - {"duplicate-contour"}
+    # tests/diagnostics/test_duplicates.py, the profile kinds (overlap, touch, grid-kink) in
+    # tests/diagnostics/test_profiles.py and tests/cli/test_union_command.py
+    assert kinds == set(CHECK_KINDS) - {"duplicate-contour", "overlap", "touch", "grid-kink"}
     for f in data["findings"]:
         assert set(f) >= {"kind", "severity", "outline", "contour", "segment", "t", "x", "y",
                           "value", "unit", "message"}  # fmt: skip
