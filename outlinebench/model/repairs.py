@@ -24,8 +24,8 @@ remove-points     :class:`RemoveRedundantPoints`: consecutive segments merged in
 smooth-kinks      :class:`SmoothKink` (G1): handles at a join made collinear.
 match-curvature   :class:`MatchCurvature` (G2): equal curvature on both sides of a join.
 add-extrema       :class:`AddExtremumPoints`: exact splits at interior x/y extrema.
-remove-overlaps   :class:`RemoveOverlaps`: the union of an outline's contours; needs a union
-                  engine registered with :func:`set_union_engine` (the boolean engine).
+remove-overlaps   :class:`RemoveOverlaps`: the union of an outline's contours (the boolean
+                  engine, :func:`union_contours`).
 
 References
 ----------
