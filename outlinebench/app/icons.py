@@ -1,5 +1,5 @@
 """The editor's own icons: SVG files of the ``resources/icons`` folder, shipped as package data
-(see :mod:`outlinebench.app.resources`)."""
+(see :mod:`outlinebench.data_files`)."""
 
 from __future__ import annotations
 
@@ -7,7 +7,7 @@ from functools import cache
 
 from PySide6.QtGui import QIcon
 
-from outlinebench.app.resources import icon_path, resources_dir
+from outlinebench.data_files import icon_path, resources_dir
 
 __all__ = ["resources_dir", "icon"]
 

@@ -49,11 +49,11 @@ from outlinebench.app.findings_panel import FindingsPanel, column_widths
 from outlinebench.app.icons import icon
 from outlinebench.app.live_findings import LiveFindings, place_of
 from outlinebench.app.recovery import Recovery, RecoveryStore, stale_recoveries
-from outlinebench.app.resources import sample_files, samples_dir
 from outlinebench.app.selection_panel import SelectionPanel
 from outlinebench.app.session import TOOLS, EditorSession
 from outlinebench.app.settings import Preferences, RecentFiles, default_settings, recovery_folder
 from outlinebench.app.tolerances_dialog import TolerancesDialog
+from outlinebench.data_files import sample_files, samples_dir
 from outlinebench.diagnostics import Finding
 from outlinebench.errors import OutlinebenchError
 from outlinebench.io import CUT_CAUTION, write_file_atomic

@@ -29,18 +29,19 @@ from typing import Any, TextIO
 
 import numpy as np
 
-from outlinebench.diagnostics.file_findings import FileFinding, file_findings, has_segments
+from outlinebench import api
+from outlinebench.diagnostics.file_findings import FileFinding, has_segments
 from outlinebench.diagnostics.report import unit_words as _unit_words
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM
 from outlinebench.errors import (
     OutlinebenchError,
     SvgReadError,
     UnsafeXmlError,
-    UnsupportedSvgFeature,
 )
 from outlinebench.io import is_font_path, polylines_svg, read_font, read_svg
 from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
+from outlinebench.model.units import LENGTH_UNITS, MM_PER, axis_scales, mm_per, unit_factor
 
 __all__ = [
     "LENGTH_UNITS",
@@ -70,65 +71,6 @@ __all__ = [
     "output_decimals",
     "cut_file_bytes",
 ]
-
-# Length units a user can ask for. "user" means the SVG root's user units after all
-# transforms (the coordinates of the model).
-LENGTH_UNITS: tuple[str, ...] = ("user", "mm", "in", "pt", "px")
-
-# Millimetres per unit: 1 in = 25.4 mm exactly, 1 pt = 1/72 in, 1 px = 1/96 in (CSS Values
-# and Units Level 3, §5.2 "Absolute lengths", as used by SVG).
-MM_PER: dict[str, float] = {"mm": 1.0, "in": 25.4, "pt": 25.4 / 72.0, "px": 25.4 / 96.0}
-
-
-def mm_per(unit: str, doc: Document) -> float:
-    """Millimetres in one ``unit`` ("user" uses the document's own scale)."""
-    if unit == "user":
-        return doc.mm_per_unit
-    return MM_PER[unit]
-
-
-def axis_scales(doc: Document) -> tuple[float, float] | None:
-    """Millimetres per user unit along x and along y when they differ, else None.
-
-    Notes
-    -----
-    The root's viewBox maps onto its width × height; with ``preserveAspectRatio="none"`` x
-    and y scale separately, by width/viewBox width and height/viewBox height (W3C SVG 1.1
-    §7.8), and the reader gives ``mm_per_unit`` as their geometric mean. "meet" and "slice"
-    scale both axes by the smaller or the larger of the two, so the scale is uniform when
-    ``mm_per_unit`` equals either.
-    """
-    vb, w, h = doc.view_box, doc.width_mm, doc.height_mm
-    if vb is None or w is None or h is None or vb[2] <= 0 or vb[3] <= 0:
-        return None
-    sx, sy = w / vb[2], h / vb[3]
-    same = math.isclose(sx, sy, rel_tol=1e-9)
-    if same or any(math.isclose(doc.mm_per_unit, s, rel_tol=1e-9) for s in (sx, sy)):
-        return None
-    return sx, sy
-
-
-def unit_factor(doc: Document, unit: str) -> float:
-    """Size of one user unit of ``doc`` expressed in ``unit`` (1.0 for "user").
-
-    Raises
-    ------
-    outlinebench.errors.UnsupportedSvgFeature
-        ``unit`` is not "user" and the file scales x and y differently
-        (:func:`axis_scales`): no single factor converts its lengths.
-    """
-    if unit == "user":
-        return 1.0
-    scales = axis_scales(doc)
-    if scales is not None:
-        name = doc.path or "the document"
-        raise UnsupportedSvgFeature(
-            f'{name}: preserveAspectRatio="none" scales x by {scales[0]:.6g} and y by '
-            f"{scales[1]:.6g} mm per user unit, so lengths have no single size in {unit}; "
-            "use --units user"
-        )
-    return doc.mm_per_unit / MM_PER[unit]
-
 
 # The command-line option that lets the reader expand internal XML entities.
 ENTITY_OPTION = "--allow-internal-entities"
@@ -273,11 +215,17 @@ def read_svg_partly(
     OSError
         The file cannot be opened.
     """
-    result = _read(path, allow_entities, True, glyphs)
-    found, rest = file_findings(
-        result.all_notes, result.document, allow_text=allow_text, where=str(path)
+    try:
+        drawing = api.read(
+            path, glyphs=glyphs, allow_entities=allow_entities, allow_text=allow_text
+        )
+    except UnsafeXmlError as exc:
+        if not allow_entities and "internal entit" in str(exc):
+            raise _with_option_hint(exc) from None
+        raise
+    return PartialRead(
+        drawing.document, drawing.file_findings, [_note_dict(n) for n in drawing.notes]
     )
-    return PartialRead(result.document, found, [_note_dict(n) for n in rest])
 
 
 def note_line(note: dict[str, Any]) -> str:

@@ -22,18 +22,16 @@ from concurrent.futures.process import BrokenProcessPool
 from pathlib import Path
 from typing import Any
 
+from outlinebench import api
 from outlinebench.diagnostics import (
     CheckSettings,
-    check_document,
     convert_units,
     json_report,
     summarize,
     text_report,
 )
-from outlinebench.diagnostics.outline_overlaps import outline_overlap_findings
 from outlinebench.diagnostics.profiles import (
     PROFILE_NAMES,
-    apply_profile,
     default_profile_name,
     get_profile,
     profile_settings,
@@ -256,9 +254,8 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         factor = unit_factor(doc, unit)  # refuses a unit the file's scale cannot give
         profile = options.get("profile") or default_profile_name(doc)
         settings = _settings(options, doc, profile, mm_per(unit, doc))
-        findings = apply_profile(check_document(doc, settings), profile, doc)
-        if profile == "cutting":
-            findings += outline_overlap_findings(doc, settings.gap_mm / doc.mm_per_unit)
+        drawing = api.Drawing(doc, read.file_findings, [], path)
+        findings = api.check(drawing, profile=profile, tolerances=settings).findings
     except (OutlinebenchError, OSError, OptionMismatch) as exc:
         if isinstance(exc, OSError):
             msg = f"{path}: {exc.strerror or exc}"

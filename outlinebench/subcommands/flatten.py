@@ -27,14 +27,11 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
-from typing import Any
 
 import numpy as np
 
-from outlinebench.errors import OutlinebenchError
-from outlinebench.geometry.flatten import flatten_contours_bounded
+from outlinebench.api.cutting import flatten_document
 from outlinebench.io import CUT_CAUTION, write_file_atomic
-from outlinebench.model.document import Document
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
     TOLERANCE_RULE,
@@ -77,40 +74,6 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help="unit of the tolerance and of reported lengths: the SVG root's user units "
         "(default) or mm, in, pt, px",
     )
-
-
-def flatten_document(doc: Document, tolerance: float, rounding: float = 0.0) -> dict[str, Any]:
-    """Flatten every contour within ``tolerance − rounding`` (user units) with proven bounds.
-
-    ``max_deviation`` per contour and overall is the proven chord bound plus ``rounding`` (the
-    largest displacement of a written vertex), so it bounds the written polylines' deviation.
-    """
-    refs = list(doc.contour_refs())
-    target = tolerance - rounding
-    if not target > 0.0:
-        raise OutlinebenchError(
-            f"tolerance {tolerance:g} is not above the output resolution {rounding:g}"
-        )
-    polys, bounds = flatten_contours_bounded([r.contour for r in refs], target)
-    contours = []
-    worst = 0.0
-    for r, poly, bound in zip(refs, polys, bounds, strict=True):
-        entry: dict[str, Any] = {
-            "outline": r.outline,
-            "contour": r.global_index,
-            "closed": bool(r.contour.closed),
-            "points": poly,
-        }
-        if len(r.contour.segments):
-            entry["max_deviation"] = float(bound) + rounding
-            worst = max(worst, entry["max_deviation"])
-        contours.append(entry)
-    return {
-        "contours": contours,
-        "tolerance": tolerance,
-        "max_deviation": worst,
-        "exceeded": worst > tolerance,
-    }
 
 
 def run(args: argparse.Namespace) -> int:

@@ -42,7 +42,7 @@ def test_every_package_folder_is_listed_for_the_wheel():
 
 
 def test_the_source_checkout_finds_icons_and_samples():
-    from outlinebench.app.resources import icon_path, sample_files
+    from outlinebench.data_files import icon_path, sample_files
 
     assert icon_path("app") == ROOT / "resources" / "icons" / "app.svg"
     assert [p.name for p in sample_files()] == sorted(p.name for p in ROOT.glob("samples/*.svg"))
@@ -61,7 +61,7 @@ CHECK_INSTALLED = r"""
 import json, os, sys
 os.environ["QT_QPA_PLATFORM"] = "offscreen"
 import outlinebench
-from outlinebench.app.resources import icon_path, sample_files, samples_dir
+from outlinebench.data_files import icon_path, sample_files, samples_dir
 from PySide6.QtCore import QSettings
 from PySide6.QtWidgets import QApplication
 app = QApplication([])

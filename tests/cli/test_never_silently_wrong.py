@@ -111,7 +111,7 @@ def test_a_crash_in_one_file_is_reported_and_the_others_still_checked(
     # A defect of ours in one file (simulated: the checker raises for that file) is reported
     # in one line with its own exit code 3; the good files are checked and printed; --debug
     # adds the traceback. Worker processes are forked, so they see the patched checker.
-    import outlinebench.subcommands.check as check_mod
+    import outlinebench.api as check_mod
 
     real = check_mod.check_document
 

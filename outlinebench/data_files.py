@@ -6,7 +6,8 @@ and ``samples/`` folders there); they are found with :mod:`importlib.resources`.
 checkout (the package imported from the repository, as in development and the tests) has them
 at the repository root, next to the ``outlinebench`` folder.
 
-This module holds no Qt: :mod:`outlinebench.app.icons` turns the paths into icons.
+This module holds no Qt (the editor and the library both use it): :mod:`outlinebench.app.icons`
+turns the paths into icons.
 """
 
 from __future__ import annotations
@@ -45,7 +46,7 @@ def data_dir(name: str) -> Path | None:
         inside = None
     if inside is not None and isinstance(inside, Path) and inside.is_dir():
         return inside
-    package = Path(__file__).resolve().parents[1]  # …/outlinebench
+    package = Path(__file__).resolve().parent  # …/outlinebench
     beside = package.parent / name
     if beside.is_dir() and (package.parent / "pyproject.toml").is_file():
         return beside
