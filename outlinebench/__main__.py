@@ -50,18 +50,17 @@ def _error(text: str) -> int:
 def _not_a_file(word: str) -> int:
     """Exit code and one line for a first argument that is neither a command nor a file."""
     names = command_names()
-    close = difflib.get_close_matches(word, names, n=1, cutoff=SUGGEST_CUTOFF)
-    if close:
-        return _error(f"unknown command '{word}'; did you mean '{close[0]}'?")
     path = Path(word)
     if path.is_dir():
         return _error(
             f"{word} is a folder; the editor opens one file (to check a folder: "
             f"outlinebench check {word})"
         )
-    looks_like_path = path.suffix != "" or "/" in word or "\\" in word
-    if looks_like_path:
+    if path.suffix != "" or "/" in word or "\\" in word:  # meant as a file name
         return _error(f"{word}: no such file")
+    close = difflib.get_close_matches(word, names, n=1, cutoff=SUGGEST_CUTOFF)
+    if close:
+        return _error(f"unknown command '{word}'; did you mean '{close[0]}'?")
     return _error(
         f"unknown command '{word}' and no file of that name; commands are "
         f"{', '.join(names)} (outlinebench --help)"

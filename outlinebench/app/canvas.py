@@ -123,6 +123,9 @@ class Canvas(QWidget):
         self._space_down = False
         self._last_pan = QPointF()
         self._fitted_once = False
+        # The user zoomed or panned since the last fit: a resize then keeps the view; until
+        # then a resize (the window laid out, a dock opened) fits the drawing again.
+        self._user_view = False
         self._last_doc: Document | None = None  # last document painted outside a gesture
         self._seen_doc: Document | None = None  # document of the last change handled
         self.frames_painted = 0  # paint events handled (the benchmark checks frames happen)
@@ -273,6 +276,7 @@ class Canvas(QWidget):
             v.scale = min(PLACE_MIN_PX / size, MAX_SCALE)
         v.offset_x = self.width() / 2 - x * v.scale
         v.offset_y = self.height() / 2 - y * v.scale
+        self._user_view = True
         self.view_changed.emit()
         self.update()
 
@@ -284,12 +288,14 @@ class Canvas(QWidget):
             bounds = (0.0, 0.0, 100.0, 100.0)
         self.view.fit(bounds, self.width(), self.height())
         self._fitted_once = True
+        self._user_view = False
         self.view_changed.emit()
         self.update()
 
     def zoom(self, factor: float, at: QPointF | None = None) -> None:
         """Zoom by ``factor`` about ``at`` (logical px), or about the centre of the canvas."""
         at = at if at is not None else QPointF(self.width() / 2, self.height() / 2)
+        self._user_view = True
         self.view.zoom_about(at.x(), at.y(), factor)
         self.view_changed.emit()
         self.update()
@@ -324,7 +330,7 @@ class Canvas(QWidget):
     # -- painting -----------------------------------------------------------------------
     def resizeEvent(self, event: QResizeEvent) -> None:  # noqa: N802 (Qt name)
         super().resizeEvent(event)
-        if not self._fitted_once:
+        if not self._fitted_once or not self._user_view:
             self.fit_to_outline()
 
     def paintEvent(self, event: QPaintEvent) -> None:  # noqa: N802 (Qt name)
@@ -554,6 +560,7 @@ class Canvas(QWidget):
             if mods & Qt.KeyboardModifier.ShiftModifier:
                 dx, dy = dy, dx
             self.view.pan(dx, dy)
+            self._user_view = True
             self.view_changed.emit()
             self.update()
         event.accept()
@@ -582,6 +589,7 @@ class Canvas(QWidget):
             d = event.position() - self._last_pan
             self._last_pan = event.position()
             self.view.pan(d.x(), d.y())
+            self._user_view = True
             self.view_changed.emit()
             self.update()
             return

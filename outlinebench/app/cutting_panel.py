@@ -77,6 +77,7 @@ class CuttingPanel(QWidget):
         grid.addWidget(self.offset_export, 2, 2)
         grid.addWidget(self.offset_info, 3, 0, 1, 3)
         grid.setColumnStretch(0, 1)
+        lay.addStretch(1)  # the controls stay at the top of a tall dock
         for w in (self.flatten_on, self.offset_on):
             w.toggled.connect(lambda _on: self._on_changed())
         self.flatten_tol.valueChanged.connect(lambda v: self._typed("flatten", v))

@@ -231,8 +231,8 @@ class MainWindow(QMainWindow):
         scroll.setFrameShape(QFrame.Shape.NoFrame)
         scroll.setWidget(self.panel)
         scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
-        scroll.setMinimumWidth(
-            self.panel.sizeHint().width() + scroll.verticalScrollBar().sizeHint().width() + 4
+        scroll.setMinimumWidth(  # the panel's least width: labels whole, fields 120 px
+            self.panel.minimumSizeHint().width() + scroll.verticalScrollBar().sizeHint().width() + 4
         )
         dock.setWidget(scroll)
         dock.setFeatures(QDockWidget.DockWidgetFeature.DockWidgetMovable)

@@ -206,6 +206,7 @@ def _fit(canvas, region) -> None:
         canvas.fit_to_outline()
     else:
         canvas.view.fit(region, canvas.width(), canvas.height())
+        canvas._user_view = True  # a chosen view: kept if the layout resizes the canvas
         canvas.view_changed.emit()
         canvas.update()
 

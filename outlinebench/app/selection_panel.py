@@ -97,7 +97,7 @@ class SelectionPanel(QWidget):
     def __init__(self, editor: EditorSession, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._editor = editor
-        self.setMinimumWidth(300)
+        self.setMinimumWidth(270)  # labels and 120-px fields fit (test_selection_panel)
         lay = QVBoxLayout(self)
         self.summary = QLabel("Nothing selected. Click a point on the canvas.")
         self.summary.setWordWrap(True)

@@ -154,3 +154,32 @@ def test_exported_cut_file_is_verified_carries_the_caution_and_spares_the_drawin
     assert window.dialog_log and "never replaces the drawing" in window.dialog_log[-1][1]
     assert drawing.read_bytes() == LETTERING.read_bytes()
     assert load_svg(str(drawing)).segment_count() > 0
+
+
+def test_render_draws_what_the_editor_canvas_draws(qtbot, tmp_path):
+    # `outlinebench render` paints with the editor's Canvas itself: its image and an editor
+    # canvas of the same size, findings and comb are the same pixels.
+    from PySide6.QtGui import QImage
+
+    from outlinebench.app.canvas import Canvas
+    from outlinebench.app.curvature_comb import auto_comb_scale
+    from outlinebench.app.render import main as render
+    from outlinebench.app.session import EditorSession
+    from outlinebench.diagnostics import check_document
+
+    out = tmp_path / "r.png"
+    args = [str(LETTERING), "-o", str(out), "--findings", "--combs", "--size", "400x260"]
+    assert render(args) == 0
+    doc = _doc(LETTERING)
+    canvas = Canvas(EditorSession(doc))
+    qtbot.addWidget(canvas)
+    canvas.resize(400, 260)
+    canvas.show()
+    qtbot.waitExposed(canvas)
+    canvas.fit_to_outline()
+    canvas.set_finding_marks([f for f in check_document(doc) if f.severity != "info"])
+    canvas.set_comb(True, auto_comb_scale(doc))
+    mine = canvas.grab().toImage().convertToFormat(QImage.Format.Format_RGB32)
+    theirs = QImage(str(out)).convertToFormat(QImage.Format.Format_RGB32)
+    assert (theirs.width(), theirs.height()) == (400, 260)
+    assert mine == theirs

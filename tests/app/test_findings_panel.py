@@ -353,3 +353,42 @@ def test_during_a_drag_the_check_follows_the_frame_once_however_many_moves(windo
     )
     assert any(f.kind == "kink" for f in win.live.findings)
     _send(canvas, QEvent.Type.MouseButtonRelease, start + QPointF(0.0, 12.0))
+
+
+def test_the_list_names_places_in_the_command_lines_words(sample_window, capsys):
+    # Reference: the command line's own text lines (`outlinebench check`, one per finding,
+    # "FILE: contour 5, join 5: kind ..."); the list's Where cells are the same words.
+    code = cli_main(["check", str(SAMPLE)])
+    assert code == 1
+    lines = [ln for ln in capsys.readouterr().out.splitlines() if ": contour " in ln]
+    cli_places = {ln.split(": ")[1] for ln in lines}
+    panel = sample_window.findings_panel
+    panel.show_info.setChecked(True)
+    model = panel.model
+    where = COLUMNS.index("Where")
+    cells = {model.cell_text(model.rows[r][0], where) for r in range(model.rowCount())}
+    assert cells == cli_places
+    assert "contour 5, join 5" in cells  # the example
+
+
+def test_the_position_column_is_readable_at_the_default_window_size(qtbot, tmp_path):
+    from PySide6.QtCore import QSettings
+
+    from outlinebench.app.main_window import DEFAULT_WINDOW_SIZE, MainWindow
+
+    win = MainWindow(QSettings(str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(win)
+    win.resize(*DEFAULT_WINDOW_SIZE)
+    win.show()
+    qtbot.waitExposed(win)
+    assert win.open_path(str(SAMPLE), ask=False)
+    view = win.findings_panel.view
+    qtbot.waitUntil(lambda: view.viewport().width() > 0)
+    # Every column at least as wide as its widest cell (Qt's own measure, sizeHintForColumn)
+    # and all four inside the list's viewport: nothing cut off, no sideways scrolling.
+    for c in range(len(COLUMNS)):
+        assert view.columnWidth(c) >= view.sizeHintForColumn(c), COLUMNS[c]
+    starts = [view.header().sectionPosition(c) for c in range(len(COLUMNS))]
+    last = len(COLUMNS) - 1
+    assert starts[last] + view.sizeHintForColumn(last) <= view.viewport().width()
+    # At 1280 px the canvas keeps 40 % and the findings dock gives way (test_main_window).

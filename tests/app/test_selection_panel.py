@@ -274,3 +274,33 @@ def test_after_a_drag_the_fields_show_the_exact_point(window, qtbot):
     # 1 user unit = MM mm (the document's own scale)
     assert win.panel.x.value() == pytest.approx(moved[0] * MM, abs=1e-3)
     assert win.panel.y.value() == pytest.approx(moved[1] * MM, abs=1e-3)
+
+
+def test_labels_are_whole_at_1280_by_800_and_nothing_stale_after_deselecting(qtbot, tmp_path):
+    from conftest import lettering_document
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QLabel
+
+    from outlinebench.app.main_window import MainWindow
+
+    win = MainWindow(QSettings(str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(win)
+    win.resize(1280, 800)
+    win.show()
+    qtbot.waitExposed(win)
+    win.session.load(lettering_document())
+    panel = win.panel
+    win.session.set_selection([(0, 0, 1, 0)])  # an on-curve point with two handles
+    qtbot.wait(20)
+    # Every label of the panel shows its whole text (Qt's size hint: the text's width).
+    for label in panel.findChildren(QLabel):
+        if label.isVisible() and label.text() and not label.wordWrap():
+            assert label.width() >= label.sizeHint().width(), label.text()
+    assert panel.x.text() != "" and "mm" in panel.x.text()
+    # Deselect: no field keeps the numbers of the point shown before, none shows a 0.
+    win.session.set_selection([])
+    for field in (panel.x, panel.y, panel.in_len, panel.in_ang, panel.out_len, panel.out_ang,
+                  panel.seg_in, panel.seg_out):  # fmt: skip
+        assert field.text().strip() == "", field.text()
+        assert not field.isEnabled() or field.text().strip() == ""
+    assert panel.contour_info.text() == "" and panel.turn.text() == ""

@@ -98,6 +98,8 @@ def test_a_mistyped_command_names_the_closest_one_even_without_a_display():
 
 
 def test_a_missing_file_is_one_line_and_does_not_open_the_editor(tmp_path):
+    res = _run([str(tmp_path / "check.svg")], drop=NO_DISPLAY)  # a name, not a typo
+    assert res.stderr.strip() == f"outlinebench: error: {tmp_path / 'check.svg'}: no such file"
     res = _run([str(tmp_path / "no-such-drawing.svg")], drop=NO_DISPLAY)
     assert res.returncode == 2
     lines = res.stderr.strip().splitlines()
