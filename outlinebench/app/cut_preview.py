@@ -25,11 +25,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from outlinebench import api
 from outlinebench.errors import OutlinebenchError
 from outlinebench.geometry import (
     flatten_contours_bounded,
-    hole_flags,
-    offset_contour,
     polyline_deviation,
 )
 from outlinebench.io import CUT_CAUTION, polylines_svg, read_svg
@@ -161,49 +160,40 @@ class OffsetPreview:
 
 
 def compute_offset(doc: Document, distance: float, tolerance: float) -> OffsetPreview:
-    """Offset every contour of ``doc`` by ``distance`` (user units; > 0: material grows).
+    """Offset the filled region of every outline of ``doc`` by ``distance`` (user units; > 0:
+    material grows), exactly as ``outlinebench offset`` does.
 
-    The single entry point of the offset preview, to be replaced by the region engine's
-    offset of whole regions. Today: :func:`outlinebench.geometry.offset_contour` on each
-    contour, with the contours an outline nests an odd number of times (holes, even-odd
-    rule, W3C SVG 1.1 §11.3) offset by ``-distance``, the rule of ``outlinebench offset``.
+    The library's :func:`outlinebench.offset` (the region engine: each outline's region by
+    its fill rule, toolpaths that never cross, verified independently); a toolpath set that
+    fails verification is shown with an ``unverified-toolpath`` place, and export refuses it.
     """
-    polylines: list[np.ndarray] = []
-    closed: list[bool] = []
-    places: list[OffsetPlace] = []
-    holes: dict[tuple[int, int], bool] = {}
-    for oi, outline in enumerate(doc.outlines):
-        live = [c for c in outline.contours]
-        for ci, flag in enumerate(hole_flags(live, tolerance)):
-            holes[(oi, ci)] = flag
-    for ref in doc.contour_refs():
-        if not ref.contour.segments:
-            continue
-        pts = np.concatenate(ref.contour.segments)
-        if float(np.max(np.ptp(pts, axis=0))) == 0.0:
-            # every control point in one place: no outline for the tool to follow
-            x, y = (float(v) for v in pts[0])
-            message = "the contour has no extent (all its points coincide): nothing to cut"
-            places.append(OffsetPlace("vanishes", ref.global_index, None, x, y, message))
-            continue
-        d = -distance if holes.get((ref.outline, ref.index), False) else distance
-        try:
-            res = offset_contour(ref.contour.segments, ref.contour.closed, d, tolerance)
-        except OutlinebenchError:
-            raise
-        except Exception as exc:  # noqa: BLE001 — a fault in the offset must not end editing
-            log.exception("offset of contour %d failed", ref.global_index)
-            x, y = (float(v) for v in pts[0])
-            message = f"the offset could not be computed ({type(exc).__name__}: {exc})"
-            places.append(OffsetPlace("offset-failed", ref.global_index, None, x, y, message))
-            continue
-        for c in res.contours:
-            if len(c.polyline) >= 2:
-                polylines.append(np.asarray(c.polyline, dtype=float))
-                closed.append(bool(c.closed))
-        for p in res.problems:
-            places.append(OffsetPlace(p.kind, ref.global_index, p.segment, p.x, p.y, p.message))
-    return OffsetPreview(distance, tolerance, polylines, closed, places)
+    try:
+        res = api.offset(doc, distance, tolerance=tolerance)
+    except OutlinebenchError:
+        raise
+    except Exception as exc:  # noqa: BLE001 — a fault in the offset must not end editing
+        log.exception("offset failed")
+        message = f"the offset could not be computed ({type(exc).__name__}: {exc})"
+        return OffsetPreview(
+            distance, tolerance, [], [], [OffsetPlace("offset-failed", 0, None, 0.0, 0.0, message)]
+        )
+    polylines = [np.asarray(t["points"], dtype=float) for t in res.toolpaths]
+    closed = [bool(t["closed"]) for t in res.toolpaths]
+    keep = [k for k, p in enumerate(polylines) if len(p) >= 2]
+    places = [
+        OffsetPlace(kind, gi, seg, float(x), float(y), message)
+        for kind, _sev, _o, gi, seg, _t, x, y, _v, message in res.problems
+    ]
+    if not res.verified:
+        places.append(
+            OffsetPlace(
+                "unverified-toolpath", 0, None, 0.0, 0.0,
+                "the toolpaths failed their independent verification: do not cut them",
+            )
+        )  # fmt: skip
+    return OffsetPreview(
+        distance, tolerance, [polylines[k] for k in keep], [closed[k] for k in keep], places
+    )
 
 
 def offset_preview(doc: Document, radius: float, tolerance: float) -> OffsetPreview:
