@@ -65,8 +65,9 @@ def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(
         prog="outlinebench",
         description=(
-            "Check, measure, flatten and offset Bézier outlines in SVG files. "
-            "Run 'outlinebench FILE.svg' (no subcommand) to open the editor."
+            "Check, measure, repair, flatten and offset Bézier outlines in SVG files, fonts and "
+            "font sources. Run 'outlinebench FILE.svg' (no subcommand) to open the editor, and "
+            "'outlinebench render FILE -o OUT.png' to draw the editor's view into an image."
         ),
         epilog=EXIT_CODES_TEXT,
     )
