@@ -600,7 +600,13 @@ class _Reader:
                 else:
                     self.unsupported(tag, el)
                 continue
-            where = f"{self.where}: {self.name(el)}"
+            # the place for messages, looked up only where a message may need it (finding an
+            # element's line costs a search in the file's line index)
+            where = (
+                f"{self.where}: {self.name(el)}"
+                if tag in ("svg", "use") or "transform" in decl or "font-size" in decl
+                else f"{self.where}: {describe(el)}"
+            )
             font = self.font_size(decl, frame.font, where)
             matrix = frame.matrix
             if el is not self.root:
