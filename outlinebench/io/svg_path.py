@@ -595,6 +595,9 @@ def _build(
     dep_x[0] = dep_y[0] = -1
     X = _resolve(ex, dep_x)
     Y = _resolve(ey, dep_y)
+    if not (np.isfinite(X).all() and np.isfinite(Y).all()):
+        # a current point beyond binary64, also one no segment starts from (a moveto)
+        counts_out[_NONFINITE] = 1
     SX = np.concatenate(([0.0], X[:-1]))
     SY = np.concatenate(([0.0], Y[:-1]))
     bx = np.where(rel, SX, 0.0)
@@ -801,6 +804,8 @@ def _build_small(
                     bounds.append((sub_first, len(order), True))
                 sub_first = len(order)
             prev_cat = cat
+            if not (math.isfinite(x) and math.isfinite(y)):
+                counts_out[_NONFINITE] = 1  # as in _build: a current point beyond binary64
     if len(order) > sub_first:
         bounds.append((sub_first, len(order), False))
     views: dict[int, list[NDArray[np.float64]]] = {}

@@ -91,3 +91,14 @@ def test_a_near_straight_arc_bulges_by_its_sagitta():
     mid = 0.125 * (arc[0] + 3 * arc[1] + 3 * arc[2] + arc[3])
     assert math.isclose(mid[0], 5.0, rel_tol=1e-12)
     assert math.isclose(-mid[1], 100 / 8e6, rel_tol=1e-6)
+
+
+@pytest.mark.parametrize("pad", ["", " M2 2 L3 3" * 300], ids=["short", "long"])
+def test_a_moveto_beyond_binary64_is_an_error_at_its_group(pad):
+    # Found by the campaign (path inputs #28342, #57272): the second relative moveto puts
+    # the current point at 2e308, beyond the largest double, with no segment drawn from it;
+    # it is an overflow at that group (reference reader), everything before it is kept.
+    d = "M0 0 L1 1 m1e308 0 m1e308 0" + pad
+    res = _check(d)
+    assert res.error is not None and res.error.offset == d.index("m1e308", 12)
+    assert [s.tolist() for c in res.contours for s in c.segments] == [[[0, 0], [1, 1]]]
