@@ -20,8 +20,11 @@ import importlib.util
 import os
 import sys
 import traceback
+import warnings
 from collections.abc import Sequence
 from types import ModuleType
+
+import numpy as np
 
 from outlinebench import __version__
 from outlinebench.errors import OutlinebenchError
@@ -90,9 +93,17 @@ def main(argv: Sequence[str] | None = None) -> int:
         parser.print_help()
         return EXIT_OK
     try:
-        return int(args._run(args))
+        # numpy's warnings never reach the user: a value that overflows is reported where it
+        # matters (a read error for coordinates past COORDINATE_LIMIT, null in JSON)
+        with warnings.catch_warnings(), np.errstate(all="ignore"):
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return int(args._run(args))
     except OutlinebenchError as exc:
-        print(f"outlinebench: error: {exc}", file=sys.stderr)
+        msg = str(exc)
+        inputs = _file_args(args)
+        if inputs and not any(f in msg for f in inputs):
+            msg = f"{inputs[0]}: {msg}"  # every error line names the file
+        print(f"outlinebench: error: {msg}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         # The reader of our output went away (``outlinebench measure f.svg | head``): not an

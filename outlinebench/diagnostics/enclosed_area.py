@@ -51,13 +51,17 @@ def winding_number(cubics: FloatArray, p: FloatArray) -> int:
     right = cubics[:, :, 0].max(axis=1) > px
     total = 0
     for r in np.flatnonzero((lo <= py) & (hi >= py) & right).tolist():
-        y0, y1, y2, y3 = cubics[r, :, 1]
+        ys = cubics[r, :, 1]
+        # scaled by a power of two so the power basis cannot overflow (roots are unchanged)
+        scale = 2.0 ** -max(0, int(np.ceil(np.log2(max(float(np.abs(ys).max()), abs(py), 1.0)))))
+        y0, y1, y2, y3 = ys * scale
+        py_s = py * scale
         # power basis of y(t) − py (Bernstein to monomial, Farin §3)
         coef = [
             -y0 + 3 * y1 - 3 * y2 + y3,
             3 * y0 - 6 * y1 + 3 * y2,
             -3 * y0 + 3 * y1,
-            y0 - py,
+            y0 - py_s,
         ]
         for t in np.roots(coef):
             if abs(t.imag) > _IMAG_TOL:

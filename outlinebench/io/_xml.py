@@ -35,7 +35,14 @@ from defusedxml.ElementTree import DefusedXMLParser
 
 from outlinebench.errors import SvgReadError, UnsafeXmlError
 
-__all__ = ["MAX_BYTES", "MAX_ENTITY_CHARS", "SVG_DTD_PUBLIC_IDS", "XmlSource", "parse_xml"]
+__all__ = [
+    "one_line",
+    "MAX_BYTES",
+    "MAX_ENTITY_CHARS",
+    "SVG_DTD_PUBLIC_IDS",
+    "XmlSource",
+    "parse_xml",
+]
 
 # Largest file read (bytes): big enough for a tens-of-megabyte path, small enough to refuse
 # absurd inputs before reading them.
@@ -219,3 +226,21 @@ def parse_xml(
         if m:
             encoding = m.group(1).decode("ascii").lower()
     return XmlSource(data, root, parser.spans, encoding)
+
+
+_CONTROL_RE = re.compile(r"[\x00-\x1f\x7f\x85\u2028\u2029]")
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks and other control characters written as escapes.
+
+    An id or name from a file goes into one-line messages; a newline in it (allowed in
+    XML attribute values as ``&#10;``) would split the message and could make its second
+    line pose as a message about another file. ``"a\\nb"`` is written ``a\\nb``.
+
+    Examples
+    --------
+    >>> one_line("logo\\nfake.svg: error")
+    'logo\\\\nfake.svg: error'
+    """
+    return _CONTROL_RE.sub(lambda m: repr(m.group())[1:-1], text)

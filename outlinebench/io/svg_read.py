@@ -31,7 +31,7 @@ from outlinebench.errors import (
     UnsafeXmlError,
     UnsupportedSvgFeature,
 )
-from outlinebench.io._xml import MAX_BYTES, MAX_ENTITY_CHARS, XmlSource, parse_xml
+from outlinebench.io._xml import MAX_BYTES, MAX_ENTITY_CHARS, XmlSource, one_line, parse_xml
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_arc import ARC_TOLERANCE
 from outlinebench.io.svg_path import _found, _token_at, read_path_data
@@ -68,6 +68,9 @@ XLINK_NS = "http://www.w3.org/1999/xlink"
 JOINS_NS = "urn:outlinebench:join-intent"
 JOINS_PREFIX = "ob"
 JOINS_ATTR = f"{{{JOINS_NS}}}joins"
+# Largest coordinate measured (user units): squares of lengths and products in the checks must
+# stay below the largest double (about 1.8e308), with room for the sums of many segments.
+COORDINATE_LIMIT = 1e150
 # Most elements expanded through <use> references in one file (fan-out budget).
 MAX_USE_INSTANCES = 100_000
 
@@ -207,7 +210,7 @@ def describe(el: Any, index: int | None = None, line: int | None = None) -> str:
     tag = _local(el.tag)
     eid = el.get("id")
     if eid:
-        return f'<{tag} id="{eid}">'
+        return f'<{tag} id="{one_line(eid)}">'
     if index is not None:
         return f"<{tag}> #{index + 1}"
     return f"<{tag}> at line {line}" if line is not None else f"<{tag}>"
@@ -929,6 +932,16 @@ class _Reader:
     ) -> None:
         use = frame.use
         contours = _read_joins(el, contours, where, self.notes)
+        if contours:
+            big = max((float(np.abs(sg).max()) for c in contours for sg in c.segments), default=0.0)
+            if big > COORDINATE_LIMIT:
+                self.note(
+                    "error",
+                    f"{where}: coordinates reach {big:.3g} user units, beyond ±"
+                    f"{COORDINATE_LIMIT:.0e}: lengths, areas and crossings past the largest "
+                    "double cannot be measured; scale the drawing down",
+                    "coordinates",
+                )
         if m is not None and is_mirroring(m):
             self.count("mirror", describe(el, index))
         ref = ElementRef(

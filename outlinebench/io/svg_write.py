@@ -26,6 +26,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import SvgReadError, SvgWriteError
+from outlinebench.io._xml import one_line
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_path import _apply, format_path_data
 from outlinebench.io.svg_read import (
@@ -73,22 +74,6 @@ _TAG_NAME_RE = re.compile(rb"<([^\s/>]+)")
 _END_TAG_RE = re.compile(rb"</([^\s>]+)")
 _TAG_END_RE = re.compile(rb"\s*(/?)>")
 _NS_DECL_RE = re.compile(r"xmlns:([A-Za-z_][\w.-]*)")
-_CONTROL_RE = re.compile(r"[\x00-\x1f\x7f\x85\u2028\u2029]")
-
-
-def one_line(text: str) -> str:
-    """``text`` with line breaks and other control characters written as escapes.
-
-    An id or name from a file goes into one-line messages; a newline in it (allowed in
-    XML attribute values as ``&#10;``) would split the message and could make its second
-    line pose as a message about another file. ``"a\\nb"`` is written ``a\\nb``.
-
-    Examples
-    --------
-    >>> one_line("logo\\nfake.svg: error")
-    'logo\\\\nfake.svg: error'
-    """
-    return _CONTROL_RE.sub(lambda m: repr(m.group())[1:-1], text)
 
 
 def joins_text(contours: Sequence[Contour]) -> str | None:

@@ -17,10 +17,13 @@ import dataclasses
 import os
 import sys
 import traceback
+import warnings
 from concurrent.futures import ProcessPoolExecutor
 from concurrent.futures.process import BrokenProcessPool
 from pathlib import Path
 from typing import Any
+
+import numpy as np
 
 from outlinebench import api
 from outlinebench.diagnostics import (
@@ -298,7 +301,9 @@ def guarded_check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         not the project's own (a defect of ours: the other files are still checked).
     """
     try:
-        return check_file(path, options)
+        with warnings.catch_warnings(), np.errstate(all="ignore"):
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return check_file(path, options)
     except Exception as exc:  # noqa: BLE001 - one file's defect must not hide the others
         return {
             "file": path,

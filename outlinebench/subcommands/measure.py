@@ -18,6 +18,7 @@ from typing import Any
 
 from outlinebench.api.measuring import measure_document
 from outlinebench.diagnostics.report import format_file_finding
+from outlinebench.io.svg_write import one_line
 from outlinebench.subcommands import EXIT_FINDINGS, EXIT_OK
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,
@@ -68,7 +69,7 @@ def _text(label: str, m: dict[str, Any]) -> str:
         f"{_fmt(t['length'])} (lengths in {unit_name})"
     ]
     for c in m["contours"]:
-        name = f", id {c['element_id']}" if c["element_id"] else ""
+        name = f", id {one_line(c['element_id'])}" if c["element_id"] else ""
         box = c["bbox"]
         box_s = (
             f"({_fmt(box[0])}, {_fmt(box[1])})–({_fmt(box[2])}, {_fmt(box[3])})" if box else "none"

@@ -254,3 +254,31 @@ def test_positions_carry_enough_digits_for_a_large_font_outline(tmp_path, capsys
     )
     _, out, _ = run(["check", f], capsys)
     assert "(199999.53, 100000.25)" in out
+
+
+def test_hostile_input_gives_one_line_errors_naming_the_file_and_no_numpy_warnings(tmp_path):
+    # issue "hardened against broken and hostile input": an id holding a newline stays on
+    # one line; coordinates near the largest double are a read error (lengths past it cannot
+    # be measured); a geometry error names the file; numpy's warnings never reach stderr.
+    head = f'<svg {NS} width="100mm" height="100mm" viewBox="0 0 100 100">'
+    cases = {
+        "newline.svg": head + '<path id="a&#10;other.svg: fine" d="M0 0 L1 1 L5"/></svg>',
+        "huge.svg": head + '<path d="M0 0 L1e308 0 L1e308 1e308 Z"/></svg>',
+        "e20.svg": head + '<path d="M0 0 L1e20 0 L1e20 1e20 Z"/></svg>',
+    }
+    for name, text in cases.items():
+        (tmp_path / name).write_text(text)
+    for cmd in (["check"], ["measure"], ["flatten"], ["offset", "--distance", "1"]):
+        for name in cases:
+            res = subprocess.run(
+                [sys.executable, "-m", "outlinebench", cmd[0], str(tmp_path / name), *cmd[1:]],
+                capture_output=True, text=True, cwd=ROOT, timeout=120,
+            )  # fmt: skip
+            assert "Warning" not in res.stderr and "Traceback" not in res.stderr, res.stderr
+            for line in res.stderr.strip().splitlines():
+                assert name in line, (cmd, name, line)
+            if name == "newline.svg":
+                lines = (res.stdout + res.stderr).splitlines()
+                assert all(not x.startswith("other.svg") for x in lines)
+            if name == "huge.svg" and cmd[0] in ("check", "measure"):
+                assert res.returncode == 1 and "beyond ±1e+150" in res.stdout
