@@ -25,20 +25,42 @@ from outlinebench.model.document import Document
 __all__ = ["outline_overlap_findings"]
 
 
-def _region_polygon(outline, tolerance: float):
-    closed = [c for c in outline.contours if c.closed and c.segments]
-    if not closed:
-        return None
-    res = remove_overlaps(closed, fill_rule=outline.fill_rule)
-    if not res.contours:
-        return None
-    rings = flatten_contours([(rc.segments, True) for rc in res.contours], tolerance)
-    polys = [shapely.Polygon(r) for r in rings if len(r) >= 3]
-    # the engine's contours do not cross; the region is their even-odd fill
-    region = shapely.Polygon()
-    for p in polys:
-        region = region.symmetric_difference(shapely.make_valid(p))
-    return region
+def _regions(doc: Document, tolerance: float) -> list[object | None]:
+    """Each outline's filled region as a shapely geometry (None: no closed contour).
+
+    All closed contours are flattened in one call; an outline of one contour whose ring does
+    not cross itself is that ring's polygon; any other outline goes through the boolean
+    engine first (its region under its fill rule, as contours that do not cross), whose
+    contours fill the region by the even-odd rule.
+    """
+    rings_of: list[list[int]] = []
+    contours = []
+    for o in doc.outlines:
+        ks = []
+        for c in o.contours:
+            if c.closed and c.segments:
+                ks.append(len(contours))
+                contours.append(c)
+        rings_of.append(ks)
+    flat = flatten_contours(contours, tolerance) if contours else []
+    out: list[object | None] = []
+    for o, ks in zip(doc.outlines, rings_of, strict=True):
+        if not ks:
+            out.append(None)
+            continue
+        if len(ks) == 1 and len(flat[ks[0]]) >= 3:
+            ring = shapely.LinearRing(flat[ks[0]])
+            if ring.is_simple:
+                out.append(shapely.Polygon(ring))
+                continue
+        res = remove_overlaps([contours[k] for k in ks], fill_rule=o.fill_rule)
+        rings = flatten_contours([(rc.segments, True) for rc in res.contours], tolerance)
+        region = shapely.Polygon()
+        for r in rings:
+            if len(r) >= 3:
+                region = region.symmetric_difference(shapely.make_valid(shapely.Polygon(r)))
+        out.append(region)
+    return out
 
 
 def outline_overlap_findings(doc: Document, tolerance: float) -> list[Finding]:
@@ -58,59 +80,48 @@ def outline_overlap_findings(doc: Document, tolerance: float) -> list[Finding]:
         the earlier outline's first contour, ``value`` the shared area (``user^2``), ``x, y``
         a point inside the shared area.
 
+    Notes
+    -----
+    Candidate pairs come from a shapely STRtree of the regions (n log n plus the pairs whose
+    boxes meet); the shared areas of all candidates are computed in one vectorised call.
+
     Examples
     --------
     >>> outline_overlap_findings(Document(), 0.01)
     []
     """
     firsts: list[int] = []
-    boxes: list[tuple[float, float, float, float] | None] = []
     gi = 0
     for o in doc.outlines:
         firsts.append(gi)
         gi += len(o.contours)
-        pts = [s for c in o.contours if c.closed for s in c.segments]
-        if not pts:
-            boxes.append(None)
-            continue
-        p = np.vstack(pts)
-        boxes.append((p[:, 0].min(), p[:, 1].min(), p[:, 0].max(), p[:, 1].max()))
-    idx = [k for k, b in enumerate(boxes) if b is not None]
+    regions = _regions(doc, tolerance)
+    idx = [k for k, r in enumerate(regions) if r is not None and not r.is_empty]
     if len(idx) < 2:
         return []
-    b = np.array([boxes[k] for k in idx])
-    order = np.argsort(b[:, 0], kind="stable")
-    pairs: list[tuple[int, int]] = []
-    for a_pos, a in enumerate(order):
-        for bb in order[a_pos + 1 :]:
-            if b[bb, 0] > b[a, 2]:
-                break
-            if b[bb, 1] <= b[a, 3] and b[a, 1] <= b[bb, 3]:
-                pairs.append((idx[min(a, bb)], idx[max(a, bb)]))
-    if not pairs:
+    geoms = np.array([regions[k] for k in idx], dtype=object)
+    tree = shapely.STRtree(geoms)
+    a, b = tree.query(geoms, predicate="intersects")
+    keep = a < b
+    a, b = a[keep], b[keep]
+    if a.size == 0:
         return []
-    regions: dict[int, object] = {}
+    shared = shapely.intersection(geoms[a], geoms[b])
+    areas = shapely.area(shared)
+    perim = np.minimum(shapely.length(geoms[a]), shapely.length(geoms[b]))
     out: list[Finding] = []
-    for i, j in sorted(pairs):
-        for k in (i, j):
-            if k not in regions:
-                regions[k] = _region_polygon(doc.outlines[k], tolerance)
-        ri, rj = regions[i], regions[j]
-        if ri is None or rj is None or ri.is_empty or rj.is_empty:
-            continue
-        shared = ri.intersection(rj)
-        perimeter = min(ri.length, rj.length)
-        if shared.is_empty or shared.area <= tolerance * perimeter:
-            continue
-        pt = shared.representative_point()
+    for q in np.flatnonzero(areas > tolerance * perim).tolist():
+        i, j = idx[int(a[q])], idx[int(b[q])]
+        pt = shared[q].representative_point()
         oj = doc.outlines[j]
         out.append(
             Finding(
                 "overlap", ERROR, oj.source_index if oj.source_index >= 0 else j, firsts[j],
-                None, None, float(pt.x), float(pt.y), float(shared.area), "user^2",
+                None, None, float(pt.x), float(pt.y), float(areas[q]), "user^2",
                 f"outline overlaps outline {i} (contour {firsts[i]}); each is cut on its own, "
                 "so the cuts run into each other: merge them (outlinebench union) or move one",
                 other_contour=firsts[i],
             )
         )  # fmt: skip
+    out.sort(key=lambda f: (f.contour, f.other_contour))
     return out

@@ -52,6 +52,7 @@ __all__ = [
     "JOINS_NS",
     "JOINS_ATTR",
     "MAX_USE_INSTANCES",
+    "MAX_USE_SEGMENTS",
     "ReadNote",
     "ReadResult",
     "ElementRef",
@@ -73,6 +74,12 @@ JOINS_ATTR = f"{{{JOINS_NS}}}joins"
 COORDINATE_LIMIT = 1e150
 # Most elements expanded through <use> references in one file (fan-out budget).
 MAX_USE_INSTANCES = 100_000
+# Most segments the <use> instances of one file may expand to: the budget counts the geometry
+# an instance draws, not only instances, so a small file cannot expand without bound (a group
+# of 100 paths used 10,000 times is 1.2 M segments from 300 KB). 250,000 segments check in
+# about 10 s and take well under 500 MB; a drawing that really needs more instances can be
+# expanded by its exporter.
+MAX_USE_SEGMENTS = 250_000
 
 _GEOMETRY = {"path", "rect", "circle", "ellipse", "line", "polyline", "polygon"}
 _CONTAINERS = {"svg", "g", "a", "switch"}
@@ -435,6 +442,7 @@ class _Reader:
         self.counts: dict[str, int] = {}
         self.examples: dict[str, str] = {}
         self.use_instances = 0
+        self.use_segments = 0
         self.root: Any = None
         self.xml: XmlSource | None = None
         self.style: StyleResolver | None = None
@@ -811,6 +819,9 @@ class _Reader:
         stack.append((target, inner))
 
     def read_geometry(self, el: Any, tag: str, decl: dict[str, Any], frame: _Frame) -> None:
+        if frame.use is not None and self.use_segments > MAX_USE_SEGMENTS:
+            self.count("use-segments", self.name(frame.use[0]))
+            return
         index = len(self.outlines)
         where = f"{self.where}: {describe(el, index)}"
         matrix = frame.matrix
@@ -931,6 +942,8 @@ class _Reader:
         path_error: bool,
     ) -> None:
         use = frame.use
+        if use is not None:
+            self.use_segments += sum(len(c.segments) for c in contours)
         contours = _read_joins(el, contours, where, self.notes)
         if contours:
             big = max((float(np.abs(sg).max()) for c in contours for sg in c.segments), default=0.0)
@@ -992,6 +1005,9 @@ class _Reader:
             ("mirror", "info", "{n} outline(s) under a mirroring transform: their winding is "
              "reversed in page coordinates (first: {e})"),
             ("empty-shape", "info", "{n} shape(s) with zero size render nothing (first: {e})"),
+            ("use-segments", "error", f"{{n}} element(s) of use instances not expanded: the "
+             f"instances already drew more than {MAX_USE_SEGMENTS:,} segments, the budget of "
+             "one file (first: {e})"),
             ("empty-viewport", "info", "{n} viewport(s) of zero width or height render "
              "nothing (first: {e})"),
             ("conditional", "info", "{n} element(s) not rendered: their conditional "

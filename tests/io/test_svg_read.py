@@ -467,3 +467,19 @@ def test_damaged_files_raise_only_our_read_error(edits):
     except SvgReadError:
         return
     assert res.error is None or isinstance(res.error, SvgReadError)
+
+
+def test_use_expansion_is_bounded_by_the_geometry_it_draws():
+    # issue "hardened": a group of 100 squares used 1,000 times would draw 400,000 segments
+    # from a small file; the budget counts segments (MAX_USE_SEGMENTS), not instances, and
+    # what it cut is a read error (the file is not clean). Common practice, no source.
+    from outlinebench.io.svg_read import MAX_USE_SEGMENTS
+
+    paths = "".join(f'<path d="M{k} 0 L{k + 1} 0 L{k + 1} 1 Z"/>' for k in range(100))
+    uses = "".join(f'<use href="#g" x="{k * 3}"/>' for k in range(1000))
+    data = f'<svg xmlns="http://www.w3.org/2000/svg"><defs><g id="g">{paths}</g></defs>{uses}</svg>'
+    res = read_svg(data.encode())
+    n = sum(len(c.segments) for o in res.document.outlines for c in o.contours)
+    assert MAX_USE_SEGMENTS <= n <= MAX_USE_SEGMENTS + 400
+    (note,) = [x for x in res.notes if x.kind == "use-segments"]
+    assert note.level == "error" and f"{MAX_USE_SEGMENTS:,}" in note.message
