@@ -42,7 +42,13 @@ def _regions(doc: Document, tolerance: float) -> list[object | None]:
                 ks.append(len(contours))
                 contours.append(c)
         rings_of.append(ks)
-    flat = flatten_contours(contours, tolerance) if contours else []
+    if not contours:
+        return [None] * len(doc.outlines)
+    # at least 1e-9 of the drawing's extent: a finer flattening is below the resolution of
+    # its coordinates (shared areas are compared with tolerance × perimeter anyway)
+    extent = max(float(np.abs(sg).max()) for c in contours for sg in c.segments)
+    tolerance = max(tolerance, 1e-9 * extent)
+    flat = flatten_contours(contours, tolerance)
     out: list[object | None] = []
     for o, ks in zip(doc.outlines, rings_of, strict=True):
         if not ks:
