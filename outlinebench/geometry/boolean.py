@@ -56,7 +56,7 @@ from numpy.typing import NDArray
 from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.area import segment_area_terms
 from outlinebench.geometry.bezier import as_control_points, split_many, subsegment, to_cubic
-from outlinebench.geometry.intersect import intersections, self_intersections
+from outlinebench.geometry.intersect import intersections_batch, self_intersections
 from outlinebench.geometry.nearest import nearest_point
 
 __all__ = [
@@ -307,6 +307,7 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
     delta = max(tol, 1e-3 * size)
     found: list[tuple[int, float, int, float]] = []
     pairs, polys = _candidate_pairs(segs, delta, tol)
+    rest: list[tuple[int, int]] = []
     for a, b in pairs:
         sa, sb = segs[a], segs[b]
         if sa.shape == sb.shape and np.array_equal(sa, sb):
@@ -315,8 +316,12 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
         if sa.shape == sb.shape and np.array_equal(sa, sb[::-1]):
             found += [(a, 0.0, b, 1.0), (a, 1.0, b, 0.0)]
             continue
-        for ta, tb in intersections(sa, sb):
-            found.append((a, float(ta), b, float(tb)))
+        rest.append((a, b))
+    # All remaining pairs are intersected in one batch (same answers as pair by pair).
+    answers = intersections_batch([segs[a] for a, _ in rest], [segs[b] for _, b in rest])
+    for (a, b), ts in zip(rest, answers, strict=True):
+        for ta, tb in ts.tolist():
+            found.append((a, ta, b, tb))
     for a, s in enumerate(segs):
         if s.shape[0] == 4:
             for t1, t2 in self_intersections(s):
