@@ -16,7 +16,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import cross, horner, segment_scale
-from outlinebench.geometry.bezier import evaluate, power_coefficients
+from outlinebench.geometry.bezier import evaluate, power_coefficients, to_cubic
 
 __all__ = [
     "INTERSECTION_TOLERANCE",
@@ -270,8 +270,8 @@ def intersections(
 def _newton_batch(a, b, s, u, iterations=40):
     """:func:`_newton` with one pair of (unit-sized) segments per candidate.
 
-    ``a`` (N, Ka, 2), ``b`` (N, Kb, 2), parameters (N,). Stops when no parameter of the
-    batch moves by more than a few ulps (a candidate that converged early keeps converging).
+    ``a`` (N, Ka, 2), ``b`` (N, Kb, 2), parameters (N,). A candidate stops when neither of
+    its parameters moves by more than a few ulps; the others go on.
     """
     ca, cb = power_coefficients(a), power_coefficients(b)
     dca = ca[:, 1:] * np.arange(1, ca.shape[1])[None, :, None]
@@ -279,11 +279,16 @@ def _newton_batch(a, b, s, u, iterations=40):
     ca, cb = np.moveaxis(ca, 1, 0), np.moveaxis(cb, 1, 0)
     dca, dcb = np.moveaxis(dca, 1, 0), np.moveaxis(dcb, 1, 0)
     stop = 4.0 * np.finfo(np.float64).eps
+    s, u = s.copy(), u.copy()
+    act = np.arange(s.shape[0])
     for _ in range(iterations):
-        sc, uc = s[:, None], u[:, None]
-        r = horner(ca, sc) - horner(cb, uc)
-        ja = horner(dca, sc)
-        jb = -horner(dcb, uc)
+        if act.shape[0] == 0:
+            break
+        sa, ua = s[act], u[act]
+        sc, uc = sa[:, None], ua[:, None]
+        r = horner(ca[:, act], sc) - horner(cb[:, act], uc)
+        ja = horner(dca[:, act], sc)
+        jb = -horner(dcb[:, act], uc)
         # Levenberg–Marquardt step, as in _newton (Nocedal & Wright §10.3).
         g11 = ja[:, 0] * ja[:, 0] + ja[:, 1] * ja[:, 1]
         g22 = jb[:, 0] * jb[:, 0] + jb[:, 1] * jb[:, 1]
@@ -294,12 +299,11 @@ def _newton_batch(a, b, s, u, iterations=40):
         r2 = jb[:, 0] * r[:, 0] + jb[:, 1] * r[:, 1]
         det = g11 * g22 - g12 * g12
         det = np.where(det > 0.0, det, np.inf)
-        s_new = np.clip(s - (g22 * r1 - g12 * r2) / det, 0.0, 1.0)
-        u_new = np.clip(u - (g11 * r2 - g12 * r1) / det, 0.0, 1.0)
-        moved = max(np.abs(s_new - s).max(initial=0.0), np.abs(u_new - u).max(initial=0.0))
-        s, u = s_new, u_new
-        if moved <= stop:
-            break
+        s_new = np.clip(sa - (g22 * r1 - g12 * r2) / det, 0.0, 1.0)
+        u_new = np.clip(ua - (g11 * r2 - g12 * r1) / det, 0.0, 1.0)
+        moved = np.maximum(np.abs(s_new - sa), np.abs(u_new - ua))
+        s[act], u[act] = s_new, u_new
+        act = act[moved > stop]
     return s, u
 
 
@@ -460,9 +464,12 @@ def intersections_batch(
             continue
         norm_a[i], norm_b[i] = a0, b0
         groups.setdefault((a.shape[0], b.shape[0]), []).append(i)
-    for idx in groups.values():
-        ga = np.stack([norm_a[i] for i in idx])
-        gb = np.stack([norm_b[i] for i in idx])
+    if groups:
+        # One batch for all degrees: lines and quadratics are elevated exactly to cubics
+        # (Farin §6.1; the same curves, so the same intersections).
+        idx = [i for members in groups.values() for i in members]
+        ga = to_cubic(np.stack([to_cubic(norm_a[i]) for i in idx]))
+        gb = to_cubic(np.stack([to_cubic(norm_b[i]) for i in idx]))
         owner, s, u, overlap = _subdivide_group(ga, gb, tolerance)
         if s.shape[0]:
             s, u = _newton_batch(ga[owner], gb[owner], s, u)
