@@ -264,7 +264,9 @@ def intersections(
     answered by the end points of each lying on the other, before any subdivision. Work is
     done after moving and scaling both segments together to unit size.
     """
-    return intersections_batch([a], [b], tolerance)[0]
+    pa = np.asarray(a, dtype=np.float64)
+    pb = np.asarray(b, dtype=np.float64)
+    return intersections_batch([pa], [pb], tolerance)[0]
 
 
 def _newton_batch(a, b, s, u, iterations=40):
