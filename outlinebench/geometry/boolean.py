@@ -56,7 +56,7 @@ from numpy.typing import NDArray
 from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.area import segment_area_terms
 from outlinebench.geometry.bezier import as_control_points, split_many, subsegment, to_cubic
-from outlinebench.geometry.intersect import intersections, self_intersections
+from outlinebench.geometry.intersect import intersections_batch, self_intersections
 from outlinebench.geometry.nearest import nearest_point
 
 __all__ = [
@@ -307,6 +307,7 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
     delta = max(tol, 1e-3 * size)
     found: list[tuple[int, float, int, float]] = []
     pairs, polys = _candidate_pairs(segs, delta, tol)
+    rest: list[tuple[int, int]] = []
     for a, b in pairs:
         sa, sb = segs[a], segs[b]
         if sa.shape == sb.shape and np.array_equal(sa, sb):
@@ -315,8 +316,12 @@ def _crossings(segs: list[FloatArray], tol: float, size: float):
         if sa.shape == sb.shape and np.array_equal(sa, sb[::-1]):
             found += [(a, 0.0, b, 1.0), (a, 1.0, b, 0.0)]
             continue
-        for ta, tb in intersections(sa, sb):
-            found.append((a, float(ta), b, float(tb)))
+        rest.append((a, b))
+    # All remaining pairs are intersected in one batch (same answers as pair by pair).
+    answers = intersections_batch([segs[a] for a, _ in rest], [segs[b] for _, b in rest])
+    for (a, b), ts in zip(rest, answers, strict=True):
+        for ta, tb in ts.tolist():
+            found.append((a, ta, b, tb))
     for a, s in enumerate(segs):
         if s.shape[0] == 4:
             for t1, t2 in self_intersections(s):
@@ -488,16 +493,21 @@ def _build_edges(
     return edges, node_pos, crossings
 
 
-def _coincident(a: FloatArray, b: FloatArray, tol: float) -> bool:
+def _coincident(a: FloatArray, b: FloatArray, tol: float, line_a=None, line_b=None) -> bool:
     """Whether two edges joining the same nodes lie within ``tol`` of each other (samples of
-    each against a fine flattening of the other)."""
+    each against a fine flattening of the other, within ``tol / 4``).
+
+    ``line_a`` / ``line_b`` are those flattenings as shapely line strings where the caller
+    has them already (made here otherwise).
+    """
     import shapely
 
     from outlinebench.geometry.flatten import flatten_contours
 
     ts = np.linspace(0.0, 1.0, 9)[1:-1]
-    for p, q in ((a, b), (b, a)):
-        line = shapely.LineString(flatten_contours([([q], False)], tol / 4)[0])
+    for p, q, line in ((a, b, line_b), (b, a, line_a)):
+        if line is None:
+            line = shapely.LineString(flatten_contours([([q], False)], tol / 4)[0])
         sp = np.array([_evaluate(p, float(t)) for t in ts])
         if np.max(shapely.distance(shapely.points(sp), line)) > tol:
             return False
@@ -505,18 +515,31 @@ def _coincident(a: FloatArray, b: FloatArray, tol: float) -> bool:
 
 
 def _merge_coincident(edges: list[_Edge], tol: float) -> list[_Edge]:
+    import shapely
+
+    from outlinebench.geometry.flatten import flatten_contours
+
     groups: dict[tuple[int, int], list[int]] = {}
     for k, e in enumerate(edges):
         groups.setdefault((min(e.u, e.v), max(e.u, e.v)), []).append(k)
+    # The fine flattening of every edge that shares its nodes with another, in one call.
+    shared = [k for ks in groups.values() if len(ks) > 1 for k in ks]
+    lines: dict[int, object] = {}
+    if shared:
+        flat = flatten_contours([([edges[k].pts], False) for k in shared], tol / 4)
+        lines = {k: shapely.LineString(f) for k, f in zip(shared, flat, strict=True)}
     out: list[_Edge] = []
     for ks in groups.values():
-        reps: list[_Edge] = []
+        reps: list[tuple[_Edge, object]] = []
         for k in ks:
             e = edges[k]
-            for r in reps:
+            le = lines.get(k)
+            for r, lr in reps:
                 same = e.u == r.u and e.v == r.v
                 if e.u == e.v:
-                    ok = _coincident(e.pts, r.pts, tol) or _coincident(e.pts[::-1], r.pts, tol)
+                    ok = _coincident(e.pts, r.pts, tol, le, lr) or _coincident(
+                        e.pts[::-1], r.pts, tol, le, lr
+                    )
                     if ok:
                         # a loop: same direction if its area has the same sign
                         same = (
@@ -525,13 +548,13 @@ def _merge_coincident(edges: list[_Edge], tol: float) -> list[_Edge]:
                             >= 0
                         )
                 else:
-                    ok = _coincident(e.pts, r.pts, tol)
+                    ok = _coincident(e.pts, r.pts, tol, le, lr)
                 if ok:
                     r.mult = r.mult + (e.mult if same else -e.mult)
                     break
             else:
-                reps.append(_Edge(e.pts, e.u, e.v, e.mult.copy(), e.src, e.t0, e.t1))
-        out.extend(r for r in reps if np.any(r.mult != 0))
+                reps.append((_Edge(e.pts, e.u, e.v, e.mult.copy(), e.src, e.t0, e.t1), le))
+        out.extend(r for r, _ in reps if np.any(r.mult != 0))
     return out
 
 

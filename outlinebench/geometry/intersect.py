@@ -16,11 +16,12 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.geometry._batch import cross, horner, segment_scale
-from outlinebench.geometry.bezier import evaluate, power_coefficients, split
+from outlinebench.geometry.bezier import evaluate, power_coefficients, to_cubic
 
 __all__ = [
     "INTERSECTION_TOLERANCE",
     "intersections",
+    "intersections_batch",
     "self_intersections",
     "line_intersection",
 ]
@@ -263,43 +264,109 @@ def intersections(
     answered by the end points of each lying on the other, before any subdivision. Work is
     done after moving and scaling both segments together to unit size.
     """
-    a = np.asarray(a, dtype=np.float64)
-    b = np.asarray(b, dtype=np.float64)
-    if a.shape[0] == 2 and b.shape[0] == 2:
-        return line_intersection(a, b, tolerance)
-    both = np.concatenate([a, b])
-    slack = tolerance * float(np.ptp(both, axis=0).max())
-    if np.any(a.min(axis=0) > b.max(axis=0) + slack) or np.any(
-        b.min(axis=0) > a.max(axis=0) + slack
-    ):
-        return np.empty((0, 2))  # control-point boxes apart: the segments cannot meet
-    origin = both.min(axis=0)
-    size = float(segment_scale(both[None])[0])
-    if size == 0.0:
-        return np.array([[0.0, 0.0]])
-    a0, b0 = (a - origin) / size, (b - origin) / size
-    if _on_one_line(a0, b0, tolerance):
-        # Both straight on one line: they overlap along a stretch, touch, or miss; the ends
-        # of each lying on the other say which (subdivision would see one flat pair with
-        # parallel chords and could report only one point).
-        return _endpoint_contacts(a0[None], b0[None], tolerance)
-    pa, pb = a0[None], b0[None]
-    ra = np.array([[0.0, 1.0]])
-    rb = np.array([[0.0, 1.0]])
+    pa = np.asarray(a, dtype=np.float64)
+    pb = np.asarray(b, dtype=np.float64)
+    return intersections_batch([pa], [pb], tolerance)[0]
+
+
+def _newton_batch(a, b, s, u, iterations=40):
+    """:func:`_newton` with one pair of (unit-sized) segments per candidate.
+
+    ``a`` (N, Ka, 2), ``b`` (N, Kb, 2), parameters (N,). A candidate stops when neither of
+    its parameters moves by more than a few ulps; the others go on.
+    """
+    ca, cb = power_coefficients(a), power_coefficients(b)
+    dca = ca[:, 1:] * np.arange(1, ca.shape[1])[None, :, None]
+    dcb = cb[:, 1:] * np.arange(1, cb.shape[1])[None, :, None]
+    ca, cb = np.moveaxis(ca, 1, 0), np.moveaxis(cb, 1, 0)
+    dca, dcb = np.moveaxis(dca, 1, 0), np.moveaxis(dcb, 1, 0)
+    stop = 4.0 * np.finfo(np.float64).eps
+    s, u = s.copy(), u.copy()
+    act = np.arange(s.shape[0])
+    for _ in range(iterations):
+        if act.shape[0] == 0:
+            break
+        sa, ua = s[act], u[act]
+        sc, uc = sa[:, None], ua[:, None]
+        r = horner(ca[:, act], sc) - horner(cb[:, act], uc)
+        ja = horner(dca[:, act], sc)
+        jb = -horner(dcb[:, act], uc)
+        # Levenberg–Marquardt step, as in _newton (Nocedal & Wright §10.3).
+        g11 = ja[:, 0] * ja[:, 0] + ja[:, 1] * ja[:, 1]
+        g22 = jb[:, 0] * jb[:, 0] + jb[:, 1] * jb[:, 1]
+        g12 = ja[:, 0] * jb[:, 0] + ja[:, 1] * jb[:, 1]
+        lam = 1e-14 * (g11 + g22) + 1e-300
+        g11, g22 = g11 + lam, g22 + lam
+        r1 = ja[:, 0] * r[:, 0] + ja[:, 1] * r[:, 1]
+        r2 = jb[:, 0] * r[:, 0] + jb[:, 1] * r[:, 1]
+        det = g11 * g22 - g12 * g12
+        det = np.where(det > 0.0, det, np.inf)
+        s_new = np.clip(sa - (g22 * r1 - g12 * r2) / det, 0.0, 1.0)
+        u_new = np.clip(ua - (g11 * r2 - g12 * r1) / det, 0.0, 1.0)
+        moved = np.maximum(np.abs(s_new - sa), np.abs(u_new - ua))
+        s[act], u[act] = s_new, u_new
+        act = act[moved > stop]
+    return s, u
+
+
+def _evaluate_rows(p: FloatArray, t: FloatArray) -> FloatArray:
+    """De Casteljau evaluation of one segment per row: ``p`` (N, K, 2) at ``t`` (N,)."""
+    w = p
+    tc = t[:, None, None]
+    for _ in range(p.shape[1] - 1):
+        w = (1.0 - tc) * w[:, :-1] + tc * w[:, 1:]
+    return w[:, 0]
+
+
+def _split_half(p: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """Halves of every piece ``(N, K, 2)`` at t = ½ by de Casteljau (Farin §4.4)."""
+    k = p.shape[1]
+    left = np.empty_like(p)
+    right = np.empty_like(p)
+    left[:, 0] = p[:, 0]
+    right[:, -1] = p[:, -1]
+    w = p
+    for i in range(1, k):
+        w = 0.5 * w[:, :-1] + 0.5 * w[:, 1:]
+        left[:, i] = w[:, 0]
+        right[:, k - 1 - i] = w[:, -1]
+    return left, right
+
+
+def _subdivide_group(a0: FloatArray, b0: FloatArray, tolerance: float):
+    """Subdivision with box culling for many pairs of one degree pair at once.
+
+    ``a0`` (P, Ka, 2), ``b0`` (P, Kb, 2), unit-sized. Returns (owner, s, u) of the first
+    guesses and a boolean (P,) flag for pairs that kept more than ``_MAX_PAIRS`` live pieces
+    (a shared stretch).
+    """
+    n_pairs = a0.shape[0]
+    overlap = np.zeros(n_pairs, dtype=bool)
+    pa, pb = a0, b0
+    owner = np.arange(n_pairs)
+    ra0 = np.zeros(n_pairs)
+    rb0 = np.zeros(n_pairs)
+    width = 1.0
+    found_o: list[NDArray[np.int64]] = []
     found_s: list[FloatArray] = []
     found_u: list[FloatArray] = []
     pad = tolerance
-    overlap = False
     for _ in range(_MAX_DEPTH):
         if pa.shape[0] == 0:
             break
         if pa.shape[0] > _MAX_PAIRS:
-            overlap = True
-            break
+            live = np.bincount(owner, minlength=n_pairs)
+            big = live > _MAX_PAIRS
+            if big.any():
+                overlap |= big
+                keep = ~big[owner]
+                pa, pb, owner, ra0, rb0 = pa[keep], pb[keep], owner[keep], ra0[keep], rb0[keep]
+                if pa.shape[0] == 0:
+                    break
         amin, amax = pa.min(axis=1), pa.max(axis=1)
         bmin, bmax = pb.min(axis=1), pb.max(axis=1)
         hit = np.all((amin <= bmax + pad) & (bmin <= amax + pad), axis=1)
-        pa, pb, ra, rb = pa[hit], pb[hit], ra[hit], rb[hit]
+        pa, pb, owner, ra0, rb0 = pa[hit], pb[hit], owner[hit], ra0[hit], rb0[hit]
         if pa.shape[0] == 0:
             break
         flat = (_piece_flat(pa) <= _FLAT) & (_piece_flat(pb) <= _FLAT)
@@ -320,29 +387,115 @@ def intersections(
                 s = np.where(ok, cross(e, db) / np.where(ok, den, 1.0), 0.5)
                 u = np.where(ok, cross(e, da) / np.where(ok, den, 1.0), proj)
             s, u = np.clip(s, 0.0, 1.0), np.clip(u, 0.0, 1.0)
-            ga = ra[flat, 0] + s * (ra[flat, 1] - ra[flat, 0])
-            gb = rb[flat, 0] + u * (rb[flat, 1] - rb[flat, 0])
-            found_s.append(ga)
-            found_u.append(gb)
+            found_o.append(owner[flat])
+            found_s.append(ra0[flat] + s * width)
+            found_u.append(rb0[flat] + u * width)
             keep = ~flat
-            pa, pb, ra, rb = pa[keep], pb[keep], ra[keep], rb[keep]
+            pa, pb, owner, ra0, rb0 = pa[keep], pb[keep], owner[keep], ra0[keep], rb0[keep]
             if pa.shape[0] == 0:
                 break
         # Halve both pieces: four pairs.
-        al, ar = split(pa, 0.5)
-        bl, br = split(pb, 0.5)
-        ma = ra.mean(axis=1)
-        mb = rb.mean(axis=1)
-        ral = np.stack([ra[:, 0], ma], axis=1)
-        rar = np.stack([ma, ra[:, 1]], axis=1)
-        rbl = np.stack([rb[:, 0], mb], axis=1)
-        rbr = np.stack([mb, rb[:, 1]], axis=1)
+        al, ar = _split_half(pa)
+        bl, br = _split_half(pb)
+        width *= 0.5
         pa = np.concatenate([al, al, ar, ar])
         pb = np.concatenate([bl, br, bl, br])
-        ra = np.concatenate([ral, ral, rar, rar])
-        rb = np.concatenate([rbl, rbr, rbl, rbr])
-    if overlap:
-        return _endpoint_contacts(a0[None], b0[None], tolerance)
+        owner = np.concatenate([owner, owner, owner, owner])
+        rar0 = ra0 + width
+        rbr0 = rb0 + width
+        ra0 = np.concatenate([ra0, ra0, rar0, rar0])
+        rb0 = np.concatenate([rb0, rbr0, rb0, rbr0])
+    if found_o:
+        return np.concatenate(found_o), np.concatenate(found_s), np.concatenate(found_u), overlap
+    return np.empty(0, dtype=np.int64), np.empty(0), np.empty(0), overlap
+
+
+def intersections_batch(
+    firsts: list[FloatArray], seconds: list[FloatArray], tolerance: float = INTERSECTION_TOLERANCE
+) -> list[FloatArray]:
+    """:func:`intersections` of many pairs of segments at once.
+
+    Parameters
+    ----------
+    firsts, seconds : lists of array_like, shapes (Ka, 2) and (Kb, 2)
+        Pair i is (firsts[i], seconds[i]).
+    tolerance : float
+        As for :func:`intersections`.
+
+    Returns
+    -------
+    list of ndarray, shape (N_i, 2)
+        The answer of :func:`intersections` for each pair.
+
+    Notes
+    -----
+    The same method as :func:`intersections` (Sederberg & Nishita 1990, §2, then Newton's
+    method), but the subdivision runs on the live pieces of all pairs of the same degrees in
+    one set of numpy steps, and Newton's method polishes all first guesses together, so the
+    cost per pair is a few array rows instead of a few hundred small numpy calls.
+    """
+    n = len(firsts)
+    out: list[FloatArray | None] = [None] * n
+    norm_a: dict[int, FloatArray] = {}
+    norm_b: dict[int, FloatArray] = {}
+    groups: dict[tuple[int, int], list[int]] = {}
+    for i in range(n):
+        a = np.asarray(firsts[i], dtype=np.float64)
+        b = np.asarray(seconds[i], dtype=np.float64)
+        if a.shape[0] == 2 and b.shape[0] == 2:
+            out[i] = line_intersection(a, b, tolerance)
+            continue
+        both = np.concatenate([a, b])
+        lo, hi = both.min(axis=0), both.max(axis=0)
+        slack = tolerance * float((hi - lo).max())
+        if np.any(a.min(axis=0) > b.max(axis=0) + slack) or np.any(
+            b.min(axis=0) > a.max(axis=0) + slack
+        ):
+            out[i] = np.empty((0, 2))  # control-point boxes apart: the segments cannot meet
+            continue
+        size = float(segment_scale(both[None])[0])
+        if size == 0.0:
+            out[i] = np.array([[0.0, 0.0]])
+            continue
+        a0, b0 = (a - lo) / size, (b - lo) / size
+        if _on_one_line(a0, b0, tolerance):
+            # Both straight on one line: they overlap along a stretch, touch, or miss; the
+            # ends of each lying on the other say which (subdivision would see one flat pair
+            # with parallel chords and could report only one point).
+            out[i] = _endpoint_contacts(a0[None], b0[None], tolerance)
+            continue
+        norm_a[i], norm_b[i] = a0, b0
+        groups.setdefault((a.shape[0], b.shape[0]), []).append(i)
+    if groups:
+        # One batch for all degrees: lines and quadratics are elevated exactly to cubics
+        # (Farin §6.1; the same curves, so the same intersections).
+        idx = [i for members in groups.values() for i in members]
+        ga = to_cubic(np.stack([to_cubic(norm_a[i]) for i in idx]))
+        gb = to_cubic(np.stack([to_cubic(norm_b[i]) for i in idx]))
+        owner, s, u, overlap = _subdivide_group(ga, gb, tolerance)
+        if s.shape[0]:
+            s, u = _newton_batch(ga[owner], gb[owner], s, u)
+            res = np.linalg.norm(
+                _evaluate_rows(ga[owner], s) - _evaluate_rows(gb[owner], u), axis=-1
+            )
+            good = res <= tolerance
+            owner, s, u = owner[good], s[good], u[good]
+        order = np.argsort(owner, kind="stable")
+        owner, s, u = owner[order], s[order], u[order]
+        bounds = np.searchsorted(owner, np.arange(len(idx) + 1))
+        for k, i in enumerate(idx):
+            a0, b0 = norm_a[i], norm_b[i]
+            if overlap[k]:
+                out[i] = _endpoint_contacts(a0[None], b0[None], tolerance)
+                continue
+            out[i] = _finish(
+                a0, b0, s[bounds[k] : bounds[k + 1]], u[bounds[k] : bounds[k + 1]], tolerance
+            )
+    return [o if o is not None else np.empty((0, 2)) for o in out]
+
+
+def _finish(a0: FloatArray, b0: FloatArray, s: FloatArray, u: FloatArray, tolerance: float):
+    """Coinciding end points, merging of polished guesses and the Bézout check of one pair."""
     # End points that coincide (a join between consecutive segments) are reported exactly.
     ends = [
         (ta, tb)
@@ -350,15 +503,10 @@ def intersections(
         for tb in (0.0, 1.0)
         if np.hypot(*(a0[0 if ta == 0.0 else -1] - b0[0 if tb == 0.0 else -1])) <= tolerance
     ]
-    if not found_s and not ends:
+    if s.shape[0] == 0 and not ends:
         return np.empty((0, 2))
-    s = np.concatenate(found_s) if found_s else np.empty(0)
-    u = np.concatenate(found_u) if found_u else np.empty(0)
-    s, u = _newton(a0, b0, s, u)
-    res = np.linalg.norm(evaluate(a0, s) - evaluate(b0, u), axis=-1)
-    good = res <= tolerance
-    cands = np.concatenate([np.array(ends).reshape(-1, 2), np.stack([s[good], u[good]], axis=1)])
-    bound = (a.shape[0] - 1) * (b.shape[0] - 1)
+    cands = np.concatenate([np.array(ends).reshape(-1, 2), np.stack([s, u], axis=1)])
+    bound = (a0.shape[0] - 1) * (b0.shape[0] - 1)
     out = _dedupe(cands, a0, b0, max(_SAME_PARAM, float(np.sqrt(tolerance))), limit=bound)
     if out.shape[0] > bound:
         # More common points than Bézout's bound deg(a)·deg(b) allows two different
