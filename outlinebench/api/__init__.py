@@ -41,7 +41,7 @@ from outlinebench.diagnostics.profiles import apply_profile, default_profile_nam
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM
 from outlinebench.errors import OutlinebenchError
 from outlinebench.io import is_font_path, read_font, read_svg, svg_bytes, write_file_atomic
-from outlinebench.io.svg_read import ReadNote
+from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
 
 __all__ = [
@@ -52,6 +52,7 @@ __all__ = [
     "OffsetResult",
     "RepairResult",
     "read",
+    "read_source",
     "check",
     "check_file",
     "measure",
@@ -97,6 +98,24 @@ class Drawing:
         return not any(f.kind == "read-error" for f in self.file_findings)
 
 
+def read_source(
+    source: str | os.PathLike[str] | bytes,
+    *,
+    glyphs: str | None = None,
+    allow_entities: bool = False,
+) -> ReadResult:
+    """The reader for a source: SVG (a file or its bytes), or a font or UFO source by its
+    name; the reader's own result, errors as notes (:func:`read` builds on it)."""
+    if isinstance(source, bytes | bytearray):
+        return read_svg(bytes(source), allow_entities=allow_entities)
+    path = os.fspath(source)
+    if is_font_path(path):
+        return read_font(path, glyphs=glyphs)
+    if glyphs is not None:
+        raise OutlinebenchError(f"{path}: choosing glyphs applies to fonts and font sources only")
+    return read_svg(path, allow_entities=allow_entities)
+
+
 def read(
     source: str | os.PathLike[str] | bytes,
     *,
@@ -132,17 +151,8 @@ def read(
     >>> d.complete, [f.kind for f in d.file_findings]
     (False, ['read-error', 'nothing-to-check'])
     """
-    if isinstance(source, bytes | bytearray):
-        res = read_svg(bytes(source), allow_entities=allow_entities)
-        path = None
-    else:
-        path = os.fspath(source)
-        if is_font_path(path):
-            res = read_font(path, glyphs=glyphs)
-        else:
-            if glyphs is not None:
-                raise OutlinebenchError(f"{path}: glyphs= applies to fonts and font sources only")
-            res = read_svg(path, allow_entities=allow_entities)
+    res = read_source(source, glyphs=glyphs, allow_entities=allow_entities)
+    path = None if isinstance(source, bytes | bytearray) else os.fspath(source)
     where = path if path is not None else "<bytes>"
     found, rest = file_findings(res.all_notes, res.document, allow_text=allow_text, where=where)
     return Drawing(res.document, found, rest, path)

@@ -38,7 +38,7 @@ from outlinebench.errors import (
     SvgReadError,
     UnsafeXmlError,
 )
-from outlinebench.io import is_font_path, polylines_svg, read_font, read_svg
+from outlinebench.io import polylines_svg
 from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
 from outlinebench.model.units import LENGTH_UNITS, MM_PER, axis_scales, mm_per, unit_factor
@@ -115,12 +115,8 @@ def _note_dict(n: ReadNote) -> dict[str, Any]:
 def _read(
     path: str | Path, allow_entities: bool, option_hint: bool, glyphs: str | None = None
 ) -> ReadResult:
-    if is_font_path(path):
-        return read_font(path, glyphs=glyphs)
-    if glyphs is not None:
-        raise OutlinebenchError(f"{path}: --glyphs applies to fonts and font sources only")
     try:
-        return read_svg(str(path), allow_entities=allow_entities)
+        return api.read_source(path, glyphs=glyphs, allow_entities=allow_entities)
     except UnsafeXmlError as exc:
         if option_hint and not allow_entities and "internal entit" in str(exc):
             raise _with_option_hint(exc) from None
