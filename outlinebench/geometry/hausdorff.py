@@ -22,11 +22,8 @@ from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import InvalidGeometryError
 from outlinebench.geometry.bezier import as_control_points
-from outlinebench.geometry.flatten import (
-    _Edges,
-    _polyline_to_edges,
-    flatten_contours_bounded,
-)
+from outlinebench.geometry.deviation import _Edges, _polyline_to_edges
+from outlinebench.geometry.flatten import flatten_contours_bounded
 
 __all__ = [
     "HAUSDORFF_RELATIVE_ACCURACY",

@@ -1,5 +1,7 @@
 """SVG reading and writing, following the W3C SVG standard."""
 
+from outlinebench.io.atomic import write_file_atomic
+from outlinebench.io.cut_file import CUT_CAUTION, polylines_svg
 from outlinebench.io.font_read import (
     FontSource,
     GlyphRef,
@@ -11,13 +13,7 @@ from outlinebench.io.font_read import (
 )
 from outlinebench.io.svg_path import format_path_data, parse_path_data
 from outlinebench.io.svg_read import ReadNote, ReadResult, load_svg, read_svg
-from outlinebench.io.svg_write import (
-    CUT_CAUTION,
-    polylines_svg,
-    svg_bytes,
-    write_file_atomic,
-    write_svg,
-)
+from outlinebench.io.svg_write import svg_bytes, write_svg
 from outlinebench.io.ufo_write import write_ufo_glyphs
 
 __all__ = [

@@ -1,4 +1,4 @@
-"""Saving documents as SVG: write-back into the original bytes, fresh files, cut files.
+"""Saving documents as SVG: write-back into the original bytes, fresh files.
 
 Write-back splices changes into the file's original bytes: the start tag of an edited element
 gets a new ``d`` (and, for a basic shape, becomes a ``path`` keeping its id and every other
@@ -6,31 +6,31 @@ attribute); join intent goes into our own namespaced attribute; new outlines go 
 root's end tag. Every other byte (comments, text, images, styles, ids, unknown namespaces,
 formatting, the XML declaration and doctype) stays exactly as it was.
 
-Saving is atomic: serialise fully, re-read the result as a check, write a temporary file in the
-same folder, fsync it, ``os.replace`` it over the target, fsync the folder.
+Saving is atomic: serialise fully, re-read the result as a check, then write through
+:func:`outlinebench.io.atomic.write_file_atomic`. Cut files are written by
+:mod:`outlinebench.io.cut_file`, the join-intent attribute by :mod:`outlinebench.io.join_intent`;
+their names are re-exported here for callers that import them from this module.
 """
 
 from __future__ import annotations
 
 import codecs
-import math
 import os
 import re
-import stat
-import tempfile
 from collections.abc import Sequence
-from pathlib import Path
-from typing import Any, BinaryIO
+from typing import Any
 
 import numpy as np
-from numpy.typing import ArrayLike, NDArray
+from numpy.typing import NDArray
 
 from outlinebench.errors import SvgReadError, SvgWriteError
 from outlinebench.io._xml import one_line
+from outlinebench.io.atomic import write_file_atomic
+from outlinebench.io.cut_file import CUT_CAUTION, polylines_svg
+from outlinebench.io.join_intent import joins_text
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_path import _apply, format_path_data
 from outlinebench.io.svg_read import (
-    _JOIN_LETTER,
     JOINS_NS,
     JOINS_PREFIX,
     SVG_NS,
@@ -52,10 +52,6 @@ __all__ = [
     "one_line",
 ]
 
-CUT_CAUTION = (
-    "Caution: verify these toolpaths in the machine's own preview before cutting, follow the "
-    "machine maker's instructions, shop safety rules and local codes."
-)
 # Largest distance, relative to the coordinates' size, accepted by the save check between an
 # edited outline under a transform and its re-read geometry (the inverse transform cannot
 # always give coordinates that map back bit for bit).
@@ -74,13 +70,6 @@ _TAG_NAME_RE = re.compile(rb"<([^\s/>]+)")
 _END_TAG_RE = re.compile(rb"</([^\s>]+)")
 _TAG_END_RE = re.compile(rb"\s*(/?)>")
 _NS_DECL_RE = re.compile(r"xmlns:([A-Za-z_][\w.-]*)")
-
-
-def joins_text(contours: Sequence[Contour]) -> str | None:
-    """The join-intent attribute value, or None when no join states an intent."""
-    if not any(j is not None for c in contours for j in c.joins):
-        return None
-    return ";".join("".join(_JOIN_LETTER[j] for j in c.joins) for c in contours)
 
 
 def _to_element(points: NDArray[np.float64], matrix: NDArray[np.float64]) -> NDArray[np.float64]:
@@ -703,160 +692,6 @@ def svg_bytes(document: Document) -> bytes:
     return data
 
 
-def _write_all(fh: BinaryIO, data: bytes) -> None:
-    """Write every byte (a separate function so tests can make it fail halfway)."""
-    view = memoryview(data)
-    while view:
-        n = fh.write(view)
-        view = view[n:]
-
-
-def _fsync_dir(directory: Path) -> None:
-    try:
-        fd = os.open(directory, os.O_RDONLY)
-    except OSError:
-        return  # platforms without directory handles (Windows)
-    try:
-        os.fsync(fd)
-    except OSError:
-        pass
-    finally:
-        os.close(fd)
-
-
-def _umask() -> int:
-    """The process's file-creation mask (read by setting it and putting it back)."""
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
-
-
-def _temporary_prefix(target: Path) -> str:
-    return f".{target.name}."
-
-
-def _remove_stale_temporaries(target: Path) -> None:
-    """Remove temporary files that earlier saves of ``target`` left behind.
-
-    A save killed between creating its temporary file and renaming it (power cut, SIGKILL)
-    leaves ``.NAME.PID.XXXX.tmp`` beside the target. The next save of the same target
-    removes every such file whose process is gone; one whose process still runs may be a
-    save in progress and is left alone.
-    """
-    prefix = _temporary_prefix(target)
-    try:
-        names = [e.name for e in os.scandir(target.parent) if e.name.startswith(prefix)]
-    except OSError:
-        return
-    for name in names:
-        rest = name[len(prefix) :]
-        pid_text, _, tail = rest.partition(".")
-        if not (tail.endswith(".tmp") and pid_text.isdigit()):
-            continue
-        pid = int(pid_text)
-        if pid != os.getpid():
-            try:
-                os.kill(pid, 0)
-                continue  # that process still runs: maybe a save in progress
-            except ProcessLookupError:
-                pass
-            except OSError:
-                continue  # another user's process: not ours to judge
-        try:
-            os.unlink(target.parent / name)
-        except OSError:
-            pass
-
-
-def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
-    """Write ``data`` to ``path`` atomically: the old file stays intact on any failure.
-
-    Parameters
-    ----------
-    path : str or path-like
-        Target file: a regular file or a new name. A symbolic link is followed (the file it
-        names is replaced, the link stays).
-    data : bytes
-        The complete new content.
-
-    Raises
-    ------
-    SvgWriteError
-        A target that is not a regular file (a FIFO, a device node such as ``/dev/null``,
-        a folder, a socket: refused, never replaced), a read-only target (refused), a
-        folder where no file can be created, or a disk error; the old file is then left as
-        it was and no temporary file remains.
-
-    Notes
-    -----
-    Write a temporary file ``.NAME.PID.XXXX.tmp`` in the target's folder, flush and fsync
-    it; ``os.replace`` it over the target (atomic on POSIX and Windows); fsync the folder so
-    the rename itself is durable. The file keeps the old file's permission bits, or gets
-    ``0o666`` minus the umask when new, as ``open(2)`` would. Temporary files of earlier
-    saves of the same target whose process is gone (a killed save) are removed first.
-    """
-    shown = Path(path)  # the name the user knows, for messages
-    target = Path(os.path.realpath(shown))
-    try:
-        st = os.stat(target)
-    except FileNotFoundError:
-        st = None
-    except OSError as exc:
-        raise SvgWriteError(f"{shown}: cannot save: {exc.strerror or exc}") from None
-    if st is not None:
-        if not stat.S_ISREG(st.st_mode):
-            raise SvgWriteError(
-                f"{shown}: not a regular file ({_file_kind(st.st_mode)}); refused, nothing was "
-                "written (save to a file name)"
-            )
-        mode = st.st_mode & 0o7777
-        # Permission bits too, not only os.access: an administrator could write anyway, but
-        # a file marked read-only is not meant to be replaced.
-        if not os.access(target, os.W_OK) or not mode & 0o222:
-            raise SvgWriteError(f"{shown}: the file is read-only; it was not replaced")
-    else:
-        mode = 0o666 & ~_umask()  # what open(2) would give a new file
-    directory = target.parent
-    _remove_stale_temporaries(target)
-    try:
-        fd, tmp = tempfile.mkstemp(
-            prefix=f"{_temporary_prefix(target)}{os.getpid()}.", suffix=".tmp", dir=directory
-        )
-    except OSError as exc:
-        raise SvgWriteError(
-            f"{shown}: cannot create a file in {directory}: {exc.strerror or exc}"
-        ) from None
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            _write_all(fh, data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.chmod(tmp, mode)
-        os.replace(tmp, target)
-    except BaseException as exc:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        if isinstance(exc, OSError):
-            raise SvgWriteError(f"{shown}: save failed, the old file is unchanged: {exc}") from None
-        raise
-    _fsync_dir(directory)
-
-
-def _file_kind(mode: int) -> str:
-    for test, name in (
-        (stat.S_ISFIFO, "a FIFO"),
-        (stat.S_ISCHR, "a character device"),
-        (stat.S_ISBLK, "a block device"),
-        (stat.S_ISDIR, "a folder"),
-        (stat.S_ISSOCK, "a socket"),
-    ):
-        if test(mode):
-            return name
-    return "not a plain file"
-
-
 def write_svg(document: Document, path: str | os.PathLike[str] | None = None) -> None:
     """Save a document atomically.
 
@@ -881,68 +716,3 @@ def write_svg(document: Document, path: str | os.PathLike[str] | None = None) ->
     if target_name is None:
         raise SvgWriteError("no file name to save to")
     write_file_atomic(target_name, svg_bytes(document))
-
-
-def polylines_svg(
-    contours_points: Sequence[ArrayLike],
-    *,
-    width_mm: float,
-    height_mm: float,
-    comment: str = "",
-    closed: Sequence[bool] | None = None,
-    stroke_mm: float = 0.1,
-) -> bytes:
-    """An SVG cut file of polylines in millimetres, carrying the cutting caution.
-
-    Parameters
-    ----------
-    contours_points : sequence of array_like, each (N, 2)
-        Points in millimetres (y down, as in SVG).
-    width_mm, height_mm : float
-        Page size; the viewBox is ``0 0 width_mm height_mm`` so one user unit is 1 mm.
-    comment : str
-        Extra text for an XML comment (tolerance used, source file, ...).
-    closed : sequence of bool, optional
-        Per contour: write a ``polygon`` (closed) instead of a ``polyline``.
-    stroke_mm : float
-        Stroke width for viewing.
-
-    Returns
-    -------
-    bytes
-        UTF-8 SVG whose first comment is :data:`CUT_CAUTION`.
-
-    Raises
-    ------
-    ValueError
-        Non-finite points, a contour with fewer than 2 points, or a bad size.
-    """
-    if not (width_mm > 0 and height_mm > 0 and math.isfinite(width_mm * height_mm)):
-        raise ValueError(f"page size must be positive, got {width_mm} × {height_mm} mm")
-    f = format_number
-    w, h = f(width_mm), f(height_mm)
-    out = [
-        '<?xml version="1.0" encoding="UTF-8"?>',
-        f'<svg xmlns="{SVG_NS}" width="{w}mm" height="{h}mm" viewBox="0 0 {w} {h}">',
-        f"<!-- {_comment_text(CUT_CAUTION)} -->",
-    ]
-    if comment:
-        out.append(f"<!-- {_comment_text(comment)} -->")
-    for k, pts in enumerate(contours_points):
-        arr = np.asarray(pts, dtype=np.float64)
-        if arr.ndim != 2 or arr.shape[1] != 2 or arr.shape[0] < 2:
-            raise ValueError(f"contour {k}: points must have shape (N >= 2, 2), got {arr.shape}")
-        if not np.all(np.isfinite(arr)):
-            raise ValueError(f"contour {k}: points must be finite")
-        text = " ".join(f"{f(x)},{f(y)}" for x, y in arr.tolist())
-        tag = "polygon" if closed is not None and closed[k] else "polyline"
-        out.append(
-            f'<{tag} points="{text}" fill="none" stroke="black" stroke-width="{f(stroke_mm)}"/>'
-        )
-    out.append("</svg>")
-    return ("\n".join(out) + "\n").encode("utf-8")
-
-
-def _comment_text(text: str) -> str:
-    text = text.replace("--", "- -")
-    return text[:-1] + "- " if text.endswith("-") else text

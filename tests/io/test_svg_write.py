@@ -13,6 +13,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from outlinebench.errors import SvgWriteError
+from outlinebench.io import atomic as atomic_module
 from outlinebench.io import polylines_svg, read_svg, svg_bytes, write_svg
 from outlinebench.io import svg_write as svg_write_module
 from outlinebench.model.document import Contour, Document, Outline, documents_equal
@@ -351,7 +352,7 @@ def test_failed_write_leaves_the_old_file(tmp_path, monkeypatch):
         fh.write(data[: len(data) // 2])
         raise OSError(28, "No space left on device")
 
-    monkeypatch.setattr(svg_write_module, "_write_all", half_then_fail)
+    monkeypatch.setattr(atomic_module, "_write_all", half_then_fail)
     with pytest.raises(SvgWriteError, match="old file is unchanged"):
         write_svg(doc, target)
     assert target.read_bytes() == before

@@ -79,11 +79,11 @@ def test_a_killed_save_leaves_a_temporary_file_that_the_next_save_removes(tmp_pa
     code = (
         "import os, signal, sys\n"
         f"sys.path.insert(0, {str(root)!r})\n"
-        "from outlinebench.io import svg_write\n"
+        "from outlinebench.io import atomic\n"
         "def stuck(fh, data):\n"
         "    fh.write(data[:10]); fh.flush(); os.kill(os.getpid(), signal.SIGKILL)\n"
-        "svg_write._write_all = stuck\n"
-        f"svg_write.write_file_atomic({str(target)!r}, b'<svg/>' * 100)\n"
+        "atomic._write_all = stuck\n"
+        f"atomic.write_file_atomic({str(target)!r}, b'<svg/>' * 100)\n"
     )
     proc = subprocess.run([sys.executable, "-c", code], check=False)
     assert proc.returncode == -9
