@@ -16,7 +16,6 @@ from __future__ import annotations
 
 import argparse
 import importlib
-import importlib.util
 import os
 import sys
 import traceback
@@ -54,13 +53,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def _modules() -> list[ModuleType]:
-    mods = []
-    for name in SUBCOMMANDS:
-        full = f"outlinebench.subcommands.{name}"
-        if importlib.util.find_spec(full) is None:
-            continue  # not written yet in this checkout
-        mods.append(importlib.import_module(full))
-    return mods
+    return [importlib.import_module(f"outlinebench.subcommands.{name}") for name in SUBCOMMANDS]
 
 
 def build_parser() -> argparse.ArgumentParser:

@@ -59,6 +59,7 @@ from outlinebench.geometry.curvature import (
     unit_normal,
     unit_tangent,
 )
+from outlinebench.geometry.deviation import Deviation, polyline_deviation
 from outlinebench.geometry.extrema import bounding_box, extrema_params
 from outlinebench.geometry.fit import (
     fit_chain,
@@ -70,14 +71,12 @@ from outlinebench.geometry.fit import (
 )
 from outlinebench.geometry.flatten import (
     DEFAULT_FLATTEN_TOLERANCE,
-    Deviation,
     chord_bound,
     flatten_contour,
     flatten_contours,
     flatten_contours_bounded,
     flatten_uniform_wang,
     optimal_chord_count,
-    polyline_deviation,
 )
 from outlinebench.geometry.hausdorff import HausdorffBound, hausdorff_bound, polyline_hausdorff
 from outlinebench.geometry.intersect import intersections, line_intersection, self_intersections

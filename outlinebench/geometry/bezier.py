@@ -309,6 +309,12 @@ def power_coefficients(points: ArrayLike) -> FloatArray:
 
     pts = np.asarray(points, dtype=np.float64)
     n = pts.shape[-2] - 1
+    if n == 3:  # the same formula, written as forward differences (fewer roundings)
+        p0, p1, p2, p3 = (pts[..., i, :] for i in range(4))
+        return np.stack(
+            [p0, 3.0 * (p1 - p0), 3.0 * (p2 - 2.0 * p1 + p0), p3 - 3.0 * p2 + 3.0 * p1 - p0],
+            axis=-2,
+        )
     m = np.zeros((n + 1, n + 1))
     for k in range(n + 1):
         for i in range(k + 1):

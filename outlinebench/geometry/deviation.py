@@ -19,6 +19,7 @@ import numpy as np
 from numpy.typing import ArrayLike
 
 from outlinebench.errors import InvalidGeometryError
+from outlinebench.geometry.bezier import power_coefficients
 from outlinebench.geometry.flatten import (
     _ROUNDING_MARGIN,
     FloatArray,
@@ -26,7 +27,6 @@ from outlinebench.geometry.flatten import (
     _check_tolerance,
     _chord_bounds,
     _flatten_params,
-    _power_coefficients,
     _vertices,
 )
 
@@ -294,7 +294,7 @@ def polyline_deviation(
     # never finer than the floating-point resolution of the coordinates allows
     scale = max(float(np.max(np.abs(cub))), float(np.max(np.abs(poly))), 1.0)
     acc = max(acc, 1e6 * _ROUNDING_MARGIN * scale)
-    coef = _power_coefficients(cub)
+    coef = power_coefficients(cub)
     chain = np.vstack([poly, poly[:1]]) if closed and len(poly) > 1 else poly
     if len(chain) == 1:
         chain = np.vstack([chain, chain])

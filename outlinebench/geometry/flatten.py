@@ -33,13 +33,12 @@ References
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import Any
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import InvalidGeometryError
-from outlinebench.geometry.bezier import as_control_points, split_many, to_cubic
+from outlinebench.geometry.bezier import as_control_points, power_coefficients, split_many, to_cubic
 
 __all__ = [
     "DEFAULT_FLATTEN_TOLERANCE",
@@ -106,14 +105,6 @@ def _as_cubic_batch(segments: Sequence[ArrayLike]) -> FloatArray:
             arr = as_control_points(s)  # raises with the standard message
         out[i] = arr if arr.shape[0] == 4 else to_cubic(arr)
     return out
-
-
-def _power_coefficients(cubics: FloatArray) -> FloatArray:
-    """Power-basis coefficients c0..c3, shape (M, 4, 2): B(t) = Σ c_k t^k."""
-    p0, p1, p2, p3 = (cubics[:, i] for i in range(4))
-    return np.stack(
-        [p0, 3.0 * (p1 - p0), 3.0 * (p2 - 2.0 * p1 + p0), p3 - 3.0 * p2 + 3.0 * p1 - p0], axis=1
-    )
 
 
 def _eval_power(coef: FloatArray, t: FloatArray) -> FloatArray:
@@ -238,7 +229,7 @@ def chord_bound(points: ArrayLike, t0: float = 0.0, t1: float = 1.0) -> float:
     0.0
     """
     cub = _as_cubic_batch([points])
-    coef = _power_coefficients(cub)
+    coef = power_coefficients(cub)
     seg = np.zeros(1, dtype=np.intp)
     ta = np.array([float(t0)])
     tb = np.array([float(t1)])
@@ -403,7 +394,7 @@ def _flatten_params(
     m = len(cubics)
     if m == 0:
         return np.zeros(0, dtype=np.intp), np.zeros(0), np.zeros(0)
-    coef = _power_coefficients(cubics)
+    coef = power_coefficients(cubics)
     scale = float(np.max(np.abs(cubics))) if m else 0.0
     accept = tolerance - _ROUNDING_MARGIN * max(scale, 1.0)
     if accept <= 0.0:
@@ -566,7 +557,7 @@ def _assemble(
     With ``exp``, ``cubics`` were scaled by 2^-exp (see :func:`_unit_scale`): vertices are
     scaled back and the end points taken from ``exact``, the pieces at their own scale.
     """
-    coef = _power_coefficients(cubics) if len(cubics) else np.zeros((0, 4, 2))
+    coef = power_coefficients(cubics) if len(cubics) else np.zeros((0, 4, 2))
     pts = _vertices(cubics, coef, seg, t) if len(seg) else np.zeros((0, 2))
     if exp:
         pts = np.ldexp(pts, exp)
@@ -610,7 +601,7 @@ def _split_at_sharp_turns(cubics: FloatArray, tolerance: float) -> tuple[FloatAr
     m = len(cubics)
     if m == 0:
         return cubics, np.zeros(0, dtype=np.intp)
-    coef = _power_coefficients(cubics)
+    coef = power_coefficients(cubics)
     grid = 32
     tg = np.linspace(0.0, 1.0, grid + 1)
     d1 = coef[:, None, 1] + tg[None, :, None] * (
@@ -887,16 +878,3 @@ def flatten_uniform_wang(
     k = np.arange(len(seg)) - np.repeat(np.cumsum(n) - n, n)
     t = k / n[seg]
     return _assemble(cubics, seg, t, counts, closed)
-
-
-# Names that moved to outlinebench.geometry.deviation, still importable from here. Looked up on
-# first use (PEP 562 module __getattr__) because deviation builds on this module.
-_MOVED_TO_DEVIATION = ("DEVIATION_ACCURACY", "Deviation", "polyline_deviation")
-
-
-def __getattr__(name: str) -> Any:
-    if name in _MOVED_TO_DEVIATION:
-        from outlinebench.geometry import deviation
-
-        return getattr(deviation, name)
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

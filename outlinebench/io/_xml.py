@@ -143,25 +143,29 @@ class _Parser(DefusedXMLParser):
         if sysid or pubid or value is None:
             raise UnsafeXmlError(
                 f"{w}: external entity {name!r} ({sysid or pubid}) refused: OutlineBench never "
-                "reads other files or the network while opening an SVG"
+                "reads other files or the network while opening an SVG",
+                reason="external",
             )
         if is_parameter:
-            raise UnsafeXmlError(f"{w}: parameter entity {name!r} refused")
+            raise UnsafeXmlError(f"{w}: parameter entity {name!r} refused", reason="external")
         if not self.allow_entities:
             raise UnsafeXmlError(
                 f"{w}: the file declares the internal entity {name!r}; entity declarations are "
                 "refused by default (they can expand without bound); harmless ones can be "
-                "allowed with an explicit option"
+                "allowed with an explicit option",
+                reason="internal-entity",
             )
         if "&" in value or "%" in value:
             raise UnsafeXmlError(
                 f"{w}: entity {name!r} refers to other entities; nested entities are refused "
-                "(exponential expansion)"
+                "(exponential expansion)",
+                reason="nested-entity",
             )
         if len(value) > self.max_entity_chars:
             raise UnsafeXmlError(
                 f"{w}: entity {name!r} expands to {len(value)} characters, over the limit of "
-                f"{self.max_entity_chars}"
+                f"{self.max_entity_chars}",
+                reason="entity-size",
             )
 
     def _doctype(self, name: str, sysid: str | None, pubid: str | None) -> None:
@@ -171,15 +175,19 @@ class _Parser(DefusedXMLParser):
         raise UnsafeXmlError(
             f"{self.where}: the DOCTYPE names the external DTD {shown}; external DTDs are "
             "refused (never fetched: they could change the drawing through attribute "
-            "defaults), except the W3C SVG 1.0 and 1.1 DTDs"
+            "defaults), except the W3C SVG 1.0 and 1.1 DTDs",
+            reason="external",
         )
 
     def _unparsed_entity(self, name: str, *args: Any) -> None:
-        raise UnsafeXmlError(f"{self.where}: unparsed external entity {name!r} refused")
+        raise UnsafeXmlError(
+            f"{self.where}: unparsed external entity {name!r} refused", reason="external"
+        )
 
     def _external_ref(self, context: Any, base: Any, sysid: Any, pubid: Any) -> int:
         raise UnsafeXmlError(
-            f"{self.where}: external entity reference {sysid or pubid!r} refused (never fetched)"
+            f"{self.where}: external entity reference {sysid or pubid!r} refused (never fetched)",
+            reason="external",
         )
 
 

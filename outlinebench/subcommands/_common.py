@@ -98,14 +98,11 @@ def add_glyphs_option(parser: argparse.ArgumentParser) -> None:
     )
 
 
-def _with_option_hint(err: Exception) -> Exception:
+def _with_option_hint(err: UnsafeXmlError) -> UnsafeXmlError:
     """The reader's entity error, pointing at the command-line option."""
-    msg = str(err)
-    if "allow_entities=True" in msg:
-        msg = msg.replace("allow_entities=True", ENTITY_OPTION)
-    else:
-        msg = f"{msg} (to read it anyway: {ENTITY_OPTION})"
-    return type(err)(msg)
+    return UnsafeXmlError(
+        f"{err} (to read it anyway: {ENTITY_OPTION})", reason=err.reason, file=err.file
+    )
 
 
 def _note_dict(n: ReadNote) -> dict[str, Any]:
@@ -118,7 +115,7 @@ def _read(
     try:
         return api.read_source(path, glyphs=glyphs, allow_entities=allow_entities)
     except UnsafeXmlError as exc:
-        if option_hint and not allow_entities and "internal entit" in str(exc):
+        if option_hint and not allow_entities and exc.reason == "internal-entity":
             raise _with_option_hint(exc) from None
         raise
 
@@ -216,7 +213,7 @@ def read_svg_partly(
             path, glyphs=glyphs, allow_entities=allow_entities, allow_text=allow_text
         )
     except UnsafeXmlError as exc:
-        if not allow_entities and "internal entit" in str(exc):
+        if not allow_entities and exc.reason == "internal-entity":
             raise _with_option_hint(exc) from None
         raise
     return PartialRead(

@@ -20,7 +20,8 @@ from typing import Any
 import numpy as np
 
 from outlinebench.errors import OutlinebenchError
-from outlinebench.geometry.flatten import flatten_contours_bounded, polyline_deviation
+from outlinebench.geometry.deviation import polyline_deviation
+from outlinebench.geometry.flatten import flatten_contours_bounded
 from outlinebench.model.document import Contour
 from outlinebench.subcommands._common import (
     LENGTH_UNITS,

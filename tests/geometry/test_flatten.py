@@ -11,6 +11,7 @@ from hypothesis import strategies as st
 from scipy import integrate
 
 from outlinebench.errors import InvalidGeometryError
+from outlinebench.geometry.deviation import polyline_deviation
 from outlinebench.geometry.flatten import (
     chord_bound,
     flatten_contour,
@@ -18,7 +19,6 @@ from outlinebench.geometry.flatten import (
     flatten_contours_bounded,
     flatten_uniform_wang,
     optimal_chord_count,
-    polyline_deviation,
 )
 
 # Dense reference sampling of the true curve: with 4 000 parameters the sampled polyline
