@@ -14,7 +14,7 @@ def _tool(name: str) -> str:
     exe = Path(sys.executable).with_name(name)
     found = str(exe) if exe.exists() else shutil.which(name)
     if not found:
-        pytest.skip(f"{name} is not installed (it comes with the test extra)")
+        pytest.fail(f"{name} is not installed: install the test extra (pip install -e '.[test]')")
     return found
 
 
