@@ -26,7 +26,7 @@ from types import ModuleType
 import numpy as np
 
 from outlinebench import __version__
-from outlinebench.errors import OutlinebenchError
+from outlinebench.errors import OutlinebenchError, error_line
 from outlinebench.subcommands import (
     EXIT_BAD_INPUT,
     EXIT_CODES_TEXT,
@@ -92,11 +92,12 @@ def main(argv: Sequence[str] | None = None) -> int:
             warnings.simplefilter("ignore", RuntimeWarning)
             return int(args._run(args))
     except OutlinebenchError as exc:
-        msg = str(exc)
         inputs = _file_args(args)
-        if inputs and not any(f in msg for f in inputs):
-            msg = f"{inputs[0]}: {msg}"  # every error line names the file
-        print(f"outlinebench: error: {msg}", file=sys.stderr)
+        # every error line names the file: the error's own, or the first input
+        print(
+            f"outlinebench: error: {error_line(exc, inputs[0] if inputs else None)}",
+            file=sys.stderr,
+        )
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         # The reader of our output went away (``outlinebench measure f.svg | head``): not an

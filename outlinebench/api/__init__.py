@@ -39,7 +39,7 @@ from outlinebench.diagnostics.file_findings import FileFinding, file_findings
 from outlinebench.diagnostics.outline_overlaps import outline_overlap_findings
 from outlinebench.diagnostics.profiles import apply_profile, default_profile_name, profile_settings
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM
-from outlinebench.errors import OutlinebenchError
+from outlinebench.errors import OptionError, OutlinebenchError
 from outlinebench.io import is_font_path, read_font, read_svg, svg_bytes, write_file_atomic
 from outlinebench.io.svg_read import ReadNote, ReadResult
 from outlinebench.model.document import Document
@@ -109,11 +109,19 @@ def read_source(
     if isinstance(source, bytes | bytearray):
         return read_svg(bytes(source), allow_entities=allow_entities)
     path = os.fspath(source)
-    if is_font_path(path):
-        return read_font(path, glyphs=glyphs)
-    if glyphs is not None:
-        raise OutlinebenchError(f"{path}: choosing glyphs applies to fonts and font sources only")
-    return read_svg(path, allow_entities=allow_entities)
+    if glyphs is not None and not is_font_path(path):
+        raise OptionError(
+            f"{path}: choosing glyphs applies to fonts and font sources only", file=path
+        )
+    try:
+        if is_font_path(path):
+            return read_font(path, glyphs=glyphs)
+        return read_svg(path, allow_entities=allow_entities)
+    except OutlinebenchError as exc:
+        # the readers begin every message with the file's name as the caller gave it
+        if exc.file is None:
+            exc.file = path
+        raise
 
 
 def read(
@@ -491,7 +499,9 @@ def write(
     document = doc.document if isinstance(doc, Drawing) else doc
     target = os.fspath(path)
     if os.path.exists(target) and not overwrite:
-        raise OutlinebenchError(f"{target}: exists; pass overwrite=True to replace it")
+        raise OutlinebenchError(
+            f"{target}: exists; pass overwrite=True to replace it", file=str(target)
+        )
     write_file_atomic(target, svg_bytes(document))
 
 

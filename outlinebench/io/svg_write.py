@@ -483,7 +483,8 @@ def _refuse_lossy_fork(src: SvgSource, members: Sequence[Outline]) -> None:
         raise SvgWriteError(
             f"{where}: {label} also holds {shown} besides the edited outlines; saving the edit "
             "would drop it from that instance, so nothing was saved (undo the edit of this "
-            "instance)"
+            "instance)",
+            file=where,
         )
 
 
@@ -496,7 +497,8 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
     if enc.startswith(("utf-16", "utf-32", "ucs")):
         raise SvgWriteError(
             f"{src.path or '<bytes>'}: saving back into a {enc} file is not supported; "
-            "save it as UTF-8 first"
+            "save it as UTF-8 first",
+            file=src.path,
         )
     sp = _Splicer(src)
     root_matrix = np.eye(3)
@@ -531,7 +533,9 @@ def _write_back(doc: Document, src: SvgSource) -> tuple[bytes, list[Outline]]:
             continue
         if ref.use is not None:
             if ref.use_matrix is None:  # pragma: no cover - the reader always sets it
-                raise SvgWriteError(f"{src.path or '<bytes>'}: a use instance lost its place")
+                raise SvgWriteError(
+                    f"{src.path or '<bytes>'}: a use instance lost its place", file=src.path
+                )
             _replace_use(sp, outline, ref)
             need_prefix = need_prefix or joins_text(outline.contours) is not None
             continue
@@ -602,11 +606,14 @@ def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> No
     try:
         back = read_svg(data, px_per_inch=ppi, on_unsupported="skip", allow_entities=True)
     except SvgReadError as exc:
-        raise SvgWriteError(f"{where}: the serialised file does not read back: {exc}") from None
+        raise SvgWriteError(
+            f"{where}: the serialised file does not read back: {exc}", file=where
+        ) from None
     got = back.document.outlines
     if len(got) != len(written):
         raise SvgWriteError(
-            f"{where}: save check failed: {len(written)} outlines written, {len(got)} read back"
+            f"{where}: save check failed: {len(written)} outlines written, {len(got)} read back",
+            file=where,
         )
     # Elements rewritten in place: every use instance of them follows (SVG 1.1 §5.6).
     rewritten = {
@@ -632,7 +639,8 @@ def _check(data: bytes, written: list[Outline], doc: Document, where: str) -> No
             name = f'id "{want.element_id}"' if want.element_id else f"#{k + 1}"
             raise SvgWriteError(
                 f"{where}: save check failed: outline {name} does not read back as written; "
-                "the file was not changed"
+                "the file was not changed",
+                file=where,
             )
 
 

@@ -93,7 +93,8 @@ def _own_contours(outline: Outline, ref: GlyphRef, where: str) -> list[Contour]:
         which = next(o for o in ref.origins if o is not None)
         raise FontWriteError(
             f"{where}: glyph {ref.name!r}: a contour from its component {which!r} was edited "
-            "or removed; decompose the component in the source first, or save as SVG"
+            "or removed; decompose the component in the source first, or save as SVG",
+            file=where,
         )
     return list(outline.contours[: len(outline.contours) - k])
 
@@ -166,11 +167,13 @@ def glif_bytes(outline: Outline, source: FontSource, where: str | None = None) -
     where = where or source.path
     ref = outline.source
     if not isinstance(ref, GlyphRef):
-        raise FontWriteError(f"{where}: outline {outline.element_id!r} is not a glyph outline")
+        raise FontWriteError(
+            f"{where}: outline {outline.element_id!r} is not a glyph outline", file=where
+        )
     font = source.font
     layer = font.layers.defaultLayer
     if ref.name not in layer or ref.name not in source.glif_files or source.layer_dir is None:
-        raise FontWriteError(f"{where}: glyph {ref.name!r} is not in the source")
+        raise FontWriteError(f"{where}: glyph {ref.name!r} is not in the source", file=where)
     original = layer[ref.name]
     own = _own_contours(outline, ref, where)
     old_path = Path(source.layer_dir) / source.glif_files[ref.name]
@@ -180,7 +183,9 @@ def glif_bytes(outline: Outline, source: FontSource, where: str | None = None) -
         if m:
             version = (int(m.group(1)), int(m.group(2) or 0))
     except OSError as exc:
-        raise FontWriteError(f"{where}: cannot read {old_path.name}: {exc.strerror}") from None
+        raise FontWriteError(
+            f"{where}: cannot read {old_path.name}: {exc.strerror}", file=where
+        ) from None
 
     def draw(pen: Any) -> None:
         _draw_contours(pen, own)
@@ -190,7 +195,9 @@ def glif_bytes(outline: Outline, source: FontSource, where: str | None = None) -
     try:
         text = glifLib.writeGlyphToString(ref.name, original, draw, formatVersion=version)
     except Exception as exc:  # glifLib validates what it writes
-        raise FontWriteError(f"{where}: glyph {ref.name!r} cannot be written: {exc}") from None
+        raise FontWriteError(
+            f"{where}: glyph {ref.name!r} cannot be written: {exc}", file=where
+        ) from None
     data = text.encode("utf-8")
     # save check: read the text back and compare every own contour bit for bit
     back = Glyph(ref.name)
@@ -201,16 +208,21 @@ def glif_bytes(outline: Outline, source: FontSource, where: str | None = None) -
             segs, closed, joins = _ufo_segments(c.points, f"{where}: {ref.name} contour {k}")
             got.append(_contour_from_segments(segs, closed, joins))
     except OutlinebenchError as exc:
-        raise FontWriteError(f"{where}: save check failed: {exc}") from None
+        raise FontWriteError(f"{where}: save check failed: {exc}", file=where) from None
     except Exception as exc:
-        raise FontWriteError(f"{where}: save check failed for {ref.name!r}: {exc}") from None
+        raise FontWriteError(
+            f"{where}: save check failed for {ref.name!r}: {exc}", file=where
+        ) from None
     if not _same(own, got):
         raise FontWriteError(
             f"{where}: save check failed: glyph {ref.name!r} does not read back as written; "
-            "nothing was changed"
+            "nothing was changed",
+            file=where,
         )
     if [c.baseGlyph for c in back.components] != [c.baseGlyph for c in original.components]:
-        raise FontWriteError(f"{where}: save check failed: glyph {ref.name!r} lost a component")
+        raise FontWriteError(
+            f"{where}: save check failed: glyph {ref.name!r} lost a component", file=where
+        )
     return data
 
 
@@ -238,10 +250,11 @@ def _target(src: FontSource, ufo_path: str | os.PathLike[str] | None) -> tuple[s
     if os.path.exists(target):
         raise FontWriteError(
             f"{target}: already exists and is not the source the glyphs were read from; "
-            "it was not changed"
+            "it was not changed",
+            file=str(target),
         )
     if Path(target).suffix.lower() != ".ufo":
-        raise FontWriteError(f"{target}: a UFO source's name must end in .ufo")
+        raise FontWriteError(f"{target}: a UFO source's name must end in .ufo", file=str(target))
     return target, True
 
 
@@ -280,18 +293,20 @@ def write_ufo_glyphs(doc: Document, ufo_path: str | os.PathLike[str] | None = No
     src = doc.source
     where = doc.path or "<document>"
     if not isinstance(src, FontSource):
-        raise FontWriteError(f"{where}: not read from a font source; save it as SVG")
+        raise FontWriteError(f"{where}: not read from a font source; save it as SVG", file=where)
     if not src.writable:
         raise FontWriteError(
             f"{where}: binary fonts ({src.flavour} outlines) are read-only here; write the "
-            "repair to a UFO source or an SVG file"
+            "repair to a UFO source or an SVG file",
+            file=where,
         )
     for k, o in enumerate(doc.outlines):
         if not isinstance(o.source, GlyphRef):
             name = f'"{o.element_id}"' if o.element_id else f"#{k + 1}"
             raise FontWriteError(
                 f"{where}: outline {name} is not a glyph of the source (new glyphs cannot be "
-                "added by a save); save as SVG"
+                "added by a save); save as SVG",
+                file=where,
             )
     edited = edited_glyphs(doc)
     target, copy = _target(src, ufo_path)
@@ -303,7 +318,9 @@ def write_ufo_glyphs(doc: Document, ufo_path: str | os.PathLike[str] | None = No
         try:
             shutil.copytree(src.path, target)
         except OSError as exc:
-            raise FontWriteError(f"{target}: cannot copy the source there: {exc}") from None
+            raise FontWriteError(
+                f"{target}: cannot copy the source there: {exc}", file=str(target)
+            ) from None
     written: list[str] = []
     for outline, data in files:
         ref = outline.source

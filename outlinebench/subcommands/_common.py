@@ -165,7 +165,9 @@ def read_svg_file(
         first = errors[0].message
         if result.error is not None and first == str(result.error) and not more:
             raise result.error
-        raise SvgReadError(f"{first}{more}; not all of the file could be read")
+        raise SvgReadError(
+            f"{first}{more}; not all of the file could be read", file=os.fspath(path)
+        )
     return result.document, [_note_dict(n) for n in result.notes]
 
 
@@ -289,9 +291,13 @@ def refuse_overwrite(output: str | os.PathLike[str], inputs: list[str]) -> None:
     except FileNotFoundError:
         return
     except OSError as exc:
-        raise OutlinebenchError(f"{out}: cannot write the output here ({exc.strerror})") from None
+        raise OutlinebenchError(
+            f"{out}: cannot write the output here ({exc.strerror})", file=str(out)
+        ) from None
     if not stat.S_ISREG(st.st_mode):
-        raise OutlinebenchError(f"{out}: output refused: it exists and is not a regular file")
+        raise OutlinebenchError(
+            f"{out}: output refused: it exists and is not a regular file", file=str(out)
+        )
     for src in inputs:
         try:
             same = os.path.samefile(out, src)
@@ -299,7 +305,8 @@ def refuse_overwrite(output: str | os.PathLike[str], inputs: list[str]) -> None:
             continue
         if same:
             raise OutlinebenchError(
-                f"{out}: output refused: it is the input file {src}; write to a new file"
+                f"{out}: output refused: it is the input file {src}; write to a new file",
+                file=str(out),
             )
 
 
@@ -318,7 +325,9 @@ def require_segments(doc: Document, path: str | Path, verb: str) -> None:
         silently wrong).
     """
     if not has_segments(doc):
-        raise OutlinebenchError(f"{path}: nothing to {verb}: no outline of the file has a segment")
+        raise OutlinebenchError(
+            f"{path}: nothing to {verb}: no outline of the file has a segment", file=str(path)
+        )
 
 
 def positive_float(text: str) -> float:

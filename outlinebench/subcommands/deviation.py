@@ -94,7 +94,8 @@ def run(args: argparse.Namespace) -> int:
     if len(a) != len(b):
         raise OutlinebenchError(
             f"{args.polylines}: has {len(b)} contours with segments but {args.curves} has "
-            f"{len(a)}; contours are matched one to one in document order"
+            f"{len(a)}; contours are matched one to one in document order",
+            file=str(args.polylines),
         )
     f = unit_factor(curves, args.units)
     # the polyline file may use another scale: bring its coordinates to the curve file's units

@@ -122,11 +122,13 @@ def run(args: argparse.Namespace) -> int:
     kinds = parse_kinds(args.fix)
     if not args.dry_run and not args.output and not args.in_place:
         raise OutlinebenchError(
-            f"{args.file}: say where to write: -o OUT.svg, --in-place, or --dry-run"
+            f"{args.file}: say where to write: -o OUT.svg, --in-place, or --dry-run",
+            file=str(args.file),
         )
     if args.output and not args.in_place and _same_file(args.output, args.file):
         raise OutlinebenchError(
-            f"{args.output}: is the input file itself; use --in-place to replace it"
+            f"{args.output}: is the input file itself; use --in-place to replace it",
+            file=str(args.output),
         )
     doc, notes = read_svg_file(args.file, allow_entities=args.allow_entities, option_hint=True)
     for note in notes:

@@ -149,7 +149,8 @@ def run(args: argparse.Namespace) -> int:
     bad = _verify(new, [c["outline"] for c in changes if "contours_after" in c])
     if bad:
         raise OutlinebenchError(
-            f"{target}: not written: {bad}; a defect of the boolean engine, please report it"
+            f"{target}: not written: {bad}; a defect of the boolean engine, please report it",
+            file=str(target),
         )
     if changes or not args.in_place:
         write_file_atomic(target, svg_bytes(new))
