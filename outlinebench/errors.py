@@ -53,8 +53,8 @@ class OutlinebenchError(Exception):
         return (_rebuild, (type(self), self.args, dict(self.__dict__)))
 
 
-def _rebuild(cls: type, args: tuple[object, ...], fields: dict[str, object]) -> BaseException:
-    exc = Exception.__new__(cls)
+def _rebuild(cls: type[BaseException], args: tuple[object, ...], fields: dict[str, object]) -> BaseException:
+    exc: BaseException = Exception.__new__(cls)
     exc.args = args
     exc.__dict__.update(fields)
     return exc

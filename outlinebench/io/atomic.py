@@ -116,19 +116,23 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
     except FileNotFoundError:
         st = None
     except OSError as exc:
-        raise SvgWriteError(f"{shown}: cannot save: {exc.strerror or exc}", file=shown) from None
+        raise SvgWriteError(
+            f"{shown}: cannot save: {exc.strerror or exc}", file=str(shown)
+        ) from None
     if st is not None:
         if not stat.S_ISREG(st.st_mode):
             raise SvgWriteError(
                 f"{shown}: not a regular file ({_file_kind(st.st_mode)}); refused, nothing was "
                 "written (save to a file name)",
-                file=shown,
+                file=str(shown),
             )
         mode = st.st_mode & 0o7777
         # Permission bits too, not only os.access: an administrator could write anyway, but
         # a file marked read-only is not meant to be replaced.
         if not os.access(target, os.W_OK) or not mode & 0o222:
-            raise SvgWriteError(f"{shown}: the file is read-only; it was not replaced", file=shown)
+            raise SvgWriteError(
+                f"{shown}: the file is read-only; it was not replaced", file=str(shown)
+            )
     else:
         mode = 0o666 & ~_umask()  # what open(2) would give a new file
     directory = target.parent
@@ -139,7 +143,7 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
         )
     except OSError as exc:
         raise SvgWriteError(
-            f"{shown}: cannot create a file in {directory}: {exc.strerror or exc}", file=shown
+            f"{shown}: cannot create a file in {directory}: {exc.strerror or exc}", file=str(shown)
         ) from None
     try:
         with os.fdopen(fd, "wb") as fh:
@@ -155,7 +159,7 @@ def write_file_atomic(path: str | os.PathLike[str], data: bytes) -> None:
             pass
         if isinstance(exc, OSError):
             raise SvgWriteError(
-                f"{shown}: save failed, the old file is unchanged: {exc}", file=shown
+                f"{shown}: save failed, the old file is unchanged: {exc}", file=str(shown)
             ) from None
         raise
     _fsync_dir(directory)
