@@ -335,96 +335,131 @@ def repair_document(
     """
     settings = settings or CheckSettings()
     run = _Runner(doc, settings)
-
-    def wanted(f: Finding, targets: tuple[str, ...]) -> bool:
-        if f.kind not in targets or (contours is not None and f.contour not in contours):
-            return False
-        if f.kind == "open-contour":
-            return True
-        return is_problem(f) or f.kind == "missing-extremum"
-
     for kind in REPAIR_ORDER:
         if kind not in kinds:
             continue
-        targets = TARGETS[kind]
-        todo = [f for f in run.findings if wanted(f, targets)]
+        todo = [f for f in run.findings if _wanted(f, TARGETS[kind], contours)]
         if kind == "close-gaps":
-            # one at a time, re-checking after each: joining two contours renumbers them,
-            # and a joined chain's own ends may then meet
-            tried: set[tuple[str, float, float]] = set()
-            while True:
-                todo = [f for f in run.findings if wanted(f, targets)]
-                todo = [f for f in todo if (f.kind, f.x, f.y) not in tried]
-                if not todo:
-                    break
-                f = todo[0]
-                tried.add((f.kind, f.x, f.y))
-                where = place_text(f)
-                cmd = repair_for_finding(run.doc, f, max_change=max_change, settings=settings)
-                if cmd is None:
-                    if f.kind == "open-contour":
-                        reason = (
-                            f"its ends are {f.value:.6g} apart, beyond the gap search "
-                            "distance: not a gap"
-                        )
-                    else:
-                        reason = (
-                            f"the gap is to contour {f.other_contour} of another outline: "
-                            "joining outlines is not a repair"
-                        )
-                    if f.kind == "gap" or (f.value or 0.0) > _gap_user(run.doc, settings)[1]:
-                        run.outcomes.append(
-                            Outcome(kind, "refused", where, f.kind, None, reason, (f.x, f.y))
-                        )
-                    continue
-                run.attempt(cmd, where, f if f.kind == "gap" else None)
+            _close_gaps(run, kind, max_change, settings, contours)
         elif kind == "remove-overlaps":
-            outlines = sorted({_locate(run.doc, f.contour)[0] for f in todo})
-            for o in outlines:
-                f = next(x for x in todo if _locate(run.doc, x.contour)[0] == o)
-                run.attempt(RemoveOverlaps(o, max_change=max_change), place_text(f), f)
+            _remove_overlaps(run, todo, max_change)
         elif kind == "fix-direction":
-            by_outline: dict[int, Finding] = {}
-            for f in todo:
-                by_outline.setdefault(_locate(run.doc, f.contour)[0], f)
-            for o in range(len(run.doc.outlines)):
-                if contours is not None and not (_contours_of(run.doc, o) & contours):
-                    continue
-                found = by_outline.get(o)
-                where = place_text(found) if found is not None else f"outline {o}"
-                run.attempt(FixDirection(o, max_change), where, found)
+            _fix_directions(run, todo, max_change, contours)
         elif kind in ("fit-curves", "remove-points"):
-            tiny = {f.contour: f for f in todo}
-            for ref in list(run.doc.contour_refs()):
-                if contours is not None and ref.global_index not in contours:
-                    continue
-                c = run.doc.contour(ref.outline, ref.index)
-                if kind == "fit-curves":
-                    if not _polyline_like(c, settings.corner_angle):
-                        continue
-                    job: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
-                else:
-                    job = RemoveRedundantPoints(
-                        ref.outline, ref.index, max_change, settings.corner_angle
-                    )
-                found = tiny.get(ref.global_index)
-                where = place_text(found) if found is not None else f"contour {ref.global_index}"
-                run.attempt(job, where, found)
+            _rewrite_contours(run, kind, todo, max_change, settings, contours)
         else:
-            # join and segment fixes: later segments first, so earlier indices stay valid
-            todo.sort(
-                key=lambda f: (f.contour, -(f.join if f.join is not None else f.segment or 0))
+            _fix_joins_and_segments(run, todo, max_change, settings)
+    _report_left(run, kinds, contours)
+    return RepairRun(doc, run.doc, run.outcomes, run.commands)
+
+
+def _wanted(f: Finding, targets: tuple[str, ...], contours: set[int] | None) -> bool:
+    """A finding one of the chosen repairs answers for (in the chosen contours)."""
+    if f.kind not in targets or (contours is not None and f.contour not in contours):
+        return False
+    if f.kind == "open-contour":
+        return True
+    return is_problem(f) or f.kind == "missing-extremum"
+
+
+def _close_gaps(
+    run: _Runner,
+    kind: str,
+    max_change: float,
+    settings: CheckSettings,
+    contours: set[int] | None,
+) -> None:
+    """Gaps one at a time, re-checking after each: joining two contours renumbers them, and a
+    joined chain's own ends may then meet."""
+    targets = TARGETS[kind]
+    tried: set[tuple[str, float, float]] = set()
+    while True:
+        todo = [f for f in run.findings if _wanted(f, targets, contours)]
+        todo = [f for f in todo if (f.kind, f.x, f.y) not in tried]
+        if not todo:
+            return
+        f = todo[0]
+        tried.add((f.kind, f.x, f.y))
+        where = place_text(f)
+        cmd = repair_for_finding(run.doc, f, max_change=max_change, settings=settings)
+        if cmd is not None:
+            run.attempt(cmd, where, f if f.kind == "gap" else None)
+            continue
+        if f.kind == "open-contour":
+            reason = f"its ends are {f.value:.6g} apart, beyond the gap search distance: not a gap"
+        else:
+            reason = (
+                f"the gap is to contour {f.other_contour} of another outline: "
+                "joining outlines is not a repair"
             )
-            for f in todo:
-                fresh = [g for g in run.findings if _same_place(f, g)]
-                if not fresh:
-                    continue  # an earlier fix already removed it
-                cmd = repair_for_finding(
-                    run.doc, fresh[0], max_change=max_change, settings=settings
-                )
-                if cmd is not None:
-                    run.attempt(cmd, place_text(f), fresh[0])
-    # what is still found and no chosen repair answered for: say so, one line each
+        if f.kind == "gap" or (f.value or 0.0) > _gap_user(run.doc, settings)[1]:
+            run.outcomes.append(Outcome(kind, "refused", where, f.kind, None, reason, (f.x, f.y)))
+
+
+def _remove_overlaps(run: _Runner, todo: list[Finding], max_change: float) -> None:
+    """One union per outline that has an overlap finding."""
+    outlines = sorted({_locate(run.doc, f.contour)[0] for f in todo})
+    for o in outlines:
+        f = next(x for x in todo if _locate(run.doc, x.contour)[0] == o)
+        run.attempt(RemoveOverlaps(o, max_change=max_change), place_text(f), f)
+
+
+def _fix_directions(
+    run: _Runner, todo: list[Finding], max_change: float, contours: set[int] | None
+) -> None:
+    """Every outline in the chosen contours, named by its first direction finding."""
+    by_outline: dict[int, Finding] = {}
+    for f in todo:
+        by_outline.setdefault(_locate(run.doc, f.contour)[0], f)
+    for o in range(len(run.doc.outlines)):
+        if contours is not None and not (_contours_of(run.doc, o) & contours):
+            continue
+        found = by_outline.get(o)
+        where = place_text(found) if found is not None else f"outline {o}"
+        run.attempt(FixDirection(o, max_change), where, found)
+
+
+def _rewrite_contours(
+    run: _Runner,
+    kind: str,
+    todo: list[Finding],
+    max_change: float,
+    settings: CheckSettings,
+    contours: set[int] | None,
+) -> None:
+    """Whole-contour rewrites (fit curves to polylines, remove redundant points)."""
+    tiny = {f.contour: f for f in todo}
+    for ref in list(run.doc.contour_refs()):
+        if contours is not None and ref.global_index not in contours:
+            continue
+        c = run.doc.contour(ref.outline, ref.index)
+        if kind == "fit-curves":
+            if not _polyline_like(c, settings.corner_angle):
+                continue
+            job: RepairCommand = FitCurves(ref.outline, ref.index, max_change)
+        else:
+            job = RemoveRedundantPoints(ref.outline, ref.index, max_change, settings.corner_angle)
+        found = tiny.get(ref.global_index)
+        where = place_text(found) if found is not None else f"contour {ref.global_index}"
+        run.attempt(job, where, found)
+
+
+def _fix_joins_and_segments(
+    run: _Runner, todo: list[Finding], max_change: float, settings: CheckSettings
+) -> None:
+    """Join and segment fixes: later segments first, so earlier indices stay valid."""
+    todo.sort(key=lambda f: (f.contour, -(f.join if f.join is not None else f.segment or 0)))
+    for f in todo:
+        fresh = [g for g in run.findings if _same_place(f, g)]
+        if not fresh:
+            continue  # an earlier fix already removed it
+        cmd = repair_for_finding(run.doc, fresh[0], max_change=max_change, settings=settings)
+        if cmd is not None:
+            run.attempt(cmd, place_text(f), fresh[0])
+
+
+def _report_left(run: _Runner, kinds: list[str], contours: set[int] | None) -> None:
+    """What is still found and no chosen repair answered for: one outcome line each."""
     answered = {(o.where, o.finding) for o in run.outcomes}
     answered_at = {(o.finding, o.at) for o in run.outcomes if o.at is not None}
     targeted = {k for kind in kinds for k in TARGETS[kind]}
@@ -441,7 +476,6 @@ def repair_document(
         else:
             reason = f"no repair fixes a {f.kind}"
         run.outcomes.append(Outcome("-", "left", place_text(f), f.kind, None, reason, (f.x, f.y)))
-    return RepairRun(doc, run.doc, run.outcomes, run.commands)
 
 
 # --------------------------------------------------------------------------------------------
