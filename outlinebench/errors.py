@@ -53,7 +53,9 @@ class OutlinebenchError(Exception):
         return (_rebuild, (type(self), self.args, dict(self.__dict__)))
 
 
-def _rebuild(cls: type[BaseException], args: tuple[object, ...], fields: dict[str, object]) -> BaseException:
+def _rebuild(
+    cls: type[BaseException], args: tuple[object, ...], fields: dict[str, object]
+) -> BaseException:
     exc: BaseException = Exception.__new__(cls)
     exc.args = args
     exc.__dict__.update(fields)
