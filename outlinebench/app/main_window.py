@@ -46,6 +46,7 @@ from outlinebench.app.cut_preview import (
 from outlinebench.app.cutting_panel import CuttingPanel
 from outlinebench.app.edit_rounding import EDIT_RESOLUTION_MM, edit_decimals, round_edits
 from outlinebench.app.findings_panel import FindingsPanel, column_widths
+from outlinebench.app.fix_preview import FixPreview, change_text, fix_all, preview_fix
 from outlinebench.app.icons import icon
 from outlinebench.app.live_findings import LiveFindings, place_of
 from outlinebench.app.recovery import Recovery, RecoveryStore, stale_recoveries
@@ -278,6 +279,12 @@ class MainWindow(QMainWindow):
         self.findings_panel.filter_changed.connect(lambda _on: self._on_findings_updated())
         self.findings_panel.picked.connect(self.show_finding)
         self.findings_panel.settings_requested.connect(self.edit_tolerances)
+        self.fix_preview: FixPreview | None = None  # a fix being previewed
+        self.findings_panel.fix_requested.connect(self.preview_fix)
+        self.findings_panel.fix_all_requested.connect(self.fix_all_of_kind)
+        self.findings_panel.fix_applied.connect(self.apply_fix)
+        self.findings_panel.fix_cancelled.connect(self.cancel_fix)
+        self.session.changed.connect(self._drop_stale_fix)
         self._build_actions()
         self._build_menus_and_toolbar()
         self._build_status_bar()
@@ -443,6 +450,25 @@ class MainWindow(QMainWindow):
         self.act_tolerances = self._action(
             "Check &tolerances…", self.edit_tolerances, tip="Gap, kink, corner and curvature limits"
         )
+        self.act_fix = self._action(
+            "&Fix the shown finding…",
+            lambda: self.preview_fix(None),
+            "Ctrl+Shift+F",
+            tip="Preview the fix of the finding shown (picked in the list): the measured change "
+            "comes first, Apply does it as one undo step",
+        )
+        self.act_fix_all = self._action(
+            "Fix &all findings of this kind",
+            lambda: self.fix_all_of_kind(None),
+            "Ctrl+Shift+A",
+            tip="Fix every finding of the shown finding's kind in the selected contours (or "
+            "the whole drawing when nothing is selected), as one undo step",
+        )
+        self.act_max_change = self._action(
+            "Allowed &change of a fix…",
+            self.edit_tolerances,
+            tip="The largest shape change a fix may make (in the tolerances dialog)",
+        )
         self.act_break_joins = self._action(
             "&Break smooth joins while dragging",
             self._set_break_joins,
@@ -514,6 +540,12 @@ class MainWindow(QMainWindow):
             self.act_units[name] = act
         m_view.addAction(self.findings_dock.toggleViewAction())
         m_view.addAction(self.cutting_dock.toggleViewAction())
+        m_fix = mb.addMenu("Fi&x")
+        m_fix.addAction(self.act_fix)
+        m_fix.addAction(self.act_fix_all)
+        m_fix.addSeparator()
+        m_fix.addAction(self.act_max_change)
+        self.menu_fix = m_fix
         m_cut = mb.addMenu("C&ut")
         self.act_flatten_preview = m_cut.addAction("&Flattening preview")
         self.act_flatten_preview.setCheckable(True)
@@ -720,9 +752,12 @@ class MainWindow(QMainWindow):
 
     def edit_tolerances(self) -> bool:
         """Ask for new check tolerances; True when they were changed."""
-        dlg = TolerancesDialog(self.live.settings, self.session.units, self)
+        dlg = TolerancesDialog(
+            self.live.settings, self.session.units, self, self.prefs.max_change_mm()
+        )
         if self.run_dialog(dlg) != QDialog.DialogCode.Accepted:
             return False
+        self.prefs.set_max_change_mm(dlg.result_max_change_mm())
         self.live.set_settings(dlg.result_settings())
         self.prefs.set_check_settings(self.live.settings)
         self.session.close_gap = self._gap_user()
@@ -1082,6 +1117,106 @@ class MainWindow(QMainWindow):
             "save it to keep it"
         )
         return True
+
+    # -- repairs at hand ----------------------------------------------------------------
+    def max_change_user(self) -> float:
+        """The allowed change of a fix in the document's user units."""
+        doc = self.session.document
+        mm = self.prefs.max_change_mm()
+        return mm / doc.mm_per_unit if doc.mm_per_unit > 0 else mm
+
+    def preview_fix(self, f: Finding | None = None) -> FixPreview | None:
+        """Compute the fix of ``f`` (default: the finding shown) and show it: the measured
+        change and note in the findings panel's fix bar, the old outline ghosted and the new
+        one on the canvas; a refusal shows its reason. Nothing changes until Apply."""
+        f = f if f is not None else self.current_finding
+        if f is None or f not in self.live.findings:
+            self._show_message("Fix: pick a finding in the list first")
+            return None
+        if f is not self.current_finding:
+            self.show_finding(f)
+        u = self.session.units
+        limit = self.max_change_user()
+        fp = preview_fix(
+            self.session.document, f, max_change=limit, units=u, settings=self.live.settings
+        )
+        self.fix_preview = fp
+        line = fp.summary(u, limit)
+        if fp.ok:
+            assert fp.change is not None
+            html = (
+                f"<b>Fix {f.kind}</b> ({fp.repair_kind}) at {f.x * u.factor:.1f}, "
+                f"{f.y * u.factor:.1f}<br>the outline moves by at most "
+                f"<b>{change_text(u, fp.change)}</b> (proven; allowed "
+                f"{change_text(u, limit)})<br><span style='color:#5b6670'>{fp.note}</span>"
+            )
+            self.canvas.set_fix_preview(fp, f"fix: ≤ {change_text(u, fp.change)}")
+        else:
+            html = f"<b>Fix {f.kind}</b>: <span style='color:#c3122f'>refused</span> — {fp.refusal}"
+            self.canvas.set_fix_preview(None)
+        self.findings_panel.show_fix(html, fp.ok)
+        self._show_message(line)
+        return fp
+
+    def apply_fix(self) -> bool:
+        """Apply the fix being previewed as one undo step; True when applied."""
+        fp = self.fix_preview
+        if fp is None or not fp.ok or fp.command is None:
+            return False
+        if fp.before is not self.session.document:
+            self.cancel_fix()
+            self._show_message("Fix: the drawing changed since the preview; preview it again")
+            return False
+        u = self.session.units
+        assert fp.change is not None
+        done = self.session.do(fp.command)
+        self.cancel_fix()
+        if done:
+            self._show_message(
+                f"Fixed {fp.finding.kind} ({fp.repair_kind}): moved by at most "
+                f"{change_text(u, fp.change)} — {fp.note}"
+            )
+        return done
+
+    def cancel_fix(self) -> None:
+        """Leave the fix preview; the drawing is as it was."""
+        self.fix_preview = None
+        self.canvas.set_fix_preview(None)
+        self.findings_panel.hide_fix()
+
+    def _drop_stale_fix(self) -> None:
+        fp = self.fix_preview
+        if fp is not None and fp.before is not self.session.document:
+            self.cancel_fix()
+
+    def selected_contour_numbers(self) -> set[int]:
+        """Global numbers (as the findings list gives them) of the contours with a selected
+        point."""
+        s = self.session
+        return {s.global_contour(o, c) for o, c, *_ in s.selected_points()}
+
+    def fix_all_of_kind(self, f: Finding | None = None):
+        """Fix every finding of ``f``'s kind (default: the finding shown) in the selected
+        contours, or the whole drawing when nothing is selected, as one undo step; the status
+        bar says how many were fixed and refused, and the largest change."""
+        f = f if f is not None else self.current_finding
+        if f is None:
+            self._show_message("Fix all: pick a finding in the list first (its kind is fixed)")
+            return None
+        self.cancel_fix()
+        picked = self.selected_contour_numbers()
+        scope = f"{len(picked)} selected contours" if picked else "the whole drawing"
+        result = fix_all(
+            self.session.document,
+            f.kind,
+            max_change=self.max_change_user(),
+            settings=self.live.settings,
+            contours=picked or None,
+        )
+        if result.command is not None:
+            self.session.do(result.command)
+        self._show_message(result.summary(self.session.units, f.kind, scope))
+        return result
 
     # -- cutting previews ---------------------------------------------------------------
     def _gap_user(self) -> float:
