@@ -157,12 +157,18 @@ COLUMN_SAMPLES = (
 )
 
 
+# Room around a cell's text (Qt's item margins, 3 px a side, and 1 px to spare) and beside
+# it for the severity icon (16 px and its margins); Qt's own measure of the cells,
+# sizeHintForColumn, is no wider (test_findings_panel).
+CELL_PAD_PX = 7
+ICON_ROOM_PX = 22
+
+
 def column_widths(metrics) -> list[int]:
     """Starting widths (logical px) of the list's columns for a font's metrics: each sample
     text of :data:`COLUMN_SAMPLES` plus the cell's padding (and the icon in the first)."""
-    pad = 12
-    widths = [metrics.horizontalAdvance(t) + pad for t in COLUMN_SAMPLES]
-    widths[0] += 20  # the severity icon
+    widths = [metrics.horizontalAdvance(t) + CELL_PAD_PX for t in COLUMN_SAMPLES]
+    widths[0] += ICON_ROOM_PX
     return widths
 
 
@@ -297,7 +303,7 @@ class FindingsPanel(QWidget):
         self._live = live
         self._units = units
         lay = QVBoxLayout(self)
-        lay.setContentsMargins(6, 6, 6, 6)
+        lay.setContentsMargins(4, 6, 4, 6)
         self.summary = QLabel("")
         self.summary.setWordWrap(True)
         lay.addWidget(self.summary)
@@ -337,7 +343,12 @@ class FindingsPanel(QWidget):
         header = self.view.header()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(True)
-        for col, width in enumerate(column_widths(self.view.fontMetrics())):
+        widths = column_widths(self.view.fontMetrics())
+        for col, width in enumerate(widths):
+            # never narrower than the header's own text and sort arrow; the last column
+            # stretches into the rest of the list (its header reads whole there)
+            if col < len(widths) - 1:
+                width = max(width, header.sectionSizeHint(col))
             self.view.setColumnWidth(col, width)
         self.view.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
         self.view.customContextMenuRequested.connect(self._on_context_menu)

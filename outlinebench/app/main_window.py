@@ -327,10 +327,22 @@ class MainWindow(QMainWindow):
         if not hasattr(self, "findings_dock"):
             return
         right = self.selection_dock
-        right_w = max(right.width(), right.minimumSizeHint().width())
-        room = int(self.width() * (1.0 - MIN_CANVAS_SHARE)) - right_w - 14
-        room = max(room, self.findings_panel.minimumSizeHint().width())
-        width = min(self._findings_dock_width(), room)
+        need = self._findings_dock_width()
+        share = int(self.width() * (1.0 - MIN_CANVAS_SHARE)) - 14
+        right_min = right.minimumSizeHint().width()
+        right_pref = max(right.sizeHint().width(), right_min)
+        if share - right_pref < need:
+            # Narrow window (1280 px): the selection panel keeps only its least width (labels
+            # whole, fields as wide as their widest text) so the list's four columns fit;
+            # the dock area follows only when told (resizeDocks).
+            right.setMaximumWidth(right_min)
+            self.resizeDocks([right], [right_min], Qt.Orientation.Horizontal)
+            right_w = right_min
+        else:
+            right.setMaximumWidth(16777215)  # QWIDGETSIZE_MAX: as wide as the user drags
+            right_w = max(right.width(), right_min)
+        room = max(share - right_w, self.findings_panel.minimumSizeHint().width())
+        width = min(need, room)
         # Minimum and maximum of the panel (not resizeDocks, which Qt may apply later or not
         # at all before the first frames): the dock layout honours them at once.
         self.findings_panel.setMinimumWidth(width)
@@ -344,8 +356,17 @@ class MainWindow(QMainWindow):
         """Starting width of the findings dock: its four columns whole (column_widths), the
         list's frame and scroll bar and the dock's margins, at least FINDINGS_DOCK_WIDTH."""
         view = self.findings_panel.view
-        columns = sum(column_widths(view.fontMetrics()))
-        extra = view.verticalScrollBar().sizeHint().width() + 2 * view.frameWidth() + 14
+        # the last column stretches into what is left: its cells need only their text
+        widths = column_widths(view.fontMetrics())
+        columns = sum(max(w, view.columnWidth(c)) for c, w in enumerate(widths[:-1]))
+        columns += widths[-1]
+        m = self.findings_panel.layout().contentsMargins()
+        extra = (
+            view.verticalScrollBar().sizeHint().width()
+            + 2 * view.frameWidth()
+            + m.left()
+            + m.right()
+        )
         return max(FINDINGS_DOCK_WIDTH, columns + extra)
 
     # -- actions ------------------------------------------------------------------------
