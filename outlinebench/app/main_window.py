@@ -34,6 +34,7 @@ from PySide6.QtWidgets import (
 
 from outlinebench import __version__
 from outlinebench.app import dialogs, style
+from outlinebench.app.canvas import PLACE_MIN_PX as PLACE_SIZE_PX
 from outlinebench.app.canvas import Canvas
 from outlinebench.app.canvas_painter import count_points_in_view
 from outlinebench.app.curvature_comb import auto_comb_scale
@@ -86,6 +87,9 @@ FINDINGS_DOCK_WIDTH = 380
 # panel and a canvas of 40 % of the width (at 1280 px the findings dock gives way to the
 # canvas, see _fit_findings_dock); smaller screens get their available size.
 DEFAULT_WINDOW_SIZE = (1440, 900)
+# While a fix is previewed the canvas zooms in until its measured change spans this many
+# logical px (common practice, no source: a few pixels tell dashed from solid).
+FIX_CHANGE_PX = 4.0
 # Share of the window's width the canvas keeps when the docks would take more (common
 # practice, no source).
 MIN_CANVAS_SHARE = 0.4
@@ -1171,6 +1175,7 @@ class MainWindow(QMainWindow):
                 f"<b>{change_text(u, fp.change)}</b> (proven; allowed "
                 f"{change_text(u, limit)})<br><span style='color:#5b6670'>{fp.note}</span>"
             )
+            self._zoom_to_see_change(fp)
             self.canvas.set_fix_preview(fp, f"fix: ≤ {change_text(u, fp.change)}")
         else:
             html = f"<b>Fix {f.kind}</b>: <span style='color:#c3122f'>refused</span> — {fp.refusal}"
@@ -1178,6 +1183,20 @@ class MainWindow(QMainWindow):
         self.findings_panel.show_fix(html, fp.ok)
         self._show_message(line)
         return fp
+
+    def _zoom_to_see_change(self, fp: FixPreview) -> None:
+        """Zoom in on the finding until the change spans FIX_CHANGE_PX on screen, but not
+        beyond the zoom where the changed contours span four canvas widths (a change far
+        below a pixel is then reported in numbers, not seen); never zooms out."""
+        if not fp.change or not fp.new_contours:
+            return
+        pts = np.vstack([s for c in fp.old_contours + fp.new_contours for s in c.segments])
+        extent = float(np.max(pts.max(axis=0) - pts.min(axis=0)))
+        scale = FIX_CHANGE_PX / fp.change
+        if extent > 0:
+            scale = min(scale, 4.0 * self.canvas.width() / extent)
+        if scale > self.canvas.view.scale:
+            self.canvas.show_place(fp.finding.x, fp.finding.y, PLACE_SIZE_PX / scale)
 
     def apply_fix(self) -> bool:
         """Apply the fix being previewed as one undo step; True when applied."""
@@ -1297,9 +1316,10 @@ class MainWindow(QMainWindow):
                 self.offset_result = op
                 misfit = sum(p.kind == "tool-does-not-fit" for p in op.places)
                 lost = len(op.vanished)
+                n_off = len(op.polylines)
                 c.offset_info.setText(
-                    f"<b>{len(op.polylines)} offset contours</b> · tool does not fit at "
-                    f"{misfit} places · "
+                    f"<b>{n_off} offset contour{'' if n_off == 1 else 's'}</b> · tool does "
+                    f"not fit at {misfit} place{'' if misfit == 1 else 's'} · "
                     + (
                         f"<span style='color:#c3122f'><b>material vanishes at {lost}</b></span>"
                         if lost

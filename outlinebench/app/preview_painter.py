@@ -35,7 +35,7 @@ OFFSET = QColor("#2b8a3e")  # the offset outline
 TOOL = QColor(43, 138, 62, 150)  # the tool circle where it does not fit
 VANISH = QColor("#c3122f")  # material lost: same crimson as error findings
 FIXED = QColor("#6a2c9c")  # the outline a fix makes: violet, unlike every other mark
-GHOST = QColor("#8a8f96")  # the outline a fix replaces, dashed
+GHOST = QColor("#4a525a")  # the outline a fix replaces, dashed
 GHOST_WASH = QColor(251, 250, 246, 200)  # fades the replaced outline drawn beneath
 # Chord vertices are ticked only when neighbouring ticks are at least this far apart on
 # screen (logical px) on average; closer, they would merge into a thick line.
@@ -145,8 +145,9 @@ def paint_offset_preview(
 
 def paint_fix_preview(p: QPainter, view: ViewTransform, fix, label: str | None = None) -> None:
     """A fix being previewed (:class:`outlinebench.app.fix_preview.FixPreview`): the contours
-    it replaces ghosted (faded under a paper-coloured wash, then dashed grey), the contours it
-    makes drawn solid in violet, and ``label`` (the measured change) beside the finding."""
+    it replaces ghosted (faded under a paper-coloured wash, then dashed grey over everything),
+    the contours it makes drawn solid in violet, and ``label`` (the measured change) beside the
+    finding."""
     from outlinebench.app.contour_graphics import contour_path  # the outline's own paths
 
     p.save()
@@ -165,17 +166,20 @@ def paint_fix_preview(p: QPainter, view: ViewTransform, fix, label: str | None =
     wash.setCosmetic(True)
     p.setPen(wash)
     p.drawPath(old)
-    ghost = QPen(GHOST, 1.2, Qt.PenStyle.DashLine)
-    ghost.setCosmetic(True)
-    p.setPen(ghost)
-    p.drawPath(old)
     pen = QPen(FIXED, 2.0)
     pen.setCosmetic(True)
     p.setPen(pen)
     p.drawPath(new)
+    # the old outline dashed on top: where the two coincide the dashes lie on the violet
+    ghost = QPen(GHOST, 1.2, Qt.PenStyle.DashLine)
+    ghost.setCosmetic(True)
+    p.setPen(ghost)
+    p.drawPath(old)
     p.restore()
     if label:
         p.save()
         p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
-        _label(p, QPointF(*view.to_screen(fix.finding.x, fix.finding.y)), label, FIXED)
+        # clear of the finding's frame (about 14 px across at most) drawn over it
+        at = QPointF(*view.to_screen(fix.finding.x, fix.finding.y)) + QPointF(12.0, -8.0)
+        _label(p, at, label, FIXED)
         p.restore()

@@ -247,3 +247,23 @@ def test_stale_preview_is_dropped_after_an_edit(window):
     window.session.nudge(1, 0, False)
     assert window.session.document is not doc
     assert window.fix_preview is None and window.canvas.fix_preview is None
+
+
+def test_preview_zooms_in_until_the_change_can_be_seen(window):
+    from outlinebench.app.main_window import FIX_CHANGE_PX
+
+    _open(window, BRACKET)
+    before = window.canvas.view.scale
+    fp = window.preview_fix(_kink(window))
+    scale = window.canvas.view.scale
+    assert scale > before  # 0.044 mm is far below a pixel at fit zoom
+    # the change spans FIX_CHANGE_PX on screen, or the zoom stops where the changed contour
+    # (control-point box) spans four canvas widths (common practice, no source)
+    pts = np.vstack([s for c in fp.old_contours + fp.new_contours for s in c.segments])
+    extent = float(np.max(pts.max(axis=0) - pts.min(axis=0)))
+    assert fp.change * scale >= FIX_CHANGE_PX * (
+        1 - 1e-9
+    ) or extent * scale >= 4.0 * window.canvas.width() * (1 - 1e-9)
+    # centred on the finding
+    sx, sy = window.canvas.view.to_screen(fp.finding.x, fp.finding.y)
+    assert abs(sx - window.canvas.width() / 2) < 1 and abs(sy - window.canvas.height() / 2) < 1
