@@ -297,6 +297,7 @@ def fix_all(
     max_change: float,
     settings: CheckSettings | None = None,
     contours: set[int] | None = None,
+    units: DisplayUnits | None = None,
 ) -> FixAllResult:
     """Run the repair that targets ``finding_kind`` over the document or some contours.
 
@@ -310,6 +311,9 @@ def fix_all(
     settings : CheckSettings, optional
     contours : set of int, optional
         Global contour numbers (the selection); default every contour.
+    units : DisplayUnits, optional
+        The unit refusals past the allowed change are worded in (default: the library's
+        words, in user units).
 
     Returns
     -------
@@ -333,5 +337,14 @@ def fix_all(
         len(fixed),
         len(refused),
         largest if math.isfinite(largest) else 0.0,
-        [o.reason for o in refused],
+        [_outcome_reason(o, max_change, units) for o in refused],
     )
+
+
+def _outcome_reason(o, max_change: float, units: DisplayUnits | None) -> str:
+    if units is not None and o.change is not None and o.change > max_change:
+        return (
+            f"the outline would move by up to {change_text(units, o.change)}, more than the "
+            f"allowed {change_text(units, max_change)}"
+        )
+    return o.reason

@@ -1209,6 +1209,7 @@ class MainWindow(QMainWindow):
             return False
         u = self.session.units
         assert fp.change is not None
+        fp.command.label = f"Fix {fp.finding.kind} ({fp.repair_kind})"  # the Undo menu's words
         done = self.session.do(fp.command)
         self.cancel_fix()
         if done:
@@ -1252,10 +1253,13 @@ class MainWindow(QMainWindow):
             max_change=self.max_change_user(),
             settings=self.live.settings,
             contours=picked or None,
+            units=self.session.units,
         )
         if result.command is not None:
             self.session.do(result.command)
-        self._show_message(result.summary(self.session.units, f.kind, scope))
+        text = result.summary(self.session.units, f.kind, scope)
+        self.findings_panel.show_fix(text, False)  # stays until closed (the status bar fades)
+        self._show_message(text)
         return result
 
     # -- cutting previews ---------------------------------------------------------------

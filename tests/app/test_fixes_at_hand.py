@@ -138,6 +138,7 @@ def test_apply_removes_the_finding_and_one_undo_restores(window):
     f = _kink(window)
     window.preview_fix(f)
     window.findings_panel.fix_apply.click()
+    assert window.session.undo_label == "Fix kink (smooth-kinks)"
     new = window.session.document
     assert new is not doc
     # re-check with the library's whole-document check: the kink at contour 3, join 1 is gone
@@ -212,6 +213,7 @@ def test_fix_all_of_a_kind_is_one_undo_step(window):
     assert documents_equal(window.session.document, ref.document)
     assert result.largest <= window.max_change_user()
     assert "2 fixed" in window.statusBar().currentMessage()
+    assert "2 fixed" in window.findings_panel.fix_text.text()  # stays in the fix bar
     kinks = [g for g in check_document(window.session.document) if g.kind == "kink"]
     assert len(kinks) == 1
     window.session.undo()
