@@ -121,6 +121,7 @@ Ctrl: keep the two handles equal</td></tr>
 <tr><td>Ctrl+wheel</td><td>zoom at the pointer</td></tr>
 <tr><td>Middle-drag, Space+drag</td><td>pan</td></tr>
 <tr><td>Hover a finding mark</td><td>what was found there</td></tr>
+<tr><td>Right-click a finding</td><td>fix it (preview first) / fix all of its kind</td></tr>
 </table>
 <h3>Keys</h3>
 <table cellspacing=4>
@@ -131,6 +132,8 @@ Ctrl: keep the two handles equal</td></tr>
 <tr><td>Delete, Backspace</td><td>delete points (neighbours refitted)</td></tr>
 <tr><td>Ctrl+Shift+C, R</td><td>close / reverse the contour</td></tr>
 <tr><td>N, Shift+N</td><td>next / previous finding</td></tr>
+<tr><td>Ctrl+Shift+F, Ctrl+Shift+A</td><td>preview the shown finding's fix / fix all of its
+kind (selection, else everything)</td></tr>
 <tr><td>F, Ctrl++, Ctrl+−</td><td>fit, zoom in, zoom out</td></tr>
 <tr><td>Ctrl+Shift+K, [ ]</td><td>curvature comb, shorter / longer teeth</td></tr>
 <tr><td>Enter, Esc</td><td>finish an open contour / cancel</td></tr>
@@ -784,6 +787,7 @@ class MainWindow(QMainWindow):
             return False
         self.prefs.set_max_change_mm(dlg.result_max_change_mm())
         self.live.set_settings(dlg.result_settings())
+        self._renew_fix_preview()
         self.prefs.set_check_settings(self.live.settings)
         self.session.close_gap = self._gap_user()
         s = self.live.settings
@@ -1403,6 +1407,13 @@ class MainWindow(QMainWindow):
         self.findings_panel.refresh()
         self._on_tool_changed(self.session.tool_name)
         self.update_previews()
+        self._renew_fix_preview()
+
+    def _renew_fix_preview(self) -> None:
+        """Measure the fix being previewed again (the unit or the allowed change changed)."""
+        fp = self.fix_preview
+        if fp is not None and fp.before is self.session.document:
+            self.preview_fix(fp.finding)
 
     def help_about_text(self) -> str:
         rec = str(self.recovery.folder) if self.recovery is not None else "(recovery is off)"

@@ -269,3 +269,18 @@ def test_preview_zooms_in_until_the_change_can_be_seen(window):
     # centred on the finding
     sx, sy = window.canvas.view.to_screen(fp.finding.x, fp.finding.y)
     assert abs(sx - window.canvas.width() / 2) < 1 and abs(sy - window.canvas.height() / 2) < 1
+
+
+def test_a_shown_refusal_is_measured_again_when_the_allowed_change_grows(window):
+    _open(window, BRACKET)
+    fp = window.preview_fix(_find(window, "gap"))
+    assert not fp.ok  # 0.25 mm > the default 0.05 mm
+
+    def fill(dlg):
+        dlg.max_change.setValue(0.3)
+        return 1
+
+    window.run_dialog = fill
+    assert window.edit_tolerances()
+    assert window.fix_preview is not None and window.fix_preview.ok
+    assert window.findings_panel.fix_apply.isVisibleTo(window.findings_panel)
