@@ -49,7 +49,11 @@ from outlinebench.app.curvature_comb import (
     paint_comb,
 )
 from outlinebench.app.finding_marks import FRAME_REACH_PX, finding_at, paint_finding_marks
-from outlinebench.app.preview_painter import paint_flatten_preview, paint_offset_preview
+from outlinebench.app.preview_painter import (
+    paint_fix_preview,
+    paint_flatten_preview,
+    paint_offset_preview,
+)
 from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
 from outlinebench.diagnostics import Finding
 from outlinebench.model.document import Document
@@ -151,6 +155,9 @@ class Canvas(QWidget):
         self.flatten_preview = None
         self.flatten_label: str | None = None
         self.offset_preview = None
+        # A fix being previewed (app.fix_preview.FixPreview) and its label (the change).
+        self.fix_preview = None
+        self.fix_label: str | None = None
         self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
         self.setMouseTracking(True)
         self.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
@@ -368,11 +375,22 @@ class Canvas(QWidget):
         self._backdrop = None
         self.update()
 
+    def set_fix_preview(self, fix=None, label: str | None = None) -> None:
+        """Show (or, with None, hide) a fix being previewed: the old outline ghosted, the new
+        one drawn, ``label`` beside the finding."""
+        self.fix_preview = fix
+        self.fix_label = label
+        self._backdrop = None
+        self.update()
+
     def _paint_previews(self, p: QPainter) -> None:
         if self.offset_preview is not None:
             paint_offset_preview(p, self.view, self.offset_preview)
         if self.flatten_preview is not None:
             paint_flatten_preview(p, self.view, self.flatten_preview, self.flatten_label)
+        fix = self.fix_preview
+        if fix is not None and fix.before is self.document:
+            paint_fix_preview(p, self.view, fix, self.fix_label)
 
     def _live_outlines(self, doc: Document) -> set[int] | None:
         """Outlines a gesture in progress has changed, or None when no gesture is running.

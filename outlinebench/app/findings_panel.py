@@ -6,6 +6,11 @@ join), the measured value with its unit in the document's units, and the positio
 are sorted by severity (errors first), then in document order; clicking a column header sorts
 by that column instead. A count line sums up the document, and "Show info" hides or shows the
 info-level findings (on the canvas too). Clicking a row asks the window to show that place.
+
+Repairs at hand: "Fix…" (and the row's context menu) asks the window to preview the picked
+finding's fix; the fix bar under the list then shows the measured change and the fix's note
+(or why it is refused) with Apply and Cancel. The context menu also offers "Fix all findings
+of this kind".
 """
 
 from __future__ import annotations
@@ -28,9 +33,11 @@ from PySide6.QtCore import (
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QCheckBox,
+    QFrame,
     QHBoxLayout,
     QHeaderView,
     QLabel,
+    QMenu,
     QPushButton,
     QTreeView,
     QVBoxLayout,
@@ -150,12 +157,18 @@ COLUMN_SAMPLES = (
 )
 
 
+# Room around a cell's text (Qt's item margins, 3 px a side, and 1 px to spare) and beside
+# it for the severity icon (16 px and its margins); Qt's own measure of the cells,
+# sizeHintForColumn, is no wider (test_findings_panel).
+CELL_PAD_PX = 7
+ICON_ROOM_PX = 22
+
+
 def column_widths(metrics) -> list[int]:
     """Starting widths (logical px) of the list's columns for a font's metrics: each sample
     text of :data:`COLUMN_SAMPLES` plus the cell's padding (and the icon in the first)."""
-    pad = 12
-    widths = [metrics.horizontalAdvance(t) + pad for t in COLUMN_SAMPLES]
-    widths[0] += 20  # the severity icon
+    widths = [metrics.horizontalAdvance(t) + CELL_PAD_PX for t in COLUMN_SAMPLES]
+    widths[0] += ICON_ROOM_PX
     return widths
 
 
@@ -270,18 +283,27 @@ class FindingsPanel(QWidget):
         "Show info" was toggled.
     settings_requested
         The tolerance button was pressed.
+    fix_requested(object), fix_all_requested(object)
+        Preview the fix of a finding (user units; None from the button when no row is
+        current: the finding the window shows); fix every finding of its kind.
+    fix_applied, fix_cancelled
+        The fix bar's Apply or Cancel was pressed.
     """
 
     picked = Signal(object)
     filter_changed = Signal(bool)
     settings_requested = Signal()
+    fix_requested = Signal(object)
+    fix_all_requested = Signal(object)
+    fix_applied = Signal()
+    fix_cancelled = Signal()
 
     def __init__(self, live: LiveFindings, units, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._live = live
         self._units = units
         lay = QVBoxLayout(self)
-        lay.setContentsMargins(6, 6, 6, 6)
+        lay.setContentsMargins(4, 6, 4, 6)
         self.summary = QLabel("")
         self.summary.setWordWrap(True)
         lay.addWidget(self.summary)
@@ -295,6 +317,14 @@ class FindingsPanel(QWidget):
         self.show_info.toggled.connect(self._on_filter)
         row.addWidget(self.show_info)
         row.addStretch(1)
+        self.fix_button = QPushButton("Fix…")
+        self.fix_button.setToolTip(
+            "Preview the picked finding's fix: the measured change (proven Hausdorff distance) "
+            "is shown before anything is applied"
+        )
+        self.fix_button.setEnabled(False)
+        self.fix_button.clicked.connect(self._on_fix_button)
+        row.addWidget(self.fix_button)
         self.tolerances = QPushButton("Tolerances…")
         self.tolerances.setToolTip("Gap, kink angle, corner angle and curvature jump limits")
         self.tolerances.clicked.connect(self.settings_requested.emit)
@@ -313,13 +343,41 @@ class FindingsPanel(QWidget):
         header = self.view.header()
         header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         header.setStretchLastSection(True)
-        for col, width in enumerate(column_widths(self.view.fontMetrics())):
+        widths = column_widths(self.view.fontMetrics())
+        for col, width in enumerate(widths):
+            # never narrower than the header's own text and sort arrow; the last column
+            # stretches into the rest of the list (its header reads whole there)
+            if col < len(widths) - 1:
+                width = max(width, header.sectionSizeHint(col))
             self.view.setColumnWidth(col, width)
+        self.view.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
+        self.view.customContextMenuRequested.connect(self._on_context_menu)
         self.view.clicked.connect(self._on_row)
         self.view.activated.connect(self._on_row)
         # Walking the list with the arrow keys shows each finding in turn.
         self.view.selectionModel().currentRowChanged.connect(self._on_current_row)
         lay.addWidget(self.view, 1)
+        # The fix bar: a fix being previewed, its measured change and note, Apply / Cancel.
+        self.fix_bar = QFrame()
+        self.fix_bar.setFrameShape(QFrame.Shape.StyledPanel)
+        bar = QVBoxLayout(self.fix_bar)
+        bar.setContentsMargins(6, 4, 6, 4)
+        self.fix_text = QLabel("")
+        self.fix_text.setWordWrap(True)
+        self.fix_text.setTextFormat(Qt.TextFormat.RichText)
+        bar.addWidget(self.fix_text)
+        buttons = QHBoxLayout()
+        buttons.addStretch(1)
+        self.fix_apply = QPushButton("Apply")
+        self.fix_apply.setToolTip("Apply this fix (one undo step)")
+        self.fix_apply.clicked.connect(self.fix_applied.emit)
+        self.fix_cancel = QPushButton("Cancel")
+        self.fix_cancel.clicked.connect(self.fix_cancelled.emit)
+        buttons.addWidget(self.fix_apply)
+        buttons.addWidget(self.fix_cancel)
+        bar.addLayout(buttons)
+        self.fix_bar.hide()
+        lay.addWidget(self.fix_bar)
         self._timer = QTimer(self)
         self._timer.setSingleShot(True)
         self._timer.setInterval(LIST_THROTTLE_MS)
@@ -373,6 +431,7 @@ class FindingsPanel(QWidget):
         original = self.shown_findings()
         shown = self._converted(original, units)
         self.model.set_findings(shown, original, units)
+        self.fix_button.setEnabled(bool(original))
         self._refresh_summary()
 
     def _converted(self, original: Sequence[Finding], units: DisplayUnits) -> list[Finding]:
@@ -417,3 +476,44 @@ class FindingsPanel(QWidget):
     def _on_row(self, index: QModelIndex) -> None:
         if index.isValid():
             self.picked.emit(self.model.finding(index.row()))
+
+    # -- repairs at hand ----------------------------------------------------------------
+    def current_finding(self) -> Finding | None:
+        """The finding of the list's current row (user units), or None."""
+        index = self.view.currentIndex()
+        if not index.isValid() or index.row() >= self.model.rowCount():
+            return None
+        return self.model.finding(index.row())
+
+    def _on_fix_button(self) -> None:
+        # the list's current row, or None: the window then takes the finding it shows
+        self.fix_requested.emit(self.current_finding())
+
+    def context_menu_for(self, row: int) -> QMenu:
+        """The context menu of a row: fix this finding, fix all of its kind."""
+        f = self.model.finding(row)
+        menu = QMenu(self)
+        act = menu.addAction(f"Fix this {f.kind}…")
+        act.triggered.connect(lambda: self.fix_requested.emit(f))
+        act_all = menu.addAction(f"Fix all {f.kind} findings")
+        act_all.setToolTip("In the selected contours if any are selected, else everywhere")
+        act_all.triggered.connect(lambda: self.fix_all_requested.emit(f))
+        return menu
+
+    def _on_context_menu(self, pos) -> None:
+        index = self.view.indexAt(pos)
+        if not index.isValid():
+            return
+        self.view.setCurrentIndex(index)
+        self.context_menu_for(index.row()).exec(self.view.viewport().mapToGlobal(pos))
+
+    def show_fix(self, html: str, can_apply: bool) -> None:
+        """Show the fix bar with ``html``; Apply is offered only when ``can_apply``."""
+        self.fix_text.setText(html)
+        self.fix_apply.setVisible(can_apply)
+        self.fix_cancel.setText("Cancel" if can_apply else "Close")
+        self.fix_bar.show()
+
+    def hide_fix(self) -> None:
+        self.fix_bar.hide()
+        self.fix_text.setText("")

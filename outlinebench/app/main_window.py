@@ -34,6 +34,7 @@ from PySide6.QtWidgets import (
 
 from outlinebench import __version__
 from outlinebench.app import dialogs, style
+from outlinebench.app.canvas import PLACE_MIN_PX as PLACE_SIZE_PX
 from outlinebench.app.canvas import Canvas
 from outlinebench.app.canvas_painter import count_points_in_view
 from outlinebench.app.curvature_comb import auto_comb_scale
@@ -46,6 +47,7 @@ from outlinebench.app.cut_preview import (
 from outlinebench.app.cutting_panel import CuttingPanel
 from outlinebench.app.edit_rounding import EDIT_RESOLUTION_MM, edit_decimals, round_edits
 from outlinebench.app.findings_panel import FindingsPanel, column_widths
+from outlinebench.app.fix_preview import FixPreview, change_text, fix_all, preview_fix
 from outlinebench.app.icons import icon
 from outlinebench.app.live_findings import LiveFindings, place_of
 from outlinebench.app.recovery import Recovery, RecoveryStore, stale_recoveries
@@ -85,6 +87,9 @@ FINDINGS_DOCK_WIDTH = 380
 # panel and a canvas of 40 % of the width (at 1280 px the findings dock gives way to the
 # canvas, see _fit_findings_dock); smaller screens get their available size.
 DEFAULT_WINDOW_SIZE = (1440, 900)
+# While a fix is previewed the canvas zooms in until its measured change spans this many
+# logical px (common practice, no source: a few pixels tell dashed from solid).
+FIX_CHANGE_PX = 4.0
 # Share of the window's width the canvas keeps when the docks would take more (common
 # practice, no source).
 MIN_CANVAS_SHARE = 0.4
@@ -116,6 +121,7 @@ Ctrl: keep the two handles equal</td></tr>
 <tr><td>Ctrl+wheel</td><td>zoom at the pointer</td></tr>
 <tr><td>Middle-drag, Space+drag</td><td>pan</td></tr>
 <tr><td>Hover a finding mark</td><td>what was found there</td></tr>
+<tr><td>Right-click a finding</td><td>fix it (preview first) / fix all of its kind</td></tr>
 </table>
 <h3>Keys</h3>
 <table cellspacing=4>
@@ -126,6 +132,8 @@ Ctrl: keep the two handles equal</td></tr>
 <tr><td>Delete, Backspace</td><td>delete points (neighbours refitted)</td></tr>
 <tr><td>Ctrl+Shift+C, R</td><td>close / reverse the contour</td></tr>
 <tr><td>N, Shift+N</td><td>next / previous finding</td></tr>
+<tr><td>Ctrl+Shift+F, Ctrl+Shift+A</td><td>preview the shown finding's fix / fix all of its
+kind (selection, else everything)</td></tr>
 <tr><td>F, Ctrl++, Ctrl+−</td><td>fit, zoom in, zoom out</td></tr>
 <tr><td>Ctrl+Shift+K, [ ]</td><td>curvature comb, shorter / longer teeth</td></tr>
 <tr><td>Enter, Esc</td><td>finish an open contour / cancel</td></tr>
@@ -278,6 +286,12 @@ class MainWindow(QMainWindow):
         self.findings_panel.filter_changed.connect(lambda _on: self._on_findings_updated())
         self.findings_panel.picked.connect(self.show_finding)
         self.findings_panel.settings_requested.connect(self.edit_tolerances)
+        self.fix_preview: FixPreview | None = None  # a fix being previewed
+        self.findings_panel.fix_requested.connect(self.preview_fix)
+        self.findings_panel.fix_all_requested.connect(self.fix_all_of_kind)
+        self.findings_panel.fix_applied.connect(self.apply_fix)
+        self.findings_panel.fix_cancelled.connect(self.cancel_fix)
+        self.session.changed.connect(self._drop_stale_fix)
         self._build_actions()
         self._build_menus_and_toolbar()
         self._build_status_bar()
@@ -320,10 +334,22 @@ class MainWindow(QMainWindow):
         if not hasattr(self, "findings_dock"):
             return
         right = self.selection_dock
-        right_w = max(right.width(), right.minimumSizeHint().width())
-        room = int(self.width() * (1.0 - MIN_CANVAS_SHARE)) - right_w - 14
-        room = max(room, self.findings_panel.minimumSizeHint().width())
-        width = min(self._findings_dock_width(), room)
+        need = self._findings_dock_width()
+        share = int(self.width() * (1.0 - MIN_CANVAS_SHARE)) - 14
+        right_min = right.minimumSizeHint().width()
+        right_pref = max(right.sizeHint().width(), right_min)
+        if share - right_pref < need:
+            # Narrow window (1280 px): the selection panel keeps only its least width (labels
+            # whole, fields as wide as their widest text) so the list's four columns fit;
+            # the dock area follows only when told (resizeDocks).
+            right.setMaximumWidth(right_min)
+            self.resizeDocks([right], [right_min], Qt.Orientation.Horizontal)
+            right_w = right_min
+        else:
+            right.setMaximumWidth(16777215)  # QWIDGETSIZE_MAX: as wide as the user drags
+            right_w = max(right.width(), right_min)
+        room = max(share - right_w, self.findings_panel.minimumSizeHint().width())
+        width = min(need, room)
         # Minimum and maximum of the panel (not resizeDocks, which Qt may apply later or not
         # at all before the first frames): the dock layout honours them at once.
         self.findings_panel.setMinimumWidth(width)
@@ -337,8 +363,17 @@ class MainWindow(QMainWindow):
         """Starting width of the findings dock: its four columns whole (column_widths), the
         list's frame and scroll bar and the dock's margins, at least FINDINGS_DOCK_WIDTH."""
         view = self.findings_panel.view
-        columns = sum(column_widths(view.fontMetrics()))
-        extra = view.verticalScrollBar().sizeHint().width() + 2 * view.frameWidth() + 14
+        # the last column stretches into what is left: its cells need only their text
+        widths = column_widths(view.fontMetrics())
+        columns = sum(max(w, view.columnWidth(c)) for c, w in enumerate(widths[:-1]))
+        columns += widths[-1]
+        m = self.findings_panel.layout().contentsMargins()
+        extra = (
+            view.verticalScrollBar().sizeHint().width()
+            + 2 * view.frameWidth()
+            + m.left()
+            + m.right()
+        )
         return max(FINDINGS_DOCK_WIDTH, columns + extra)
 
     # -- actions ------------------------------------------------------------------------
@@ -443,6 +478,25 @@ class MainWindow(QMainWindow):
         self.act_tolerances = self._action(
             "Check &tolerances…", self.edit_tolerances, tip="Gap, kink, corner and curvature limits"
         )
+        self.act_fix = self._action(
+            "&Fix the shown finding…",
+            lambda: self.preview_fix(None),
+            "Ctrl+Shift+F",
+            tip="Preview the fix of the finding shown (picked in the list): the measured change "
+            "comes first, Apply does it as one undo step",
+        )
+        self.act_fix_all = self._action(
+            "Fix &all findings of this kind",
+            lambda: self.fix_all_of_kind(None),
+            "Ctrl+Shift+A",
+            tip="Fix every finding of the shown finding's kind in the selected contours (or "
+            "the whole drawing when nothing is selected), as one undo step",
+        )
+        self.act_max_change = self._action(
+            "Allowed &change of a fix…",
+            self.edit_tolerances,
+            tip="The largest shape change a fix may make (in the tolerances dialog)",
+        )
         self.act_break_joins = self._action(
             "&Break smooth joins while dragging",
             self._set_break_joins,
@@ -514,6 +568,12 @@ class MainWindow(QMainWindow):
             self.act_units[name] = act
         m_view.addAction(self.findings_dock.toggleViewAction())
         m_view.addAction(self.cutting_dock.toggleViewAction())
+        m_fix = mb.addMenu("Fi&x")
+        m_fix.addAction(self.act_fix)
+        m_fix.addAction(self.act_fix_all)
+        m_fix.addSeparator()
+        m_fix.addAction(self.act_max_change)
+        self.menu_fix = m_fix
         m_cut = mb.addMenu("C&ut")
         self.act_flatten_preview = m_cut.addAction("&Flattening preview")
         self.act_flatten_preview.setCheckable(True)
@@ -720,10 +780,14 @@ class MainWindow(QMainWindow):
 
     def edit_tolerances(self) -> bool:
         """Ask for new check tolerances; True when they were changed."""
-        dlg = TolerancesDialog(self.live.settings, self.session.units, self)
+        dlg = TolerancesDialog(
+            self.live.settings, self.session.units, self, self.prefs.max_change_mm()
+        )
         if self.run_dialog(dlg) != QDialog.DialogCode.Accepted:
             return False
+        self.prefs.set_max_change_mm(dlg.result_max_change_mm())
         self.live.set_settings(dlg.result_settings())
+        self._renew_fix_preview()
         self.prefs.set_check_settings(self.live.settings)
         self.session.close_gap = self._gap_user()
         s = self.live.settings
@@ -1083,6 +1147,125 @@ class MainWindow(QMainWindow):
         )
         return True
 
+    # -- repairs at hand ----------------------------------------------------------------
+    def max_change_user(self) -> float:
+        """The allowed change of a fix in the document's user units."""
+        doc = self.session.document
+        mm = self.prefs.max_change_mm()
+        return mm / doc.mm_per_unit if doc.mm_per_unit > 0 else mm
+
+    def preview_fix(self, f: Finding | None = None) -> FixPreview | None:
+        """Compute the fix of ``f`` (default: the finding shown) and show it: the measured
+        change and note in the findings panel's fix bar, the old outline ghosted and the new
+        one on the canvas; a refusal shows its reason. Nothing changes until Apply."""
+        f = f if f is not None else self.current_finding
+        if f is None or f not in self.live.findings:
+            self._show_message("Fix: pick a finding in the list first")
+            return None
+        if f is not self.current_finding:
+            self.show_finding(f)
+        u = self.session.units
+        limit = self.max_change_user()
+        fp = preview_fix(
+            self.session.document, f, max_change=limit, units=u, settings=self.live.settings
+        )
+        self.fix_preview = fp
+        line = fp.summary(u, limit)
+        if fp.ok:
+            assert fp.change is not None
+            html = (
+                f"<b>Fix {f.kind}</b> ({fp.repair_kind}) at {f.x * u.factor:.1f}, "
+                f"{f.y * u.factor:.1f}<br>the outline moves by at most "
+                f"<b>{change_text(u, fp.change)}</b> (proven; allowed "
+                f"{change_text(u, limit)})<br><span style='color:#5b6670'>{fp.note}</span>"
+            )
+            self._zoom_to_see_change(fp)
+            self.canvas.set_fix_preview(fp, f"fix: ≤ {change_text(u, fp.change)}")
+        else:
+            html = f"<b>Fix {f.kind}</b>: <span style='color:#c3122f'>refused</span> — {fp.refusal}"
+            self.canvas.set_fix_preview(None)
+        self.findings_panel.show_fix(html, fp.ok)
+        self._show_message(line)
+        return fp
+
+    def _zoom_to_see_change(self, fp: FixPreview) -> None:
+        """Zoom in on the finding until the change spans FIX_CHANGE_PX on screen, but not
+        beyond the zoom where the changed contours span four canvas widths (a change far
+        below a pixel is then reported in numbers, not seen); never zooms out."""
+        if not fp.change or not fp.new_contours:
+            return
+        pts = np.vstack([s for c in fp.old_contours + fp.new_contours for s in c.segments])
+        extent = float(np.max(pts.max(axis=0) - pts.min(axis=0)))
+        scale = FIX_CHANGE_PX / fp.change
+        if extent > 0:
+            scale = min(scale, 4.0 * self.canvas.width() / extent)
+        if scale > self.canvas.view.scale:
+            self.canvas.show_place(fp.finding.x, fp.finding.y, PLACE_SIZE_PX / scale)
+
+    def apply_fix(self) -> bool:
+        """Apply the fix being previewed as one undo step; True when applied."""
+        fp = self.fix_preview
+        if fp is None or not fp.ok or fp.command is None:
+            return False
+        if fp.before is not self.session.document:
+            self.cancel_fix()
+            self._show_message("Fix: the drawing changed since the preview; preview it again")
+            return False
+        u = self.session.units
+        assert fp.change is not None
+        fp.command.label = f"Fix {fp.finding.kind} ({fp.repair_kind})"  # the Undo menu's words
+        done = self.session.do(fp.command)
+        self.cancel_fix()
+        if done:
+            self._show_message(
+                f"Fixed {fp.finding.kind} ({fp.repair_kind}): moved by at most "
+                f"{change_text(u, fp.change)} — {fp.note}"
+            )
+        return done
+
+    def cancel_fix(self) -> None:
+        """Leave the fix preview; the drawing is as it was."""
+        self.fix_preview = None
+        self.canvas.set_fix_preview(None)
+        self.findings_panel.hide_fix()
+
+    def _drop_stale_fix(self) -> None:
+        fp = self.fix_preview
+        if fp is not None and fp.before is not self.session.document:
+            self.cancel_fix()
+
+    def selected_contour_numbers(self) -> set[int]:
+        """Global numbers (as the findings list gives them) of the contours with a selected
+        point."""
+        s = self.session
+        return {s.global_contour(o, c) for o, c, *_ in s.selected_points()}
+
+    def fix_all_of_kind(self, f: Finding | None = None):
+        """Fix every finding of ``f``'s kind (default: the finding shown) in the selected
+        contours, or the whole drawing when nothing is selected, as one undo step; the status
+        bar says how many were fixed and refused, and the largest change."""
+        f = f if f is not None else self.current_finding
+        if f is None:
+            self._show_message("Fix all: pick a finding in the list first (its kind is fixed)")
+            return None
+        self.cancel_fix()
+        picked = self.selected_contour_numbers()
+        scope = f"{len(picked)} selected contours" if picked else "the whole drawing"
+        result = fix_all(
+            self.session.document,
+            f.kind,
+            max_change=self.max_change_user(),
+            settings=self.live.settings,
+            contours=picked or None,
+            units=self.session.units,
+        )
+        if result.command is not None:
+            self.session.do(result.command)
+        text = result.summary(self.session.units, f.kind, scope)
+        self.findings_panel.show_fix(text, False)  # stays until closed (the status bar fades)
+        self._show_message(text)
+        return result
+
     # -- cutting previews ---------------------------------------------------------------
     def _gap_user(self) -> float:
         doc = self.session.document
@@ -1141,9 +1324,10 @@ class MainWindow(QMainWindow):
                 self.offset_result = op
                 misfit = sum(p.kind == "tool-does-not-fit" for p in op.places)
                 lost = len(op.vanished)
+                n_off = len(op.polylines)
                 c.offset_info.setText(
-                    f"<b>{len(op.polylines)} offset contours</b> · tool does not fit at "
-                    f"{misfit} places · "
+                    f"<b>{n_off} offset contour{'' if n_off == 1 else 's'}</b> · tool does "
+                    f"not fit at {misfit} place{'' if misfit == 1 else 's'} · "
                     + (
                         f"<span style='color:#c3122f'><b>material vanishes at {lost}</b></span>"
                         if lost
@@ -1223,6 +1407,13 @@ class MainWindow(QMainWindow):
         self.findings_panel.refresh()
         self._on_tool_changed(self.session.tool_name)
         self.update_previews()
+        self._renew_fix_preview()
+
+    def _renew_fix_preview(self) -> None:
+        """Measure the fix being previewed again (the unit or the allowed change changed)."""
+        fp = self.fix_preview
+        if fp is not None and fp.before is self.session.document:
+            self.preview_fix(fp.finding)
 
     def help_about_text(self) -> str:
         rec = str(self.recovery.folder) if self.recovery is not None else "(recovery is off)"

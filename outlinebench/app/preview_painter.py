@@ -4,14 +4,15 @@ Flattening preview: every chord in blue over the outline, its vertices as small 
 they are far enough apart to tell, and the place of the largest deviation ringed with its
 value. Offset preview: the offset outline in green (the tool centre's path), the tool drawn as
 a dashed circle of its true radius at each place it cannot fit, and a crimson cross with the
-word "vanishes" where material is lost.
+word "vanishes" where material is lost. Fix preview: the contours a fix replaces ghosted, the
+ones it makes in violet, with the measured change beside the finding.
 """
 
 from __future__ import annotations
 
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt
-from PySide6.QtGui import QColor, QFont, QPainter, QPainterPath, QPen, QPolygonF
+from PySide6.QtGui import QColor, QFont, QPainter, QPainterPath, QPen, QPolygonF, QTransform
 
 from outlinebench.app.cut_preview import FlattenPreview, OffsetPreview
 from outlinebench.app.view_transform import ViewTransform
@@ -19,6 +20,9 @@ from outlinebench.app.view_transform import ViewTransform
 __all__ = [
     "paint_flatten_preview",
     "paint_offset_preview",
+    "paint_fix_preview",
+    "FIXED",
+    "GHOST",
     "CHORD",
     "OFFSET",
     "VANISH",
@@ -30,6 +34,9 @@ CHORD = QColor("#1f5fbf")  # chords of the flattening preview
 OFFSET = QColor("#2b8a3e")  # the offset outline
 TOOL = QColor(43, 138, 62, 150)  # the tool circle where it does not fit
 VANISH = QColor("#c3122f")  # material lost: same crimson as error findings
+FIXED = QColor("#6a2c9c")  # the outline a fix makes: violet, unlike every other mark
+GHOST = QColor("#4a525a")  # the outline a fix replaces, dashed
+GHOST_WASH = QColor(251, 250, 246, 200)  # fades the replaced outline drawn beneath
 # Chord vertices are ticked only when neighbouring ticks are at least this far apart on
 # screen (logical px) on average; closer, they would merge into a thick line.
 VERTEX_MIN_GAP_PX = 6.0
@@ -134,3 +141,45 @@ def paint_offset_preview(
         if label_vanished:
             _label(p, c, "vanishes", VANISH)
     p.restore()
+
+
+def paint_fix_preview(p: QPainter, view: ViewTransform, fix, label: str | None = None) -> None:
+    """A fix being previewed (:class:`outlinebench.app.fix_preview.FixPreview`): the contours
+    it replaces ghosted (faded under a paper-coloured wash, then dashed grey over everything),
+    the contours it makes drawn solid in violet, and ``label`` (the measured change) beside the
+    finding."""
+    from outlinebench.app.contour_graphics import contour_path  # the outline's own paths
+
+    p.save()
+    p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+    old = QPainterPath()
+    for c in fix.old_contours:
+        old.addPath(contour_path(c))
+    new = QPainterPath()
+    for c in fix.new_contours:
+        new.addPath(contour_path(c))
+    p.setTransform(
+        p.transform() * QTransform(view.scale, 0, 0, view.scale, view.offset_x, view.offset_y)
+    )
+    p.setBrush(Qt.BrushStyle.NoBrush)
+    wash = QPen(GHOST_WASH, 5.0)
+    wash.setCosmetic(True)
+    p.setPen(wash)
+    p.drawPath(old)
+    pen = QPen(FIXED, 2.0)
+    pen.setCosmetic(True)
+    p.setPen(pen)
+    p.drawPath(new)
+    # the old outline dashed on top: where the two coincide the dashes lie on the violet
+    ghost = QPen(GHOST, 1.2, Qt.PenStyle.DashLine)
+    ghost.setCosmetic(True)
+    p.setPen(ghost)
+    p.drawPath(old)
+    p.restore()
+    if label:
+        p.save()
+        p.setRenderHint(QPainter.RenderHint.Antialiasing, True)
+        # clear of the finding's frame (about 14 px across at most) drawn over it
+        at = QPointF(*view.to_screen(fix.finding.x, fix.finding.y)) + QPointF(12.0, -8.0)
+        _label(p, at, label, FIXED)
+        p.restore()

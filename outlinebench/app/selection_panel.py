@@ -44,8 +44,14 @@ ANGLE_DECIMALS = 3  # degrees shown to 0.001°
 DRAG_REFRESH_MS = 50
 _BIG = 1e9
 
+# Least width of a number field, logical px: its widest text, the special value "no handle
+# (line)", whole at the default font; the panel's least width then leaves the canvas 40 % of a
+# 1280 px window beside the findings list (test_main_window, test_selection_panel).
+FIELD_MIN_WIDTH = 104
+PANEL_MIN_WIDTH = 246
+
 _JOIN_CHOICES = [
-    ("smooth", "smooth (tangents kept in line)"),
+    ("smooth", "smooth"),
     ("corner", "corner"),
     (None, "not stated"),
 ]
@@ -65,6 +71,14 @@ class NumberField(QDoubleSpinBox):
         event.ignore()
 
 
+def _note_label() -> QLabel:
+    """A small grey line under a field, right-aligned under it."""
+    label = QLabel("")
+    label.setStyleSheet("color: #5b6670;")
+    label.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+    return label
+
+
 def _special(box: QDoubleSpinBox, text: str) -> None:
     """Set the text shown at the minimum value. Qt re-measures the field (and lays out the
     panel again, repainting all of it) on every call, even with the same text: during a drag
@@ -82,7 +96,7 @@ def _spin(suffix: str, decimals: int, lo: float = -_BIG, hi: float = _BIG) -> QD
     box.setKeyboardTracking(False)  # commit on Enter / focus out, not on every keystroke
     box.setButtonSymbols(QDoubleSpinBox.ButtonSymbols.NoButtons)
     box.setAlignment(Qt.AlignmentFlag.AlignRight)
-    box.setMinimumWidth(120)
+    box.setMinimumWidth(FIELD_MIN_WIDTH)
     return box
 
 
@@ -97,7 +111,7 @@ class SelectionPanel(QWidget):
     def __init__(self, editor: EditorSession, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._editor = editor
-        self.setMinimumWidth(270)  # labels and 120-px fields fit (test_selection_panel)
+        self.setMinimumWidth(PANEL_MIN_WIDTH)  # labels and fields fit (test_selection_panel)
         lay = QVBoxLayout(self)
         self.summary = QLabel("Nothing selected. Click a point on the canvas.")
         self.summary.setWordWrap(True)
@@ -124,6 +138,11 @@ class SelectionPanel(QWidget):
         self.join = QComboBox()
         for value, text in _JOIN_CHOICES:
             self.join.addItem(text, value)
+        self.join.setItemData(0, "Tangents kept in line at this point", Qt.ItemDataRole.ToolTipRole)
+        self.join.setItemData(1, "The outline may turn here", Qt.ItemDataRole.ToolTipRole)
+        self.join.setItemData(
+            2, "The file states no intent: judged by the angle", Qt.ItemDataRole.ToolTipRole
+        )
         self.join_label = QLabel("Join intent")
         f.addRow(self.join_label, self.join)
         lay.addWidget(self.point_box)
@@ -155,8 +174,14 @@ class SelectionPanel(QWidget):
             )
         self.seg_in_label = QLabel("Incoming")
         self.seg_out_label = QLabel("Outgoing")
+        # Which segment each field measures ("segment 3, cubic") on its own line below it:
+        # beside the short row label it would widen the panel past its place at 1280 px.
+        self.seg_in_kind = _note_label()
+        self.seg_out_kind = _note_label()
         s.addRow(self.seg_in_label, self.seg_in)
+        s.addRow(self.seg_in_kind)
         s.addRow(self.seg_out_label, self.seg_out)
+        s.addRow(self.seg_out_kind)
         # the segment each length field edits: (outline, contour, segment) or None
         self._seg_keys: tuple[tuple[int, int, int] | None, tuple[int, int, int] | None] = (
             None,
@@ -175,7 +200,8 @@ class SelectionPanel(QWidget):
         self.key_button = QToolButton()
         self.key_button.setCheckable(True)
         self.key_button.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextBesideIcon)
-        self.key_button.setText("Key: how points and findings are drawn")
+        self.key_button.setText("Key to the marks")
+        self.key_button.setToolTip("How points, joins and findings are drawn on the canvas")
         self.key_button.setStyleSheet("QToolButton { border: none; font-weight: bold; }")
         self.key_button.clicked.connect(self._on_key_clicked)
         lay.addWidget(self.key_button)
@@ -326,6 +352,8 @@ class SelectionPanel(QWidget):
         for w in (self.seg_in, self.seg_out):
             _special(w, " ")
             w.setValue(w.minimum())
+        self.seg_in_kind.setText("")
+        self.seg_out_kind.setText("")
         self.contour_info.setText("")
         self.join.setCurrentIndex(2)
 
@@ -390,6 +418,9 @@ class SelectionPanel(QWidget):
             ln.setValue(units.show(length))
             ang.setValue(angle)
 
+    def _kind_label(self, field) -> QLabel:
+        return self.seg_in_kind if field is self.seg_in else self.seg_out_kind
+
     def _show_segment(self, field, label, side: str, o: int, c: int, s: int | None) -> None:
         """One segment's kind and length in ``field`` (editable), or "—" when there is none."""
         index = 0 if field is self.seg_in else 1
@@ -399,6 +430,7 @@ class SelectionPanel(QWidget):
             keys[index] = None
             self._seg_keys = (keys[0], keys[1])
             label.setText(side)
+            self._kind_label(field).setText("")
             field.setValue(field.minimum())
             _special(field, "—")
             return
@@ -406,7 +438,8 @@ class SelectionPanel(QWidget):
         kind = {2: "line", 3: "quadratic", 4: "cubic"}[seg.shape[0]]
         keys[index] = (o, c, s)
         self._seg_keys = (keys[0], keys[1])
-        label.setText(f"{side} (segment {s}, {kind})")
+        label.setText(side)
+        self._kind_label(field).setText(f"segment {s}, {kind}")
         _special(field, "")
         units = self._editor.units
         field.setValue(units.show(segment_length(seg, quick=self._editor.history.in_group)))

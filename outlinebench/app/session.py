@@ -20,6 +20,7 @@ from outlinebench.app import point_keys as pk
 from outlinebench.app.units import MM_PER_UNIT_NAME, DisplayUnits, display_units
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model import commands as cmds
+from outlinebench.model import edit_rules as rules
 from outlinebench.model import tools
 from outlinebench.model.document import Document
 from outlinebench.model.history import History
@@ -239,7 +240,7 @@ class EditorSession(QObject):
         self.message.emit(f"{len(keys)} points selected")
 
     def _selected_contours(self) -> list[tuple[int, int]]:
-        return sorted({(k[0], k[1]) for k in self.selection.refs})
+        return rules.selected_contours(self.selection.refs)
 
     def available_edits(self) -> dict[str, bool]:
         """Which menu edits can do something with the current selection.
@@ -337,34 +338,19 @@ class EditorSession(QObject):
         self.do(cmds.SetPoint(cmds.PointRef(*key), target))
 
     def set_segment_length(self, seg: tuple[int, int, int], length: float) -> None:
-        """Give one segment the arc length ``length`` (document units), as one undoable step.
-
-        The segment is scaled about its start point: every other control point moves to
-        ``p0 + k (p_i - p0)`` with ``k = length / current length``. Uniform scaling multiplies
-        arc length by ``k`` exactly (the integrand ``|B'(t)|`` scales by ``k``), so no
-        iteration is needed; a line's end point simply moves along the line. The end point's
-        other handle moves with it (the rule of :class:`SetPoint`).
-        """
+        """Give one segment the arc length ``length`` (document units), as one undoable step
+        (the segment is scaled about its start point:
+        :func:`outlinebench.model.edit_rules.segment_length_commands`)."""
         from outlinebench.app.lengths import segment_length
 
         o, c, s = seg
-        doc = self.document
-        points = doc.contour(o, c).segments[s]
-        current = segment_length(points)
-        if length <= 0.0 or current <= 0.0:
+        current = segment_length(self.document.contour(o, c).segments[s])
+        try:
+            commands = rules.segment_length_commands(self.document, seg, length, current)
+        except OutlinebenchError:
             self.message.emit("A segment length must be greater than zero")
             return
-        k = length / current
-        p0 = points[0]
-        targets = [p0 + k * (points[i] - p0) for i in range(1, points.shape[0])]
-        last = points.shape[0] - 1
-        # End point first (its handles move with it), then this segment's handles exactly.
-        order = [last, *range(1, last)]
-        ok = self._do_group(
-            "Set segment length",
-            [cmds.SetPoint(cmds.PointRef(o, c, s, i), targets[i - 1]) for i in order],
-        )
-        if ok:
+        if self._do_group("Set segment length", commands):
             self.message.emit(f"Segment {s} is now {self.units.text(length)} long")
 
     def set_join_intent(self, key: pk.Key, intent: str | None) -> None:
@@ -389,9 +375,6 @@ class EditorSession(QObject):
 
     def toggle_join_intent(self) -> None:
         doc = self.document
-        from outlinebench.app.contour_graphics import GraphicsCache
-
-        cache = GraphicsCache()
         todo = []
         for key in self.selection.refs:
             on = key if pk.is_on_curve(doc, key) else pk.owner_of_handle(doc, key)
@@ -399,10 +382,8 @@ class EditorSession(QObject):
             if j is None:
                 continue
             o, c = on[0], on[1]
-            contour = doc.outlines[o].contours[c]
-            mark = cache.get(contour).marks[(j + 1) % len(contour.segments)]
-            new = "corner" if mark.kind == "smooth" else "smooth"
-            todo.append((o, c, j, new))
+            smooth = rules.join_reads_smooth(doc.outlines[o].contours[c], j)
+            todo.append((o, c, j, "corner" if smooth else "smooth"))
         todo = list(dict.fromkeys(todo))
         if not todo:
             self.message.emit("Select an on-curve point where two segments meet")
@@ -414,29 +395,9 @@ class EditorSession(QObject):
         self.message.emit(f"{len(todo)} join(s) now stated as {' / '.join(sorted(kinds))}")
 
     def _selected_segments(self) -> list[tuple[int, int, int]]:
-        """Segments with a selected handle or with both ends selected; else the segment the
-        primary point starts (or ends, at the end of an open contour)."""
-        doc = self.document
-        segs: set[tuple[int, int, int]] = set()
-        sel = set(self.selection.refs)
-        for o, c, s, i in sel:
-            contour = doc.outlines[o].contours[c]
-            k = contour.segments[s].shape[0]
-            if 0 < i < k - 1:
-                segs.add((o, c, s))
-        for oi, o in enumerate(doc.outlines):
-            for ci, contour in enumerate(o.contours):
-                if not any(k[0] == oi and k[1] == ci for k in sel):
-                    continue
-                for s, seg in enumerate(contour.segments):
-                    a = tuple(cmds.canonical_ref(doc, cmds.PointRef(oi, ci, s, 0)))
-                    b = tuple(cmds.canonical_ref(doc, cmds.PointRef(oi, ci, s, seg.shape[0] - 1)))
-                    if a in sel and b in sel:
-                        segs.add((oi, ci, s))
-        if not segs and self.primary is not None:
-            o, c, s, _ = self.primary
-            segs.add((o, c, s))
-        return sorted(segs)
+        """The segments the selection means
+        (:func:`outlinebench.model.edit_rules.selected_segments`)."""
+        return rules.selected_segments(self.document, self.selection.refs, self.primary)
 
     def set_degree(self, degree: int) -> None:
         segs = self._selected_segments()
@@ -460,16 +421,13 @@ class EditorSession(QObject):
             )
 
     def delete_selection(self) -> None:
-        doc = self.document
-        on_curve = [k for k in self.selection.refs if pk.is_on_curve(doc, k)]
+        on_curve = rules.deletion_order(self.document, self.selection.refs)
         if not on_curve:
             if self.selection.refs:
                 self.message.emit(
                     "Handles cannot be deleted alone; make the segment a line instead (Ctrl+1)"
                 )
             return
-        # Delete from the end of each contour backwards so earlier names stay valid.
-        on_curve.sort(key=lambda k: (k[0], k[1], k[2], k[3]), reverse=True)
         done = self._do_group(
             "Delete points" if len(on_curve) > 1 else "Delete point",
             [cmds.DeletePoint(cmds.PointRef(*k)) for k in on_curve],

@@ -15,6 +15,7 @@ from pathlib import Path
 
 from PySide6.QtCore import QByteArray, QSettings, QStandardPaths
 
+from outlinebench.api.repairing import DEFAULT_MAX_CHANGE_MM
 from outlinebench.diagnostics import CheckSettings
 
 __all__ = [
@@ -109,7 +110,8 @@ class Preferences:
     Keys: ``check/<field>`` (tolerances, :data:`TOLERANCE_FIELDS`), ``view/units`` ("" = as
     in the file, else a unit name), ``view/comb_step`` (the comb scale slider), ``view/comb``,
     ``preview/flatten``, ``preview/flatten_tolerance_mm``, ``preview/offset``,
-    ``preview/offset_radius_mm``, ``window/geometry``, ``window/state``.
+    ``preview/offset_radius_mm``, ``repair/max_change_mm`` (the allowed change of a fix,
+    default the command line's ``repair --max-change``), ``window/geometry``, ``window/state``.
     """
 
     def __init__(self, settings: QSettings) -> None:
@@ -137,6 +139,15 @@ class Preferences:
         for f in TOLERANCE_FIELDS:
             self.settings.setValue(f"check/{f}", float(getattr(s, f)))
         self.settings.sync()
+
+    # repairs
+    def max_change_mm(self) -> float:
+        """Allowed shape change of a fix, mm (≥ 0; a bad stored value gives the default)."""
+        v = _float(self._get("repair/max_change_mm", None), DEFAULT_MAX_CHANGE_MM)
+        return v if v >= 0.0 else DEFAULT_MAX_CHANGE_MM
+
+    def set_max_change_mm(self, mm: float) -> None:
+        self._set("repair/max_change_mm", float(mm))
 
     # plain values
     def units(self) -> str:

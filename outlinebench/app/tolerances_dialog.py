@@ -1,4 +1,5 @@
-"""A small dialog for the check tolerances: gap, kink angle, corner angle, curvature jump.
+"""A small dialog for the check tolerances: gap, kink angle, corner angle, curvature jump,
+and the allowed change of a fix (repairs at hand).
 
 Starts from the settings in use; "Restore defaults" puts back the documented defaults of
 :mod:`outlinebench.diagnostics.settings`. The gap is shown in the document's display unit
@@ -20,6 +21,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from outlinebench.api.repairing import DEFAULT_MAX_CHANGE_MM
 from outlinebench.app.units import MM_PER_UNIT_NAME, DisplayUnits
 from outlinebench.diagnostics import CheckSettings
 
@@ -43,11 +45,17 @@ class TolerancesDialog(QDialog):
     settings : CheckSettings
         The settings in use (the other fields are kept as they are).
     units : DisplayUnits
-        The unit the gap is shown in.
+        The unit the gap and the allowed change are shown in.
+    max_change_mm : float
+        The allowed shape change of a fix, mm (``result_max_change_mm()`` gives the new one).
     """
 
     def __init__(
-        self, settings: CheckSettings, units: DisplayUnits, parent: QWidget | None = None
+        self,
+        settings: CheckSettings,
+        units: DisplayUnits,
+        parent: QWidget | None = None,
+        max_change_mm: float = DEFAULT_MAX_CHANGE_MM,
     ) -> None:
         super().__init__(parent)
         self.setWindowTitle("Check tolerances")
@@ -76,7 +84,13 @@ class TolerancesDialog(QDialog):
         form.addRow("Gap:", self.gap)
         form.addRow("Kink angle:", self.kink)
         form.addRow("Corner angle:", self.corner)
+        self.max_change = _box(
+            0.0, 1e6, max(units.decimals, 3) + 1, units.name,
+            "A fix is refused when it would move the outline farther than this (proven "
+            "Hausdorff distance between the old and new outline)",
+        )  # fmt: skip
         form.addRow("Curvature jump:", self.jump)
+        form.addRow("Allowed change of a fix:", self.max_change)
         lay.addLayout(form)
         self.error_label = QLabel("")
         self.error_label.setStyleSheet("color: #c3122f;")
@@ -90,9 +104,18 @@ class TolerancesDialog(QDialog):
         buttons.accepted.connect(self.accept)
         buttons.rejected.connect(self.reject)
         restore = buttons.button(QDialogButtonBox.StandardButton.RestoreDefaults)
-        restore.clicked.connect(lambda: self.show_settings(CheckSettings()))
+        restore.clicked.connect(self._restore_defaults)
         lay.addWidget(buttons)
         self.show_settings(settings)
+        self.max_change.setValue(max_change_mm / self._mm_per_shown)
+
+    def _restore_defaults(self) -> None:
+        self.show_settings(CheckSettings())
+        self.max_change.setValue(DEFAULT_MAX_CHANGE_MM / self._mm_per_shown)
+
+    def result_max_change_mm(self) -> float:
+        """The allowed change of a fix shown, mm."""
+        return self.max_change.value() * self._mm_per_shown
 
     def show_settings(self, s: CheckSettings) -> None:
         self.gap.setValue(s.gap_mm / self._mm_per_shown)

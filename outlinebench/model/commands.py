@@ -16,24 +16,14 @@ result. Bad indices raise :class:`~outlinebench.errors.CommandError` naming what
 
 Addressing points
 -----------------
-A :class:`PointRef` ``(outline, contour, segment, index)`` names control point ``index`` of a
-segment. An on-curve point where two segments meet has two names (the end of the incoming
-segment and the start of the outgoing one); its *canonical* name is the start of the outgoing
-segment, ``index 0``. Only the end point of an open contour is named by its last segment's
-last index. Node ``k`` of a contour is the start of segment ``k`` (and, for an open contour of
-n segments, node ``n`` is its end). :func:`canonical_ref`, :func:`on_curve_refs`,
-:func:`handle_refs` and :func:`point_refs` list and normalise names.
+Points are named by :class:`PointRef` ``(outline, contour, segment, index)``; the naming
+rules (canonical names, nodes) live in :mod:`outlinebench.model.point_names`, and the names
+are exported here too.
 
 Moving points
 -------------
-Moving an on-curve point moves the handles next to it by the same amount (for a quadratic
-its single handle is next to both ends). Moving a handle at a join whose intent is smooth —
-or is unstated but whose tangents currently agree within :data:`SMOOTH_ANGLE_TOLERANCE_DEG` —
-rotates the opposite handle about the on-curve point so the two stay collinear, keeping its
-length; when the opposite side is a line, the moved handle is kept on the line's direction
-instead. ``break_join=True`` moves the handle freely and sets the join's intent to corner;
-``symmetric=True`` mirrors the opposite handle through the on-curve point (same length) and
-sets the intent to smooth.
+How handles follow a moved point (smooth joins keep their handles collinear, a line fixes the
+tangent, ``break_join`` and ``symmetric``) is :mod:`outlinebench.model.handle_rules`.
 """
 
 from __future__ import annotations
@@ -41,14 +31,12 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import replace
-from typing import NamedTuple
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.errors import CommandError, InvalidGeometryError
 from outlinebench.geometry.bezier import KIND_BY_DEGREE, bernstein_matrix, elevate, split
-from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.fit import (
     FIT_SAMPLES_PER_SEGMENT,
     fit_chain,
@@ -61,6 +49,28 @@ from outlinebench.model.document import (
     JoinIntent,
     Outline,
     documents_equal,
+)
+from outlinebench.model.handle_rules import (
+    SMOOTH_ANGLE_TOLERANCE_DEG,
+    _freeze,
+    _move_in_contour,
+)
+from outlinebench.model.point_names import (
+    PointRef,
+    SegmentRef,
+    _check_ref,
+    _check_segment,
+    _contour_at,
+    _group_keys,
+    _key,
+    canonical_ref,
+    handle_refs,
+    is_on_curve,
+    node_of,
+    node_ref,
+    on_curve_refs,
+    point_position,
+    point_refs,
 )
 
 __all__ = [
@@ -92,177 +102,14 @@ __all__ = [
 
 FloatArray = NDArray[np.float64]
 
-# An unstated join counts as smooth while its two tangent directions differ by less than this
-# angle (degrees); then moving one handle turns the other with it.
-SMOOTH_ANGLE_TOLERANCE_DEG = 1.0
 # Default largest shape change (document units, Hausdorff distance) allowed when lowering a
 # segment's degree: 0.01 user units is 2.6 µm at 96 px per inch.
 DEGREE_LOWERING_TOLERANCE = 0.01
 # Samples (uniform in t) used for the least-squares degree lowering.
 _LOWERING_SAMPLES = 65
-# A handle typed next to a smooth join with a line still counts as on the line's direction
-# when it is within this fraction of the line's length (at least 1 unit) of it: rounding of
-# typed coordinates, not a kink.
-_ON_LINE_RELATIVE = 1e-9
 # Units in the last place searched around each inner coordinate when looking for a
 # lower-degree segment that elevates to exactly the given control points.
 _EXACT_LOWERING_ULPS = 4
-
-
-class PointRef(NamedTuple):
-    """Control point ``index`` of segment ``segment`` of a contour of an outline."""
-
-    outline: int
-    contour: int
-    segment: int
-    index: int
-
-
-class SegmentRef(NamedTuple):
-    """Segment ``segment`` of contour ``contour`` of outline ``outline``."""
-
-    outline: int
-    contour: int
-    segment: int
-
-
-# -- validation -----------------------------------------------------------------------------
-
-
-def _contour_at(doc: Document, outline: int, contour: int) -> Contour:
-    if not 0 <= outline < len(doc.outlines):
-        raise CommandError(
-            f"outline {outline} does not exist (the document has {len(doc.outlines)} outlines)"
-        )
-    contours = doc.outlines[outline].contours
-    if not 0 <= contour < len(contours):
-        raise CommandError(
-            f"contour {contour} does not exist in outline {outline} "
-            f"(it has {len(contours)} contours)"
-        )
-    return contours[contour]
-
-
-def _check_segment(c: Contour, outline: int, contour: int, segment: int) -> FloatArray:
-    if not 0 <= segment < len(c.segments):
-        raise CommandError(
-            f"segment {segment} does not exist in contour {contour} of outline {outline} "
-            f"(it has {len(c.segments)} segments)"
-        )
-    return c.segments[segment]
-
-
-def _check_ref(doc: Document, ref: PointRef) -> Contour:
-    c = _contour_at(doc, ref.outline, ref.contour)
-    seg = _check_segment(c, ref.outline, ref.contour, ref.segment)
-    if not 0 <= ref.index < seg.shape[0]:
-        raise CommandError(
-            f"control point {ref.index} does not exist in segment {ref.segment} of contour "
-            f"{ref.contour} of outline {ref.outline} (a {KIND_BY_DEGREE[seg.shape[0] - 1]} "
-            f"has {seg.shape[0]} control points)"
-        )
-    return c
-
-
-# -- point addressing -----------------------------------------------------------------------
-
-# Inside a contour a point is keyed ("n", node) for on-curve points and ("h", segment, index)
-# for handles.
-_Key = tuple
-
-
-def _key(c: Contour, segment: int, index: int) -> _Key:
-    n = len(c.segments)
-    k = c.segments[segment].shape[0]
-    if index == 0:
-        return ("n", segment)
-    if index == k - 1:
-        nxt = segment + 1
-        if nxt == n:
-            return ("n", 0 if c.closed else n)
-        return ("n", nxt)
-    return ("h", segment, index)
-
-
-def node_of(doc: Document, ref: PointRef) -> int | None:
-    """Node number of an on-curve point (start of segment k is node k), None for a handle."""
-    c = _check_ref(doc, ref)
-    key = _key(c, ref.segment, ref.index)
-    return key[1] if key[0] == "n" else None
-
-
-def _node_name(outline: int, contour: int, c: Contour, node: int) -> PointRef:
-    n = len(c.segments)
-    if node < n:
-        return PointRef(outline, contour, node, 0)
-    return PointRef(outline, contour, n - 1, c.segments[n - 1].shape[0] - 1)
-
-
-def node_ref(doc: Document, outline: int, contour: int, node: int) -> PointRef:
-    """Canonical reference of on-curve node ``node`` of a contour."""
-    c = _contour_at(doc, outline, contour)
-    n = len(c.segments)
-    count = n if c.closed else n + 1
-    if n == 0 or not 0 <= node < count:
-        raise CommandError(
-            f"on-curve point {node} does not exist in contour {contour} of outline {outline} "
-            f"(it has {count if n else 0})"
-        )
-    return _node_name(outline, contour, c, node)
-
-
-def canonical_ref(doc: Document, ref: PointRef) -> PointRef:
-    """The canonical name of a control point (see the module docstring)."""
-    c = _check_ref(doc, ref)
-    key = _key(c, ref.segment, ref.index)
-    if key[0] == "h":
-        return PointRef(*ref)
-    return _node_name(ref.outline, ref.contour, c, key[1])
-
-
-def is_on_curve(doc: Document, ref: PointRef) -> bool:
-    """Whether the control point lies on the curve (a segment end point)."""
-    c = _check_ref(doc, ref)
-    return _key(c, ref.segment, ref.index)[0] == "n"
-
-
-def point_position(doc: Document, ref: PointRef) -> FloatArray:
-    """Coordinates of a control point, shape (2,) (a read-only view)."""
-    c = _check_ref(doc, ref)
-    return c.segments[ref.segment][ref.index]
-
-
-def on_curve_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
-    """Canonical references of a contour's on-curve points, in order along it."""
-    c = _contour_at(doc, outline, contour)
-    n = len(c.segments)
-    if n == 0:
-        return []
-    count = n if c.closed else n + 1
-    return [_node_name(outline, contour, c, k) for k in range(count)]
-
-
-def handle_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
-    """References of a contour's handles (off-curve control points), in order along it."""
-    c = _contour_at(doc, outline, contour)
-    return [
-        PointRef(outline, contour, s, i)
-        for s, seg in enumerate(c.segments)
-        for i in range(1, seg.shape[0] - 1)
-    ]
-
-
-def point_refs(doc: Document, outline: int, contour: int) -> list[PointRef]:
-    """Canonical references of every control point of a contour, in order along it."""
-    c = _contour_at(doc, outline, contour)
-    out: list[PointRef] = []
-    n = len(c.segments)
-    for s, seg in enumerate(c.segments):
-        out.append(PointRef(outline, contour, s, 0))
-        out.extend(PointRef(outline, contour, s, i) for i in range(1, seg.shape[0] - 1))
-    if n and not c.closed:
-        out.append(_node_name(outline, contour, c, n))
-    return out
 
 
 # -- command base ---------------------------------------------------------------------------
@@ -362,189 +209,6 @@ def _replace_contours(doc: Document, changes: dict[tuple[int, int], Contour]) ->
         contours = tuple(repl.get(i, x) for i, x in enumerate(old.contours))
         outlines[o] = replace(old, contours=contours)
     return replace(doc, outlines=tuple(outlines))
-
-
-def _freeze(a: FloatArray) -> FloatArray:
-    a.flags.writeable = False
-    return a
-
-
-# -- moving points --------------------------------------------------------------------------
-
-
-def _tangents_agree(incoming: FloatArray, outgoing: FloatArray) -> bool:
-    """Whether the end direction of ``incoming`` and start of ``outgoing`` agree (G1).
-
-    Directions from :func:`~outlinebench.geometry.curvature.end_tangents` (the first
-    non-zero derivative where a handle lies on its point); a segment shrunk to a point has
-    none and never agrees.
-    """
-    _, a = end_tangents(incoming)
-    b, _ = end_tangents(outgoing)
-    if not (a.any() and b.any()):
-        return False
-    cos = float(a[0] * b[0] + a[1] * b[1])
-    return cos >= math.cos(math.radians(SMOOTH_ANGLE_TOLERANCE_DEG))
-
-
-def _node_slots(c: Contour, node: int) -> list[tuple[int, int]]:
-    n = len(c.segments)
-    slots = []
-    if node < n:
-        slots.append((node, 0))
-    if node > 0:
-        slots.append((node - 1, c.segments[node - 1].shape[0] - 1))
-    elif c.closed:
-        slots.append((n - 1, c.segments[n - 1].shape[0] - 1))
-    return slots
-
-
-def _node_handles(c: Contour, node: int) -> list[_Key]:
-    out = []
-    for s, i in _node_slots(c, node):
-        k = c.segments[s].shape[0]
-        if k > 2:
-            out.append(("h", s, 1 if i == 0 else k - 2))
-    return out
-
-
-def _join_at_node(c: Contour, node: int) -> int | None:
-    n = len(c.segments)
-    if c.closed:
-        return (node - 1) % n
-    if 0 < node < n:
-        return node - 1
-    return None
-
-
-def _move_in_contour(
-    c: Contour,
-    keys: Iterable[_Key],
-    delta: FloatArray,
-    *,
-    targets: dict[_Key, FloatArray] | None = None,
-    break_join: bool = False,
-    symmetric: bool = False,
-    move_handles: bool = True,
-) -> Contour:
-    """Move the keyed points of one contour; see the module docstring for the rules."""
-    segs = _LazyCopies(c.segments)
-    joins = list(c.joins)
-    targets = targets or {}
-    keys = list(dict.fromkeys(keys))
-    moved_nodes = {k[1] for k in keys if k[0] == "n"}
-    direct_handles = [k for k in keys if k[0] == "h"]
-    moving: dict[_Key, None] = {}
-    for k in keys:
-        moving[k] = None
-        if k[0] == "n" and move_handles:
-            for h in _node_handles(c, k[1]):
-                moving[h] = None
-
-    def pos(k: _Key) -> FloatArray:
-        if k[0] == "n":
-            s, i = _node_slots(c, k[1])[0]
-            return c.segments[s][i]
-        return c.segments[k[1]][k[2]]
-
-    def put(k: _Key, p: FloatArray) -> None:
-        if k[0] == "n":
-            for s, i in _node_slots(c, k[1]):
-                segs[s][i] = p
-        else:
-            segs[k[1]][k[2]] = p
-
-    for k in moving:
-        put(k, targets[k] if k in targets else pos(k) + delta)
-
-    for h in direct_handles:
-        s, i = h[1], h[2]
-        kk = c.segments[s].shape[0]
-        ends = []
-        if i == 1:
-            ends.append((s, "start"))
-        if i == kk - 2:
-            ends.append((s, "end"))
-        for seg_i, side in ends:
-            n = len(c.segments)
-            node = seg_i if side == "start" else seg_i + 1
-            if node == n and c.closed:
-                node = 0
-            j = _join_at_node(c, node)
-            if j is None or node in moved_nodes:
-                continue
-            inc, out = c.join_segments(j)
-            other = inc if side == "start" else out
-            other_seg = c.segments[other]
-            ko = other_seg.shape[0]
-            opp_key = ("h", other, ko - 2 if side == "start" else 1) if ko > 2 else None
-            if opp_key is not None and opp_key in moving:
-                continue
-            if break_join:
-                joins[j] = "corner"
-                continue
-            intent = c.joins[j]
-            smooth = intent == "smooth" or (
-                intent is None and _tangents_agree(c.segments[inc], c.segments[out])
-            )
-            if not (smooth or symmetric):
-                continue
-            p = pos(("n", node))
-            hp = segs[s][i]
-            if opp_key is None:
-                # The other side is a line: keep the handle on the line's direction. A handle
-                # given exact coordinates (SetPoint) keeps them; if they leave the line's
-                # direction the join becomes a corner, so the stated intent stays true.
-                far = other_seg[0] if side == "start" else other_seg[-1]
-                d = p - far
-                dn = math.hypot(d[0], d[1])
-                if dn > 0.0:
-                    u = d / dn
-                    along = max(0.0, float(np.dot(hp - p, u)))
-                    on_line = p + along * u
-                    if h not in targets:
-                        segs[s][i] = on_line
-                    elif math.hypot(*(hp - on_line)) > _ON_LINE_RELATIVE * max(1.0, dn):
-                        joins[j] = "corner"
-                continue
-            if symmetric:
-                segs[opp_key[1]][opp_key[2]] = 2.0 * p - hp
-                joins[j] = "smooth"
-                continue
-            away = p - hp
-            an = math.hypot(away[0], away[1])
-            op = c.segments[opp_key[1]][opp_key[2]]
-            length = math.hypot(op[0] - p[0], op[1] - p[1])
-            if an > 0.0 and length > 0.0:
-                segs[opp_key[1]][opp_key[2]] = p + away * (length / an)
-    out_segs = list(c.segments)
-    for i, new in segs.copies.items():
-        if not np.array_equal(out_segs[i], new):
-            out_segs[i] = _freeze(new)
-    return c.with_segments(out_segs, joins)
-
-
-class _LazyCopies:
-    """Writable copies of a contour's segments, made only for the segments touched."""
-
-    def __init__(self, segments: tuple[FloatArray, ...]) -> None:
-        self.segments = segments
-        self.copies: dict[int, FloatArray] = {}
-
-    def __getitem__(self, i: int) -> FloatArray:
-        arr = self.copies.get(i)
-        if arr is None:
-            arr = self.copies[i] = self.segments[i].copy()
-        return arr
-
-
-def _group_keys(doc: Document, refs: Iterable[PointRef]) -> dict[tuple[int, int], list[_Key]]:
-    groups: dict[tuple[int, int], list[_Key]] = {}
-    for r in refs:
-        r = PointRef(*r)
-        c = _check_ref(doc, r)
-        groups.setdefault((r.outline, r.contour), []).append(_key(c, r.segment, r.index))
-    return groups
 
 
 def _as_xy(v: ArrayLike, what: str) -> FloatArray:

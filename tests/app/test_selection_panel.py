@@ -36,7 +36,8 @@ def test_panel_shows_point_handles_and_segments_in_mm(window):
     assert panel.out_ang.value() == pytest.approx(0.0)
     # The line segment 3 of the bowl from (90,50) to (60,50): 30 units (closed form).
     window.session.set_selection([(0, 0, 2, 0)])
-    assert "line" in panel.seg_out_label.text() and panel.seg_out.text() == f"{30 * MM:.3f} mm"
+    assert panel.seg_out_kind.text() == "segment 2, line"
+    assert panel.seg_out.text() == f"{30 * MM:.3f} mm"
 
 
 def test_panel_follows_undo(window):
@@ -304,3 +305,4 @@ def test_labels_are_whole_at_1280_by_800_and_nothing_stale_after_deselecting(qtb
         assert field.text().strip() == "", field.text()
         assert not field.isEnabled() or field.text().strip() == ""
     assert panel.contour_info.text() == "" and panel.turn.text() == ""
+    assert panel.seg_in_kind.text() == "" and panel.seg_out_kind.text() == ""
