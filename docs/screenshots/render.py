@@ -1,8 +1,8 @@
 """Make the README's screenshots with ``outlinebench render`` (the editor's own painting, offscreen).
 
 Run from the repository root: ``python docs/screenshots/render.py docs/screenshots``.
-Every picture but the start page is one ``outlinebench render --window`` command, listed in
-SHOTS below; the start page (no drawing open) is the editor window grabbed as it starts.
+Every picture but two is one ``outlinebench render --window`` command, listed in SHOTS below;
+the start page (no drawing open) and a fix being previewed are the editor window grabbed.
 """
 
 import os
@@ -56,6 +56,31 @@ def start_page(out: Path) -> None:
     (out / ".render-settings.ini").unlink(missing_ok=True)
 
 
+def fix_preview(out: Path) -> None:
+    """The bracket's planted kink (contour 3, join 1) with its fix previewed."""
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QApplication
+
+    from outlinebench.app.main_window import MainWindow
+
+    app = QApplication.instance() or QApplication([])
+    settings = QSettings(str(out / ".render-settings.ini"), QSettings.Format.IniFormat)
+    w = MainWindow(settings, autosave_ms=0)
+    w.resize(1280, 800)
+    w.show()
+    app.processEvents()
+    assert w.open_path("samples/workshop-bracket-defects.svg", ask=False)
+    app.processEvents()
+    found = next(f for f in w.live.findings if f.kind == "kink" and f.contour == 3 and f.join == 1)
+    w.show_finding(found)
+    w.preview_fix(found)
+    for _ in range(10):
+        app.processEvents()
+    w.grab().save(str(out / "editor-fix-preview.png"))
+    w.close()
+    (out / ".render-settings.ini").unlink(missing_ok=True)
+
+
 def main() -> int:
     out = Path(sys.argv[1] if len(sys.argv) > 1 else "docs/screenshots")
     for name, args in SHOTS.items():
@@ -66,7 +91,8 @@ def main() -> int:
             sys.stderr.write(res.stderr)
             return res.returncode
     start_page(out)
-    print(f"wrote {out / 'editor-start.png'}")
+    fix_preview(out)
+    print(f"wrote {out / 'editor-start.png'} and {out / 'editor-fix-preview.png'}")
     return 0
 
 

@@ -123,6 +123,11 @@ def short_where_text(f: Finding) -> str:
     return place_text(f)
 
 
+def _count(n: int, word: str) -> str:
+    """``1 error``, ``2 errors``: the count line in plain English."""
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
+
+
 def _severity_counts(findings: Sequence[Finding]) -> dict[str, int]:
     """``total``, ``errors``, ``warnings`` and ``info`` as
     :func:`outlinebench.diagnostics.summarize` counts them, in one C-level pass (the count
@@ -460,7 +465,8 @@ class FindingsPanel(QWidget):
             text = "<b>No findings</b> with the current tolerances"
         else:
             text = (
-                f"<b>{s['errors']} errors · {s['warnings']} warnings</b> · {info}"
+                f"<b>{_count(s['errors'], 'error')} · {_count(s['warnings'], 'warning')}</b>"
+                f" · {info}"
                 f"<br><span style='color:#5b6670'>lengths in {units.name}</span>"
             )
         if stale:
