@@ -240,15 +240,15 @@ _CONTROL_RE = re.compile(r"[\x00-\x1f\x7f\x85\u2028\u2029]")
 
 
 def one_line(text: str) -> str:
-    """``text`` with line breaks and other control characters written as escapes.
+    r"""``text`` with line breaks and other control characters written as escapes.
 
     An id or name from a file goes into one-line messages; a newline in it (allowed in
     XML attribute values as ``&#10;``) would split the message and could make its second
-    line pose as a message about another file. ``"a\\nb"`` is written ``a\\nb``.
+    line pose as a message about another file. ``"a\nb"`` is written ``a\nb``.
 
     Examples
     --------
-    >>> one_line("logo\\nfake.svg: error")
-    'logo\\\\nfake.svg: error'
+    >>> one_line("logo\nfake.svg: error")
+    'logo\\nfake.svg: error'
     """
     return _CONTROL_RE.sub(lambda m: repr(m.group())[1:-1], text)
