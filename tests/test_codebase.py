@@ -39,6 +39,7 @@ def test_ruff_format_is_clean():
     assert res.returncode == 0, res.stdout + res.stderr
 
 
+@pytest.mark.slow
 def test_mypy_errors_outside_the_editor_only_shrink():
     # The library ships py.typed, so its types are a promise: mypy over everything outside
     # app/ ([tool.mypy] in pyproject.toml) may report at most the baseline's count of errors

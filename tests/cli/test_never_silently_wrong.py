@@ -256,6 +256,7 @@ def test_positions_carry_enough_digits_for_a_large_font_outline(tmp_path, capsys
     assert "(199999.53, 100000.25)" in out
 
 
+@pytest.mark.slow
 def test_hostile_input_gives_one_line_errors_naming_the_file_and_no_numpy_warnings(tmp_path):
     # issue "hardened against broken and hostile input": an id holding a newline stays on
     # one line; coordinates near the largest double are a read error (lengths past it cannot

@@ -79,6 +79,7 @@ coord = st.floats(0.0, 100.0, allow_nan=False, allow_infinity=False)
 cubic = st.lists(st.tuples(coord, coord), min_size=4, max_size=4)
 
 
+@pytest.mark.slow
 @given(cubic, st.sampled_from([0.5, 0.1, 0.02]))
 def test_flattening_stays_within_tolerance(points, eps):
     # Measured against dense sampling by the `bezier` library and shapely's Hausdorff
