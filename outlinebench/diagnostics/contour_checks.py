@@ -482,8 +482,20 @@ def wrong_direction_findings(
     return out
 
 
+# The sort-and-sweep along x materialises every pair whose x intervals overlap; above this
+# many such pairs per box (a ring or a zig-zag whose boxes share x ranges with thousands of
+# others) the pairs come from a uniform grid instead, whose candidates stay near the number of
+# truly overlapping boxes.
+_SWEEP_PAIRS_PER_BOX = 16
+# Candidate pairs examined at once by the grid (bounds the memory of one step).
+_GRID_CHUNK = 1 << 21
+
+
 def overlapping_pairs(
-    boxes: FloatArray, group: NDArray[np.intp], pad: float
+    boxes: FloatArray,
+    group: NDArray[np.intp],
+    pad: float,
+    stats: dict[str, int] | None = None,
 ) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
     """Pairs (i < j) of rows in the same group whose boxes overlap (grown by ``pad``).
 
@@ -494,6 +506,9 @@ def overlapping_pairs(
     group : ndarray of int, shape (M,)
         Only rows with equal group are paired (rows of one outline).
     pad : float
+    stats : dict, optional
+        Filled with ``"candidates"``: how many pairs the broad phase examined, and
+        ``"method"``: 0 for the sweep, 1 for the grid.
 
     Returns
     -------
@@ -501,9 +516,17 @@ def overlapping_pairs(
 
     Notes
     -----
-    Sort and sweep along x (each group shifted to its own stretch of the line), then a y test.
+    Sort and sweep along x (each group shifted to its own stretch of the line), then a y test
+    (Baraff's sweep and prune; D. Baraff, *Dynamic simulation of non-penetrating rigid
+    bodies*, PhD thesis, Cornell 1992, §6.2). The number of pairs the sweep would produce is
+    known before they are made; when it passes ``_SWEEP_PAIRS_PER_BOX`` per box, a uniform
+    grid is used instead (:func:`_grid_pairs`), so memory and time stay near
+    n log n + (overlapping pairs) for rings and zig-zags whose boxes share x ranges.
     """
     m = boxes.shape[0]
+    if stats is not None:
+        stats["candidates"] = 0
+        stats["method"] = 0
     if m < 2:
         return np.empty(0, np.intp), np.empty(0, np.intp)
     x0 = boxes[:, 0] - pad
@@ -519,6 +542,12 @@ def overlapping_pairs(
     start = np.arange(m) + 1
     counts = np.maximum(hi - start, 0)
     total = int(counts.sum())
+    if total > _SWEEP_PAIRS_PER_BOX * m + 4096:
+        if stats is not None:
+            stats["method"] = 1
+        return _grid_pairs(boxes, group, pad, stats)
+    if stats is not None:
+        stats["candidates"] = total
     if total == 0:
         return np.empty(0, np.intp), np.empty(0, np.intp)
     first = np.repeat(np.arange(m), counts)
@@ -528,6 +557,100 @@ def overlapping_pairs(
     keep = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
     i, j = i[keep], j[keep]
     return np.minimum(i, j), np.maximum(i, j)
+
+
+def _sorted_pairs(
+    i: NDArray[np.intp], j: NDArray[np.intp]
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    order = np.lexsort((j, i))
+    return i[order].astype(np.intp), j[order].astype(np.intp)
+
+
+def _grid_pairs(
+    boxes: FloatArray,
+    group: NDArray[np.intp],
+    pad: float,
+    stats: dict[str, int] | None,
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    """:func:`overlapping_pairs` by a uniform grid.
+
+    Notes
+    -----
+    The cell size starts at the median box size and doubles until the boxes cover at most
+    eight cells each on average. Each box is entered in every cell it covers; two boxes are
+    candidates in each cell they share, and a pair is kept only in the one cell holding the
+    lower-left corner of the intersection of their boxes, so it is reported once (the
+    "reference point" rule of uniform-grid broad phases, e.g. C. Ericson, *Real-Time
+    Collision Detection*, 2005, §7.1.6). Candidates are examined in chunks of
+    ``_GRID_CHUNK``.
+    """
+    m = boxes.shape[0]
+    lo = boxes[:, :2] - pad
+    hi = boxes[:, 2:] + pad
+    origin = lo.min(axis=0)
+    ext = np.maximum(hi - lo, 0.0)
+    size = float(np.median(ext.max(axis=1)))
+    whole = float((hi.max(axis=0) - origin).max())
+    cell = max(size, whole / 2.0**20, 1e-300)
+    while True:
+        c0 = np.floor((lo - origin) / cell).astype(np.int64)
+        c1 = np.floor((hi - origin) / cell).astype(np.int64)
+        per = (c1[:, 0] - c0[:, 0] + 1) * (c1[:, 1] - c0[:, 1] + 1)
+        if int(per.sum()) <= 8 * m or cell >= whole:
+            break
+        cell *= 2.0
+    ny = int(c1[:, 1].max()) + 1
+    nx = int(c1[:, 0].max()) + 1
+    # every (box, cell) entry: row-major over each box's cell rectangle
+    total = int(per.sum())
+    box_of = np.repeat(np.arange(m), per)
+    within = np.arange(total) - np.repeat(np.cumsum(per) - per, per)
+    w = (c1[:, 1] - c0[:, 1] + 1)[box_of]
+    cx = c0[box_of, 0] + within // w
+    cy = c0[box_of, 1] + within % w
+    key = (group.astype(np.int64)[box_of] * nx + cx) * ny + cy
+    order = np.argsort(key, kind="stable")
+    key, box_of = key[order], box_of[order]
+    del cx, cy, within, w, order
+    # runs of one cell: entry e pairs with the entries after it in its run
+    new_run = np.r_[True, key[1:] != key[:-1]]
+    run_id = np.cumsum(new_run) - 1
+    run_start = np.flatnonzero(new_run)
+    run_end = np.r_[run_start[1:], total]
+    partners = run_end[run_id] - np.arange(total) - 1
+    csum = np.cumsum(partners)
+    n_cand = int(csum[-1]) if total else 0
+    if stats is not None:
+        stats["candidates"] = n_cand
+    out_i: list[NDArray[np.intp]] = []
+    out_j: list[NDArray[np.intp]] = []
+    e_lo = 0
+    while e_lo < total:
+        # entries [e_lo, e_hi) whose partners fit one chunk (at least one entry)
+        done = int(csum[e_lo - 1]) if e_lo else 0
+        e_hi = int(np.searchsorted(csum, done + _GRID_CHUNK, side="right"))
+        e_hi = max(e_hi, e_lo + 1)
+        cnt = partners[e_lo:e_hi]
+        n = int(cnt.sum())
+        if n:
+            first = np.repeat(np.arange(e_lo, e_hi), cnt)
+            second = first + 1 + (np.arange(n) - np.repeat(np.cumsum(cnt) - cnt, cnt))
+            a, b = box_of[first], box_of[second]
+            ok = np.all((lo[a] <= hi[b]) & (lo[b] <= hi[a]), axis=1)
+            cell_key = key[first]
+            a, b, cell_key = a[ok], b[ok], cell_key[ok]
+            # the cell of the intersection's lower-left corner: floor is monotone, so it is
+            # the larger of the two boxes' first cells
+            ref = np.maximum(c0[a], c0[b])
+            ref_key = (group.astype(np.int64)[a] * nx + ref[:, 0]) * ny + ref[:, 1]
+            here = ref_key == cell_key
+            a, b = a[here], b[here]
+            out_i.append(np.minimum(a, b))
+            out_j.append(np.maximum(a, b))
+        e_lo = e_hi
+    if not out_i:
+        return np.empty(0, np.intp), np.empty(0, np.intp)
+    return _sorted_pairs(np.concatenate(out_i), np.concatenate(out_j))
 
 
 def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:

@@ -154,7 +154,11 @@ TYPE = CheckProfile(
         "run the way the format says; kinks from grid rounding are info"
     ),
     font_units={"gap_mm": 0.5, "gap_search_mm": 10.0, "extremum_overshoot_mm": 1.0},
-    settings={"curvature_jump_severity": INFO, "straight_into_curve_severity": INFO},
+    settings={
+        "curvature_jump_severity": INFO,
+        "straight_into_curve_severity": INFO,
+        "missing_extremum_severity": WARNING,
+    },
     severities={"curvature-jump": INFO, "missing-extremum": WARNING},
     overlaps=True,
     format_direction=True,

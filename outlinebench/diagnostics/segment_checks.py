@@ -88,6 +88,7 @@ class Limits:
     samples: int
     jump_severity: str
     straight_severity: str
+    extremum_severity: str = INFO
 
     @classmethod
     def from_settings(cls, s: CheckSettings, mm_per_unit: float) -> Limits:
@@ -104,6 +105,7 @@ class Limits:
             samples=int(s.samples_per_segment),
             jump_severity=s.curvature_jump_severity,
             straight_severity=s.straight_into_curve_severity,
+            extremum_severity=s.missing_extremum_severity,
         )
 
 
@@ -446,7 +448,8 @@ def segment_findings(
                 (
                     r,
                     Finding(
-                        "missing-extremum", INFO, o, cc, s, t, float(vals[q, k, 0]),
+                        "missing-extremum", limits.extremum_severity, o, cc, s, t,
+                        float(vals[q, k, 0]),
                         float(vals[q, k, 1]), ov, "user",
                         missing_extremum_message(name, t, ov),
                         limit=limits.overshoot,
