@@ -22,10 +22,11 @@ item at a time.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from itertools import chain, compress
 from operator import is_not
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -62,7 +63,7 @@ from outlinebench.diagnostics.settings import CheckSettings
 from outlinebench.geometry import evaluate, segment_area_terms
 from outlinebench.model.document import Contour, Document
 
-__all__ = ["check_document", "Checker", "FindingSequence"]
+__all__ = ["check_document", "self_crossings", "Checker", "FindingSequence"]
 
 # Above this many changed segments, candidate pairs come from a sort-and-sweep over all
 # segments of the changed outlines rather than from comparing each changed segment's box with
@@ -137,6 +138,106 @@ def check_document(doc: Document, settings: CheckSettings | None = None) -> list
     []
     """
     return list(Checker(settings).update(doc))
+
+
+@dataclass(frozen=True, slots=True)
+class _Place:
+    contour: Contour
+    outline: int
+    global_index: int
+
+
+def self_crossings(doc: Document, settings: CheckSettings | None = None) -> list[Finding]:
+    """The ``self-intersection`` findings of contours crossing themselves, and nothing else.
+
+    Parameters
+    ----------
+    doc : Document
+    settings : CheckSettings, optional
+
+    Returns
+    -------
+    list of Finding
+        Exactly the findings of :func:`check_document` whose kind is ``self-intersection``
+        and whose ``other_contour`` is their own contour (a loop inside one segment, or two
+        segments of one contour crossing or touching), in document order of contours.
+
+    Notes
+    -----
+    Runs only what those findings need: the segment table, the loop test of each segment
+    (:func:`~outlinebench.diagnostics.segment_checks.segment_findings` with
+    ``loops_only``), the open ends (ends that meet are joins, not crossings) and the crossing
+    search (:func:`~outlinebench.diagnostics.contour_checks.overlapping_pairs`, then the
+    narrow phase) with pairs restricted to one contour.
+
+    Examples
+    --------
+    >>> self_crossings(Document())
+    []
+    """
+    settings = settings or CheckSettings()
+    limits = Limits.from_settings(settings, doc.mm_per_unit)
+    refs = list(doc.contour_refs())
+    places = [
+        _Place(
+            r.contour,
+            doc.outlines[r.outline].source_index
+            if doc.outlines[r.outline].source_index >= 0
+            else r.outline,
+            r.global_index,
+        )
+        for r in refs
+    ]
+    counts = np.fromiter(
+        (len(p.contour.segments) for p in places), dtype=np.intp, count=len(places)
+    )
+    segments = [s for p in places for s in p.contour.segments]
+    if not segments:
+        return []
+    table = segment_table(segments, limits.gap)
+    contour_of = np.repeat(np.arange(len(places)), counts)
+    cstart = (np.cumsum(counts) - counts).astype(np.intp)
+    seg_ix = np.arange(len(segments)) - cstart[contour_of]
+    gi = np.array([p.global_index for p in places], dtype=np.intp)
+    outl = np.array([p.outline for p in places], dtype=np.intp)
+    per_contour: dict[int, list[Finding]] = {}
+    for _, f in segment_findings(
+        table, segments, limits, outl[contour_of], gi[contour_of], seg_ix, loops_only=True
+    ):
+        per_contour.setdefault(f.contour, []).append(f)
+    # ends of open contours that meet (their own other end included) are joins
+    ends: list[OpenEnd] = []
+    for c, p in enumerate(places):
+        if p.contour.closed or not counts[c]:
+            continue
+        r0, r1 = int(cstart[c]), int(cstart[c] + counts[c] - 1)
+        ends.append(
+            OpenEnd(
+                p.outline, p.global_index, 0, 0, tuple(table.cubics[r0, 0].tolist()),
+                tuple(table.d0[r0].tolist()), float(table.k0[r0]),
+            )
+        )  # fmt: skip
+        ends.append(
+            OpenEnd(
+                p.outline, p.global_index, r1 - r0, 1, tuple(table.cubics[r1, 3].tolist()),
+                tuple(table.d1[r1].tolist()), float(table.k1[r1]),
+            )
+        )  # fmt: skip
+    joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]] = {}
+    for a, b in open_end_findings(ends, limits)[1]:
+        if a.contour == b.contour:
+            joined_ends.setdefault((a.contour, b.contour), []).append(
+                (a.segment, a.end, b.segment, b.end)
+            )
+            joined_ends.setdefault((b.contour, a.contour), []).append(
+                (b.segment, b.end, a.segment, a.end)
+            )
+    i, j = overlapping_pairs(table.box, contour_of, limits.gap)
+    for _, (_, _, f) in _crossing_hits(
+        places, contour_of, seg_ix, counts, contour_of, table, i, j, joined_ends, limits
+    ):
+        per_contour.setdefault(f.contour, []).append(f)
+    return [f for g in sorted(per_contour) for f in per_contour[g]]
 
 
 def _join_findings_batch(
@@ -667,57 +768,10 @@ class Checker:
             i, j = rows[ri], cj
             sel = (i != j) & ~(changed[j] & (j < i))
             i, j = np.minimum(i[sel], j[sel]), np.maximum(i[sel], j[sel])
-        if i.size:
-            # a segment within the gap tolerance in both directions is reported as tiny; it
-            # touches its neighbours everywhere, so it takes no part in crossings
-            size = np.maximum(table.box[:, 2] - table.box[:, 0], table.box[:, 3] - table.box[:, 1])
-            big = size > limits.gap
-            sel = big[i] & big[j]
-            i, j = i[sel], j[sel]
-        if i.size:
-            n_of = counts[contour_of]
-            closed_of = np.array([st.contour.closed for st in cs])[contour_of]
-            same = contour_of[i] == contour_of[j]
-            nxt = same & (
-                (seg_ix[i] + 1 == seg_ix[j])
-                | (closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0))
-            )
-            prv = same & closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
-            joined = np.where(nxt, 1, np.where(prv, 2, 0)).astype(np.int8)
-            joined[same & (n_of[i] == 2) & (nxt | prv)] = 3
-            if joined_ends:
-                gi_of = np.array([st.global_index for st in cs])[contour_of]
-                for q in np.flatnonzero(joined == 0).tolist():
-                    if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
-                        joined[q] = 3
-            survive = np.ones(i.size, dtype=bool)
-            lines = (table.degree[i] == 1) & (table.degree[j] == 1) & (joined != 3)
-            if lines.any():
-                survive[lines] = lines_may_meet(
-                    table.cubics[i[lines]], table.cubics[j[lines]], joined[lines]
-                )
-            curves = np.flatnonzero(~lines)
-            if curves.size:
-                survive[curves] = narrow_pairs(
-                    table.cubics[i[curves]], table.cubics[j[curves]], joined[curves], limits.gap
-                )
-            for q in np.flatnonzero(survive).tolist():
-                ra, rb = int(i[q]), int(j[q])
-                sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]
-                sa, sb = int(seg_ix[ra]), int(seg_ix[rb])
-                wa = (sta.outline, sta.global_index, sa)
-                wb = (stb.outline, stb.global_index, sb)
-                connected: list[tuple[int, int]] = []
-                if joined[q] in (1, 3) and nxt[q]:
-                    connected.append((1, 0))
-                if joined[q] in (2, 3) and (prv[q] or (nxt[q] and n_of[ra] == 2)):
-                    connected.append((0, 1))
-                for ea_seg, ea, eb_seg, eb in joined_ends.get((wa[1], wb[1]), ()):
-                    if ea_seg == sa and eb_seg == sb:
-                        connected.append((ea, eb))
-                seg_a, seg_b = sta.contour.segments[sa], stb.contour.segments[sb]
-                for f in crossing_findings(seg_a, seg_b, wa, wb, tuple(connected), limits):
-                    kept[int(group[ra])].append((id(seg_a), id(seg_b), f))
+        for grp, hit in _crossing_hits(
+            cs, contour_of, seg_ix, counts, group, table, i, j, joined_ends, limits
+        ):
+            kept[grp].append(hit)
 
         # -- winding of holes -----------------------------------------------------------
         closed = np.array([st.contour.closed and len(st.contour.segments) > 0 for st in cs])
@@ -811,3 +865,79 @@ class Checker:
         block.extend(f for _, _, f in hits)
         block.extend(direction)
         return block
+
+
+def _crossing_hits(
+    cs: Sequence[Any],
+    contour_of: NDArray[np.intp],
+    seg_ix: NDArray[np.intp],
+    counts: NDArray[np.intp],
+    group: NDArray[np.intp],
+    table: SegmentTable,
+    i: NDArray[np.intp],
+    j: NDArray[np.intp],
+    joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]],
+    limits: Limits,
+) -> list[tuple[int, tuple[int, int, Finding]]]:
+    """Crossings between the candidate segment pairs (rows i, j of ``table``).
+
+    ``cs[c]`` has ``contour``, ``outline`` and ``global_index`` of the contour of rows
+    ``contour_of == c``; ``seg_ix`` is each row's index in its contour, ``group`` its group
+    (outline). Tiny segments are left out, straight pairs screened by orientation tests and
+    curved ones by subdivision (:func:`narrow_pairs`) before the survivors are intersected.
+    Returns (group, (id of segment a, id of segment b, finding)) per crossing.
+    """
+    out: list[tuple[int, tuple[int, int, Finding]]] = []
+    if i.size:
+        # a segment within the gap tolerance in both directions is reported as tiny; it
+        # touches its neighbours everywhere, so it takes no part in crossings
+        size = np.maximum(table.box[:, 2] - table.box[:, 0], table.box[:, 3] - table.box[:, 1])
+        big = size > limits.gap
+        sel = big[i] & big[j]
+        i, j = i[sel], j[sel]
+    if i.size:
+        n_of = counts[contour_of]
+        closed_of = np.array([st.contour.closed for st in cs])[contour_of]
+        same = contour_of[i] == contour_of[j]
+        nxt = same & (
+            (seg_ix[i] + 1 == seg_ix[j])
+            | (closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0))
+        )
+        prv = same & closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
+        joined = np.where(nxt, 1, np.where(prv, 2, 0)).astype(np.int8)
+        joined[same & (n_of[i] == 2) & (nxt | prv)] = 3
+        if joined_ends:
+            gi_of = np.array([st.global_index for st in cs])[contour_of]
+            for q in np.flatnonzero(joined == 0).tolist():
+                if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
+                    joined[q] = 3
+        survive = np.ones(i.size, dtype=bool)
+        lines = (table.degree[i] == 1) & (table.degree[j] == 1) & (joined != 3)
+        if lines.any():
+            survive[lines] = lines_may_meet(
+                table.cubics[i[lines]], table.cubics[j[lines]], joined[lines]
+            )
+        curves = np.flatnonzero(~lines)
+        if curves.size:
+            survive[curves] = narrow_pairs(
+                table.cubics[i[curves]], table.cubics[j[curves]], joined[curves], limits.gap
+            )
+        for q in np.flatnonzero(survive).tolist():
+            ra, rb = int(i[q]), int(j[q])
+            sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]
+            sa, sb = int(seg_ix[ra]), int(seg_ix[rb])
+            wa = (sta.outline, sta.global_index, sa)
+            wb = (stb.outline, stb.global_index, sb)
+            connected: list[tuple[int, int]] = []
+            if joined[q] in (1, 3) and nxt[q]:
+                connected.append((1, 0))
+            if joined[q] in (2, 3) and (prv[q] or (nxt[q] and n_of[ra] == 2)):
+                connected.append((0, 1))
+            for ea_seg, ea, eb_seg, eb in joined_ends.get((wa[1], wb[1]), ()):
+                if ea_seg == sa and eb_seg == sb:
+                    connected.append((ea, eb))
+            seg_a, seg_b = sta.contour.segments[sa], stb.contour.segments[sb]
+            for f in crossing_findings(seg_a, seg_b, wa, wb, tuple(connected), limits):
+                out.append((int(group[ra]), (id(seg_a), id(seg_b), f)))
+
+    return out
