@@ -43,6 +43,7 @@ from outlinebench.diagnostics.contour_checks import (
     containment_pairs,
     crossing_findings,
     duplicate_pairs,
+    lines_apart,
     lines_may_meet,
     narrow_pairs,
     open_end_findings,
@@ -232,7 +233,9 @@ def self_crossings(doc: Document, settings: CheckSettings | None = None) -> list
             joined_ends.setdefault((b.contour, a.contour), []).append(
                 (b.segment, b.end, a.segment, a.end)
             )
-    i, j = overlapping_pairs(table.box, contour_of, limits.gap)
+    i, j = overlapping_pairs(
+        table.box, contour_of, limits.gap, keep=lines_apart(table.cubics, table.degree, limits.gap)
+    )
     for _, (_, _, f) in _crossing_hits(
         places, contour_of, seg_ix, counts, contour_of, table, i, j, joined_ends, limits
     ):
@@ -752,7 +755,10 @@ class Checker:
                     kept[oi].append((ia, ib, f))
 
         if changed.all() or changed.sum() > _SWEEP_THRESHOLD:
-            i, j = overlapping_pairs(table.box, group, limits.gap)
+            i, j = overlapping_pairs(
+                table.box, group, limits.gap,
+                keep=lines_apart(table.cubics, table.degree, limits.gap),
+            )  # fmt: skip
             sel = changed[i] | changed[j]
             i, j = i[sel], j[sel]
         else:

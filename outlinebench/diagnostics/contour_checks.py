@@ -22,6 +22,7 @@ self-intersection between segments
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -54,6 +55,7 @@ __all__ = [
     "containment_pairs",
     "wrong_direction_findings",
     "overlapping_pairs",
+    "lines_apart",
     "joins_monotone",
     "lines_may_meet",
     "narrow_pairs",
@@ -496,6 +498,7 @@ def overlapping_pairs(
     group: NDArray[np.intp],
     pad: float,
     stats: dict[str, int] | None = None,
+    keep: Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]] | None = None,
 ) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
     """Pairs (i < j) of rows in the same group whose boxes overlap (grown by ``pad``).
 
@@ -509,6 +512,10 @@ def overlapping_pairs(
     stats : dict, optional
         Filled with ``"candidates"``: how many pairs the broad phase examined, and
         ``"method"``: 0 for the sweep, 1 for the grid.
+    keep : callable, optional
+        ``keep(i, j)`` → bool mask: a further screen applied to each chunk of overlapping
+        pairs as they are found, so pairs it drops are never held all at once (see
+        :func:`lines_apart`).
 
     Returns
     -------
@@ -545,7 +552,7 @@ def overlapping_pairs(
     if total > _SWEEP_PAIRS_PER_BOX * m + 4096:
         if stats is not None:
             stats["method"] = 1
-        return _grid_pairs(boxes, group, pad, stats)
+        return _grid_pairs(boxes, group, pad, stats, keep)
     if stats is not None:
         stats["candidates"] = total
     if total == 0:
@@ -554,9 +561,12 @@ def overlapping_pairs(
     offs = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
     second = np.repeat(start, counts) + offs
     i, j = order[first], order[second]
-    keep = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
-    i, j = i[keep], j[keep]
-    return np.minimum(i, j), np.maximum(i, j)
+    ok = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
+    i, j = np.minimum(i[ok], j[ok]), np.maximum(i[ok], j[ok])
+    if keep is not None:
+        sel = keep(i, j)
+        i, j = i[sel], j[sel]
+    return i, j
 
 
 def _sorted_pairs(
@@ -571,6 +581,7 @@ def _grid_pairs(
     group: NDArray[np.intp],
     pad: float,
     stats: dict[str, int] | None,
+    keep: Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]] | None = None,
 ) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
     """:func:`overlapping_pairs` by a uniform grid.
 
@@ -644,13 +655,61 @@ def _grid_pairs(
             ref = np.maximum(c0[a], c0[b])
             ref_key = (group.astype(np.int64)[a] * nx + ref[:, 0]) * ny + ref[:, 1]
             here = ref_key == cell_key
-            a, b = a[here], b[here]
-            out_i.append(np.minimum(a, b))
-            out_j.append(np.maximum(a, b))
+            a, b = np.minimum(a[here], b[here]), np.maximum(a[here], b[here])
+            if keep is not None:
+                sel = keep(a, b)
+                a, b = a[sel], b[sel]
+            out_i.append(a)
+            out_j.append(b)
         e_lo = e_hi
     if not out_i:
         return np.empty(0, np.intp), np.empty(0, np.intp)
     return _sorted_pairs(np.concatenate(out_i), np.concatenate(out_j))
+
+
+def lines_apart(
+    cubics: FloatArray, degree: NDArray[np.int8], pad: float
+) -> Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]]:
+    """A screen for :func:`overlapping_pairs`: False for pairs where one segment is a line and
+    every control point of the other lies farther than ``pad`` on one side of that line.
+
+    Parameters
+    ----------
+    cubics : ndarray, shape (M, 4, 2)
+    degree : ndarray of int8, shape (M,)
+    pad : float
+        The gap tolerance: what lies within it of the line may still touch it.
+
+    Notes
+    -----
+    A segment lies in the convex hull of its control points (Farin, *Curves and Surfaces for
+    CAGD*, ch. 5), so hull points all strictly on one side of a line never meet it. The sign
+    test is that of the orientation predicate (Cormen et al., *Introduction to Algorithms*,
+    §33.1), made conservative by ``pad``: a pair is dropped only when the distance of every
+    control point from the line exceeds ``pad``.
+    """
+
+    def keep(i: NDArray[np.intp], j: NDArray[np.intp]) -> NDArray[np.bool_]:
+        out = np.ones(i.size, dtype=bool)
+        for line, other in ((i, j), (j, i)):
+            q = np.flatnonzero(degree[line] == 1)
+            if q.size == 0:
+                continue
+            p0 = cubics[line[q], 0]
+            d = cubics[line[q], 3] - p0
+            n = np.hypot(d[:, 0], d[:, 1])
+            rel = cubics[other[q]] - p0[:, None, :]
+            side = (d[:, None, 0] * rel[..., 1] - d[:, None, 1] * rel[..., 0]) / np.where(
+                n > 0, n, 1.0
+            )[:, None]
+            # pad, plus a margin for the rounding of the test and the intersection tolerance
+            tol = pad + 1e-8 * (n + np.abs(rel).max(axis=(1, 2)))
+            far = tol[:, None]
+            apart = (n > 0) & ((side > far).all(axis=1) | (side < -far).all(axis=1))
+            out[q[apart]] = False
+        return out
+
+    return keep
 
 
 def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:
