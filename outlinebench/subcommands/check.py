@@ -39,6 +39,7 @@ from outlinebench.diagnostics.profiles import (
     get_profile,
     profile_settings,
 )
+from outlinebench.diagnostics.report import write_json_stream
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model.document import Document
@@ -54,7 +55,6 @@ from outlinebench.subcommands._common import (
     positive_float,
     read_svg_partly,
     unit_factor,
-    write_json,
 )
 
 __all__ = [
@@ -450,7 +450,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json and payload:
         if len(files) == 1:
             if "json" in results[0]:
-                write_json(payload[0])
+                write_json_stream(payload[0], sys.stdout)
         else:
-            write_json(payload)
+            write_json_stream(payload, sys.stdout)
     return code

@@ -1,4 +1,4 @@
-"""The crossing search on its own: the broad phase's candidate pairs and measure's self-crossings."""
+"""The crossing search alone: broad-phase candidate pairs and measure's self-crossings."""
 
 from __future__ import annotations
 
