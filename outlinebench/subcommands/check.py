@@ -145,12 +145,29 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
     add_entity_option(parser)
     parser.add_argument(
+        "--jobs",
+        type=_jobs,
+        metavar="N",
+        default=None,
+        help="worker processes checking several files at once (default: one per core)",
+    )
+    parser.add_argument(
         "--units",
         choices=LENGTH_UNITS,
         default="user",
         help="unit of --gap/--gap-search and of reported lengths and positions: the SVG "
         "root's user units (default) or mm, in, pt, px",
     )
+
+
+def _jobs(text: str) -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        n = 0
+    if n < 1:
+        raise argparse.ArgumentTypeError(f"--jobs needs a whole number of at least 1, got {text!r}")
+    return n
 
 
 class OptionMismatch(Exception):
@@ -360,7 +377,9 @@ def expand_files(paths: list[str]) -> list[str]:
     return out
 
 
-def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[dict[str, Any]]:
+def _run_all(
+    files: list[str], options: dict[str, Any], progress: bool, jobs: int | None = None
+) -> list[dict[str, Any]]:
     """Check every file, in parallel on all cores for several; one result per file, in order.
 
     A worker process that dies (killed, out of memory) is a crash of the file it was
@@ -370,7 +389,7 @@ def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[
     if len(files) == 1:
         return [guarded_check_file(files[0], options)]
     results: list[dict[str, Any] | None] = [None] * len(files)
-    workers = min(len(files), os.cpu_count() or 1)
+    workers = min(len(files), jobs or os.cpu_count() or 1)
     with ProcessPoolExecutor(max_workers=workers) as pool:
         futures = [pool.submit(guarded_check_file, f, options) for f in files]
         for k, fut in enumerate(futures):
@@ -421,7 +440,7 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     files = expand_files(list(args.files))
     show_progress = len(files) > 1 and sys.stderr.isatty()
-    results = _run_all(files, options, show_progress)
+    results = _run_all(files, options, show_progress, getattr(args, "jobs", None))
     debug = getattr(args, "debug", False)
 
     code = EXIT_OK
