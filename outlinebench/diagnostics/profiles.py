@@ -287,13 +287,17 @@ def outer_direction_findings(
     out: list[Finding] = []
     wrong = np.flatnonzero((areas != 0.0) & ((areas > 0) != (want > 0)))
     outline_of = np.array([r.outline for r in refs], dtype=np.intp)
+    # refs run in document order, so each outline's contours are one stretch of rows
+    o_lo = np.searchsorted(outline_of, outline_of, side="left")
+    o_hi = np.searchsorted(outline_of, outline_of, side="right")
     for k in wrong.tolist():
         area = float(areas[k])
         oi = int(outline_of[k])
         probe = evaluate(cubics[first[k]], 0.5)
         # closed contours of the same outline whose box holds this one's box
-        others = np.flatnonzero(
-            (outline_of == oi) & np.all(lo <= lo[k], axis=1) & np.all(hi >= hi[k], axis=1)
+        a, b = int(o_lo[k]), int(o_hi[k])
+        others = a + np.flatnonzero(
+            np.all(lo[a:b] <= lo[k], axis=1) & np.all(hi[a:b] >= hi[k], axis=1)
         )
         inside = False
         for j in others.tolist():
