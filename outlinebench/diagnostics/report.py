@@ -379,13 +379,19 @@ def iter_json(obj: Any, depth: int = 0) -> Iterator[str]:
     "json — JSON encoder and decoder"): each item of a non-empty container on its own line,
     indented one level deeper, empty containers as ``[]`` and ``{}``. A container whose
     items are all scalars is written in one call of the standard library's C encoder with the
-    item separator ``",\n"`` plus the indentation (the same text, much faster than the
+    item separator ``",\\n"`` plus the indentation (the same text, much faster than the
     pure-Python indented encoder).
 
     Examples
     --------
-    >>> "".join(iter_json({"a": [1, 2.5], "b": {}}))
-    '{\n  "a": [\n    1,\n    2.5\n  ],\n  "b": {}\n}'
+    >>> print("".join(iter_json({"a": [1, 2.5], "b": {}})))
+    {
+      "a": [
+        1,
+        2.5
+      ],
+      "b": {}
+    }
     """
     if isinstance(obj, _SCALARS):
         yield _scalar(obj)
