@@ -65,16 +65,27 @@ def test_a_generator_is_written_as_a_list():
     assert got + "\n" == _reference({"findings": rows})  # reference: json.dumps(indent=2)
 
 
-def test_check_json_equals_json_dumps_of_the_report(capsys):
-    options = {
+_OPTIONS = {
         "json": True, "hide_info": False, "allow_entities": False, "allow_text": False,
         "gap": None, "gap_search": None, "kink_angle": None, "corner_angle": None,
         "curvature_jump": None, "profile": None, "glyphs": None, "units": "user",
-    }  # fmt: skip
-    report = check_file(DEFECTS, options)["json"]  # the structure, not streamed
+}  # fmt: skip
+
+
+def test_check_json_equals_json_dumps_of_the_report(capsys):
+    report = check_file(DEFECTS, dict(_OPTIONS))["json"]  # the structure, not streamed
     assert len(report["findings"]) > 3
     main(["check", "--json", DEFECTS])
     assert capsys.readouterr().out == _reference(report)  # reference: json.dumps(indent=2)
+
+
+def test_check_json_of_several_files_equals_json_dumps_of_the_list(capsys):
+    files = [DEFECTS, BRACKET, str(ROOT / "samples" / "no-such-file.svg")]
+    reports = [check_file(f, dict(_OPTIONS)) for f in files]
+    want = [r["json"] for r in reports[:2]]
+    want.append({"file": files[2], "clean": False, "error": reports[2]["error"]})
+    main(["check", "--json", "--jobs", "2", *files])
+    assert capsys.readouterr().out == _reference(want)  # reference: json.dumps(indent=2)
 
 
 def test_measure_json_equals_json_dumps_of_the_measurements(capsys):
