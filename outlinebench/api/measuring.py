@@ -12,7 +12,7 @@ from typing import Any
 
 import numpy as np
 
-from outlinebench.diagnostics import check_document
+from outlinebench.diagnostics.checker import self_crossings
 from outlinebench.diagnostics.continuity import turn_angles
 from outlinebench.diagnostics.enclosed_area import enclosed_area
 from outlinebench.geometry import (
@@ -63,14 +63,13 @@ def _joins(contour: Contour, f: float) -> list[dict[str, Any]]:
 def _self_crossings(doc: Document) -> dict[int, list[list[float]]]:
     """Contours that cross themselves (global index) → per segment, the crossing parameters.
 
-    From the self-intersection findings of :func:`outlinebench.diagnostics.check_document`
-    (a loop inside a segment, and crossings between two segments of the same contour).
+    From :func:`outlinebench.diagnostics.checker.self_crossings` (a loop inside a segment,
+    and crossings between two segments of the same contour): the crossing search alone, not a
+    whole check.
     """
     out: dict[int, list[list[float]]] = {}
     sizes = {ref.global_index: len(ref.contour.segments) for ref in doc.contour_refs()}
-    for fnd in check_document(doc):
-        if fnd.kind != "self-intersection" or fnd.other_contour != fnd.contour:
-            continue
+    for fnd in self_crossings(doc):
         cuts = out.setdefault(fnd.contour, [[] for _ in range(sizes[fnd.contour])])
         for seg, t in ((fnd.segment, fnd.t), (fnd.other_segment, fnd.other_t)):
             if seg is not None and t is not None:

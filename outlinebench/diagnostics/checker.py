@@ -22,10 +22,11 @@ item at a time.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from itertools import chain, compress
 from operator import is_not
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -42,6 +43,7 @@ from outlinebench.diagnostics.contour_checks import (
     containment_pairs,
     crossing_findings,
     duplicate_pairs,
+    lines_apart,
     lines_may_meet,
     narrow_pairs,
     open_end_findings,
@@ -62,7 +64,7 @@ from outlinebench.diagnostics.settings import CheckSettings
 from outlinebench.geometry import evaluate, segment_area_terms
 from outlinebench.model.document import Contour, Document
 
-__all__ = ["check_document", "Checker", "FindingSequence"]
+__all__ = ["check_document", "self_crossings", "Checker", "FindingSequence"]
 
 # Above this many changed segments, candidate pairs come from a sort-and-sweep over all
 # segments of the changed outlines rather than from comparing each changed segment's box with
@@ -116,6 +118,64 @@ class _OutlineState:
     block: list[Finding] | None  # contour findings, then hits and direction (None: not built)
 
 
+@dataclass(eq=False, slots=True)
+class _Dirty:
+    """A contour of a changed outline that is a new object."""
+
+    outline: int  # outline index in the document
+    global_index: int
+    contour: Contour
+    old: _ContourState | None  # the state of the contour it replaces (None: full check)
+    reuse: dict[int, int]  # segment index → index in the old contour, for shared segments
+    new_ix: list[int] | None  # the segments that are new objects (None: all of them)
+
+
+@dataclass(eq=False, slots=True)
+class _JoinRows:
+    """Joins to classify: rows of the incoming and outgoing segments in one table, the
+    intent code, the changed contour each belongs to and its join number there."""
+
+    rows_in: NDArray[np.intp]
+    rows_out: NDArray[np.intp]
+    intent: NDArray[np.int8]
+    owner: NDArray[np.intp]
+    join: NDArray[np.intp]
+
+
+def _join_rows(parts: Sequence[tuple[int, Contour, NDArray[np.intp] | None]]) -> _JoinRows:
+    """The one builder of join rows: per changed contour (its first row in the table, the
+    contour, the joins to compute or None for all of them).
+
+    Join j of a contour of n segments joins segment j to segment (j + 1) mod n (a closed
+    contour has n joins, an open one n − 1; :class:`~outlinebench.model.document.Contour`).
+    """
+    first = np.array([p[0] for p in parts], dtype=np.intp)
+    n_seg = np.array([len(p[1].segments) for p in parts], dtype=np.intp)
+    if all(p[2] is None for p in parts):
+        counts = np.array([len(p[1].joins) for p in parts], dtype=np.intp)
+        total = int(counts.sum())
+        join = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
+        code = INTENT_CODE
+        intent = np.fromiter(
+            (code[x] for p in parts for x in p[1].joins), dtype=np.int8, count=total
+        )
+    else:
+        chosen = [np.arange(len(p[1].joins)) if p[2] is None else p[2] for p in parts]
+        counts = np.array([c.size for c in chosen], dtype=np.intp)
+        join = np.concatenate(chosen).astype(np.intp) if chosen else np.zeros(0, np.intp)
+        code = INTENT_CODE
+        intent = np.fromiter(
+            (code[p[1].joins[j]] for p, c in zip(parts, chosen, strict=True) for j in c.tolist()),
+            dtype=np.int8,
+            count=int(counts.sum()),
+        )
+    owner = np.repeat(np.arange(len(parts)), counts)
+    base = np.repeat(first, counts)
+    rows_in = base + join
+    rows_out = base + (join + 1) % np.maximum(np.repeat(n_seg, counts), 1)
+    return _JoinRows(rows_in, rows_out, intent, owner, join)
+
+
 def check_document(doc: Document, settings: CheckSettings | None = None) -> list[Finding]:
     """Every finding of a document.
 
@@ -137,6 +197,108 @@ def check_document(doc: Document, settings: CheckSettings | None = None) -> list
     []
     """
     return list(Checker(settings).update(doc))
+
+
+@dataclass(frozen=True, slots=True)
+class _Place:
+    contour: Contour
+    outline: int
+    global_index: int
+
+
+def self_crossings(doc: Document, settings: CheckSettings | None = None) -> list[Finding]:
+    """The ``self-intersection`` findings of contours crossing themselves, and nothing else.
+
+    Parameters
+    ----------
+    doc : Document
+    settings : CheckSettings, optional
+
+    Returns
+    -------
+    list of Finding
+        Exactly the findings of :func:`check_document` whose kind is ``self-intersection``
+        and whose ``other_contour`` is their own contour (a loop inside one segment, or two
+        segments of one contour crossing or touching), in document order of contours.
+
+    Notes
+    -----
+    Runs only what those findings need: the segment table, the loop test of each segment
+    (:func:`~outlinebench.diagnostics.segment_checks.segment_findings` with
+    ``loops_only``), the open ends (ends that meet are joins, not crossings) and the crossing
+    search (:func:`~outlinebench.diagnostics.contour_checks.overlapping_pairs`, then the
+    narrow phase) with pairs restricted to one contour.
+
+    Examples
+    --------
+    >>> self_crossings(Document())
+    []
+    """
+    settings = settings or CheckSettings()
+    limits = Limits.from_settings(settings, doc.mm_per_unit)
+    refs = list(doc.contour_refs())
+    places = [
+        _Place(
+            r.contour,
+            doc.outlines[r.outline].source_index
+            if doc.outlines[r.outline].source_index >= 0
+            else r.outline,
+            r.global_index,
+        )
+        for r in refs
+    ]
+    counts = np.fromiter(
+        (len(p.contour.segments) for p in places), dtype=np.intp, count=len(places)
+    )
+    segments = [s for p in places for s in p.contour.segments]
+    if not segments:
+        return []
+    table = segment_table(segments, limits.gap)
+    contour_of = np.repeat(np.arange(len(places)), counts)
+    cstart = (np.cumsum(counts) - counts).astype(np.intp)
+    seg_ix = np.arange(len(segments)) - cstart[contour_of]
+    gi = np.array([p.global_index for p in places], dtype=np.intp)
+    outl = np.array([p.outline for p in places], dtype=np.intp)
+    per_contour: dict[int, list[Finding]] = {}
+    for _, f in segment_findings(
+        table, segments, limits, outl[contour_of], gi[contour_of], seg_ix, loops_only=True
+    ):
+        per_contour.setdefault(f.contour, []).append(f)
+    # ends of open contours that meet (their own other end included) are joins
+    ends: list[OpenEnd] = []
+    for c, p in enumerate(places):
+        if p.contour.closed or not counts[c]:
+            continue
+        r0, r1 = int(cstart[c]), int(cstart[c] + counts[c] - 1)
+        ends.append(
+            OpenEnd(
+                p.outline, p.global_index, 0, 0, tuple(table.cubics[r0, 0].tolist()),
+                tuple(table.d0[r0].tolist()), float(table.k0[r0]),
+            )
+        )  # fmt: skip
+        ends.append(
+            OpenEnd(
+                p.outline, p.global_index, r1 - r0, 1, tuple(table.cubics[r1, 3].tolist()),
+                tuple(table.d1[r1].tolist()), float(table.k1[r1]),
+            )
+        )  # fmt: skip
+    joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]] = {}
+    for a, b in open_end_findings(ends, limits)[1]:
+        if a.contour == b.contour:
+            joined_ends.setdefault((a.contour, b.contour), []).append(
+                (a.segment, a.end, b.segment, b.end)
+            )
+            joined_ends.setdefault((b.contour, a.contour), []).append(
+                (b.segment, b.end, a.segment, a.end)
+            )
+    i, j = overlapping_pairs(
+        table.box, contour_of, limits.gap, keep=lines_apart(table.cubics, table.degree, limits.gap)
+    )
+    for _, (_, _, f) in _crossing_hits(
+        places, contour_of, seg_ix, counts, contour_of, table, i, j, joined_ends, limits
+    ):
+        per_contour.setdefault(f.contour, []).append(f)
+    return [f for g in sorted(per_contour) for f in per_contour[g]]
 
 
 def _join_findings_batch(
@@ -279,33 +441,66 @@ class Checker:
         FindingSequence
             The findings (also kept in ``.findings``), a read-only list that later updates
             never change.
+
+        Notes
+        -----
+        The steps, each a method: :meth:`_changed_contours` (what is new),
+        :meth:`_check_segments` (every new segment at once), :meth:`_contour_states` (each
+        changed contour's table and reused findings, and the joins to compute, gathered by
+        one builder, :func:`_join_rows`), :meth:`_check_joins`, :meth:`_check_open_ends`,
+        :meth:`_outline_checks` (crossings and winding) and :meth:`_assemble`.
         """
         changed_outlines = self._changed_outlines(doc, touched)
         full = changed_outlines is None
         if full:
-            self._limits = Limits.from_settings(self.settings, doc.mm_per_unit)
-            changed_outlines = list(range(len(doc.outlines)))
-            self._contours = [None] * sum(len(o.contours) for o in doc.outlines)  # type: ignore[list-item]
-            self._outlines = [None] * len(doc.outlines)  # type: ignore[list-item]
-            first, k = [], 0
-            for o in doc.outlines:
-                first.append(k)
-                k += len(o.contours)
-            self._first = first
+            changed_outlines = self._start_full(doc)
         limits = self._limits
-        assert limits is not None
-        states = self._contours
+        assert limits is not None and changed_outlines is not None
         outs = doc.outlines
         number = {
             i: outs[i].source_index if outs[i].source_index >= 0 else i for i in changed_outlines
         }
+        dirty = self._changed_contours(doc, changed_outlines, full)
+        fresh, seg_by = self._check_segments(dirty, number, limits)
+        new_states, changed_rows, allt, joins = self._contour_states(dirty, fresh, seg_by, number)
+        self._check_joins(new_states, allt, joins, limits)
+        gaps_changed, joined_ends = self._check_open_ends(dirty, full, limits)
+        dirty_outlines = sorted({d.outline for d in dirty})
+        if dirty_outlines:
+            self._outline_checks(
+                doc, dirty_outlines, number, changed_rows, joined_ends, limits, full,
+                fresh if full else None,
+            )  # fmt: skip
+        # an outline without contours (``d=""``, a lone moveto, a zero-size shape) has no
+        # crossings and no winding, but still has its (empty) state
+        for oi in changed_outlines:
+            if self._outlines[oi] is None:
+                self._outlines[oi] = _OutlineState([], [], None)
+        self._assemble(doc, full, dirty_outlines, gaps_changed)
+        self._doc = doc
+        self.findings = self._result
+        return self.findings
 
-        # 1. changed contours, and which of their segments are new objects
-        dirty: list[tuple[int, int, Contour, _ContourState | None, dict[int, int]]] = []
-        fresh_segments: list[np.ndarray] = []
-        lab_outline: list[int] = []
-        lab_contour: list[int] = []
-        lab_segment: list[int] = []
+    # -- the steps of update --------------------------------------------------------------
+    def _start_full(self, doc: Document) -> list[int]:
+        """Forget everything: a full check of every outline follows."""
+        self._limits = Limits.from_settings(self.settings, doc.mm_per_unit)
+        self._contours = [None] * sum(len(o.contours) for o in doc.outlines)  # type: ignore[list-item]
+        self._outlines = [None] * len(doc.outlines)  # type: ignore[list-item]
+        first, k = [], 0
+        for o in doc.outlines:
+            first.append(k)
+            k += len(o.contours)
+        self._first = first
+        return list(range(len(doc.outlines)))
+
+    def _changed_contours(
+        self, doc: Document, changed_outlines: list[int], full: bool
+    ) -> list[_Dirty]:
+        """The contours of the changed outlines that are new objects, with the segments they
+        share with the contour they replace (``reuse``: new index → old index)."""
+        states = self._contours
+        dirty: list[_Dirty] = []
         for oi in changed_outlines:
             gi = self._first[oi]
             for contour in doc.outlines[oi].contours:
@@ -321,23 +516,34 @@ class Checker:
                         if j is not None:
                             reuse[k] = j
                 n = len(contour.segments)
-                if reuse:
-                    new_ix = [k for k in range(n) if k not in reuse]
-                    fresh_segments.extend(contour.segments[k] for k in new_ix)
-                    lab_segment.extend(new_ix)
-                    cnt = len(new_ix)
-                else:
-                    fresh_segments.extend(contour.segments)
-                    lab_segment.extend(range(n))
-                    cnt = n
-                lab_outline.extend([number[oi]] * cnt)
-                lab_contour.extend([gi] * cnt)
-                dirty.append((oi, gi, contour, old, reuse))
+                new_ix = [k for k in range(n) if k not in reuse] if reuse else None
+                dirty.append(_Dirty(oi, gi, contour, old, reuse, new_ix))
                 gi += 1
+        return dirty
 
-        # 2. all new segments at once
+    def _check_segments(
+        self, dirty: list[_Dirty], number: dict[int, int], limits: Limits
+    ) -> tuple[SegmentTable, dict[int, dict[int, list[Finding]]]]:
+        """The table and the single-segment findings of every new segment, in one batch:
+        contour → segment → findings."""
+        fresh_segments: list[np.ndarray] = []
+        lab_outline: list[int] = []
+        lab_contour: list[int] = []
+        lab_segment: list[int] = []
+        for d in dirty:
+            segs = d.contour.segments
+            if d.new_ix is None:
+                fresh_segments.extend(segs)
+                lab_segment.extend(range(len(segs)))
+                cnt = len(segs)
+            else:
+                fresh_segments.extend(segs[k] for k in d.new_ix)
+                lab_segment.extend(d.new_ix)
+                cnt = len(d.new_ix)
+            lab_outline.extend([number[d.outline]] * cnt)
+            lab_contour.extend([d.global_index] * cnt)
         fresh = segment_table(fresh_segments, limits.gap)
-        seg_by: dict[int, dict[int, list[Finding]]] = {}  # contour -> segment -> findings
+        seg_by: dict[int, dict[int, list[Finding]]] = {}
         for _, f in segment_findings(
             fresh,
             fresh_segments,
@@ -348,123 +554,119 @@ class Checker:
         ):
             seg_by.setdefault(f.contour, {}).setdefault(f.segment, []).append(f)
         self.last_segments_computed = len(fresh_segments)
+        return fresh, seg_by
 
-        # 3. per changed contour: its table, segment findings, joins to recompute
+    def _contour_states(
+        self,
+        dirty: list[_Dirty],
+        fresh: SegmentTable,
+        seg_by: dict[int, dict[int, list[Finding]]],
+        number: dict[int, int],
+    ) -> tuple[list[_ContourState], dict[int, NDArray[np.intp]], SegmentTable, _JoinRows]:
+        """Each changed contour's state (table, segment findings, join findings still valid),
+        the rows that changed, one table holding every changed contour, and the joins to
+        compute (rows into that table)."""
+        states = self._contours
         new_states: list[_ContourState] = []
         changed_rows: dict[int, NDArray[np.intp]] = {}
-        if all(not reuse for *_, reuse in dirty):
-            # every changed contour is new as a whole: its rows are a stretch of `fresh`
-            allt = fresh
-            n_arr = np.array([len(c.segments) for _, _, c, _, _ in dirty], dtype=np.intp)
-            closed = np.array([c.closed for _, _, c, _, _ in dirty], dtype=bool)
-            offs = (np.cumsum(n_arr) - n_arr).astype(np.intp)
-            jn = np.where(closed, n_arr, np.maximum(n_arr - 1, 0))
-            total = int(jn.sum())
-            jx_all = np.arange(total) - np.repeat(np.cumsum(jn) - jn, jn)
-            owner_all = np.repeat(np.arange(len(dirty)), jn)
-            base = np.repeat(offs, jn)
-            rin = base + jx_all
-            rout = base + (jx_all + 1) % np.maximum(np.repeat(n_arr, jn), 1)
-            code = INTENT_CODE
-            intent = np.fromiter(
-                (code[x] for _, _, c, _, _ in dirty for x in c.joins), dtype=np.int8, count=total
-            )
-            for d, (oi, gi, contour, _, _) in enumerate(dirty):
-                n = int(n_arr[d])
+        all_new = all(not d.reuse for d in dirty)
+        tables: list[SegmentTable] = []
+        parts: list[tuple[int, Contour, NDArray[np.intp] | None]] = []
+        start = 0  # where the contour's new segments start in `fresh`
+        offset = 0  # where the contour starts in the joint table
+        for d in dirty:
+            contour, gi, n = d.contour, d.global_index, len(d.contour.segments)
+            if not d.reuse:
                 st = _ContourState(
-                    contour, number[oi], gi, fresh, int(offs[d]), n, seg_by.get(gi, {}), {}, []
-                )
-                new_states.append(st)
-                states[gi] = st
+                    contour, number[d.outline], gi, fresh, start, n,
+                    seg_by.get(gi, {}) if all_new else dict(seg_by.get(gi, {})), {}, [],
+                )  # fmt: skip
                 changed_rows[gi] = _ALL
-        else:
-            rows_in: list[NDArray[np.intp]] = []
-            rows_out: list[NDArray[np.intp]] = []
-            intents: list[NDArray[np.int8]] = []
-            owners: list[NDArray[np.intp]] = []
-            join_ix: list[NDArray[np.intp]] = []
-            tables: list[SegmentTable] = []
-            start = 0
-            offset = 0
-            for d, (oi, gi, contour, old, reuse) in enumerate(dirty):
-                n = len(contour.segments)
-                n_fresh = n - len(reuse)
-                seg_f = dict(seg_by.get(gi, {}))
-                if not reuse:
-                    table = fresh.take(slice(start, start + n))
-                    changed = _ALL
-                    join_f: dict[int, Finding] = {}
-                    todo = np.arange(len(contour.joins))
-                else:
-                    assert old is not None
-                    new_ix = [k for k in range(n) if k not in reuse]
-                    changed = np.array(new_ix, dtype=np.intp)
-                    src = np.empty(n, dtype=np.intp)
-                    for k, j in reuse.items():
-                        src[k] = j
-                    src[changed] = len(old.table) + np.arange(n_fresh)
-                    table = SegmentTable.concat(
-                        [old.table, fresh.take(slice(start, start + n_fresh))]
-                    ).take(src)
-                    for k, j in reuse.items():
-                        fs = old.seg_findings.get(j)
-                        if fs:
-                            seg_f[k] = fs if j == k else [f._replace(segment=k) for f in fs]
-                    join_f, todo = self._reuse_joins(contour, old, reuse, changed)
-                start += n_fresh
+                todo = None
+                start += n
+            else:
+                st, changed, todo = self._partly_new(d, fresh, start, seg_by, number)
                 changed_rows[gi] = changed
-                if todo.size:
-                    code = INTENT_CODE
-                    joins = contour.joins
-                    intents.append(np.array([code[joins[j]] for j in todo.tolist()], dtype=np.int8))
-                    rows_in.append(offset + todo)
-                    rows_out.append(offset + (todo + 1) % n)
-                    owners.append(np.full(todo.size, d, dtype=np.intp))
-                    join_ix.append(todo)
-                tables.append(table)
-                offset += n
-                st = _ContourState(contour, number[oi], gi, table, 0, n, seg_f, join_f, [])
-                new_states.append(st)
-                states[gi] = st
-            allt = SegmentTable.concat(tables) if tables else fresh
-            empty_i = np.zeros(0, dtype=np.intp)
-            rin = np.concatenate(rows_in) if rows_in else empty_i
-            rout = np.concatenate(rows_out) if rows_out else empty_i
-            intent = np.concatenate(intents) if intents else np.zeros(0, dtype=np.int8)
-            owner_all = np.concatenate(owners) if owners else empty_i
-            jx_all = np.concatenate(join_ix) if join_ix else empty_i
+                start += len(changed)
+            parts.append((start - n if all_new else offset, contour, todo))
+            if not all_new:
+                tables.append(st.table)
+            offset += n
+            new_states.append(st)
+            states[gi] = st
+        allt = fresh if all_new else (SegmentTable.concat(tables) if tables else fresh)
+        return new_states, changed_rows, allt, _join_rows(parts)
 
-        # 4. the joins, all at once
+    def _partly_new(
+        self,
+        d: _Dirty,
+        fresh: SegmentTable,
+        start: int,
+        seg_by: dict[int, dict[int, list[Finding]]],
+        number: dict[int, int],
+    ) -> tuple[_ContourState, NDArray[np.intp], NDArray[np.intp]]:
+        """State of a contour that keeps some segments of the one it replaces: its table
+        from the old rows and the new ones, the old findings renumbered, and the joins to
+        compute again."""
+        old, reuse, contour = d.old, d.reuse, d.contour
+        assert old is not None and d.new_ix is not None
+        n = len(contour.segments)
+        changed = np.array(d.new_ix, dtype=np.intp)
+        src = np.empty(n, dtype=np.intp)
+        for k, j in reuse.items():
+            src[k] = j
+        src[changed] = len(old.table) + np.arange(changed.size)
+        table = SegmentTable.concat([old.table, fresh.take(slice(start, start + changed.size))])
+        seg_f = dict(seg_by.get(d.global_index, {}))
+        for k, j in reuse.items():
+            fs = old.seg_findings.get(j)
+            if fs:
+                seg_f[k] = fs if j == k else [f._replace(segment=k) for f in fs]
+        join_f, todo = self._reuse_joins(contour, old, reuse, changed)
+        st = _ContourState(
+            contour, number[d.outline], d.global_index, table.take(src), 0, n, seg_f, join_f, []
+        )
+        return st, changed, todo
+
+    def _check_joins(
+        self, new_states: list[_ContourState], allt: SegmentTable, rows: _JoinRows, limits: Limits
+    ) -> None:
+        """Classify the joins to compute, all at once, and give each changed contour its
+        findings in order."""
+        rin, rout = rows.rows_in, rows.rows_out
         self.last_joins_computed = int(rin.size)
         if rin.size:
             verdict, angle, jump = classify_joins(
-                allt.d1[rin], allt.d0[rout], allt.k1[rin], allt.k0[rout], intent,
+                allt.d1[rin], allt.d0[rout], allt.k1[rin], allt.k0[rout], rows.intent,
                 kink_angle=limits.kink_angle, corner_angle=limits.corner_angle,
                 curvature_jump=limits.curvature_jump, straight=limits.straight,
             )  # fmt: skip
             q = np.flatnonzero(verdict)
             if q.size:
-                owner = owner_all[q]
-                jx = jx_all[q]
+                owner = rows.owner[q]
+                jx = rows.join[q]
                 lab_o = np.array([st.outline for st in new_states], dtype=np.intp)[owner]
                 lab_c = np.array([st.global_index for st in new_states], dtype=np.intp)[owner]
                 found = _join_findings_batch(
                     verdict[q], angle[q], jump[q], allt.k1[rin[q]], allt.k0[rout[q]],
-                    intent[q], allt.cubics[rin[q], 3], lab_o, lab_c, jx, limits,
+                    rows.intent[q], allt.cubics[rin[q], 3], lab_o, lab_c, jx, limits,
                 )  # fmt: skip
                 for d, j, f in zip(owner.tolist(), jx.tolist(), found, strict=True):
                     new_states[d].join_findings[j] = f
         for st in new_states:
             st.assemble()
 
-        # 5. open ends: gaps and open contours (whole document; only when an open contour
-        # changed, since closed ones have no ends)
+    def _check_open_ends(
+        self, dirty: list[_Dirty], full: bool, limits: Limits
+    ) -> tuple[bool, dict[tuple[int, int], list[tuple[int, int, int, int]]]]:
+        """Gaps and open contours (whole document; only when an open contour changed, since
+        closed ones have no ends), and the ends that meet: (contour, contour) → their
+        (segment, end, segment, end)."""
         gaps_changed = full or any(
-            not c.closed or (old is not None and not old.contour.closed)
-            for _, _, c, old, _ in dirty
+            not d.contour.closed or (d.old is not None and not d.old.contour.closed) for d in dirty
         )
         if gaps_changed:
-            self._open_ends(states, limits)
+            self._open_ends(self._contours, limits)
         joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]] = {}
         for a, b in self._joined:
             joined_ends.setdefault((a.contour, b.contour), []).append(
@@ -473,24 +675,15 @@ class Checker:
             joined_ends.setdefault((b.contour, a.contour), []).append(
                 (b.segment, b.end, a.segment, a.end)
             )
+        return gaps_changed, joined_ends
 
-        # 6. crossings and winding of the changed outlines
-        dirty_outlines = sorted({oi for oi, _, _, _, _ in dirty})
-        if dirty_outlines:
-            self._outline_checks(
-                doc, dirty_outlines, number, changed_rows, joined_ends, limits, full,
-                fresh if full else None,
-            )  # fmt: skip
-
-        # an outline without contours (``d=""``, a lone moveto, a zero-size shape) has no
-        # crossings and no winding, but still has its (empty) state
-        for oi in changed_outlines:
-            if self._outlines[oi] is None:
-                self._outlines[oi] = _OutlineState([], [], None)
-
-        # 7. assemble: one list of every outline's block, then the gaps block; after an edit
-        # a new FindingSequence shares that list and replaces the changed blocks (sequences
-        # returned earlier are never changed afterwards)
+    def _assemble(
+        self, doc: Document, full: bool, dirty_outlines: list[int], gaps_changed: bool
+    ) -> None:
+        """One list of every outline's block, then the gaps block; after an edit a new
+        FindingSequence shares that list and replaces the changed blocks (sequences returned
+        earlier are never changed afterwards)."""
+        states = self._contours
         n_out = len(doc.outlines)
         if full:
             flat: list[Finding] = []
@@ -525,9 +718,6 @@ class Checker:
             if gaps_changed:
                 blocks[n_out] = self._gap_findings
             self._result = self._result.replace_blocks(blocks)
-        self._doc = doc
-        self.findings = self._result
-        return self.findings
 
     # ------------------------------------------------------------------------------------
     @staticmethod
@@ -651,7 +841,10 @@ class Checker:
                     kept[oi].append((ia, ib, f))
 
         if changed.all() or changed.sum() > _SWEEP_THRESHOLD:
-            i, j = overlapping_pairs(table.box, group, limits.gap)
+            i, j = overlapping_pairs(
+                table.box, group, limits.gap,
+                keep=lines_apart(table.cubics, table.degree, limits.gap),
+            )  # fmt: skip
             sel = changed[i] | changed[j]
             i, j = i[sel], j[sel]
         else:
@@ -667,57 +860,10 @@ class Checker:
             i, j = rows[ri], cj
             sel = (i != j) & ~(changed[j] & (j < i))
             i, j = np.minimum(i[sel], j[sel]), np.maximum(i[sel], j[sel])
-        if i.size:
-            # a segment within the gap tolerance in both directions is reported as tiny; it
-            # touches its neighbours everywhere, so it takes no part in crossings
-            size = np.maximum(table.box[:, 2] - table.box[:, 0], table.box[:, 3] - table.box[:, 1])
-            big = size > limits.gap
-            sel = big[i] & big[j]
-            i, j = i[sel], j[sel]
-        if i.size:
-            n_of = counts[contour_of]
-            closed_of = np.array([st.contour.closed for st in cs])[contour_of]
-            same = contour_of[i] == contour_of[j]
-            nxt = same & (
-                (seg_ix[i] + 1 == seg_ix[j])
-                | (closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0))
-            )
-            prv = same & closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
-            joined = np.where(nxt, 1, np.where(prv, 2, 0)).astype(np.int8)
-            joined[same & (n_of[i] == 2) & (nxt | prv)] = 3
-            if joined_ends:
-                gi_of = np.array([st.global_index for st in cs])[contour_of]
-                for q in np.flatnonzero(joined == 0).tolist():
-                    if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
-                        joined[q] = 3
-            survive = np.ones(i.size, dtype=bool)
-            lines = (table.degree[i] == 1) & (table.degree[j] == 1) & (joined != 3)
-            if lines.any():
-                survive[lines] = lines_may_meet(
-                    table.cubics[i[lines]], table.cubics[j[lines]], joined[lines]
-                )
-            curves = np.flatnonzero(~lines)
-            if curves.size:
-                survive[curves] = narrow_pairs(
-                    table.cubics[i[curves]], table.cubics[j[curves]], joined[curves], limits.gap
-                )
-            for q in np.flatnonzero(survive).tolist():
-                ra, rb = int(i[q]), int(j[q])
-                sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]
-                sa, sb = int(seg_ix[ra]), int(seg_ix[rb])
-                wa = (sta.outline, sta.global_index, sa)
-                wb = (stb.outline, stb.global_index, sb)
-                connected: list[tuple[int, int]] = []
-                if joined[q] in (1, 3) and nxt[q]:
-                    connected.append((1, 0))
-                if joined[q] in (2, 3) and (prv[q] or (nxt[q] and n_of[ra] == 2)):
-                    connected.append((0, 1))
-                for ea_seg, ea, eb_seg, eb in joined_ends.get((wa[1], wb[1]), ()):
-                    if ea_seg == sa and eb_seg == sb:
-                        connected.append((ea, eb))
-                seg_a, seg_b = sta.contour.segments[sa], stb.contour.segments[sb]
-                for f in crossing_findings(seg_a, seg_b, wa, wb, tuple(connected), limits):
-                    kept[int(group[ra])].append((id(seg_a), id(seg_b), f))
+        for grp, hit in _crossing_hits(
+            cs, contour_of, seg_ix, counts, group, table, i, j, joined_ends, limits
+        ):
+            kept[grp].append(hit)
 
         # -- winding of holes -----------------------------------------------------------
         closed = np.array([st.contour.closed and len(st.contour.segments) > 0 for st in cs])
@@ -811,3 +957,79 @@ class Checker:
         block.extend(f for _, _, f in hits)
         block.extend(direction)
         return block
+
+
+def _crossing_hits(
+    cs: Sequence[Any],
+    contour_of: NDArray[np.intp],
+    seg_ix: NDArray[np.intp],
+    counts: NDArray[np.intp],
+    group: NDArray[np.intp],
+    table: SegmentTable,
+    i: NDArray[np.intp],
+    j: NDArray[np.intp],
+    joined_ends: dict[tuple[int, int], list[tuple[int, int, int, int]]],
+    limits: Limits,
+) -> list[tuple[int, tuple[int, int, Finding]]]:
+    """Crossings between the candidate segment pairs (rows i, j of ``table``).
+
+    ``cs[c]`` has ``contour``, ``outline`` and ``global_index`` of the contour of rows
+    ``contour_of == c``; ``seg_ix`` is each row's index in its contour, ``group`` its group
+    (outline). Tiny segments are left out, straight pairs screened by orientation tests and
+    curved ones by subdivision (:func:`narrow_pairs`) before the survivors are intersected.
+    Returns (group, (id of segment a, id of segment b, finding)) per crossing.
+    """
+    out: list[tuple[int, tuple[int, int, Finding]]] = []
+    if i.size:
+        # a segment within the gap tolerance in both directions is reported as tiny; it
+        # touches its neighbours everywhere, so it takes no part in crossings
+        size = np.maximum(table.box[:, 2] - table.box[:, 0], table.box[:, 3] - table.box[:, 1])
+        big = size > limits.gap
+        sel = big[i] & big[j]
+        i, j = i[sel], j[sel]
+    if i.size:
+        n_of = counts[contour_of]
+        closed_of = np.array([st.contour.closed for st in cs])[contour_of]
+        same = contour_of[i] == contour_of[j]
+        nxt = same & (
+            (seg_ix[i] + 1 == seg_ix[j])
+            | (closed_of[i] & (seg_ix[i] == n_of[i] - 1) & (seg_ix[j] == 0))
+        )
+        prv = same & closed_of[i] & (seg_ix[i] == 0) & (seg_ix[j] == n_of[j] - 1)
+        joined = np.where(nxt, 1, np.where(prv, 2, 0)).astype(np.int8)
+        joined[same & (n_of[i] == 2) & (nxt | prv)] = 3
+        if joined_ends:
+            gi_of = np.array([st.global_index for st in cs])[contour_of]
+            for q in np.flatnonzero(joined == 0).tolist():
+                if (int(gi_of[i[q]]), int(gi_of[j[q]])) in joined_ends:
+                    joined[q] = 3
+        survive = np.ones(i.size, dtype=bool)
+        lines = (table.degree[i] == 1) & (table.degree[j] == 1) & (joined != 3)
+        if lines.any():
+            survive[lines] = lines_may_meet(
+                table.cubics[i[lines]], table.cubics[j[lines]], joined[lines]
+            )
+        curves = np.flatnonzero(~lines)
+        if curves.size:
+            survive[curves] = narrow_pairs(
+                table.cubics[i[curves]], table.cubics[j[curves]], joined[curves], limits.gap
+            )
+        for q in np.flatnonzero(survive).tolist():
+            ra, rb = int(i[q]), int(j[q])
+            sta, stb = cs[contour_of[ra]], cs[contour_of[rb]]
+            sa, sb = int(seg_ix[ra]), int(seg_ix[rb])
+            wa = (sta.outline, sta.global_index, sa)
+            wb = (stb.outline, stb.global_index, sb)
+            connected: list[tuple[int, int]] = []
+            if joined[q] in (1, 3) and nxt[q]:
+                connected.append((1, 0))
+            if joined[q] in (2, 3) and (prv[q] or (nxt[q] and n_of[ra] == 2)):
+                connected.append((0, 1))
+            for ea_seg, ea, eb_seg, eb in joined_ends.get((wa[1], wb[1]), ()):
+                if ea_seg == sa and eb_seg == sb:
+                    connected.append((ea, eb))
+            seg_a, seg_b = sta.contour.segments[sa], stb.contour.segments[sb]
+            for f in crossing_findings(seg_a, seg_b, wa, wb, tuple(connected), limits):
+                out.append((int(group[ra]), (id(seg_a), id(seg_b), f)))
+
+    return out

@@ -22,6 +22,7 @@ self-intersection between segments
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -54,6 +55,7 @@ __all__ = [
     "containment_pairs",
     "wrong_direction_findings",
     "overlapping_pairs",
+    "lines_apart",
     "joins_monotone",
     "lines_may_meet",
     "narrow_pairs",
@@ -482,8 +484,21 @@ def wrong_direction_findings(
     return out
 
 
+# The sort-and-sweep along x materialises every pair whose x intervals overlap; above this
+# many such pairs per box (a ring or a zig-zag whose boxes share x ranges with thousands of
+# others) the pairs come from a uniform grid instead, whose candidates stay near the number of
+# truly overlapping boxes.
+_SWEEP_PAIRS_PER_BOX = 16
+# Candidate pairs examined at once by the grid (bounds the memory of one step).
+_GRID_CHUNK = 1 << 21
+
+
 def overlapping_pairs(
-    boxes: FloatArray, group: NDArray[np.intp], pad: float
+    boxes: FloatArray,
+    group: NDArray[np.intp],
+    pad: float,
+    stats: dict[str, int] | None = None,
+    keep: Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]] | None = None,
 ) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
     """Pairs (i < j) of rows in the same group whose boxes overlap (grown by ``pad``).
 
@@ -494,6 +509,13 @@ def overlapping_pairs(
     group : ndarray of int, shape (M,)
         Only rows with equal group are paired (rows of one outline).
     pad : float
+    stats : dict, optional
+        Filled with ``"candidates"``: how many pairs the broad phase examined, and
+        ``"method"``: 0 for the sweep, 1 for the grid.
+    keep : callable, optional
+        ``keep(i, j)`` → bool mask: a further screen applied to each chunk of overlapping
+        pairs as they are found, so pairs it drops are never held all at once (see
+        :func:`lines_apart`).
 
     Returns
     -------
@@ -501,9 +523,17 @@ def overlapping_pairs(
 
     Notes
     -----
-    Sort and sweep along x (each group shifted to its own stretch of the line), then a y test.
+    Sort and sweep along x (each group shifted to its own stretch of the line), then a y test
+    (Baraff's sweep and prune; D. Baraff, *Dynamic simulation of non-penetrating rigid
+    bodies*, PhD thesis, Cornell 1992, §6.2). The number of pairs the sweep would produce is
+    known before they are made; when it passes ``_SWEEP_PAIRS_PER_BOX`` per box, a uniform
+    grid is used instead (:func:`_grid_pairs`), so memory and time stay near
+    n log n + (overlapping pairs) for rings and zig-zags whose boxes share x ranges.
     """
     m = boxes.shape[0]
+    if stats is not None:
+        stats["candidates"] = 0
+        stats["method"] = 0
     if m < 2:
         return np.empty(0, np.intp), np.empty(0, np.intp)
     x0 = boxes[:, 0] - pad
@@ -519,15 +549,167 @@ def overlapping_pairs(
     start = np.arange(m) + 1
     counts = np.maximum(hi - start, 0)
     total = int(counts.sum())
+    if total > _SWEEP_PAIRS_PER_BOX * m + 4096:
+        if stats is not None:
+            stats["method"] = 1
+        return _grid_pairs(boxes, group, pad, stats, keep)
+    if stats is not None:
+        stats["candidates"] = total
     if total == 0:
         return np.empty(0, np.intp), np.empty(0, np.intp)
     first = np.repeat(np.arange(m), counts)
     offs = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
     second = np.repeat(start, counts) + offs
     i, j = order[first], order[second]
-    keep = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
-    i, j = i[keep], j[keep]
-    return np.minimum(i, j), np.maximum(i, j)
+    ok = (boxes[i, 1] - pad <= boxes[j, 3] + pad) & (boxes[j, 1] - pad <= boxes[i, 3] + pad)
+    i, j = np.minimum(i[ok], j[ok]), np.maximum(i[ok], j[ok])
+    if keep is not None:
+        sel = keep(i, j)
+        i, j = i[sel], j[sel]
+    return i, j
+
+
+def _sorted_pairs(
+    i: NDArray[np.intp], j: NDArray[np.intp]
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    order = np.lexsort((j, i))
+    return i[order].astype(np.intp), j[order].astype(np.intp)
+
+
+def _grid_pairs(
+    boxes: FloatArray,
+    group: NDArray[np.intp],
+    pad: float,
+    stats: dict[str, int] | None,
+    keep: Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]] | None = None,
+) -> tuple[NDArray[np.intp], NDArray[np.intp]]:
+    """:func:`overlapping_pairs` by a uniform grid.
+
+    Notes
+    -----
+    The cell size starts at the median box size and doubles until the boxes cover at most
+    eight cells each on average. Each box is entered in every cell it covers; two boxes are
+    candidates in each cell they share, and a pair is kept only in the one cell holding the
+    lower-left corner of the intersection of their boxes, so it is reported once (the
+    "reference point" rule of uniform-grid broad phases, e.g. C. Ericson, *Real-Time
+    Collision Detection*, 2005, §7.1.6). Candidates are examined in chunks of
+    ``_GRID_CHUNK``.
+    """
+    m = boxes.shape[0]
+    lo = boxes[:, :2] - pad
+    hi = boxes[:, 2:] + pad
+    origin = lo.min(axis=0)
+    ext = np.maximum(hi - lo, 0.0)
+    size = float(np.median(ext.max(axis=1)))
+    whole = float((hi.max(axis=0) - origin).max())
+    cell = max(size, whole / 2.0**20, 1e-300)
+    while True:
+        c0 = np.floor((lo - origin) / cell).astype(np.int64)
+        c1 = np.floor((hi - origin) / cell).astype(np.int64)
+        per = (c1[:, 0] - c0[:, 0] + 1) * (c1[:, 1] - c0[:, 1] + 1)
+        if int(per.sum()) <= 8 * m or cell >= whole:
+            break
+        cell *= 2.0
+    ny = int(c1[:, 1].max()) + 1
+    nx = int(c1[:, 0].max()) + 1
+    # every (box, cell) entry: row-major over each box's cell rectangle
+    total = int(per.sum())
+    box_of = np.repeat(np.arange(m), per)
+    within = np.arange(total) - np.repeat(np.cumsum(per) - per, per)
+    w = (c1[:, 1] - c0[:, 1] + 1)[box_of]
+    cx = c0[box_of, 0] + within // w
+    cy = c0[box_of, 1] + within % w
+    key = (group.astype(np.int64)[box_of] * nx + cx) * ny + cy
+    order = np.argsort(key, kind="stable")
+    key, box_of = key[order], box_of[order]
+    del cx, cy, within, w, order
+    # runs of one cell: entry e pairs with the entries after it in its run
+    new_run = np.r_[True, key[1:] != key[:-1]]
+    run_id = np.cumsum(new_run) - 1
+    run_start = np.flatnonzero(new_run)
+    run_end = np.r_[run_start[1:], total]
+    partners = run_end[run_id] - np.arange(total) - 1
+    csum = np.cumsum(partners)
+    n_cand = int(csum[-1]) if total else 0
+    if stats is not None:
+        stats["candidates"] = n_cand
+    out_i: list[NDArray[np.intp]] = []
+    out_j: list[NDArray[np.intp]] = []
+    e_lo = 0
+    while e_lo < total:
+        # entries [e_lo, e_hi) whose partners fit one chunk (at least one entry)
+        done = int(csum[e_lo - 1]) if e_lo else 0
+        e_hi = int(np.searchsorted(csum, done + _GRID_CHUNK, side="right"))
+        e_hi = max(e_hi, e_lo + 1)
+        cnt = partners[e_lo:e_hi]
+        n = int(cnt.sum())
+        if n:
+            first = np.repeat(np.arange(e_lo, e_hi), cnt)
+            second = first + 1 + (np.arange(n) - np.repeat(np.cumsum(cnt) - cnt, cnt))
+            a, b = box_of[first], box_of[second]
+            ok = np.all((lo[a] <= hi[b]) & (lo[b] <= hi[a]), axis=1)
+            cell_key = key[first]
+            a, b, cell_key = a[ok], b[ok], cell_key[ok]
+            # the cell of the intersection's lower-left corner: floor is monotone, so it is
+            # the larger of the two boxes' first cells
+            ref = np.maximum(c0[a], c0[b])
+            ref_key = (group.astype(np.int64)[a] * nx + ref[:, 0]) * ny + ref[:, 1]
+            here = ref_key == cell_key
+            a, b = np.minimum(a[here], b[here]), np.maximum(a[here], b[here])
+            if keep is not None:
+                sel = keep(a, b)
+                a, b = a[sel], b[sel]
+            out_i.append(a)
+            out_j.append(b)
+        e_lo = e_hi
+    if not out_i:
+        return np.empty(0, np.intp), np.empty(0, np.intp)
+    return _sorted_pairs(np.concatenate(out_i), np.concatenate(out_j))
+
+
+def lines_apart(
+    cubics: FloatArray, degree: NDArray[np.int8], pad: float
+) -> Callable[[NDArray[np.intp], NDArray[np.intp]], NDArray[np.bool_]]:
+    """A screen for :func:`overlapping_pairs`: False for pairs where one segment is a line and
+    every control point of the other lies farther than ``pad`` on one side of that line.
+
+    Parameters
+    ----------
+    cubics : ndarray, shape (M, 4, 2)
+    degree : ndarray of int8, shape (M,)
+    pad : float
+        The gap tolerance: what lies within it of the line may still touch it.
+
+    Notes
+    -----
+    A segment lies in the convex hull of its control points (Farin, *Curves and Surfaces for
+    CAGD*, ch. 5), so hull points all strictly on one side of a line never meet it. The sign
+    test is that of the orientation predicate (Cormen et al., *Introduction to Algorithms*,
+    §33.1), made conservative by ``pad``: a pair is dropped only when the distance of every
+    control point from the line exceeds ``pad``.
+    """
+
+    def keep(i: NDArray[np.intp], j: NDArray[np.intp]) -> NDArray[np.bool_]:
+        out = np.ones(i.size, dtype=bool)
+        for line, other in ((i, j), (j, i)):
+            q = np.flatnonzero(degree[line] == 1)
+            if q.size == 0:
+                continue
+            p0 = cubics[line[q], 0]
+            d = cubics[line[q], 3] - p0
+            n = np.hypot(d[:, 0], d[:, 1])
+            rel = cubics[other[q]] - p0[:, None, :]
+            side = (d[:, None, 0] * rel[..., 1] - d[:, None, 1] * rel[..., 0]) / np.where(
+                n > 0, n, 1.0
+            )[:, None]
+            # pad, plus a margin for the rounding of the test and the intersection tolerance
+            tol = pad + 1e-8 * (n + np.abs(rel).max(axis=(1, 2)))
+            far = tol[:, None]
+            apart = (n > 0) & ((side > far).all(axis=1) | (side < -far).all(axis=1))
+            out[q[apart]] = False
+        return out
+
+    return keep
 
 
 def joins_monotone(cub_a: FloatArray, cub_b: FloatArray) -> NDArray[np.bool_]:

@@ -253,33 +253,49 @@ def grid_kink_findings(
     if step is None:
         return list(findings)
     contours = {ref.global_index: ref.contour for ref in doc.contour_refs()}
-    out: list[Finding] = []
-    for f in findings:
+    # the joins to test, gathered first so the rule runs on all of them in one batch
+    picked: list[int] = []
+    steps: list[float] = []
+    pts: list[tuple[FloatArray, FloatArray, FloatArray]] = []
+    for k, f in enumerate(findings):
+        if f.kind != "kink" and not (f.kind == "corner" and f.severity == ERROR):
+            continue
         g = step.get(f.outline) if isinstance(step, dict) else step
-        joinish = f.kind == "kink" or (f.kind == "corner" and f.severity == ERROR)
         c = contours.get(f.contour)
-        if g is None or not joinish or f.join is None or c is None or f.join >= c.join_count:
-            out.append(f)
+        if g is None or f.join is None or c is None or f.join >= c.join_count:
             continue
-        a, p, b = join_points(c, f.join)
-        if not explained_by_rounding(a, p, b, g):
-            out.append(f)
-            continue
+        picked.append(k)
+        steps.append(g)
+        pts.append(join_points(c, f.join))
+    out = list(findings)
+    if not picked:
+        return out
+    g_arr = np.array(steps, dtype=np.float64)
+    if not np.all((g_arr > 0) & np.isfinite(g_arr)):
+        bad = float(g_arr[~((g_arr > 0) & np.isfinite(g_arr))][0])
+        raise ValueError(f"the grid step must be a positive number, got {bad!r}")
+    a_all = np.array([t[0] for t in pts], dtype=np.float64)
+    p_all = np.array([t[1] for t in pts], dtype=np.float64)
+    b_all = np.array([t[2] for t in pts], dtype=np.float64)
+    d = np.asarray(chebyshev_distance_to_segment(p_all, a_all, b_all))
+    explained = d <= g_arr * (1.0 + ROUNDING_SLACK)  # explained_by_rounding, batched
+    for q in np.flatnonzero(explained).tolist():
+        f = findings[picked[q]]
+        g = steps[q]
+        a, p, b = a_all[q], p_all[q], b_all[q]
         chord = b - a
         direction = math.atan2(float(chord[1]), float(chord[0])) if np.any(chord) else None
         limit = max_rounding_angle(
             float(np.hypot(*(p - a))), float(np.hypot(*(b - p))), g, direction
         )
         angle = f.value if f.value is not None else float("nan")
-        out.append(
-            f._replace(
-                kind=GRID_KINK,
-                severity=INFO,
-                limit=limit,
-                message=(
-                    f"grid kink: the tangent turns {angle:.2f}°, which rounding the points to a "
-                    f"grid of {g:g} unit(s) can cause (up to {limit:.2f}° for these handles)"
-                ),
-            )
+        out[picked[q]] = f._replace(
+            kind=GRID_KINK,
+            severity=INFO,
+            limit=limit,
+            message=(
+                f"grid kink: the tangent turns {angle:.2f}°, which rounding the points to a "
+                f"grid of {g:g} unit(s) can cause (up to {limit:.2f}° for these handles)"
+            ),
         )
     return out

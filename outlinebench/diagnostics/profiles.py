@@ -68,7 +68,14 @@ from outlinebench.diagnostics.contour_checks import flattened, point_in_polygon
 from outlinebench.diagnostics.findings import INFO, WARNING, Finding
 from outlinebench.diagnostics.grid_rounding import grid_kink_findings
 from outlinebench.diagnostics.settings import CheckSettings
-from outlinebench.geometry import end_tangents, evaluate, signed_area, to_cubic, unit_tangent
+from outlinebench.geometry import (
+    end_tangents,
+    evaluate,
+    segment_area_terms,
+    signed_area,
+    to_cubic,
+    unit_tangent,
+)
 from outlinebench.io.font_read import FontSource, GlyphRef, is_font_path
 from outlinebench.model.document import Contour, Document
 
@@ -147,7 +154,11 @@ TYPE = CheckProfile(
         "run the way the format says; kinks from grid rounding are info"
     ),
     font_units={"gap_mm": 0.5, "gap_search_mm": 10.0, "extremum_overshoot_mm": 1.0},
-    settings={"curvature_jump_severity": INFO, "straight_into_curve_severity": INFO},
+    settings={
+        "curvature_jump_severity": INFO,
+        "straight_into_curve_severity": INFO,
+        "missing_extremum_severity": WARNING,
+    },
     severities={"curvature-jump": INFO, "missing-extremum": WARNING},
     overlaps=True,
     format_direction=True,
@@ -266,44 +277,97 @@ def outer_direction_findings(
         return []
     want = 1.0 if convention == "clockwise" else -1.0
     samples = CheckSettings().samples_per_segment
+    refs = [r for r in doc.contour_refs() if r.contour.closed and r.contour.segments]
+    if not refs:
+        return []
+    cubics, first, areas = _closed_contour_arrays(refs)
+    counts = np.diff(np.append(first, cubics.shape[0]))
+    lo = np.minimum.reduceat(cubics.min(axis=1), first)
+    hi = np.maximum.reduceat(cubics.max(axis=1), first)
     out: list[Finding] = []
-    first = 0
-    for oi, outline in enumerate(doc.outlines):
-        cs = outline.contours
-        gidx = list(range(first, first + len(cs)))
-        first += len(cs)
-        closed = [k for k, c in enumerate(cs) if c.closed and c.segments]
-        if not closed:
+    wrong = np.flatnonzero((areas != 0.0) & ((areas > 0) != (want > 0)))
+    outline_of = np.array([r.outline for r in refs], dtype=np.intp)
+    # refs run in document order, so each outline's contours are one stretch of rows
+    o_lo = np.searchsorted(outline_of, outline_of, side="left")
+    o_hi = np.searchsorted(outline_of, outline_of, side="right")
+    for k in wrong.tolist():
+        area = float(areas[k])
+        oi = int(outline_of[k])
+        probe = evaluate(cubics[first[k]], 0.5)
+        # closed contours of the same outline whose box holds this one's box
+        a, b = int(o_lo[k]), int(o_hi[k])
+        others = a + np.flatnonzero(
+            np.all(lo[a:b] <= lo[k], axis=1) & np.all(hi[a:b] >= hi[k], axis=1)
+        )
+        inside = False
+        for j in others.tolist():
+            if j == k:
+                continue
+            ring = cubics[first[j] : first[j] + counts[j]]
+            if point_in_polygon(probe, flattened(ring, samples)):
+                inside = True
+                break
+        if inside:
             continue
-        cubics = {k: np.stack([to_cubic(s) for s in cs[k].segments]) for k in closed}
-        boxes = {k: (*cubics[k].min(axis=(0, 1)), *cubics[k].max(axis=(0, 1))) for k in closed}
-        for k in closed:
-            area = float(signed_area(list(cs[k].segments)))
-            if area == 0.0 or (area > 0) == (want > 0):
-                continue
-            b = boxes[k]
-            probe = evaluate(cubics[k][0], 0.5)
-            inside = False
-            for j in closed:
-                if j == k:
-                    continue
-                o = boxes[j]
-                if o[0] <= b[0] and o[1] <= b[1] and o[2] >= b[2] and o[3] >= b[3]:
-                    if point_in_polygon(probe, flattened(cubics[j], samples)):
-                        inside = True
-                        break
-            if inside:
-                continue
-            runs = "clockwise" if area > 0 else "counter-clockwise"
-            fmt = "TrueType" if convention == "clockwise" else "PostScript (CFF) and UFO"
-            out.append(
-                Finding(
-                    "wrong-direction", severity, _outline_number(doc, oi), gidx[k], 0, 0.5,
-                    float(probe[0]), float(probe[1]), abs(area), "user^2",
-                    f"outer contour runs {runs}; {fmt} outer contours run {convention}",
-                )
-            )  # fmt: skip
+        runs = "clockwise" if area > 0 else "counter-clockwise"
+        fmt = "TrueType" if convention == "clockwise" else "PostScript (CFF) and UFO"
+        out.append(
+            Finding(
+                "wrong-direction", severity, _outline_number(doc, oi), refs[k].global_index,
+                0, 0.5, float(probe[0]), float(probe[1]), abs(area), "user^2",
+                f"outer contour runs {runs}; {fmt} outer contours run {convention}",
+            )
+        )  # fmt: skip
     return out
+
+
+# Coordinates beyond this size (relative to a contour's first point) leave the batched area
+# to signed_area, which rescales by powers of two (products of such numbers overflow).
+_BATCH_AREA_LIMIT = 1e150
+
+
+def _closed_contour_arrays(
+    refs: Sequence[Any],
+) -> tuple[FloatArray, NDArray[np.intp], FloatArray]:
+    """Every segment of the given contours as cubics ``(M, 4, 2)`` in order, each contour's
+    first row, and each contour's exact signed area.
+
+    Notes
+    -----
+    Lines and quadratics are elevated exactly (Farin, *Curves and Surfaces for CAGD*, §6.1).
+    The area is Green's theorem summed over the segments
+    (:func:`~outlinebench.geometry.segment_area_terms`, batched over all contours), each
+    segment first moved by its contour's first point as
+    :func:`~outlinebench.geometry.signed_area` does; contours with coordinates too large for
+    the batched products are measured by :func:`~outlinebench.geometry.signed_area` itself.
+    """
+    segs = [s for r in refs for s in r.contour.segments]
+    counts = np.fromiter((len(r.contour.segments) for r in refs), dtype=np.intp, count=len(refs))
+    first = (np.cumsum(counts) - counts).astype(np.intp)
+    owner = np.repeat(np.arange(len(refs)), counts)
+    sizes = np.fromiter((s.shape[0] for s in segs), dtype=np.intp, count=len(segs))
+    cubics = np.empty((len(segs), 4, 2))
+    origin = np.array([r.contour.segments[0][0] for r in refs], dtype=np.float64)
+    terms = np.zeros(len(segs))
+    for k in (2, 3, 4):
+        rows = np.flatnonzero(sizes == k)
+        if rows.size == 0:
+            continue
+        batch = np.stack([segs[r] for r in rows.tolist()])
+        cubics[rows] = to_cubic(batch) if k < 4 else batch
+        with np.errstate(over="ignore", invalid="ignore"):
+            terms[rows] = segment_area_terms(batch - origin[owner[rows]][:, None, :])
+    areas = np.add.reduceat(terms, first) if len(segs) else np.zeros(0)
+    # a contour whose last point is not its first is closed by a straight line (SVG "Z"):
+    # from the last point to the first, the origin here, its term x_e·0 − y_e·0 is zero
+    with np.errstate(over="ignore", invalid="ignore"):
+        shift = np.abs(cubics - origin[owner][:, None, :]).max(axis=(1, 2))
+    far = np.flatnonzero(
+        ~(np.maximum.reduceat(shift, first) < _BATCH_AREA_LIMIT) | ~np.isfinite(areas)
+    )
+    for k in far.tolist():
+        areas[k] = signed_area(list(refs[k].contour.segments))
+    return cubics, first, areas
 
 
 def _rays(contour: Contour, segment: int, t: float) -> list[FloatArray]:
@@ -531,8 +595,9 @@ def apply_profile(
                     ),
                 )
     if p.severities:
-        out = [f._replace(severity=p.severities[f.kind]) if f.kind in p.severities else f
-               for f in out]  # fmt: skip
+        sev = p.severities
+        out = [f._replace(severity=sev[f.kind]) if f.kind in sev and f.severity != sev[f.kind]
+               else f for f in out]  # fmt: skip
     if p.format_direction:
         extra = outer_direction_findings(doc, direction_convention(doc))
         if extra:

@@ -7,10 +7,11 @@ them to another length unit with a factor (user units → unit), which also conv
 
 from __future__ import annotations
 
+import json
 import math
 from collections import Counter
-from collections.abc import Sequence
-from typing import Any
+from collections.abc import Iterable, Iterator, Sequence
+from typing import Any, TextIO
 
 from outlinebench.diagnostics.file_findings import FileFinding
 from outlinebench.diagnostics.findings import (
@@ -37,6 +38,8 @@ __all__ = [
     "UNIT_WORDS",
     "text_report",
     "json_report",
+    "iter_json",
+    "write_json_stream",
 ]
 
 # Carried by machine-readable output that may feed a cutting job.
@@ -300,3 +303,160 @@ def json_report(
         "severities": list(SEVERITIES),
         "caution": CAUTION,
     }
+
+
+# -- JSON written as it is produced ---------------------------------------------------------
+
+_SCALARS = (str, int, float, bool, type(None))
+_INDENT = "  "
+_encode_str = json.encoder.encode_basestring  # type: ignore[attr-defined]
+_flat_encoders: dict[int, json.JSONEncoder] = {}
+# How much text is gathered before one write (a few thousand findings).
+_CHUNK_CHARS = 1 << 16
+
+
+def _flat_encoder(depth: int) -> json.JSONEncoder:
+    """The standard library's C encoder, with separators that give indented lines at
+    ``depth`` for a container whose items are all scalars."""
+    enc = _flat_encoders.get(depth)
+    if enc is None:
+        enc = json.JSONEncoder(
+            ensure_ascii=False,
+            allow_nan=False,
+            separators=(",\n" + _INDENT * (depth + 1), ": "),
+        )
+        _flat_encoders[depth] = enc
+    return enc
+
+
+def _finite(v: Any) -> Any:
+    return None if isinstance(v, float) and not math.isfinite(v) else v
+
+
+def _scalar(v: Any) -> str:
+    if isinstance(v, str):
+        return _encode_str(v)
+    if v is None:
+        return "null"
+    if v is True:
+        return "true"
+    if v is False:
+        return "false"
+    if isinstance(v, int):
+        return int.__repr__(v)
+    if isinstance(v, float):
+        return float.__repr__(v) if math.isfinite(v) else "null"
+    raise TypeError(f"Object of type {type(v).__name__} is not JSON serializable")
+
+
+def _key(k: Any) -> str:
+    if isinstance(k, str):
+        return _encode_str(k)
+    if isinstance(k, bool) or k is None or isinstance(k, (int, float)):
+        return _encode_str(_scalar(k))  # the standard library's key conversion
+    raise TypeError(f"keys must be str, int, float, bool or None, not {type(k).__name__}")
+
+
+def iter_json(obj: Any, depth: int = 0) -> Iterator[str]:
+    """Pieces of ``json.dumps(obj, indent=2, ensure_ascii=False, allow_nan=False)`` in order,
+    with non-finite floats written as ``null``; lists and tuples may also be any iterable
+    (a generator of findings), consumed as it is written.
+
+    Parameters
+    ----------
+    obj : dict, list, tuple, iterable or scalar
+    depth : int
+        Indentation level of ``obj`` itself.
+
+    Yields
+    ------
+    str
+        Their concatenation is the text of the standard library's indented encoder.
+
+    Notes
+    -----
+    The layout is that of :func:`json.dumps` with ``indent=2`` (Python Standard Library,
+    "json — JSON encoder and decoder"): each item of a non-empty container on its own line,
+    indented one level deeper, empty containers as ``[]`` and ``{}``. A container whose
+    items are all scalars is written in one call of the standard library's C encoder with the
+    item separator ``",\\n"`` plus the indentation (the same text, much faster than the
+    pure-Python indented encoder).
+
+    Examples
+    --------
+    >>> print("".join(iter_json({"a": [1, 2.5], "b": {}})))
+    {
+      "a": [
+        1,
+        2.5
+      ],
+      "b": {}
+    }
+    """
+    if isinstance(obj, _SCALARS):
+        yield _scalar(obj)
+        return
+    ind, ind_in = _INDENT * depth, _INDENT * (depth + 1)
+    if isinstance(obj, dict):
+        if not obj:
+            yield "{}"
+            return
+        vals = obj.values()
+        if all(isinstance(v, _SCALARS) for v in vals):
+            try:
+                text = _flat_encoder(depth).encode(obj)
+            except ValueError:  # a non-finite float: written as null
+                text = _flat_encoder(depth).encode({k: _finite(v) for k, v in obj.items()})
+            yield "{\n" + ind_in + text[1:-1] + "\n" + ind + "}"
+            return
+        yield "{"
+        sep = "\n"
+        for k, v in obj.items():
+            yield sep + ind_in + _key(k) + ": "
+            yield from iter_json(v, depth + 1)
+            sep = ",\n"
+        yield "\n" + ind + "}"
+        return
+    if isinstance(obj, (list, tuple)):
+        if not obj:
+            yield "[]"
+            return
+        if all(isinstance(v, _SCALARS) for v in obj):
+            try:
+                text = _flat_encoder(depth).encode(list(obj))
+            except ValueError:
+                text = _flat_encoder(depth).encode([_finite(v) for v in obj])
+            yield "[\n" + ind_in + text[1:-1] + "\n" + ind + "]"
+            return
+        items: Iterable[Any] = obj
+    elif isinstance(obj, Iterable):
+        items = obj
+    else:
+        raise TypeError(f"Object of type {type(obj).__name__} is not JSON serializable")
+    opened = False
+    for v in items:
+        yield (",\n" if opened else "[\n") + ind_in
+        opened = True
+        yield from iter_json(v, depth + 1)
+    yield ("\n" + ind + "]") if opened else "[]"
+
+
+def write_json_stream(obj: Any, stream: TextIO) -> None:
+    """Write ``obj`` as indented JSON and a newline, piece by piece as it is encoded.
+
+    The text is that of ``json.dump(obj, stream, indent=2, ensure_ascii=False,
+    allow_nan=False)`` with non-finite floats as ``null``, then ``"\\n"``
+    (:func:`iter_json`); it is written in chunks of about 64 k characters, so a report of
+    many findings is never held as one string.
+    """
+    buf: list[str] = []
+    size = 0
+    for piece in iter_json(obj):
+        buf.append(piece)
+        size += len(piece)
+        if size >= _CHUNK_CHARS:
+            stream.write("".join(buf))
+            buf.clear()
+            size = 0
+    buf.append("\n")
+    stream.write("".join(buf))

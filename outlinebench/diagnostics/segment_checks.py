@@ -88,6 +88,7 @@ class Limits:
     samples: int
     jump_severity: str
     straight_severity: str
+    extremum_severity: str = INFO
 
     @classmethod
     def from_settings(cls, s: CheckSettings, mm_per_unit: float) -> Limits:
@@ -104,6 +105,7 @@ class Limits:
             samples=int(s.samples_per_segment),
             jump_severity=s.curvature_jump_severity,
             straight_severity=s.straight_into_curve_severity,
+            extremum_severity=s.missing_extremum_severity,
         )
 
 
@@ -298,6 +300,8 @@ def segment_findings(
     outline: NDArray[np.intp],
     contour: NDArray[np.intp],
     segment: NDArray[np.intp],
+    *,
+    loops_only: bool = False,
 ) -> list[tuple[int, Finding]]:
     """Run every single-segment check on a batch.
 
@@ -312,6 +316,9 @@ def segment_findings(
     outline, contour, segment : ndarray of int, shape (M,)
         Where each row sits (outline index, global contour index, index in the contour), used
         to label the findings.
+    loops_only : bool
+        Only the ``self-intersection`` findings of loops inside one segment (what measuring
+        needs), skipping the other checks.
 
     Returns
     -------
@@ -335,7 +342,9 @@ def segment_findings(
         lengths = np.atleast_1d(arc_length(cub[maybe]))
         is_tiny = lengths < limits.gap
         tiny[maybe[is_tiny]] = True
-        for r, length in zip(maybe[is_tiny], lengths[is_tiny], strict=True):
+        for r, length in zip(
+            maybe[is_tiny], lengths[is_tiny] if not loops_only else [], strict=False
+        ):
             o, c, s = place(r)
             x, y = evaluate(cub[r], 0.5)
             out.append(
@@ -353,7 +362,7 @@ def segment_findings(
     # -- degenerate handles --------------------------------------------------------------
     h0, h1 = handle_lengths(cub, table.degree)
     curved = (table.degree >= 2) & ~tiny
-    for end, hl in ((0, h0), (1, h1)):
+    for end, hl in ((0, h0), (1, h1)) if not loops_only else ():
         for r in np.flatnonzero(curved & (hl <= limits.gap)):
             o, c, s = place(r)
             x, y = cub[r, 3 * end]
@@ -377,7 +386,7 @@ def segment_findings(
         seg = segments[r]
         size = float(np.max(np.ptp(seg, axis=0)))
         o, c, s = place(r)
-        found_t = cusps(seg, tolerance=limits.cusp_tolerance * size)
+        found_t = () if loops_only else cusps(seg, tolerance=limits.cusp_tolerance * size)
         if len(found_t):
             cusp_at[int(r)] = np.asarray(found_t, dtype=np.float64)
         for t in found_t:
@@ -415,6 +424,8 @@ def segment_findings(
                     )
                 )  # fmt: skip
 
+    if loops_only:
+        return out
     # -- interior extrema without an on-curve point ----------------------------------------
     lo = np.minimum(cub[:, 0], cub[:, 3]) - limits.overshoot
     hi = np.maximum(cub[:, 0], cub[:, 3]) + limits.overshoot
@@ -446,7 +457,8 @@ def segment_findings(
                 (
                     r,
                     Finding(
-                        "missing-extremum", INFO, o, cc, s, t, float(vals[q, k, 0]),
+                        "missing-extremum", limits.extremum_severity, o, cc, s, t,
+                        float(vals[q, k, 0]),
                         float(vals[q, k, 1]), ov, "user",
                         missing_extremum_message(name, t, ov),
                         limit=limits.overshoot,

@@ -100,6 +100,9 @@ class CheckSettings:
         Severity of a curvature jump where one side is straight (default ``"info"``: a line
         running tangentially into an arc is a deliberate construction in lettering and parts,
         and every such join breaks G2 by definition).
+    missing_extremum_severity : str
+        Severity of a missing extremum point (default ``"info"``; the ``type`` profile makes
+        it a warning).
 
     Raises
     ------
@@ -119,6 +122,7 @@ class CheckSettings:
     samples_per_segment: int = DEFAULT_SAMPLES_PER_SEGMENT
     curvature_jump_severity: str = WARNING
     straight_into_curve_severity: str = INFO
+    missing_extremum_severity: str = INFO
 
     def __post_init__(self) -> None:
         for name in (
@@ -146,6 +150,10 @@ class CheckSettings:
             )
         if int(self.samples_per_segment) < 2:
             raise ValueError("samples_per_segment must be at least 2")
-        for name in ("curvature_jump_severity", "straight_into_curve_severity"):
+        for name in (
+            "curvature_jump_severity",
+            "straight_into_curve_severity",
+            "missing_extremum_severity",
+        ):
             if getattr(self, name) not in SEVERITIES:
                 raise ValueError(f"{name} must be one of {', '.join(SEVERITIES)}")

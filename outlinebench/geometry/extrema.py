@@ -139,7 +139,9 @@ def bounding_box(points: ArrayLike) -> tuple[float, float, float, float] | Float
     Notes
     -----
     The extremes of each coordinate are among its values at t = 0, t = 1 and the interior
-    roots of its derivative (Farin §5.3), all evaluated here at once.
+    roots of its derivative (Farin §5.3), all evaluated here at once; segments whose handles
+    lie within their end points' range have their box from the end points alone (convex hull
+    property).
 
     Examples
     --------
@@ -147,19 +149,22 @@ def bounding_box(points: ArrayLike) -> tuple[float, float, float, float] | Float
     (0.0, 0.0, 2.0, 1.0)
     """
     pts, single = as_batch(points)
-    m = pts.shape[0]
-    st = stationary_params(pts)  # (M, 2, 2)
-    ts = np.concatenate([np.zeros((m, 1)), np.ones((m, 1)), st.reshape(m, 4)], axis=1)
-    valid = np.isfinite(ts)
-    ts = np.where(valid, ts, 0.0)
-    # Evaluate each segment at its own 6 parameters (Bernstein form, exact at 0 and 1).
     n = pts.shape[1] - 1
-    basis = bernstein_matrix(n, ts.ravel()).reshape(m, 6, n + 1)
-    vals = np.einsum("mtk,mkd->mtd", basis, pts)
-    vals[:, 0] = pts[:, 0]
-    vals[:, 1] = pts[:, -1]
-    lo = np.where(valid[..., None], vals, np.inf).min(axis=1)
-    hi = np.where(valid[..., None], vals, -np.inf).max(axis=1)
+    ends = pts[:, [0, -1]]
+    lo = ends.min(axis=1)
+    hi = ends.max(axis=1)
+    # Only where a handle lies beyond its end points' range can the curve leave it (convex
+    # hull property, Farin §5.3): the interior roots are found and evaluated for those rows.
+    inner = pts[:, 1:-1]
+    look = np.flatnonzero(((inner < lo[:, None, :]) | (inner > hi[:, None, :])).any(axis=(1, 2)))
+    if look.size:
+        sub = pts[look]
+        ts = stationary_params(sub).reshape(look.size, 4)
+        valid = np.isfinite(ts)
+        basis = bernstein_matrix(n, np.where(valid, ts, 0.0).ravel()).reshape(look.size, 4, n + 1)
+        vals = np.einsum("mtk,mkd->mtd", basis, sub)
+        lo[look] = np.minimum(lo[look], np.where(valid[..., None], vals, np.inf).min(axis=1))
+        hi[look] = np.maximum(hi[look], np.where(valid[..., None], vals, -np.inf).max(axis=1))
     box = np.concatenate([lo, hi], axis=1)
     if single:
         return tuple(float(v) for v in box[0])

@@ -39,6 +39,7 @@ from outlinebench.diagnostics.profiles import (
     get_profile,
     profile_settings,
 )
+from outlinebench.diagnostics.report import iter_json
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
 from outlinebench.errors import OutlinebenchError
 from outlinebench.model.document import Document
@@ -54,7 +55,6 @@ from outlinebench.subcommands._common import (
     positive_float,
     read_svg_partly,
     unit_factor,
-    write_json,
 )
 
 __all__ = [
@@ -145,12 +145,29 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
     add_entity_option(parser)
     parser.add_argument(
+        "--jobs",
+        type=_jobs,
+        metavar="N",
+        default=None,
+        help="worker processes checking several files at once (default: one per core)",
+    )
+    parser.add_argument(
         "--units",
         choices=LENGTH_UNITS,
         default="user",
         help="unit of --gap/--gap-search and of reported lengths and positions: the SVG "
         "root's user units (default) or mm, in, pt, px",
     )
+
+
+def _jobs(text: str) -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        n = 0
+    if n < 1:
+        raise argparse.ArgumentTypeError(f"--jobs needs a whole number of at least 1, got {text!r}")
+    return n
 
 
 class OptionMismatch(Exception):
@@ -312,6 +329,36 @@ def guarded_check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         }
 
 
+def _encoded_check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
+    """:func:`guarded_check_file`, with the JSON report already encoded as text
+    (``"json_text"``, the text of :func:`~outlinebench.diagnostics.report.iter_json`), so the
+    worker processes, not the parent, do the encoding and the parent receives one string."""
+    r = guarded_check_file(path, options)
+    if "json" in r:
+        r["json_text"] = "".join(iter_json(r.pop("json")))
+    return r
+
+
+def _write_reports(items: list[Any], single: bool) -> None:
+    """The JSON of one report, or of the list of them: the text of
+    :func:`~outlinebench.diagnostics.report.write_json_stream` on the same objects.
+
+    A report encoded at depth 0 becomes the list item at depth 1 by indenting every line
+    after its first by one level (encoded strings hold no raw newline: JSON escapes them).
+    """
+    out = sys.stdout
+    texts = (x if isinstance(x, str) else "".join(iter_json(x)) for x in items)
+    if single:
+        out.write(next(texts) + "\n")
+        return
+    out.write("[\n  ")
+    for k, text in enumerate(texts):
+        if k:
+            out.write(",\n  ")
+        out.write(text.replace("\n", "\n  "))
+    out.write("\n]\n")
+
+
 def _progress(done: int, total: int) -> None:
     width = 30
     filled = width * done // total
@@ -360,7 +407,9 @@ def expand_files(paths: list[str]) -> list[str]:
     return out
 
 
-def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[dict[str, Any]]:
+def _run_all(
+    files: list[str], options: dict[str, Any], progress: bool, jobs: int | None = None
+) -> list[dict[str, Any]]:
     """Check every file, in parallel on all cores for several; one result per file, in order.
 
     A worker process that dies (killed, out of memory) is a crash of the file it was
@@ -368,11 +417,11 @@ def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[
     worker each, so one bad file never hides another.
     """
     if len(files) == 1:
-        return [guarded_check_file(files[0], options)]
+        return [_encoded_check_file(files[0], options)]
     results: list[dict[str, Any] | None] = [None] * len(files)
-    workers = min(len(files), os.cpu_count() or 1)
+    workers = min(len(files), jobs or os.cpu_count() or 1)
     with ProcessPoolExecutor(max_workers=workers) as pool:
-        futures = [pool.submit(guarded_check_file, f, options) for f in files]
+        futures = [pool.submit(_encoded_check_file, f, options) for f in files]
         for k, fut in enumerate(futures):
             try:
                 results[k] = fut.result()
@@ -385,7 +434,7 @@ def _run_all(files: list[str], options: dict[str, Any], progress: bool) -> list[
             continue
         with ProcessPoolExecutor(max_workers=1) as pool:
             try:
-                results[k] = pool.submit(guarded_check_file, files[k], options).result()
+                results[k] = pool.submit(_encoded_check_file, files[k], options).result()
             except BrokenProcessPool:
                 results[k] = {
                     "file": files[k],
@@ -421,7 +470,7 @@ def run(args: argparse.Namespace) -> int:
         return EXIT_BAD_INPUT
     files = expand_files(list(args.files))
     show_progress = len(files) > 1 and sys.stderr.isatty()
-    results = _run_all(files, options, show_progress)
+    results = _run_all(files, options, show_progress, getattr(args, "jobs", None))
     debug = getattr(args, "debug", False)
 
     code = EXIT_OK
@@ -444,13 +493,13 @@ def run(args: argparse.Namespace) -> int:
         if r["problems"]:
             code = max(code, EXIT_FINDINGS)
         if args.json:
-            payload.append(r["json"])
+            payload.append(r["json_text"])
         else:
             print(r["text"])
     if args.json and payload:
         if len(files) == 1:
-            if "json" in results[0]:
-                write_json(payload[0])
+            if "json_text" in results[0]:
+                _write_reports(payload, single=True)
         else:
-            write_json(payload)
+            _write_reports(payload, single=False)
     return code

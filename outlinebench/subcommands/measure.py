@@ -17,7 +17,7 @@ import sys
 from typing import Any
 
 from outlinebench.api.measuring import measure_document
-from outlinebench.diagnostics.report import format_file_finding
+from outlinebench.diagnostics.report import format_file_finding, write_json_stream
 from outlinebench.io.svg_write import one_line
 from outlinebench.subcommands import EXIT_FINDINGS, EXIT_OK
 from outlinebench.subcommands._common import (
@@ -28,7 +28,6 @@ from outlinebench.subcommands._common import (
     read_svg_partly,
     unit_factor,
     unit_words,
-    write_json,
 )
 
 __all__ = ["NAME", "HELP", "add_arguments", "run", "measure_document"]
@@ -111,14 +110,15 @@ def run(args: argparse.Namespace) -> int:
     m = measure_document(doc, args.units, args.joins)
     problems = [f for f in read.file_findings if f.severity in ("error", "warning")]
     if args.json:
-        write_json(
+        write_json_stream(
             {
                 "file": args.file,
                 "complete": not problems,
                 **m,
                 "findings": [f.to_dict() for f in read.file_findings],
                 "notes": read.notes,
-            }
+            },
+            sys.stdout,
         )
     else:
         for f in read.file_findings:

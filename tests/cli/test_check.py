@@ -308,3 +308,17 @@ def test_units_refused_when_x_and_y_scale_differently(tmp_path, capsys):
     assert code == 2 and len(lines) == 1 and str(f) in lines[0] and "--units user" in lines[0]
     code, _, _ = run([str(f)], capsys)
     assert code == 1  # user units: checked (an open line)
+
+
+def test_jobs_gives_the_same_report_as_one_worker_and_refuses_zero(capsys):
+    files = [CLEAN, DEFECTS, BRACKET, BRACKET_DEFECTS]
+    code1, out1, _ = run(["--json", "--jobs", "1", *files], capsys)
+    code2, out2, _ = run(["--json", "--jobs", "2", *files], capsys)
+    # reference: each file checked on its own (one call per file), in the order given
+    alone = [json.loads(run(["--json", f], capsys)[1]) for f in files]
+    assert json.loads(out1) == alone
+    assert (code1, out1) == (code2, out2)
+    with pytest.raises(SystemExit) as exc:
+        main(["check", "--jobs", "0", CLEAN])
+    assert exc.value.code == 2  # argparse usage error (Python argparse documentation)
+    assert "--jobs" in capsys.readouterr().err
