@@ -59,6 +59,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from outlinebench.diagnostics.findings import ERROR, INFO, Finding
+from outlinebench.errors import OptionError
 from outlinebench.model.document import Contour, Document
 
 __all__ = [
@@ -158,7 +159,7 @@ def explained_by_rounding(
     False
     """
     if not (step > 0 and math.isfinite(step)):
-        raise ValueError(f"the grid step must be a positive number, got {step!r}")
+        raise OptionError(f"the grid step must be a positive number, got {step!r}")
     d = chebyshev_distance_to_segment(at, before, after)
     ok = np.asarray(d) <= step * (1.0 + ROUNDING_SLACK)
     return bool(ok) if ok.ndim == 0 else ok
@@ -273,7 +274,7 @@ def grid_kink_findings(
     g_arr = np.array(steps, dtype=np.float64)
     if not np.all((g_arr > 0) & np.isfinite(g_arr)):
         bad = float(g_arr[~((g_arr > 0) & np.isfinite(g_arr))][0])
-        raise ValueError(f"the grid step must be a positive number, got {bad!r}")
+        raise OptionError(f"the grid step must be a positive number, got {bad!r}")
     a_all = np.array([t[0] for t in pts], dtype=np.float64)
     p_all = np.array([t[1] for t in pts], dtype=np.float64)
     b_all = np.array([t[2] for t in pts], dtype=np.float64)

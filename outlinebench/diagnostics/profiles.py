@@ -68,6 +68,7 @@ from outlinebench.diagnostics.contour_checks import flattened, point_in_polygon
 from outlinebench.diagnostics.findings import INFO, WARNING, Finding
 from outlinebench.diagnostics.grid_rounding import grid_kink_findings
 from outlinebench.diagnostics.settings import CheckSettings
+from outlinebench.errors import OptionError
 from outlinebench.geometry import (
     end_tangents,
     evaluate,
@@ -185,7 +186,7 @@ def get_profile(name: str | CheckProfile) -> CheckProfile:
     try:
         return PROFILES[name]
     except KeyError:
-        raise ValueError(
+        raise OptionError(
             f"unknown check profile {name!r}; choose one of: {', '.join(PROFILE_NAMES)}"
         ) from None
 

@@ -12,6 +12,7 @@ import math
 from dataclasses import dataclass
 
 from outlinebench.diagnostics.findings import INFO, SEVERITIES, WARNING
+from outlinebench.errors import OptionError
 
 __all__ = [
     "DEFAULT_GAP_MM",
@@ -137,23 +138,23 @@ class CheckSettings:
         ):
             v = getattr(self, name)
             if not isinstance(v, (int, float)) or not math.isfinite(v) or v < 0:
-                raise ValueError(f"setting {name} must be a finite number ≥ 0, got {v!r}")
+                raise OptionError(f"setting {name} must be a finite number ≥ 0, got {v!r}")
         if not 0 < self.kink_angle < self.corner_angle <= 180:
-            raise ValueError(
+            raise OptionError(
                 f"need 0 < kink angle < corner angle ≤ 180 degrees, got kink {self.kink_angle}, "
                 f"corner {self.corner_angle}"
             )
         if self.gap_search_mm < self.gap_mm:
-            raise ValueError(
+            raise OptionError(
                 f"the gap search distance ({self.gap_search_mm} mm) must not be below the gap "
                 f"tolerance ({self.gap_mm} mm)"
             )
         if int(self.samples_per_segment) < 2:
-            raise ValueError("samples_per_segment must be at least 2")
+            raise OptionError("samples_per_segment must be at least 2")
         for name in (
             "curvature_jump_severity",
             "straight_into_curve_severity",
             "missing_extremum_severity",
         ):
             if getattr(self, name) not in SEVERITIES:
-                raise ValueError(f"{name} must be one of {', '.join(SEVERITIES)}")
+                raise OptionError(f"{name} must be one of {', '.join(SEVERITIES)}")

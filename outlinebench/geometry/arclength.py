@@ -501,7 +501,9 @@ def quadratic_arc_length(points: ArrayLike) -> float | FloatArray:
     """
     pts, single = as_batch(points)
     if pts.shape[1] != 3:
-        raise ValueError(f"a quadratic segment needs 3 control points, got {pts.shape[1]}")
+        raise InvalidGeometryError(
+            f"a quadratic segment needs 3 control points, got {pts.shape[1]}"
+        )
     q, scale = normalized(pts)
     A = q[:, 0] - 2.0 * q[:, 1] + q[:, 2]
     B = q[:, 1] - q[:, 0]

@@ -25,6 +25,7 @@ from collections.abc import Sequence
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from outlinebench.errors import OptionError
 from outlinebench.geometry.bezier import derivative, evaluate
 from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.nearest import nearest_point
@@ -675,7 +676,7 @@ def fit_polyline(
     Glassner (ed.), *Graphics Gems*, Academic Press, 1990, pp. 612-626.
     """
     if not (np.isfinite(tolerance) and tolerance > 0.0):
-        raise ValueError(f"the fitting tolerance must be > 0, got {tolerance!r}")
+        raise OptionError(f"the fitting tolerance must be > 0, got {tolerance!r}")
     pts = _clean_polyline(points, closed)
     if len(pts) < 2:
         return []

@@ -23,7 +23,7 @@ from functools import lru_cache
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from outlinebench.errors import InvalidGeometryError
+from outlinebench.errors import InvalidGeometryError, OptionError
 
 __all__ = [
     "GAUSS_ORDER",
@@ -97,7 +97,7 @@ def gauss_legendre(order: int = GAUSS_ORDER) -> tuple[FloatArray, FloatArray]:
     0.25
     """
     if int(order) < 1:
-        raise ValueError(f"Gauss–Legendre order must be at least 1, got {order}")
+        raise OptionError(f"Gauss–Legendre order must be at least 1, got {order}")
     return _gauss_legendre_cached(int(order))
 
 
@@ -162,7 +162,7 @@ def gauss_kronrod(n: int = KRONROD_GAUSS_POINTS) -> tuple[FloatArray, FloatArray
     with QUADPACK's QK21 table to ~1e-16 and ~2e-16 (Piessens et al., *QUADPACK*, 1983).
     """
     if int(n) < 1:
-        raise ValueError(f"Gauss–Kronrod needs at least 1 Gauss point, got {n}")
+        raise OptionError(f"Gauss–Kronrod needs at least 1 Gauss point, got {n}")
     return _gauss_kronrod_cached(int(n))
 
 

@@ -8,6 +8,7 @@ from collections.abc import Sequence
 import numpy as np
 from numpy.typing import ArrayLike
 
+from outlinebench.errors import InvalidGeometryError, OptionError
 from outlinebench.io.numbers import format_number
 from outlinebench.io.svg_read import SVG_NS
 
@@ -54,7 +55,7 @@ def polylines_svg(
         Non-finite points, a contour with fewer than 2 points, or a bad size.
     """
     if not (width_mm > 0 and height_mm > 0 and math.isfinite(width_mm * height_mm)):
-        raise ValueError(f"page size must be positive, got {width_mm} × {height_mm} mm")
+        raise OptionError(f"page size must be positive, got {width_mm} × {height_mm} mm")
     f = format_number
     w, h = f(width_mm), f(height_mm)
     out = [
@@ -67,9 +68,11 @@ def polylines_svg(
     for k, pts in enumerate(contours_points):
         arr = np.asarray(pts, dtype=np.float64)
         if arr.ndim != 2 or arr.shape[1] != 2 or arr.shape[0] < 2:
-            raise ValueError(f"contour {k}: points must have shape (N >= 2, 2), got {arr.shape}")
+            raise InvalidGeometryError(
+                f"contour {k}: points must have shape (N >= 2, 2), got {arr.shape}"
+            )
         if not np.all(np.isfinite(arr)):
-            raise ValueError(f"contour {k}: points must be finite")
+            raise InvalidGeometryError(f"contour {k}: points must be finite")
         text = " ".join(f"{f(x)},{f(y)}" for x, y in arr.tolist())
         tag = "polygon" if closed is not None and closed[k] else "polyline"
         out.append(

@@ -1019,7 +1019,10 @@ def _truetype_glyph(font: Any, name: str, where: str) -> _Glyph:
     components: tuple[str, ...] = ()
     if g.isComposite():
         components = tuple(c.glyphName for c in g.components)
-        every = _truetype_origins(glyf, name, None, 0)
+        try:
+            every = _truetype_origins(glyf, name, None, 0)
+        except FontReadError as exc:
+            raise FontReadError(f"{where}: glyph {name!r}: {exc}") from None
         origins = [every[k] for k in kept]
     else:
         origins = [None] * len(contours)

@@ -17,6 +17,8 @@ import math
 import numpy as np
 from numpy.typing import NDArray
 
+from outlinebench.errors import OptionError
+
 __all__ = ["ARC_TOLERANCE", "arc_pieces", "arc_piece_error", "arc_to_cubics", "ArcResult"]
 
 # Largest allowed distance between an arc and its cubic approximation, as a fraction of the
@@ -67,7 +69,7 @@ def arc_pieces(sweep: float, tolerance: float = ARC_TOLERANCE) -> int:
     if total == 0.0:
         return 0
     if tolerance <= 0.0 or not math.isfinite(tolerance):
-        raise ValueError(f"arc tolerance must be a positive number, got {tolerance!r}")
+        raise OptionError(f"arc tolerance must be a positive number, got {tolerance!r}")
     theta_max = (55296.0 * tolerance) ** (1.0 / 6.0)
     n = max(1, math.ceil(total / theta_max), math.ceil(total / (math.pi / 2.0) - 1e-12))
     while arc_piece_error(total / n) > tolerance:

@@ -25,6 +25,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from outlinebench.errors import (
+    OptionError,
     OutlinebenchError,
     SvgPathError,
     SvgReadError,
@@ -1196,11 +1197,11 @@ def read_svg(
         The file cannot be read.
     """
     if on_unsupported not in ("warn", "raise", "skip"):
-        raise ValueError(
+        raise OptionError(
             f"on_unsupported must be 'warn', 'raise' or 'skip', got {on_unsupported!r}"
         )
     if not (px_per_inch > 0 and math.isfinite(px_per_inch)):
-        raise ValueError(f"px_per_inch must be a positive number, got {px_per_inch!r}")
+        raise OptionError(f"px_per_inch must be a positive number, got {px_per_inch!r}")
     if isinstance(source, bytes | bytearray):
         data = bytes(source)
         where = "<bytes>"

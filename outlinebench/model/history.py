@@ -25,7 +25,7 @@ from collections import deque
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 
-from outlinebench.errors import CommandError
+from outlinebench.errors import CommandError, OptionError
 from outlinebench.model.commands import Command, CommandGroup
 from outlinebench.model.document import Document, documents_equal
 
@@ -50,7 +50,7 @@ class History:
 
     def __init__(self, document: Document, limit: int = HISTORY_LIMIT) -> None:
         if limit < 1:
-            raise ValueError(f"the history limit must be at least 1, got {limit}")
+            raise OptionError(f"the history limit must be at least 1, got {limit}")
         self._doc = document
         self._saved: Document | None = document
         self._undo: deque[Command] = deque(maxlen=limit)

@@ -41,7 +41,7 @@ from outlinebench.diagnostics.profiles import (
 )
 from outlinebench.diagnostics.report import iter_json
 from outlinebench.diagnostics.settings import DEFAULT_GAP_MM, DEFAULT_GAP_SEARCH_MM
-from outlinebench.errors import OutlinebenchError
+from outlinebench.errors import OptionError, OutlinebenchError, error_line
 from outlinebench.model.document import Document
 from outlinebench.subcommands import EXIT_BAD_INPUT, EXIT_FINDINGS, EXIT_INTERNAL, EXIT_OK
 from outlinebench.subcommands._common import (
@@ -170,7 +170,7 @@ def _jobs(text: str) -> int:
     return n
 
 
-class OptionMismatch(Exception):
+class OptionMismatch(OptionError):
     """The options do not fit one file (its scale puts --gap-search below the default gap)."""
 
 
@@ -277,13 +277,7 @@ def check_file(path: str, options: dict[str, Any]) -> dict[str, Any]:
         drawing = api.Drawing(doc, read.file_findings, [], path)
         findings = api.check(drawing, profile=profile, tolerances=settings).findings
     except (OutlinebenchError, OSError, OptionMismatch) as exc:
-        if isinstance(exc, OSError):
-            msg = f"{path}: {exc.strerror or exc}"
-        else:
-            msg = str(exc)
-            if path not in msg:
-                msg = f"{path}: {msg}"
-        return {"file": path, "error": msg}
+        return {"file": path, "error": error_line(exc, path)}
     shown = convert_units(findings, factor, unit)
     ff = read.file_findings
     out: dict[str, Any] = {
@@ -400,7 +394,7 @@ def expand_files(paths: list[str]) -> list[str]:
         if os.path.isdir(p) and not p.rstrip("/").lower().endswith(".ufo"):
             found = _walk(Path(p))
             if not found:
-                raise OutlinebenchError(f"{p}: folder holds no .svg file (nor font)")
+                raise OutlinebenchError(f"{p}: folder holds no .svg file (nor font)", file=p)
             out.extend(found)
         else:
             out.append(p)
