@@ -8,8 +8,10 @@ changes the session: the window applies ``FixPreview.command`` (one undo step) o
 :meth:`outlinebench.app.session.EditorSession.do`.
 
 A fix is refused, with one line saying why and the document untouched, when no repair fixes
-the finding's kind, when the measured change exceeds the allowed change, or when the
-finding is still found after the fix (the same re-check the command line's ``repair`` makes).
+the finding's kind, when the measured change exceeds the allowed change, when the finding is
+still found after the fix, or when the fix would add a finding of warning level or worse in
+the same outline (the same re-checks :func:`outlinebench.api.repairing.repair_document`
+makes for "fix all" and the command line's ``repair``).
 """
 
 from __future__ import annotations
@@ -19,7 +21,7 @@ from dataclasses import dataclass, field
 
 from outlinebench.api.repairing import TARGETS, repair_document, repair_for_finding
 from outlinebench.app.units import DisplayUnits
-from outlinebench.diagnostics import Checker, CheckSettings, Finding
+from outlinebench.diagnostics import Checker, CheckSettings, Finding, is_problem
 from outlinebench.errors import CommandError
 from outlinebench.model.commands import Command
 from outlinebench.model.document import Contour, Document
@@ -33,6 +35,8 @@ __all__ = [
     "fix_all",
     "changed_contours",
     "change_text",
+    "added_problem",
+    "ALLOWED_NEW_KINDS",
 ]
 
 
@@ -143,6 +147,66 @@ def _same_place(a: Finding, b: Finding) -> bool:
     return a.join == b.join and (a.join is not None or a.segment == b.segment)
 
 
+# Finding kinds a repair may add at the place it fixed without being refused, because a repair
+# later in REPAIR_ORDER answers for them: closing a gap makes a new join, judged for G1/G2 like
+# any other (smooth-kinks and match-curvature), and a kink made smooth is then judged for G2
+# (match-curvature). The rule of outlinebench.api.repairing._Runner.attempt, kept in step
+# with it by tests/app/test_fixes_at_hand.py.
+ALLOWED_NEW_KINDS: dict[str, tuple[str, ...]] = {
+    "close-gaps": ("kink", "corner", "curvature-jump"),
+    "smooth-kinks": ("curvature-jump",),
+}
+
+
+def _problem_counts(findings, doc: Document, outline: int) -> dict[str, int]:
+    """Findings of warning level or worse in one outline's contours, counted by kind."""
+    mine = {r.global_index for r in doc.contour_refs() if r.outline == outline}
+    counts: dict[str, int] = {}
+    for f in findings:
+        if is_problem(f) and f.contour in mine:
+            counts[f.kind] = counts.get(f.kind, 0) + 1
+    return counts
+
+
+def added_problem(
+    cmd: Command, before: Document, found_before, after: Document, found_after
+) -> str | None:
+    """The first finding kind of warning level or worse a fix adds in its outline, or None.
+
+    Parameters
+    ----------
+    cmd : Command
+        The fix (a repair command with ``kind`` and ``outline``; others add nothing).
+    before, after : Document
+        The document before and after the fix.
+    found_before, found_after : sequence of Finding
+        Their findings.
+
+    Returns
+    -------
+    str or None
+        A kind counted more often in the outline after the fix than before, other than the
+        kinds :data:`ALLOWED_NEW_KINDS` lets that repair kind add.
+
+    Notes
+    -----
+    Counts per kind, :math:`n_k(\text{after}) > n_k(\text{before})`, over the findings with
+    :func:`outlinebench.diagnostics.is_problem` in the contours of the fixed outline: the rule
+    :func:`outlinebench.api.repairing.repair_document` applies to each fix (common practice,
+    no source: a repair must not trade one defect for another).
+    """
+    outline = getattr(cmd, "outline", None)
+    if outline is None:
+        return None
+    old = _problem_counts(found_before, before, outline)
+    new = _problem_counts(found_after, after, outline)
+    allowed = ALLOWED_NEW_KINDS.get(getattr(cmd, "kind", ""), ())
+    for kind, n in new.items():
+        if n > old.get(kind, 0) and kind not in allowed:
+            return kind
+    return None
+
+
 def _no_fix_reason(doc: Document, f: Finding, settings: CheckSettings, units: DisplayUnits):
     if repair_kind_of(f.kind) is None:
         return f"no repair fixes a {f.kind}"
@@ -210,7 +274,8 @@ def preview_fix(
     The change is the command's proven two-sided Hausdorff bound between the old and new
     contours, :math:`d_H(A, B) = \\max(\\sup_{a\\in A} d(a, B), \\sup_{b\\in B} d(b, A))`
     (Hausdorff distance; bound from :mod:`outlinebench.geometry.hausdorff`). After the fix the
-    document is checked again and the fix refused if the finding is still there.
+    document is checked again and the fix refused if the finding is still there or if it
+    adds a finding of warning level or worse in the same outline (:func:`added_problem`).
     """
     settings = settings or CheckSettings()
     kind = repair_kind_of(finding.kind)
@@ -241,9 +306,15 @@ def preview_fix(
     if change is not None:
         out.change, out.change_lower = float(change.upper), float(change.lower)
     out.note = getattr(cmd, "note", "") or ""
-    after = Checker(settings).update(new)
+    checker = Checker(settings)
+    found_before = list(checker.update(doc))
+    after = list(checker.update(new))  # incremental: only the changed contours re-checked
     if any(_same_place(finding, g) for g in after):
         out.refusal = f"the {finding.kind} is still found after the fix"
+        return out
+    worse = added_problem(cmd, doc, found_before, new, after)
+    if worse is not None:
+        out.refusal = f"it would add a {worse} finding in the same outline"
         return out
     out.command, out.after = cmd, new
     out.old_contours, out.new_contours = changed_contours(doc, new)

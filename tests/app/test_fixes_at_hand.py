@@ -284,3 +284,84 @@ def test_a_shown_refusal_is_measured_again_when_the_allowed_change_grows(window)
     assert window.edit_tolerances()
     assert window.fix_preview is not None and window.fix_preview.ok
     assert window.findings_panel.fix_apply.isVisibleTo(window.findings_panel)
+
+
+def _near_loop_document():
+    """An invented workshop cover plate: a cubic whose start handle, turned 5.8° to meet the
+    straight side before it (a kink), would swing the curve into a loop. mm, 1 unit per mm."""
+    from outlinebench.model.document import Contour, Document, Outline
+
+    plate = Contour.from_points(
+        [
+            [[50, 50], [64, 58], [54, 57], [60, 50]],
+            [[60, 50], [60, 90]],
+            [[60, 90], [32, 90]],
+            [[32, 90], [32, 42]],
+            [[32, 42], [50, 50]],
+        ],
+        closed=True,
+        joins=(None, None, None, None, None),
+    )
+    return Document(
+        (Outline((plate,), "plate", 0),),
+        width_mm=100.0,
+        height_mm=100.0,
+        view_box=(0.0, 0.0, 100.0, 100.0),
+        mm_per_unit=1.0,
+        units="mm",
+    )
+
+
+def _is_simple(contour):
+    """Reference: shapely's ``is_simple`` of the contour densely sampled by the Bernstein form
+    (a ring that crosses itself is not simple)."""
+    shapely = pytest.importorskip("shapely")
+    pts, _ = _dense([contour])
+    return shapely.LineString(pts).is_simple
+
+
+def test_single_fix_refused_when_it_would_add_a_worse_finding(window):
+    from outlinebench.api.repairing import repair_document, repair_for_finding
+    from outlinebench.app.fix_preview import preview_fix
+    from outlinebench.app.units import display_units
+    from outlinebench.diagnostics import Checker, CheckSettings
+
+    doc = _near_loop_document()
+    settings = CheckSettings()
+    found = Checker(settings).update(doc)
+    kink = next(f for f in found if f.kind == "kink")
+    assert not any(f.kind == "self-intersection" for f in found)
+    # what the smoothing alone would make: a contour that crosses itself (shapely says so),
+    # where the original does not
+    cmd = repair_for_finding(doc, kink, max_change=50.0, settings=settings)
+    made = cmd.apply(doc).outlines[0].contours[0]
+    assert _is_simple(doc.outlines[0].contours[0]) and not _is_simple(made)
+    # the single fix is refused, as "fix all" (repair_document) refuses the same fix
+    fp = preview_fix(doc, kink, max_change=50.0, units=display_units(doc), settings=settings)
+    assert not fp.ok and fp.command is None and fp.after is None
+    assert fp.refusal == "it would add a self-intersection finding in the same outline"
+    run = repair_document(doc, ["smooth-kinks"], max_change=50.0, settings=settings)
+    assert [(o.status, o.reason) for o in run.outcomes] == [("refused", fp.refusal)]
+    # in the window (allowed change 50 mm): refused in the fix bar, nothing applied
+    window.prefs.set_max_change_mm(50.0)
+    window.session.load(doc)
+    shown = next(f for f in window.live.findings if f.kind == "kink")
+    assert window.preview_fix(shown).refusal == fp.refusal
+    assert "refused" in window.findings_panel.fix_text.text()
+    assert not window.apply_fix() and window.session.document is doc
+
+
+def test_single_fix_rule_matches_fix_all_rule():
+    """The kinds a repair may add without refusal are the library's: repair_document's rule,
+    read from its source text, so a change there fails here (common practice, no source)."""
+    import inspect
+
+    from outlinebench.api import repairing
+    from outlinebench.app.fix_preview import ALLOWED_NEW_KINDS
+
+    src = inspect.getsource(repairing._Runner.attempt)
+    assert src.count("exempt = (") == len(ALLOWED_NEW_KINDS)  # no other kind exempted
+    for kind, allowed in ALLOWED_NEW_KINDS.items():
+        words = ", ".join(f'"{k}"' for k in allowed) + ("," if len(allowed) == 1 else "")
+        assert f'cmd.kind == "{kind}":\n' in src
+        assert f"exempt = ({words})" in src
