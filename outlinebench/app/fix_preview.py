@@ -25,7 +25,7 @@ from outlinebench.diagnostics import Checker, CheckSettings, Finding, is_problem
 from outlinebench.errors import CommandError
 from outlinebench.model.commands import Command
 from outlinebench.model.document import Contour, Document
-from outlinebench.model.repairs import REPAIR_ORDER, RemoveOverlaps
+from outlinebench.model.repairs import REPAIR_ORDER, RemoveOverlaps, SmoothKink
 
 __all__ = [
     "FixPreview",
@@ -36,6 +36,8 @@ __all__ = [
     "changed_contours",
     "change_text",
     "added_problem",
+    "angle_text",
+    "fix_note",
     "ALLOWED_NEW_KINDS",
 ]
 
@@ -58,6 +60,39 @@ def change_text(units: DisplayUnits, value: float) -> str:
     if abs(shown) >= 10.0 ** (-units.decimals):
         return units.text(value)
     return f"{shown:.2g} {units.name}"
+
+
+# A turn left after smoothing below this is shown as 0°: it is rounding, not a turn (a unit
+# vector's direction carries about 1e-16 rad ≈ 6e-15° of double rounding; 1e-9° is far above
+# that and far below anything a cutter or an eye resolves). Common practice, no source.
+ZERO_ANGLE_DEG = 1e-9
+
+
+def angle_text(degrees: float, digits: int = 3) -> str:
+    """An angle for the fix bar: ``digits`` significant digits, or ``"0°"`` below
+    :data:`ZERO_ANGLE_DEG` (``"0.333°"``, ``"0°"`` for a residual of 2.5e-14°)."""
+    if abs(degrees) < ZERO_ANGLE_DEG:
+        return "0°"
+    return f"{degrees:.{digits}g}°"
+
+
+def fix_note(cmd: Command, finding: Finding) -> str:
+    """The fix's note for the fix bar, rendered from the command's fields where it has them.
+
+    A kink or corner smoothed (:class:`~outlinebench.model.repairs.SmoothKink`) reads
+    ``"turn 2.862° → 0°"``: the finding's turn and the command's residual angle through
+    :func:`angle_text`. Other fixes keep the command's own note.
+    """
+    residual = getattr(cmd, "residual_angle", None)
+    if (
+        isinstance(cmd, SmoothKink)
+        and residual is not None
+        and finding.value is not None
+        and finding.unit == "degrees"
+    ):
+        grid = " (best on the grid)" if cmd.grid else ""
+        return f"turn {angle_text(finding.value, 4)} → {angle_text(residual)}{grid}"
+    return getattr(cmd, "note", "") or ""
 
 
 def changed_contours(before: Document, after: Document) -> tuple[list[Contour], list[Contour]]:
@@ -305,7 +340,7 @@ def preview_fix(
     change = getattr(cmd, "change", None)
     if change is not None:
         out.change, out.change_lower = float(change.upper), float(change.lower)
-    out.note = getattr(cmd, "note", "") or ""
+    out.note = fix_note(cmd, finding)
     checker = Checker(settings)
     found_before = list(checker.update(doc))
     after = list(checker.update(new))  # incremental: only the changed contours re-checked

@@ -365,3 +365,47 @@ def test_single_fix_rule_matches_fix_all_rule():
         words = ", ".join(f'"{k}"' for k in allowed) + ("," if len(allowed) == 1 else "")
         assert f'cmd.kind == "{kind}":\n' in src
         assert f"exempt = ({words})" in src
+
+
+def _end_turn_degrees(a, b):
+    """Turn at the join of segments a → b from their end tangents (closed form: the last and
+    first control-polygon legs are the end tangents of a Bézier segment, Farin ch. 5), by
+    numpy's arctan2 of cross and dot products."""
+    u = np.asarray(a[-1], float) - np.asarray(a[-2], float)
+    v = np.asarray(b[1], float) - np.asarray(b[0], float)
+    return abs(math.degrees(math.atan2(u[0] * v[1] - u[1] * v[0], float(np.dot(u, v)))))
+
+
+def test_residual_turn_below_1e_9_degrees_reads_0(window):
+    _open(window, BRACKET)
+    f = _kink(window)
+    fp = window.preview_fix(f)
+    assert fp.ok
+    # the smoothed join really has no turn left: its end tangents, measured independently
+    for contour in fp.new_contours:
+        i, k = contour.join_segments(f.join)
+        assert _end_turn_degrees(contour.segments[i], contour.segments[k]) < 1e-9
+    assert fp.command.residual_angle < 1e-9
+    # so the note reads "→ 0°", never a rounding residue like 2.5e-14°
+    text = window.findings_panel.fix_text.text()
+    assert f"turn {f.value:.4g}° → 0°" in fp.note and fp.note in text
+    assert "e-" not in fp.note and "e-" not in text
+
+
+def test_a_residual_turn_on_the_grid_keeps_its_digits():
+    from outlinebench.app.fix_preview import angle_text, fix_note
+    from outlinebench.diagnostics import Checker, CheckSettings
+    from outlinebench.model.repairs import SmoothKink
+
+    # common practice, no source: three significant digits, zero below 1e-9°
+    assert angle_text(2.5e-14) == "0°" and angle_text(-3e-10) == "0°"
+    assert angle_text(0.333) == "0.333°" and angle_text(2.8617, 4) == "2.862°"
+    doc = _near_loop_document()
+    kink = next(f for f in Checker(CheckSettings()).update(doc) if f.kind == "kink")
+    cmd = SmoothKink(0, 0, kink.join, max_change=50.0, grid=1.0)
+    new = cmd.apply(doc)
+    c = new.outlines[0].contours[0]
+    i, k = c.join_segments(kink.join)
+    left = _end_turn_degrees(c.segments[i], c.segments[k])  # measured independently
+    assert left > 1e-3 and cmd.residual_angle == pytest.approx(left, rel=1e-9)
+    assert fix_note(cmd, kink) == f"turn {kink.value:.4g}° → {left:.3g}° (best on the grid)"
