@@ -31,7 +31,7 @@ from PySide6.QtWidgets import (
 
 from outlinebench.app import point_keys as pk
 from outlinebench.app.legend import MarkKey
-from outlinebench.app.lengths import segment_length
+from outlinebench.app.lengths import contour_length, segment_length
 
 if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
     from outlinebench.app.session import EditorSession
@@ -317,10 +317,10 @@ class SelectionPanel(QWidget):
             else:
                 self._show_handle(doc, key, units)
             quick = ed.history.in_group  # a drag is in progress
-            lengths = [segment_length(seg, quick=quick) for seg in contour.segments]
+            total = contour_length(contour.segments, quick=quick)
             self.contour_info.setText(
                 f"{'closed' if contour.closed else 'open'}, {len(contour.segments)} segments, "
-                f"length {units.text(sum(lengths))}"
+                f"length {units.text(total)}"
             )
         finally:
             del blockers
