@@ -54,6 +54,7 @@ from outlinebench.app.lengths import contour_length, segment_length  # noqa: E40
 from outlinebench.app.main_window import MainWindow  # noqa: E402
 from outlinebench.geometry.bezier import evaluate  # noqa: E402
 from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+from outlinebench.model.point_names import PointRef  # noqa: E402
 
 CONTOURS = 100
 SEGMENTS_PER_CONTOUR = 100
@@ -144,7 +145,7 @@ def send_mouse(widget, kind, pos: QPointF, buttons, mods=Qt.KeyboardModifier.NoM
     QApplication.sendEvent(widget, ev)
 
 
-def drag_case(win: MainWindow, key: tuple[int, int, int, int], where: str, ref: float) -> None:
+def drag_case(win: MainWindow, key: PointRef, where: str, ref: float) -> None:
     canvas = win.canvas
     o, c, seg, i = key
     before = win.session.document.outlines[o].contours[c].segments[seg][i].copy()
@@ -278,10 +279,10 @@ def main() -> None:
 
     # Drag the outgoing handle of ring 0's point at θ = 0, zoomed in, then an on-curve point
     # of ring 55 with the whole document in view.
-    drag_case(win, (0, 0, 0, 1), "zoomed 24×", ref)
+    drag_case(win, PointRef(0, 0, 0, 1), "zoomed 24×", ref)
     canvas.fit_to_outline()
     app.processEvents()
-    drag_case(win, (55, 0, 10, 0), "fit to view", ref)
+    drag_case(win, PointRef(55, 0, 10, 0), "fit to view", ref)
     length_case(doc)
 
     # The same views with the curvature comb on, each next to the same view without it.
@@ -308,7 +309,7 @@ def main() -> None:
             f"{canvas.stats.points_in_view} points in view, marks "
             f"{'on' if canvas.stats.marks_drawn else 'off'})"
         )
-    drag_case(win, (0, 0, 0, 1), "zoomed 24×", ref)
+    drag_case(win, PointRef(0, 0, 0, 1), "zoomed 24×", ref)
     load = os.getloadavg()[0] if hasattr(os, "getloadavg") else float("nan")
     print(
         f"(1-minute load average {load:.2f} on {os.cpu_count()} cores while measuring; "
