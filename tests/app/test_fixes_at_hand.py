@@ -7,15 +7,11 @@ written by samples/make_samples.py); both are in millimetres, one user unit per 
 """
 
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
-
-pytest.importorskip("PySide6")
-
-from pathlib import Path  # noqa: E402
-
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings
 
 ROOT = Path(__file__).resolve().parents[2]
 BRACKET = ROOT / "samples" / "workshop-bracket-defects.svg"
@@ -61,7 +57,8 @@ def _sampled_hausdorff(old_contours, new_contours):
     """Reference: shapely.hausdorff_distance of dense samples of the old and new contours, and
     how far it can be from the true distance (one sample step: every curve point is within
     half a step of a sample, on either curve)."""
-    shapely = pytest.importorskip("shapely")
+    import shapely
+
     a, sa = _dense(old_contours)
     b, sb = _dense(new_contours)
     h = shapely.hausdorff_distance(shapely.MultiPoint(a), shapely.MultiPoint(b))
@@ -315,7 +312,8 @@ def _near_loop_document():
 def _is_simple(contour):
     """Reference: shapely's ``is_simple`` of the contour densely sampled by the Bernstein form
     (a ring that crosses itself is not simple)."""
-    shapely = pytest.importorskip("shapely")
+    import shapely
+
     pts, _ = _dense([contour])
     return shapely.LineString(pts).is_simple
 
