@@ -523,6 +523,7 @@ def paint_selection(
     selected: set[PointRef],
     hover: PointRef | None,
 ) -> None:
+    """Ring the selected points and the point under the pointer (screen-space marks)."""
     ring = QPainterPath()
     for oi, ci, si, k in selected:
         try:

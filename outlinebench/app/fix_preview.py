@@ -206,7 +206,7 @@ def _problem_counts(findings, doc: Document, outline: int) -> dict[str, int]:
 def added_problem(
     cmd: Command, before: Document, found_before, after: Document, found_after
 ) -> str | None:
-    """The first finding kind of warning level or worse a fix adds in its outline, or None.
+    r"""The first finding kind of warning level or worse a fix adds in its outline, or None.
 
     Parameters
     ----------
@@ -284,7 +284,7 @@ def preview_fix(
     units: DisplayUnits,
     settings: CheckSettings | None = None,
 ) -> FixPreview:
-    """Compute (not apply) the fix of one finding and measure it.
+    r"""Compute (not apply) the fix of one finding and measure it.
 
     Parameters
     ----------
@@ -307,7 +307,7 @@ def preview_fix(
     Notes
     -----
     The change is the command's proven two-sided Hausdorff bound between the old and new
-    contours, :math:`d_H(A, B) = \\max(\\sup_{a\\in A} d(a, B), \\sup_{b\\in B} d(b, A))`
+    contours, :math:`d_H(A, B) = \max(\sup_{a\in A} d(a, B), \sup_{b\in B} d(b, A))`
     (Hausdorff distance; bound from :mod:`outlinebench.geometry.hausdorff`). After the fix the
     document is checked again and the fix refused if the finding is still there or if it
     adds a finding of warning level or worse in the same outline (:func:`added_problem`).

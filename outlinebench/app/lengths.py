@@ -36,7 +36,7 @@ def _cached(points: NDArray[np.float64]) -> float | None:
 
 
 def contour_length(segments: Sequence[NDArray[np.float64]], *, quick: bool = False) -> float:
-    """Total arc length of a contour's segments, in document units.
+    r"""Total arc length of a contour's segments, in document units.
 
     Parameters
     ----------
@@ -49,7 +49,7 @@ def contour_length(segments: Sequence[NDArray[np.float64]], *, quick: bool = Fal
     Returns
     -------
     float
-        :math:`\\sum_i L_i`, :math:`L_i = \\int_0^1 |B_i'(t)|\\,dt`.
+        :math:`\sum_i L_i`, :math:`L_i = \int_0^1 |B_i'(t)|\,dt`.
 
     Notes
     -----
@@ -76,7 +76,7 @@ def contour_length(segments: Sequence[NDArray[np.float64]], *, quick: bool = Fal
 
 
 def segment_length(points: NDArray[np.float64], *, quick: bool = False) -> float:
-    """Arc length of one segment, ``(K, 2)``, in document units (cached for read-only arrays).
+    r"""Arc length of one segment, ``(K, 2)``, in document units (cached for read-only arrays).
 
     Parameters
     ----------
@@ -87,7 +87,7 @@ def segment_length(points: NDArray[np.float64], *, quick: bool = False) -> float
     Returns
     -------
     float
-        :math:`L = \\int_0^1 |B'(t)|\\,dt` (:func:`outlinebench.geometry.arclength.arc_length`).
+        :math:`L = \int_0^1 |B'(t)|\,dt` (:func:`outlinebench.geometry.arclength.arc_length`).
     """
     return contour_length([points], quick=quick)
 

@@ -927,7 +927,7 @@ class MainWindow(QMainWindow):
 
     # -- questions the window asks (tests replace these) ---------------------------------
     def ask_save_changes(self) -> str:
-        """ "save", "discard" or "cancel" for unsaved changes."""
+        """Ask about unsaved changes: "save", "discard" or "cancel"."""
         name = Path(self.path).name if self.path else "Untitled"
         return dialogs.ask_save_changes(self, name)
 
@@ -1097,7 +1097,7 @@ class MainWindow(QMainWindow):
             self.recovery.remove()
 
     def ask_restore(self, rec: Recovery) -> str:
-        """ "restore", "discard" or "later" for a recovery file (tests replace this)."""
+        """Ask about a recovery file: "restore", "discard" or "later" (tests replace this)."""
         import time as _time
 
         what = Path(rec.original).name if rec.original else "an untitled drawing"
