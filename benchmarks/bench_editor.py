@@ -20,6 +20,11 @@ Prints, per case, the median time per frame next to a reference measured in the 
   150 ms, the selection panel's fields at most every 50 ms during a drag, a check that took
   over 8 ms at most every 60 ms: all from timers, which the loop lets run as the event loop
   would between real mouse moves.)
+* contour length during a drag: the selection panel's "length" of the dragged contour after a
+  move changed the two segments at an on-curve point (outlinebench.app.lengths: the geometry
+  package's arc length, cached per segment, the two new segments measured in one batched
+  call), next to a reference measured in the same run: summing 16 chords per segment of the
+  same contour with numpy (a plain polyline estimate);
 * combs on: the same frames with the curvature comb shown (at fit to view the 10,000
   segments are above the comb's limit and it is left out, which the line says), and a drag
   update with the comb and live findings.
@@ -45,9 +50,11 @@ from PySide6.QtGui import QImage, QMouseEvent, QPainter, QPen, QPolygonF  # noqa
 from PySide6.QtWidgets import QApplication  # noqa: E402
 
 from outlinebench.app import style  # noqa: E402
+from outlinebench.app.lengths import contour_length, segment_length  # noqa: E402
 from outlinebench.app.main_window import MainWindow  # noqa: E402
 from outlinebench.geometry.bezier import evaluate  # noqa: E402
 from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+from outlinebench.model.point_names import PointRef  # noqa: E402
 
 CONTOURS = 100
 SEGMENTS_PER_CONTOUR = 100
@@ -138,7 +145,7 @@ def send_mouse(widget, kind, pos: QPointF, buttons, mods=Qt.KeyboardModifier.NoM
     QApplication.sendEvent(widget, ev)
 
 
-def drag_case(win: MainWindow, key: tuple[int, int, int, int], where: str, ref: float) -> None:
+def drag_case(win: MainWindow, key: PointRef, where: str, ref: float) -> None:
     canvas = win.canvas
     o, c, seg, i = key
     before = win.session.document.outlines[o].contours[c].segments[seg][i].copy()
@@ -202,9 +209,37 @@ def drag_case(win: MainWindow, key: tuple[int, int, int, int], where: str, ref: 
     )
 
 
+def length_case(doc: Document) -> None:
+    """Time the panel's contour length while a drag changes two segments per move."""
+    segs = list(doc.outlines[0].contours[0].segments)
+    for s in segs:
+        segment_length(s)  # cached, as after the panel first showed the contour
+    t = np.linspace(0.0, 1.0, 17)
+    ours, ref = [], []
+    for k in range(FRAMES * 10):
+        for j in (0, 1):  # the on-curve point at the end of segment 0 / start of segment 1
+            s = segs[j].copy()
+            s[3 if j == 0 else 0] += 0.01 * (k + 1)
+            s.flags.writeable = False
+            segs[j] = s
+        t0 = time.perf_counter()
+        contour_length(segs, quick=True)
+        ours.append((time.perf_counter() - t0) * 1e3)
+        t0 = time.perf_counter()
+        sum(float(np.hypot(*np.diff(evaluate(q, t), axis=0).T).sum()) for q in segs)
+        ref.append((time.perf_counter() - t0) * 1e3)
+    mine, plain = statistics.median(ours), statistics.median(ref)
+    print(
+        f"contour length during a drag: {mine:.3f} ms (fastest {min(ours):.3f}), chord-sum "
+        f"reference {plain:.3f} ms, ours/reference = {mine / plain:5.2f}  "
+        f"({len(segs)} cubics, 2 changed per move)"
+    )
+
+
 def main() -> None:
     app = QApplication.instance() or QApplication([])
     win = MainWindow()
+    win.set_comb_visible(False)  # the comb cases below turn it on (and the setting persists)
     win.resize(1400, 900)
     win.show()
     app.processEvents()
@@ -244,10 +279,11 @@ def main() -> None:
 
     # Drag the outgoing handle of ring 0's point at θ = 0, zoomed in, then an on-curve point
     # of ring 55 with the whole document in view.
-    drag_case(win, (0, 0, 0, 1), "zoomed 24×", ref)
+    drag_case(win, PointRef(0, 0, 0, 1), "zoomed 24×", ref)
     canvas.fit_to_outline()
     app.processEvents()
-    drag_case(win, (55, 0, 10, 0), "fit to view", ref)
+    drag_case(win, PointRef(55, 0, 10, 0), "fit to view", ref)
+    length_case(doc)
 
     # The same views with the curvature comb on, each next to the same view without it.
     for label, zoom_by in (("fit to view", None), ("zoomed 4×", 4.0), ("zoomed 24×", 24.0)):
@@ -273,7 +309,7 @@ def main() -> None:
             f"{canvas.stats.points_in_view} points in view, marks "
             f"{'on' if canvas.stats.marks_drawn else 'off'})"
         )
-    drag_case(win, (0, 0, 0, 1), "zoomed 24×", ref)
+    drag_case(win, PointRef(0, 0, 0, 1), "zoomed 24×", ref)
     load = os.getloadavg()[0] if hasattr(os, "getloadavg") else float("nan")
     print(
         f"(1-minute load average {load:.2f} on {os.cpu_count()} cores while measuring; "

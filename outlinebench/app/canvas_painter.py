@@ -24,6 +24,7 @@ from outlinebench.app.contour_graphics import (
 from outlinebench.app.sprites import stamp
 from outlinebench.app.view_transform import ViewTransform
 from outlinebench.model.document import Document
+from outlinebench.model.point_names import PointRef
 
 __all__ = [
     "page_rect",
@@ -181,8 +182,8 @@ def paint_document(
     width: float,
     height: float,
     dpr: float,
-    selected: set[tuple[int, int, int, int]],
-    hover: tuple[int, int, int, int] | None = None,
+    selected: set[PointRef],
+    hover: PointRef | None = None,
     stats: PaintStats | None = None,
 ) -> PaintStats:
     """Paint ``doc`` into a ``width × height`` logical-pixel area.
@@ -519,9 +520,10 @@ def paint_selection(
     p: QPainter,
     view: ViewTransform,
     doc: Document,
-    selected: set[tuple[int, int, int, int]],
-    hover: tuple[int, int, int, int] | None,
+    selected: set[PointRef],
+    hover: PointRef | None,
 ) -> None:
+    """Ring the selected points and the point under the pointer (screen-space marks)."""
     ring = QPainterPath()
     for oi, ci, si, k in selected:
         try:

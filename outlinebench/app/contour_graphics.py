@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
-from PySide6.QtCore import QPointF, Qt
+from PySide6.QtCore import Qt
 from PySide6.QtGui import QPainterPath
 
 from outlinebench.model.commands import SMOOTH_ANGLE_TOLERANCE_DEG
@@ -126,8 +126,6 @@ class ContourGraphics:
         (on-curve point, handle) pairs.
     handle_kind : list of str, length H
         The kind of the join each handle line belongs to (for its colour).
-    handle_ref : list of (segment, index), length H
-        The control point each handle line ends at.
     mark_code : ndarray of int, shape (N,)
         ``MARK_KINDS.index(kind) * 2 + stated`` of each mark (for drawing marks in batches).
     mark_angle : ndarray, shape (N,)
@@ -142,7 +140,6 @@ class ContourGraphics:
     marks: list[JoinMark]
     handle_lines: NDArray[np.float64]
     handle_kind: list[str]
-    handle_ref: list[tuple[int, int]]
     mark_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
     mark_angle: NDArray[np.float64] = field(default_factory=lambda: np.zeros(0))
     handle_code: NDArray[np.intp] = field(default_factory=lambda: np.zeros(0, dtype=np.intp))
@@ -201,19 +198,6 @@ def _directions(
     return start, end, fwd, bwd
 
 
-def _join_marks(
-    incoming: NDArray[np.float64], outgoing: NDArray[np.float64], intents: list[str | None]
-) -> list[JoinMark]:
-    """Marks of joins whose incoming end and outgoing start directions are given, ``(m, 2)``."""
-    if not len(intents):
-        return []
-    smooth, stated, d = _join_arrays(incoming, outgoing, intents)
-    return [
-        JoinMark("smooth" if sm else "corner", bool(st), (float(x), float(y)))
-        for sm, st, (x, y) in zip(smooth.tolist(), stated.tolist(), d.tolist(), strict=True)
-    ]
-
-
 def _join_arrays(
     incoming: NDArray[np.float64], outgoing: NDArray[np.float64], intents: list[str | None]
 ) -> tuple[NDArray[np.bool_], NDArray[np.bool_], NDArray[np.float64]]:
@@ -239,7 +223,7 @@ def build_graphics(contour: Contour) -> ContourGraphics:
     n = len(segs)
     if not n:
         empty = np.zeros((0, 2))
-        return ContourGraphics(QPainterPath(), (0.0, 0.0, 0.0, 0.0), empty, [], empty, [], [])
+        return ContourGraphics(QPainterPath(), (0.0, 0.0, 0.0, 0.0), empty, [], empty, [])
     allpts = np.concatenate(segs)
     lo = allpts.min(axis=0)
     hi = allpts.max(axis=0)
@@ -281,10 +265,6 @@ def build_graphics(contour: Contour) -> ContourGraphics:
     handle_code[0::2] = point_kind[curved]
     handle_code[1::2] = point_kind[(curved + 1) % count]
     kinds = [MARK_KINDS[k] for k in handle_code.tolist()]
-    refs = []
-    for i, k in zip(curved.tolist(), sizes[curved].tolist(), strict=True):
-        refs.append((i, 1))
-        refs.append((i, k - 2))
     return ContourGraphics(
         contour_path(contour),
         bounds,
@@ -292,7 +272,6 @@ def build_graphics(contour: Contour) -> ContourGraphics:
         marks,
         handle_lines,
         kinds,
-        refs,
         code,
         np.arctan2(d[:, 1], d[:, 0]),
         handle_code,
@@ -336,7 +315,3 @@ class GraphicsCache:
         for key in [k for k in self._items if k not in live]:
             del self._items[key]
         self._fills.clear()
-
-
-def qpoint(p: NDArray[np.float64]) -> QPointF:
-    return QPointF(float(p[0]), float(p[1]))

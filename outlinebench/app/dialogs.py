@@ -62,11 +62,13 @@ def show_error(parent: QWidget, title: str, text: str) -> None:
 
 
 def choose_open_path(parent: QWidget, start: str = "") -> str | None:
+    """Ask for an SVG file to open; None when the user cancels."""
     path, _ = QFileDialog.getOpenFileName(parent, "Open drawing", start, SVG_FILTER)
     return path or None
 
 
 def choose_save_path(parent: QWidget, start: str = "") -> str | None:
+    """Ask where to save the drawing (``.svg`` added when missing); None when cancelled."""
     path, _ = QFileDialog.getSaveFileName(parent, "Save drawing as", start, SVG_FILTER)
     if path and not path.lower().endswith(".svg"):
         path += ".svg"

@@ -8,8 +8,10 @@ changes the session: the window applies ``FixPreview.command`` (one undo step) o
 :meth:`outlinebench.app.session.EditorSession.do`.
 
 A fix is refused, with one line saying why and the document untouched, when no repair fixes
-the finding's kind, when the measured change exceeds the allowed change, or when the
-finding is still found after the fix (the same re-check the command line's ``repair`` makes).
+the finding's kind, when the measured change exceeds the allowed change, when the finding is
+still found after the fix, or when the fix would add a finding of warning level or worse in
+the same outline (the same re-checks :func:`outlinebench.api.repairing.repair_document`
+makes for "fix all" and the command line's ``repair``).
 """
 
 from __future__ import annotations
@@ -19,11 +21,11 @@ from dataclasses import dataclass, field
 
 from outlinebench.api.repairing import TARGETS, repair_document, repair_for_finding
 from outlinebench.app.units import DisplayUnits
-from outlinebench.diagnostics import Checker, CheckSettings, Finding
+from outlinebench.diagnostics import Checker, CheckSettings, Finding, is_problem
 from outlinebench.errors import CommandError
 from outlinebench.model.commands import Command
 from outlinebench.model.document import Contour, Document
-from outlinebench.model.repairs import REPAIR_ORDER, RemoveOverlaps
+from outlinebench.model.repairs import REPAIR_ORDER, RemoveOverlaps, SmoothKink
 
 __all__ = [
     "FixPreview",
@@ -33,6 +35,10 @@ __all__ = [
     "fix_all",
     "changed_contours",
     "change_text",
+    "added_problem",
+    "angle_text",
+    "fix_note",
+    "ALLOWED_NEW_KINDS",
 ]
 
 
@@ -54,6 +60,39 @@ def change_text(units: DisplayUnits, value: float) -> str:
     if abs(shown) >= 10.0 ** (-units.decimals):
         return units.text(value)
     return f"{shown:.2g} {units.name}"
+
+
+# A turn left after smoothing below this is shown as 0°: it is rounding, not a turn (a unit
+# vector's direction carries about 1e-16 rad ≈ 6e-15° of double rounding; 1e-9° is far above
+# that and far below anything a cutter or an eye resolves). Common practice, no source.
+ZERO_ANGLE_DEG = 1e-9
+
+
+def angle_text(degrees: float, digits: int = 3) -> str:
+    """An angle for the fix bar: ``digits`` significant digits, or ``"0°"`` below
+    :data:`ZERO_ANGLE_DEG` (``"0.333°"``, ``"0°"`` for a residual of 2.5e-14°)."""
+    if abs(degrees) < ZERO_ANGLE_DEG:
+        return "0°"
+    return f"{degrees:.{digits}g}°"
+
+
+def fix_note(cmd: Command, finding: Finding) -> str:
+    """The fix's note for the fix bar, rendered from the command's fields where it has them.
+
+    A kink or corner smoothed (:class:`~outlinebench.model.repairs.SmoothKink`) reads
+    ``"turn 2.862° → 0°"``: the finding's turn and the command's residual angle through
+    :func:`angle_text`. Other fixes keep the command's own note.
+    """
+    residual = getattr(cmd, "residual_angle", None)
+    if (
+        isinstance(cmd, SmoothKink)
+        and residual is not None
+        and finding.value is not None
+        and finding.unit == "degrees"
+    ):
+        grid = " (best on the grid)" if cmd.grid else ""
+        return f"turn {angle_text(finding.value, 4)} → {angle_text(residual)}{grid}"
+    return getattr(cmd, "note", "") or ""
 
 
 def changed_contours(before: Document, after: Document) -> tuple[list[Contour], list[Contour]]:
@@ -143,6 +182,66 @@ def _same_place(a: Finding, b: Finding) -> bool:
     return a.join == b.join and (a.join is not None or a.segment == b.segment)
 
 
+# Finding kinds a repair may add at the place it fixed without being refused, because a repair
+# later in REPAIR_ORDER answers for them: closing a gap makes a new join, judged for G1/G2 like
+# any other (smooth-kinks and match-curvature), and a kink made smooth is then judged for G2
+# (match-curvature). The rule of outlinebench.api.repairing._Runner.attempt, kept in step
+# with it by tests/app/test_fixes_at_hand.py.
+ALLOWED_NEW_KINDS: dict[str, tuple[str, ...]] = {
+    "close-gaps": ("kink", "corner", "curvature-jump"),
+    "smooth-kinks": ("curvature-jump",),
+}
+
+
+def _problem_counts(findings, doc: Document, outline: int) -> dict[str, int]:
+    """Findings of warning level or worse in one outline's contours, counted by kind."""
+    mine = {r.global_index for r in doc.contour_refs() if r.outline == outline}
+    counts: dict[str, int] = {}
+    for f in findings:
+        if is_problem(f) and f.contour in mine:
+            counts[f.kind] = counts.get(f.kind, 0) + 1
+    return counts
+
+
+def added_problem(
+    cmd: Command, before: Document, found_before, after: Document, found_after
+) -> str | None:
+    r"""The first finding kind of warning level or worse a fix adds in its outline, or None.
+
+    Parameters
+    ----------
+    cmd : Command
+        The fix (a repair command with ``kind`` and ``outline``; others add nothing).
+    before, after : Document
+        The document before and after the fix.
+    found_before, found_after : sequence of Finding
+        Their findings.
+
+    Returns
+    -------
+    str or None
+        A kind counted more often in the outline after the fix than before, other than the
+        kinds :data:`ALLOWED_NEW_KINDS` lets that repair kind add.
+
+    Notes
+    -----
+    Counts per kind, :math:`n_k(\text{after}) > n_k(\text{before})`, over the findings with
+    :func:`outlinebench.diagnostics.is_problem` in the contours of the fixed outline: the rule
+    :func:`outlinebench.api.repairing.repair_document` applies to each fix (common practice,
+    no source: a repair must not trade one defect for another).
+    """
+    outline = getattr(cmd, "outline", None)
+    if outline is None:
+        return None
+    old = _problem_counts(found_before, before, outline)
+    new = _problem_counts(found_after, after, outline)
+    allowed = ALLOWED_NEW_KINDS.get(getattr(cmd, "kind", ""), ())
+    for kind, n in new.items():
+        if n > old.get(kind, 0) and kind not in allowed:
+            return kind
+    return None
+
+
 def _no_fix_reason(doc: Document, f: Finding, settings: CheckSettings, units: DisplayUnits):
     if repair_kind_of(f.kind) is None:
         return f"no repair fixes a {f.kind}"
@@ -185,7 +284,7 @@ def preview_fix(
     units: DisplayUnits,
     settings: CheckSettings | None = None,
 ) -> FixPreview:
-    """Compute (not apply) the fix of one finding and measure it.
+    r"""Compute (not apply) the fix of one finding and measure it.
 
     Parameters
     ----------
@@ -208,9 +307,10 @@ def preview_fix(
     Notes
     -----
     The change is the command's proven two-sided Hausdorff bound between the old and new
-    contours, :math:`d_H(A, B) = \\max(\\sup_{a\\in A} d(a, B), \\sup_{b\\in B} d(b, A))`
+    contours, :math:`d_H(A, B) = \max(\sup_{a\in A} d(a, B), \sup_{b\in B} d(b, A))`
     (Hausdorff distance; bound from :mod:`outlinebench.geometry.hausdorff`). After the fix the
-    document is checked again and the fix refused if the finding is still there.
+    document is checked again and the fix refused if the finding is still there or if it
+    adds a finding of warning level or worse in the same outline (:func:`added_problem`).
     """
     settings = settings or CheckSettings()
     kind = repair_kind_of(finding.kind)
@@ -240,10 +340,16 @@ def preview_fix(
     change = getattr(cmd, "change", None)
     if change is not None:
         out.change, out.change_lower = float(change.upper), float(change.lower)
-    out.note = getattr(cmd, "note", "") or ""
-    after = Checker(settings).update(new)
+    out.note = fix_note(cmd, finding)
+    checker = Checker(settings)
+    found_before = list(checker.update(doc))
+    after = list(checker.update(new))  # incremental: only the changed contours re-checked
     if any(_same_place(finding, g) for g in after):
         out.refusal = f"the {finding.kind} is still found after the fix"
+        return out
+    worse = added_problem(cmd, doc, found_before, new, after)
+    if worse is not None:
+        out.refusal = f"it would add a {worse} finding in the same outline"
         return out
     out.command, out.after = cmd, new
     out.old_contours, out.new_contours = changed_contours(doc, new)

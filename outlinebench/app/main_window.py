@@ -60,6 +60,7 @@ from outlinebench.diagnostics import Finding
 from outlinebench.errors import OutlinebenchError
 from outlinebench.io import CUT_CAUTION, write_file_atomic
 from outlinebench.model.document import Document
+from outlinebench.model.point_names import PointRef
 
 __all__ = [
     "MainWindow",
@@ -573,7 +574,6 @@ class MainWindow(QMainWindow):
         m_fix.addAction(self.act_fix_all)
         m_fix.addSeparator()
         m_fix.addAction(self.act_max_change)
-        self.menu_fix = m_fix
         m_cut = mb.addMenu("C&ut")
         self.act_flatten_preview = m_cut.addAction("&Flattening preview")
         self.act_flatten_preview.setCheckable(True)
@@ -750,7 +750,7 @@ class MainWindow(QMainWindow):
                 for i in (0, seg.shape[0] - 1):
                     d = float(np.hypot(seg[i, 0] - f.x, seg[i, 1] - f.y))
                     if d < best_d:
-                        best, best_d = (oi, ci, s, i), d
+                        best, best_d = PointRef(oi, ci, s, i), d
             if best is not None:
                 self.session.set_selection([best], best)
         size = f.value if f.unit == "user" and f.value else None
@@ -927,7 +927,7 @@ class MainWindow(QMainWindow):
 
     # -- questions the window asks (tests replace these) ---------------------------------
     def ask_save_changes(self) -> str:
-        """ "save", "discard" or "cancel" for unsaved changes."""
+        """Ask about unsaved changes: "save", "discard" or "cancel"."""
         name = Path(self.path).name if self.path else "Untitled"
         return dialogs.ask_save_changes(self, name)
 
@@ -1097,7 +1097,7 @@ class MainWindow(QMainWindow):
             self.recovery.remove()
 
     def ask_restore(self, rec: Recovery) -> str:
-        """ "restore", "discard" or "later" for a recovery file (tests replace this)."""
+        """Ask about a recovery file: "restore", "discard" or "later" (tests replace this)."""
         import time as _time
 
         what = Path(rec.original).name if rec.original else "an untitled drawing"

@@ -1,8 +1,10 @@
-"""Naming control points in a document as ``(outline, contour, segment, index)`` tuples.
+"""The editor's questions about named control points: where a point is, its join, its handles.
 
-An on-curve point shared by two segments is named by the segment it starts (index 0); the
-last point of an open contour by its last segment's last index. Handles are named by their
-own segment and index.
+Points are named by the model's one vocabulary, :class:`outlinebench.model.point_names.PointRef`
+``(outline, contour, segment, index)``: an on-curve point shared by two segments is named by
+the segment it starts (index 0); the last point of an open contour by its last segment's last
+index. Handles are named by their own segment and index. (A PointRef is a named tuple, so a
+plain 4-tuple compares and hashes equal to it.)
 """
 
 from __future__ import annotations
@@ -11,12 +13,12 @@ import math
 
 import numpy as np
 
-from outlinebench.model.commands import PointRef, canonical_ref
-from outlinebench.model.commands import is_on_curve as model_is_on_curve
 from outlinebench.model.document import Document
+from outlinebench.model.point_names import PointRef, canonical_ref
+from outlinebench.model.point_names import is_on_curve as model_is_on_curve
 
 __all__ = [
-    "Key",
+    "PointRef",
     "normalize",
     "point_at",
     "exists",
@@ -29,10 +31,9 @@ __all__ = [
     "screen_angle_deg",
 ]
 
-Key = tuple[int, int, int, int]
 
-
-def exists(doc: Document, key: Key) -> bool:
+def exists(doc: Document, key: PointRef) -> bool:
+    """Whether ``key`` names a control point of ``doc`` (no index negative or past the end)."""
     o, c, s, i = key
     try:
         seg = doc.outlines[o].contours[c].segments[s]
@@ -41,22 +42,23 @@ def exists(doc: Document, key: Key) -> bool:
     return min(o, c, s, i) >= 0 and i < seg.shape[0]
 
 
-def normalize(doc: Document, key: Key) -> Key:
+def normalize(doc: Document, key: PointRef) -> PointRef:
     """The canonical name of a control point (as `model.commands.canonical_ref`)."""
-    return tuple(canonical_ref(doc, PointRef(*key)))
+    return canonical_ref(doc, PointRef(*key))
 
 
-def point_at(doc: Document, key: Key) -> np.ndarray:
+def point_at(doc: Document, key: PointRef) -> np.ndarray:
+    """The control point's coordinates (document units)."""
     o, c, s, i = key
     return doc.outlines[o].contours[c].segments[s][i]
 
 
-def is_on_curve(doc: Document, key: Key) -> bool:
+def is_on_curve(doc: Document, key: PointRef) -> bool:
     """Whether the point lies on the curve (a segment end point)."""
     return model_is_on_curve(doc, PointRef(*key))
 
 
-def join_of(doc: Document, key: Key) -> int | None:
+def join_of(doc: Document, key: PointRef) -> int | None:
     """Join index at an on-curve point (None at the free ends of an open contour)."""
     o, c, s, i = normalize(doc, key)
     contour = doc.outlines[o].contours[c]
@@ -68,7 +70,7 @@ def join_of(doc: Document, key: Key) -> int | None:
     return (s - 1) % n
 
 
-def handles_of(doc: Document, key: Key) -> tuple[Key | None, Key | None]:
+def handles_of(doc: Document, key: PointRef) -> tuple[PointRef | None, PointRef | None]:
     """(incoming handle, outgoing handle) of an on-curve point; None where the adjacent
     segment is a line or missing."""
     o, c, s, i = normalize(doc, key)
@@ -78,30 +80,30 @@ def handles_of(doc: Document, key: Key) -> tuple[Key | None, Key | None]:
     if i == 0:
         seg = contour.segments[s]
         if seg.shape[0] > 2:
-            outgoing = (o, c, s, 1)
+            outgoing = PointRef(o, c, s, 1)
         if s > 0 or contour.closed:
             prev = (s - 1) % n
             k = contour.segments[prev].shape[0]
             if k > 2:
-                incoming = (o, c, prev, k - 2)
+                incoming = PointRef(o, c, prev, k - 2)
     else:  # end of open contour
         k = contour.segments[s].shape[0]
         if k > 2:
-            incoming = (o, c, s, k - 2)
+            incoming = PointRef(o, c, s, k - 2)
     return incoming, outgoing
 
 
-def owner_of_handle(doc: Document, key: Key) -> Key:
+def owner_of_handle(doc: Document, key: PointRef) -> PointRef:
     """The on-curve point a handle hangs from (the nearer end of its segment; for a
     quadratic's single handle, the segment's start)."""
     o, c, s, i = key
     k = doc.outlines[o].contours[c].segments[s].shape[0]
     if i == 1 or k == 3:
-        return (o, c, s, 0)
-    return normalize(doc, (o, c, s, k - 1))
+        return PointRef(o, c, s, 0)
+    return normalize(doc, PointRef(o, c, s, k - 1))
 
 
-def opposite_handle(doc: Document, key: Key) -> Key | None:
+def opposite_handle(doc: Document, key: PointRef) -> PointRef | None:
     """The handle on the other side of the same on-curve point, if any."""
     owner = owner_of_handle(doc, key)
     inc, out = handles_of(doc, owner)

@@ -78,6 +78,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def build_parser() -> argparse.ArgumentParser:
+    """The ``outlinebench render`` command line (FILE, output image, view options)."""
     p = _Parser(
         prog="outlinebench render",
         description="Draw the editor's canvas for FILE into an image, without a screen.",
@@ -109,7 +110,7 @@ def _check_output(src: str, out: str) -> None:
         raise _Usage(f"{out} is the input file; render never overwrites its input")
 
 
-def _quiet_handler(mode, context, message: str) -> None:
+def _quiet_handler(_mode, _context, message: str) -> None:
     # The offscreen platform says it "does not support propagateSizeHints()" for every
     # window: not our concern. Everything else Qt says goes to stderr as usual.
     if "propagateSizeHints" not in message:

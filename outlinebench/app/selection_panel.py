@@ -31,7 +31,8 @@ from PySide6.QtWidgets import (
 
 from outlinebench.app import point_keys as pk
 from outlinebench.app.legend import MarkKey
-from outlinebench.app.lengths import segment_length
+from outlinebench.app.lengths import contour_length, segment_length
+from outlinebench.model.point_names import PointRef
 
 if TYPE_CHECKING:  # the session imports nothing from here; this is for type checkers
     from outlinebench.app.session import EditorSession
@@ -231,9 +232,9 @@ class SelectionPanel(QWidget):
         self._later.timeout.connect(self._on_selection_changed)
         editor.changed.connect(self._on_document_changed)
         editor.selection_changed.connect(self._on_selection_changed)
-        self._shown_key: pk.Key | None = None
+        self._shown_key: PointRef | None = None
         self._box: tuple[float, float] | None = None
-        self._handle_keys: tuple[pk.Key | None, pk.Key | None] = (None, None)
+        self._handle_keys: tuple[PointRef | None, PointRef | None] = (None, None)
         self._on_selection_changed()
 
     def set_key_open(self, open_: bool) -> None:
@@ -317,10 +318,10 @@ class SelectionPanel(QWidget):
             else:
                 self._show_handle(doc, key, units)
             quick = ed.history.in_group  # a drag is in progress
-            lengths = [segment_length(seg, quick=quick) for seg in contour.segments]
+            total = contour_length(contour.segments, quick=quick)
             self.contour_info.setText(
                 f"{'closed' if contour.closed else 'open'}, {len(contour.segments)} segments, "
-                f"length {units.text(sum(lengths))}"
+                f"length {units.text(total)}"
             )
         finally:
             del blockers

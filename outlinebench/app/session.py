@@ -24,6 +24,7 @@ from outlinebench.model import edit_rules as rules
 from outlinebench.model import tools
 from outlinebench.model.document import Document
 from outlinebench.model.history import History
+from outlinebench.model.point_names import PointRef
 
 __all__ = ["EditorSession", "TOOLS", "NUDGE_STEPS", "BREAK_JOIN_MODIFIER", "SYMMETRIC_MODIFIER"]
 
@@ -139,11 +140,11 @@ class EditorSession(QObject):
         return self.tools[self.tool_name]
 
     @property
-    def primary(self) -> pk.Key | None:
+    def primary(self) -> PointRef | None:
         return self.selection.primary
 
     @property
-    def hover(self) -> pk.Key | None:
+    def hover(self) -> PointRef | None:
         tool = self.tool
         return tool.hover if isinstance(tool, tools.SelectTool) else None
 
@@ -218,20 +219,20 @@ class EditorSession(QObject):
         self.changed.emit()
 
     # -- selection ----------------------------------------------------------------------
-    def selected_points(self) -> set[pk.Key]:
+    def selected_points(self) -> set[PointRef]:
         return set(self.selection.refs)
 
-    def set_selection(self, keys: Iterable[pk.Key], primary: pk.Key | None = None) -> None:
+    def set_selection(self, keys: Iterable[PointRef], primary: PointRef | None = None) -> None:
         doc = self.document
-        refs = [cmds.canonical_ref(doc, cmds.PointRef(*k)) for k in keys]
+        refs = [cmds.canonical_ref(doc, PointRef(*k)) for k in keys]
         if primary is not None:
-            primary = cmds.canonical_ref(doc, cmds.PointRef(*primary))
+            primary = cmds.canonical_ref(doc, PointRef(*primary))
         self.selection.set(refs, primary)
 
     def select_all(self) -> None:
         doc = self.document
         keys = [
-            tuple(r)
+            r
             for oi, o in enumerate(doc.outlines)
             for ci, _c in enumerate(o.contours)
             for r in cmds.point_refs(doc, oi, ci)
@@ -319,15 +320,15 @@ class EditorSession(QObject):
         self.message.emit(f"Redone: {label}")
 
     # -- numeric edits (selection panel) ------------------------------------------------
-    def set_point(self, key: pk.Key, x: float, y: float) -> None:
-        self.do(cmds.SetPoint(cmds.PointRef(*key), (x, y)))
+    def set_point(self, key: PointRef, x: float, y: float) -> None:
+        self.do(cmds.SetPoint(PointRef(*key), (x, y)))
 
     def move_selection(self, dx: float, dy: float) -> None:
         """Move every selected point by (dx, dy) document units, as one command."""
         if self.selection.refs and (dx or dy):
             self.do(cmds.MovePoints(self.selection.refs, (dx, dy)))
 
-    def set_handle_polar(self, key: pk.Key, length: float, angle_deg: float) -> None:
+    def set_handle_polar(self, key: PointRef, length: float, angle_deg: float) -> None:
         """Put a handle at ``length`` and on-screen ``angle_deg`` from its on-curve point."""
         doc = self.document
         owner = pk.owner_of_handle(doc, key)
@@ -335,7 +336,7 @@ class EditorSession(QObject):
         a = np.radians(angle_deg)
         # screen angle: anticlockwise with y up; document y points down
         target = (float(p[0] + length * np.cos(a)), float(p[1] - length * np.sin(a)))
-        self.do(cmds.SetPoint(cmds.PointRef(*key), target))
+        self.do(cmds.SetPoint(PointRef(*key), target))
 
     def set_segment_length(self, seg: tuple[int, int, int], length: float) -> None:
         """Give one segment the arc length ``length`` (document units), as one undoable step
@@ -353,7 +354,7 @@ class EditorSession(QObject):
         if self._do_group("Set segment length", commands):
             self.message.emit(f"Segment {s} is now {self.units.text(length)} long")
 
-    def set_join_intent(self, key: pk.Key, intent: str | None) -> None:
+    def set_join_intent(self, key: PointRef, intent: str | None) -> None:
         doc = self.document
         j = pk.join_of(doc, key)
         if j is None:
@@ -430,7 +431,7 @@ class EditorSession(QObject):
             return
         done = self._do_group(
             "Delete points" if len(on_curve) > 1 else "Delete point",
-            [cmds.DeletePoint(cmds.PointRef(*k)) for k in on_curve],
+            [cmds.DeletePoint(PointRef(*k)) for k in on_curve],
         )
         if done:
             dev = max(c.deviation or 0.0 for c in done)
@@ -485,7 +486,7 @@ class EditorSession(QObject):
             return None
         last = len(contour.segments) - 1
         k = contour.segments[last].shape[0] - 1
-        return cmds.SetPoint(cmds.PointRef(o, c, last, k), (float(start[0]), float(start[1])))
+        return cmds.SetPoint(PointRef(o, c, last, k), (float(start[0]), float(start[1])))
 
     def _end_dropped_on_start(self, x: float, y: float, radius: float) -> list[cmds.Command]:
         """When the select tool is about to drop one end of an open contour within
@@ -507,13 +508,13 @@ class EditorSession(QObject):
         if contour.closed or n < 2:
             return []
         last_k = contour.segments[-1].shape[0] - 1
-        key = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, s, i)))
-        first = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, 0, 0)))
-        final = tuple(cmds.canonical_ref(doc, cmds.PointRef(o, c, n - 1, last_k)))
+        key = cmds.canonical_ref(doc, PointRef(o, c, s, i))
+        first = cmds.canonical_ref(doc, PointRef(o, c, 0, 0))
+        final = cmds.canonical_ref(doc, PointRef(o, c, n - 1, last_k))
         if key == final:
-            moving, target = cmds.PointRef(o, c, n - 1, last_k), contour.segments[0][0]
+            moving, target = PointRef(o, c, n - 1, last_k), contour.segments[0][0]
         elif key == first:
-            moving, target = cmds.PointRef(o, c, 0, 0), contour.segments[-1][-1]
+            moving, target = PointRef(o, c, 0, 0), contour.segments[-1][-1]
         else:
             return []
         here = contour.segments[moving.segment][moving.index]

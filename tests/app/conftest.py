@@ -1,13 +1,10 @@
 """Shared fixtures of the editor tests: documents built in code and a window without dialogs."""
 
 import pytest
+from PySide6.QtCore import QSettings
 
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import QSettings  # noqa: E402
-
-import outlinebench.app  # noqa: E402,F401  (first: guards None before Qt calls)
-from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+import outlinebench.app  # noqa: F401  (first: guards None before Qt calls)
+from outlinebench.model.document import Contour, Document, Outline
 
 
 def lettering_document() -> Document:

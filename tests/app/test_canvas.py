@@ -2,19 +2,16 @@
 
 import math
 
+import bezier
 import numpy as np
 import pytest
+from PySide6.QtCore import QEvent, QPoint, QPointF, Qt
+from PySide6.QtGui import QMouseEvent, QWheelEvent
+from PySide6.QtTest import QTest
+from PySide6.QtWidgets import QApplication
+from qt_mouse import NO_MOD, _send, click, drag, screen
 
-pytest.importorskip("PySide6")
-bezier = pytest.importorskip("bezier")
-
-from PySide6.QtCore import QEvent, QPoint, QPointF, Qt  # noqa: E402
-from PySide6.QtGui import QMouseEvent, QWheelEvent  # noqa: E402
-from PySide6.QtTest import QTest  # noqa: E402
-from PySide6.QtWidgets import QApplication  # noqa: E402
-from qt_mouse import NO_MOD, _send, click, drag, screen  # noqa: E402
-
-from outlinebench.model.document import documents_equal  # noqa: E402
+from outlinebench.model.document import documents_equal
 
 
 def _angle_deg(v):

@@ -3,14 +3,11 @@ equal a full repaint (checked pixel for pixel against Qt's own full repaint of t
 
 import numpy as np
 import pytest
-
-pytest.importorskip("PySide6")
-
-from conftest import lettering_document  # noqa: E402
-from PySide6.QtCore import QEvent, QPointF  # noqa: E402
-from PySide6.QtGui import QImage  # noqa: E402
-from PySide6.QtWidgets import QApplication  # noqa: E402
-from qt_mouse import _send, screen  # noqa: E402
+from conftest import lettering_document
+from PySide6.QtCore import QEvent, QPointF
+from PySide6.QtGui import QImage
+from PySide6.QtWidgets import QApplication
+from qt_mouse import _send, screen
 
 
 def _pixels(canvas) -> np.ndarray:

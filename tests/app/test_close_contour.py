@@ -3,12 +3,9 @@ a short line, and dragging an open end onto its start closes the contour."""
 
 import numpy as np
 import pytest
+from qt_mouse import drag, screen
 
-pytest.importorskip("PySide6")
-
-from qt_mouse import drag, screen  # noqa: E402
-
-from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+from outlinebench.model.document import Contour, Document, Outline
 
 
 def _open_doc(gap: float) -> Document:

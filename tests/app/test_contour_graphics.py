@@ -2,14 +2,12 @@
 
 import math
 
+import bezier
 import numpy as np
 import pytest
 
-pytest.importorskip("PySide6")
-bezier = pytest.importorskip("bezier")
-
-from outlinebench.app.contour_graphics import build_graphics, end_directions  # noqa: E402
-from outlinebench.model.document import Contour  # noqa: E402
+from outlinebench.app.contour_graphics import build_graphics, end_directions
+from outlinebench.model.document import Contour
 
 
 def _unit(v):

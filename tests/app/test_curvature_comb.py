@@ -4,14 +4,11 @@ import math
 
 import numpy as np
 import pytest
+import svgpathtools
+from PySide6.QtGui import QImage
 
-pytest.importorskip("PySide6")
-svgpathtools = pytest.importorskip("svgpathtools")
-
-from PySide6.QtGui import QImage  # noqa: E402
-
-from outlinebench.app.array_paths import lines_path  # noqa: E402
-from outlinebench.app.curvature_comb import (  # noqa: E402
+from outlinebench.app.array_paths import lines_path
+from outlinebench.app.curvature_comb import (
     MAX_TEETH,
     MIN_TEETH,
     comb_tips,

@@ -1,12 +1,9 @@
 """Cutting in view (issue 13): the flattening and offset previews against the library's own
 results, drawn on the canvas, and exported as verified cut files with the caution."""
 
+from pathlib import Path
+
 import numpy as np
-import pytest
-
-pytest.importorskip("PySide6")
-
-from pathlib import Path  # noqa: E402
 
 ROOT = Path(__file__).resolve().parents[2]
 LETTERING = ROOT / "samples" / "signshop-lettering-defects.svg"
@@ -35,7 +32,8 @@ def test_flatten_preview_is_the_library_flattening_with_its_proven_bound():
     want = sum(len(p) - (0 if c.closed else 1) for p, c in zip(polys, contours, strict=True))
     assert fp.chords == want
     # Where: an independent measurement of that contour (svgpathtools samples, dense).
-    svgpathtools = pytest.importorskip("svgpathtools")
+    import svgpathtools
+
     k = fp.bound_contour
     c = contours[k]
     poly = polys[k]
@@ -134,7 +132,8 @@ def test_exported_cut_file_is_verified_carries_the_caution_and_spares_the_drawin
     text = out.read_text(encoding="utf-8")
     assert CUT_CAUTION in text and "proven largest deviation" in text
     # Read back by an independent SVG library: the polylines are the preview's (mm, 1e-6).
-    svgelements = pytest.importorskip("svgelements")
+    import svgelements
+
     svg = svgelements.SVG.parse(str(out))
     shapes = [
         e for e in svg.elements() if isinstance(e, (svgelements.Polyline, svgelements.Polygon))

@@ -3,10 +3,7 @@
 contours are all degenerate. Each is opened, shown, checked, previewed, edited and rendered."""
 
 import pytest
-
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings
 
 HEAD = '<svg xmlns="http://www.w3.org/2000/svg" width="100mm" height="50mm" viewBox="0 0 100 50">'
 CASES = {

@@ -7,10 +7,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings
 
 ROOT = Path(__file__).resolve().parents[2]
 BRACKET = ROOT / "samples" / "workshop-bracket.svg"

@@ -6,19 +6,16 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from PySide6.QtCore import QEvent, QPointF, Qt
+from PySide6.QtTest import QTest
+from PySide6.QtWidgets import QApplication
+from qt_mouse import _send, screen
 
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import QEvent, QPointF, Qt  # noqa: E402
-from PySide6.QtTest import QTest  # noqa: E402
-from PySide6.QtWidgets import QApplication  # noqa: E402
-from qt_mouse import _send, screen  # noqa: E402
-
-from outlinebench.app.findings_panel import COLUMNS  # noqa: E402
-from outlinebench.cli import main as cli_main  # noqa: E402
-from outlinebench.diagnostics import CheckSettings, check_document  # noqa: E402
-from outlinebench.io import load_svg  # noqa: E402
-from outlinebench.model.document import Contour, Document, Outline  # noqa: E402
+from outlinebench.app.findings_panel import COLUMNS
+from outlinebench.cli import main as cli_main
+from outlinebench.diagnostics import CheckSettings, check_document
+from outlinebench.io import load_svg
+from outlinebench.model.document import Contour, Document, Outline
 
 VALUE = COLUMNS.index("Value")
 SAMPLE = Path(__file__).resolve().parents[2] / "samples" / "signshop-lettering-defects.svg"

@@ -7,15 +7,11 @@ written by samples/make_samples.py); both are in millimetres, one user unit per 
 """
 
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
-
-pytest.importorskip("PySide6")
-
-from pathlib import Path  # noqa: E402
-
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings
 
 ROOT = Path(__file__).resolve().parents[2]
 BRACKET = ROOT / "samples" / "workshop-bracket-defects.svg"
@@ -61,7 +57,8 @@ def _sampled_hausdorff(old_contours, new_contours):
     """Reference: shapely.hausdorff_distance of dense samples of the old and new contours, and
     how far it can be from the true distance (one sample step: every curve point is within
     half a step of a sample, on either curve)."""
-    shapely = pytest.importorskip("shapely")
+    import shapely
+
     a, sa = _dense(old_contours)
     b, sb = _dense(new_contours)
     h = shapely.hausdorff_distance(shapely.MultiPoint(a), shapely.MultiPoint(b))
@@ -284,3 +281,129 @@ def test_a_shown_refusal_is_measured_again_when_the_allowed_change_grows(window)
     assert window.edit_tolerances()
     assert window.fix_preview is not None and window.fix_preview.ok
     assert window.findings_panel.fix_apply.isVisibleTo(window.findings_panel)
+
+
+def _near_loop_document():
+    """An invented workshop cover plate: a cubic whose start handle, turned 5.8° to meet the
+    straight side before it (a kink), would swing the curve into a loop. mm, 1 unit per mm."""
+    from outlinebench.model.document import Contour, Document, Outline
+
+    plate = Contour.from_points(
+        [
+            [[50, 50], [64, 58], [54, 57], [60, 50]],
+            [[60, 50], [60, 90]],
+            [[60, 90], [32, 90]],
+            [[32, 90], [32, 42]],
+            [[32, 42], [50, 50]],
+        ],
+        closed=True,
+        joins=(None, None, None, None, None),
+    )
+    return Document(
+        (Outline((plate,), "plate", 0),),
+        width_mm=100.0,
+        height_mm=100.0,
+        view_box=(0.0, 0.0, 100.0, 100.0),
+        mm_per_unit=1.0,
+        units="mm",
+    )
+
+
+def _is_simple(contour):
+    """Reference: shapely's ``is_simple`` of the contour densely sampled by the Bernstein form
+    (a ring that crosses itself is not simple)."""
+    import shapely
+
+    pts, _ = _dense([contour])
+    return shapely.LineString(pts).is_simple
+
+
+def test_single_fix_refused_when_it_would_add_a_worse_finding(window):
+    from outlinebench.api.repairing import repair_document, repair_for_finding
+    from outlinebench.app.fix_preview import preview_fix
+    from outlinebench.app.units import display_units
+    from outlinebench.diagnostics import Checker, CheckSettings
+
+    doc = _near_loop_document()
+    settings = CheckSettings()
+    found = Checker(settings).update(doc)
+    kink = next(f for f in found if f.kind == "kink")
+    assert not any(f.kind == "self-intersection" for f in found)
+    # what the smoothing alone would make: a contour that crosses itself (shapely says so),
+    # where the original does not
+    cmd = repair_for_finding(doc, kink, max_change=50.0, settings=settings)
+    made = cmd.apply(doc).outlines[0].contours[0]
+    assert _is_simple(doc.outlines[0].contours[0]) and not _is_simple(made)
+    # the single fix is refused, as "fix all" (repair_document) refuses the same fix
+    fp = preview_fix(doc, kink, max_change=50.0, units=display_units(doc), settings=settings)
+    assert not fp.ok and fp.command is None and fp.after is None
+    assert fp.refusal == "it would add a self-intersection finding in the same outline"
+    run = repair_document(doc, ["smooth-kinks"], max_change=50.0, settings=settings)
+    assert [(o.status, o.reason) for o in run.outcomes] == [("refused", fp.refusal)]
+    # in the window (allowed change 50 mm): refused in the fix bar, nothing applied
+    window.prefs.set_max_change_mm(50.0)
+    window.session.load(doc)
+    shown = next(f for f in window.live.findings if f.kind == "kink")
+    assert window.preview_fix(shown).refusal == fp.refusal
+    assert "refused" in window.findings_panel.fix_text.text()
+    assert not window.apply_fix() and window.session.document is doc
+
+
+def test_single_fix_rule_matches_fix_all_rule():
+    """The kinds a repair may add without refusal are the library's: repair_document's rule,
+    read from its source text, so a change there fails here (common practice, no source)."""
+    import inspect
+
+    from outlinebench.api import repairing
+    from outlinebench.app.fix_preview import ALLOWED_NEW_KINDS
+
+    src = inspect.getsource(repairing._Runner.attempt)
+    assert src.count("exempt = (") == len(ALLOWED_NEW_KINDS)  # no other kind exempted
+    for kind, allowed in ALLOWED_NEW_KINDS.items():
+        words = ", ".join(f'"{k}"' for k in allowed) + ("," if len(allowed) == 1 else "")
+        assert f'cmd.kind == "{kind}":\n' in src
+        assert f"exempt = ({words})" in src
+
+
+def _end_turn_degrees(a, b):
+    """Turn at the join of segments a → b from their end tangents (closed form: the last and
+    first control-polygon legs are the end tangents of a Bézier segment, Farin ch. 5), by
+    numpy's arctan2 of cross and dot products."""
+    u = np.asarray(a[-1], float) - np.asarray(a[-2], float)
+    v = np.asarray(b[1], float) - np.asarray(b[0], float)
+    return abs(math.degrees(math.atan2(u[0] * v[1] - u[1] * v[0], float(np.dot(u, v)))))
+
+
+def test_residual_turn_below_1e_9_degrees_reads_0(window):
+    _open(window, BRACKET)
+    f = _kink(window)
+    fp = window.preview_fix(f)
+    assert fp.ok
+    # the smoothed join really has no turn left: its end tangents, measured independently
+    for contour in fp.new_contours:
+        i, k = contour.join_segments(f.join)
+        assert _end_turn_degrees(contour.segments[i], contour.segments[k]) < 1e-9
+    assert fp.command.residual_angle < 1e-9
+    # so the note reads "→ 0°", never a rounding residue like 2.5e-14°
+    text = window.findings_panel.fix_text.text()
+    assert f"turn {f.value:.4g}° → 0°" in fp.note and fp.note in text
+    assert "e-" not in fp.note and "e-" not in text
+
+
+def test_a_residual_turn_on_the_grid_keeps_its_digits():
+    from outlinebench.app.fix_preview import angle_text, fix_note
+    from outlinebench.diagnostics import Checker, CheckSettings
+    from outlinebench.model.repairs import SmoothKink
+
+    # common practice, no source: three significant digits, zero below 1e-9°
+    assert angle_text(2.5e-14) == "0°" and angle_text(-3e-10) == "0°"
+    assert angle_text(0.333) == "0.333°" and angle_text(2.8617, 4) == "2.862°"
+    doc = _near_loop_document()
+    kink = next(f for f in Checker(CheckSettings()).update(doc) if f.kind == "kink")
+    cmd = SmoothKink(0, 0, kink.join, max_change=50.0, grid=1.0)
+    new = cmd.apply(doc)
+    c = new.outlines[0].contours[0]
+    i, k = c.join_segments(kink.join)
+    left = _end_turn_degrees(c.segments[i], c.segments[k])  # measured independently
+    assert left > 1e-3 and cmd.residual_angle == pytest.approx(left, rel=1e-9)
+    assert fix_note(cmd, kink) == f"turn {kink.value:.4g}° → {left:.3g}° (best on the grid)"

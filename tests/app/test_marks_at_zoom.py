@@ -4,9 +4,6 @@ and its findings; point marks shrink, then are left out, and come back as you zo
 from pathlib import Path
 
 import numpy as np
-import pytest
-
-pytest.importorskip("PySide6")
 
 ROOT = Path(__file__).resolve().parents[2]
 DEFECTS = ROOT / "samples" / "signshop-lettering-defects.svg"

@@ -10,10 +10,7 @@ import time
 from pathlib import Path
 
 import pytest
-
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLE = ROOT / "samples" / "workshop-bracket.svg"

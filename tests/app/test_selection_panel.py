@@ -4,11 +4,8 @@ import math
 
 import numpy as np
 import pytest
-
-pytest.importorskip("PySide6")
-
-from PySide6.QtCore import Qt  # noqa: E402
-from PySide6.QtTest import QTest  # noqa: E402
+from PySide6.QtCore import Qt
+from PySide6.QtTest import QTest
 
 # The lettering document has 0.5 mm per user unit; the panel shows mm.
 MM = 0.5

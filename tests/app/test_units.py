@@ -2,10 +2,8 @@
 
 import pytest
 
-pytest.importorskip("PySide6")
-
-from outlinebench.app.units import display_units  # noqa: E402
-from outlinebench.model.document import Document  # noqa: E402
+from outlinebench.app.units import display_units
+from outlinebench.model.document import Document
 
 
 def test_inches_and_millimetres():

@@ -2,9 +2,7 @@
 
 import pytest
 
-pytest.importorskip("PySide6")
-
-from outlinebench.app.view_transform import MAX_SCALE, ViewTransform  # noqa: E402
+from outlinebench.app.view_transform import MAX_SCALE, ViewTransform
 
 
 def test_round_trip_and_zoom_about_a_point():
