@@ -7,6 +7,7 @@ also refused when the re-check still shows the finding it targets.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -42,6 +43,8 @@ __all__ = [
     "RepairRun",
     "parse_kinds",
     "repair_for_finding",
+    "added_problem",
+    "ALLOWED_NEW_KINDS",
     "repair_document",
 ]
 
@@ -222,6 +225,72 @@ def _same_place(a: Finding, b: Finding) -> bool:
     return a.join == b.join and (a.join is not None or a.segment == b.segment)
 
 
+# Finding kinds a repair may add at the place it fixed without being refused, because a repair
+# later in REPAIR_ORDER answers for them: closing a gap makes a new join, judged for G1/G2 like
+# any other (smooth-kinks and match-curvature), and a kink made smooth is then judged for G2
+# (match-curvature). One rule for the command line's repair_document and the editor's single
+# fixes.
+ALLOWED_NEW_KINDS: dict[str, tuple[str, ...]] = {
+    "close-gaps": ("kink", "corner", "curvature-jump"),
+    "smooth-kinks": ("curvature-jump",),
+}
+
+
+def _outline_problem_counts(
+    findings: Sequence[Finding], doc: Document, outline: int
+) -> dict[str, int]:
+    """Findings of warning level or worse in one outline's contours, counted by kind."""
+    mine = {r.global_index for r in doc.contour_refs() if r.outline == outline}
+    counts: dict[str, int] = {}
+    for f in findings:
+        if is_problem(f) and f.contour in mine:
+            counts[f.kind] = counts.get(f.kind, 0) + 1
+    return counts
+
+
+def added_problem(
+    cmd: Any,
+    before: Document,
+    found_before: Sequence[Finding],
+    after: Document,
+    found_after: Sequence[Finding],
+) -> str | None:
+    r"""The first finding kind of warning level or worse a fix adds in its outline, or None.
+
+    Parameters
+    ----------
+    cmd : Command
+        The fix (a repair command with ``kind`` and ``outline``; others add nothing).
+    before, after : Document
+        The document before and after the fix.
+    found_before, found_after : sequence of Finding
+        Their findings.
+
+    Returns
+    -------
+    str or None
+        A kind counted more often in the outline after the fix than before, other than the
+        kinds :data:`ALLOWED_NEW_KINDS` lets that repair kind add.
+
+    Notes
+    -----
+    Counts per kind, :math:`n_k(\text{after}) > n_k(\text{before})`, over the findings with
+    :func:`outlinebench.diagnostics.is_problem` in the contours of the fixed outline: the rule
+    :func:`repair_document` applies to each fix (common practice,
+    no source: a repair must not trade one defect for another).
+    """
+    outline = getattr(cmd, "outline", None)
+    if outline is None:
+        return None
+    old = _outline_problem_counts(found_before, before, outline)
+    new = _outline_problem_counts(found_after, after, outline)
+    allowed = ALLOWED_NEW_KINDS.get(getattr(cmd, "kind", ""), ())
+    for kind, n in new.items():
+        if n > old.get(kind, 0) and kind not in allowed:
+            return kind
+    return None
+
+
 def _problem_counts(findings: list[Finding], outline_contours: set[int]) -> dict[str, int]:
     out: dict[str, int] = {}
     for f in findings:
@@ -271,27 +340,14 @@ class _Runner:
                     Outcome(cmd.kind, "refused", where, label, change, str(exc), at)
                 )
             return
-        outline = getattr(cmd, "outline", None)
         after = list(self.checker.update(new))
         reason = None
         if target is not None and any(_same_place(target, f) for f in after):
             reason = f"the {target.kind} is still found after the fix"
-        elif outline is not None:
-            old_counts = _problem_counts(self.findings, _contours_of(self.doc, outline))
-            new_counts = _problem_counts(after, _contours_of(new, outline))
-            # closing a gap makes a new join, judged like any other: its G1/G2 findings are
-            # for smooth-kinks and match-curvature, which come later in the order
-            # (and a kink made smooth is then judged for G2, which match-curvature handles)
-            exempt: tuple[str, ...] = ()
-            if cmd.kind == "close-gaps":
-                exempt = ("kink", "corner", "curvature-jump")
-            elif cmd.kind == "smooth-kinks":
-                exempt = ("curvature-jump",)
-            worse = [
-                k for k, n in new_counts.items() if n > old_counts.get(k, 0) and k not in exempt
-            ]
-            if worse:
-                reason = f"it would add a {worse[0]} finding in the same outline"
+        else:
+            worse = added_problem(cmd, self.doc, self.findings, new, after)
+            if worse is not None:
+                reason = f"it would add a {worse} finding in the same outline"
         change = cmd.change.upper if cmd.change is not None else None
         if reason is not None:
             self.checker.update(self.doc)

@@ -19,9 +19,15 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from outlinebench.api.repairing import TARGETS, repair_document, repair_for_finding
+from outlinebench.api.repairing import (
+    ALLOWED_NEW_KINDS,
+    TARGETS,
+    added_problem,
+    repair_document,
+    repair_for_finding,
+)
 from outlinebench.app.units import DisplayUnits
-from outlinebench.diagnostics import Checker, CheckSettings, Finding, is_problem
+from outlinebench.diagnostics import Checker, CheckSettings, Finding
 from outlinebench.errors import CommandError
 from outlinebench.model.commands import Command
 from outlinebench.model.document import Contour, Document
@@ -180,66 +186,6 @@ def _same_place(a: Finding, b: Finding) -> bool:
         tol = 1e-9 * max(1.0, abs(a.x), abs(a.y))
         return abs(a.x - b.x) <= tol and abs(a.y - b.y) <= tol
     return a.join == b.join and (a.join is not None or a.segment == b.segment)
-
-
-# Finding kinds a repair may add at the place it fixed without being refused, because a repair
-# later in REPAIR_ORDER answers for them: closing a gap makes a new join, judged for G1/G2 like
-# any other (smooth-kinks and match-curvature), and a kink made smooth is then judged for G2
-# (match-curvature). The rule of outlinebench.api.repairing._Runner.attempt, kept in step
-# with it by tests/app/test_fixes_at_hand.py.
-ALLOWED_NEW_KINDS: dict[str, tuple[str, ...]] = {
-    "close-gaps": ("kink", "corner", "curvature-jump"),
-    "smooth-kinks": ("curvature-jump",),
-}
-
-
-def _problem_counts(findings, doc: Document, outline: int) -> dict[str, int]:
-    """Findings of warning level or worse in one outline's contours, counted by kind."""
-    mine = {r.global_index for r in doc.contour_refs() if r.outline == outline}
-    counts: dict[str, int] = {}
-    for f in findings:
-        if is_problem(f) and f.contour in mine:
-            counts[f.kind] = counts.get(f.kind, 0) + 1
-    return counts
-
-
-def added_problem(
-    cmd: Command, before: Document, found_before, after: Document, found_after
-) -> str | None:
-    r"""The first finding kind of warning level or worse a fix adds in its outline, or None.
-
-    Parameters
-    ----------
-    cmd : Command
-        The fix (a repair command with ``kind`` and ``outline``; others add nothing).
-    before, after : Document
-        The document before and after the fix.
-    found_before, found_after : sequence of Finding
-        Their findings.
-
-    Returns
-    -------
-    str or None
-        A kind counted more often in the outline after the fix than before, other than the
-        kinds :data:`ALLOWED_NEW_KINDS` lets that repair kind add.
-
-    Notes
-    -----
-    Counts per kind, :math:`n_k(\text{after}) > n_k(\text{before})`, over the findings with
-    :func:`outlinebench.diagnostics.is_problem` in the contours of the fixed outline: the rule
-    :func:`outlinebench.api.repairing.repair_document` applies to each fix (common practice,
-    no source: a repair must not trade one defect for another).
-    """
-    outline = getattr(cmd, "outline", None)
-    if outline is None:
-        return None
-    old = _problem_counts(found_before, before, outline)
-    new = _problem_counts(found_after, after, outline)
-    allowed = ALLOWED_NEW_KINDS.get(getattr(cmd, "kind", ""), ())
-    for kind, n in new.items():
-        if n > old.get(kind, 0) and kind not in allowed:
-            return kind
-    return None
 
 
 def _no_fix_reason(doc: Document, f: Finding, settings: CheckSettings, units: DisplayUnits):
