@@ -24,7 +24,14 @@ from collections.abc import Sequence
 import numpy as np
 from numpy.typing import NDArray
 
-from outlinebench.geometry import derivative_at, evaluate, segment_area_terms, split_many, to_cubic
+from outlinebench.geometry import (
+    derivative_at,
+    evaluate,
+    power_coefficients,
+    segment_area_terms,
+    split_many,
+    to_cubic,
+)
 
 __all__ = ["PROBE_OFFSET", "enclosed_area", "winding_number"]
 
@@ -54,15 +61,9 @@ def winding_number(cubics: FloatArray, p: FloatArray) -> int:
         ys = cubics[r, :, 1]
         # scaled by a power of two so the power basis cannot overflow (roots are unchanged)
         scale = 2.0 ** -max(0, int(np.ceil(np.log2(max(float(np.abs(ys).max()), abs(py), 1.0)))))
-        y0, y1, y2, y3 = ys * scale
-        py_s = py * scale
-        # power basis of y(t) − py (Bernstein to monomial, Farin §3)
-        coef = [
-            -y0 + 3 * y1 - 3 * y2 + y3,
-            3 * y0 - 6 * y1 + 3 * y2,
-            -3 * y0 + 3 * y1,
-            y0 - py_s,
-        ]
+        # power basis of y(t) − py (Bernstein to monomial, Farin §3), highest power first
+        c = power_coefficients(np.column_stack([ys * scale, np.zeros(4)]))[:, 0]
+        coef = [c[3], c[2], c[1], c[0] - py * scale]
         for t in np.roots(coef):
             if abs(t.imag) > _IMAG_TOL:
                 continue

@@ -21,7 +21,7 @@ nothing-to-check
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Any
 
@@ -135,11 +135,3 @@ def file_findings(
         )
         found.append(FileFinding("nothing-to-check", ERROR, what))
     return found, rest
-
-
-def file_summary(findings: Sequence[FileFinding]) -> dict[str, int]:
-    """Counts of file findings by kind."""
-    out: dict[str, int] = {}
-    for f in findings:
-        out[f.kind] = out.get(f.kind, 0) + 1
-    return out

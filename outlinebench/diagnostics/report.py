@@ -358,7 +358,7 @@ def _key(k: Any) -> str:
 
 
 def iter_json(obj: Any, depth: int = 0) -> Iterator[str]:
-    """Pieces of ``json.dumps(obj, indent=2, ensure_ascii=False, allow_nan=False)`` in order,
+    r"""Pieces of ``json.dumps(obj, indent=2, ensure_ascii=False, allow_nan=False)`` in order,
     with non-finite floats written as ``null``; lists and tuples may also be any iterable
     (a generator of findings), consumed as it is written.
 
@@ -379,7 +379,7 @@ def iter_json(obj: Any, depth: int = 0) -> Iterator[str]:
     "json — JSON encoder and decoder"): each item of a non-empty container on its own line,
     indented one level deeper, empty containers as ``[]`` and ``{}``. A container whose
     items are all scalars is written in one call of the standard library's C encoder with the
-    item separator ``",\\n"`` plus the indentation (the same text, much faster than the
+    item separator ``",\n"`` plus the indentation (the same text, much faster than the
     pure-Python indented encoder).
 
     Examples
@@ -442,10 +442,10 @@ def iter_json(obj: Any, depth: int = 0) -> Iterator[str]:
 
 
 def write_json_stream(obj: Any, stream: TextIO) -> None:
-    """Write ``obj`` as indented JSON and a newline, piece by piece as it is encoded.
+    r"""Write ``obj`` as indented JSON and a newline, piece by piece as it is encoded.
 
     The text is that of ``json.dump(obj, stream, indent=2, ensure_ascii=False,
-    allow_nan=False)`` with non-finite floats as ``null``, then ``"\\n"``
+    allow_nan=False)`` with non-finite floats as ``null``, then ``"\n"``
     (:func:`iter_json`); it is written in chunks of about 64 k characters, so a report of
     many findings is never held as one string.
     """

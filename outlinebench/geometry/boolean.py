@@ -380,7 +380,7 @@ class _Edge:
     t1: float
 
 
-def _build_edges(
+def _build_edges(  # noqa: C901 (older than the complexity gate; split when next changed)
     inp: _Input, found, tol: float, polys, delta: float
 ) -> tuple[list[_Edge], list[FloatArray], int]:
     segs = inp.segs

@@ -92,7 +92,7 @@ def join_reads_smooth(contour: Contour, join: int) -> bool:
 def segment_length_commands(
     doc: Document, segment: Sequence[int], length: float, current: float
 ) -> list[Command]:
-    """Commands giving segment ``(outline, contour, segment)`` the arc length ``length``.
+    r"""Commands giving segment ``(outline, contour, segment)`` the arc length ``length``.
 
     Parameters
     ----------
@@ -120,7 +120,7 @@ def segment_length_commands(
     The segment is scaled about its start point: control point :math:`P_i` moves to
     :math:`P_0 + k (P_i - P_0)` with :math:`k = L / L_0`. Uniform scaling multiplies arc
     length by :math:`k` exactly (the integrand :math:`|B'(t)|` of
-    :math:`L = \\int_0^1 |B'(t)|\\,dt` scales by :math:`k`), so no iteration is needed; a
+    :math:`L = \int_0^1 |B'(t)|\,dt` scales by :math:`k`), so no iteration is needed; a
     line's end point simply moves along the line.
     """
     if not (math.isfinite(length) and length > 0.0 and math.isfinite(current) and current > 0.0):
