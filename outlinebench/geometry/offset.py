@@ -32,6 +32,7 @@ from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.flatten import _as_cubic_batch, flatten_contours
 from outlinebench.geometry.intersect import intersections, self_intersections
 from outlinebench.geometry.offset_trim import _coef, _eval, _trim
+from outlinebench.limits import FINDINGS_PER_KIND
 
 __all__ = [
     "DEFAULT_OFFSET_TOLERANCE",
@@ -533,22 +534,30 @@ def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[Off
     pairs = sorted({(int(owner[i]), int(owner[j])) for i, j in zip(a[keep], b[keep], strict=True)})
     # a join is shared by consecutive segments, also across segments shrunk to a point
     point_like = np.all(cub == cub[:, :1], axis=(1, 2))
+    # solid[k]: segments before k that are not point-like (all point-like in [i, j) ⇔ equal)
+    solid = np.concatenate([[0], np.cumsum(~point_like)])
+    n_seg = len(cub)
+
+    def all_point_like(i: int, j: int) -> bool:
+        i, j = max(0, min(i, n_seg)), max(0, min(j, n_seg))
+        return j <= i or solid[j] == solid[i]
 
     def joined(i: int, j: int, ta: float, tb: float) -> bool:
         end_i, start_j = ta > 1 - 1e-9, tb < 1e-9
-        if end_i and start_j and bool(np.all(point_like[i + 1 : j])):
+        if end_i and start_j and all_point_like(i + 1, j):
             return True
         # the end of the last segment meets the start of the first: the closing join (an open
         # contour drawn back to its start touches itself there only)
-        return (
-            ta < 1e-9
-            and tb > 1 - 1e-9
-            and bool(np.all(point_like[j + 1 :]))
-            and bool(np.all(point_like[:i]))
-        )
+        return ta < 1e-9 and tb > 1 - 1e-9 and all_point_like(j + 1, n_seg) and all_point_like(0, i)
 
     found: list[tuple[int, float, FloatArray]] = []
-    for i, j in pairs:
+    # one crossing is enough to refuse the offset: candidates are confirmed until
+    # FINDINGS_PER_KIND crossings are found, and the rest are counted in one more finding
+    unexamined = 0
+    for n_pair, (i, j) in enumerate(pairs):
+        if len(found) >= FINDINGS_PER_KIND:
+            unexamined = len(pairs) - n_pair
+            break
         if i == j:
             for t1, _ in self_intersections(cub[i]):
                 found.append((i, float(t1), _point(cub[i], float(t1))))
@@ -559,9 +568,21 @@ def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[Off
             if not joined(i, j, float(ta), float(tb)):
                 found.append((i, float(ta), _point(cub[i], float(ta))))
     out: list[OffsetProblem] = []
+    # places already reported, in a hash grid of cell `tolerance`: one within the tolerance
+    # lies in the 3 × 3 cells around (linear instead of quadratic in the crossings)
+    grid: dict[tuple[float, float], list[FloatArray]] = {}
     for i, t, p in found:
-        if any(np.hypot(*(p - np.array([q.x, q.y]))) <= tolerance for q in out):
+        with np.errstate(over="ignore"):
+            kx, ky = (float(v) for v in np.floor(p / tolerance))
+        near = (
+            q
+            for dx in (-1.0, 0.0, 1.0)
+            for dy in (-1.0, 0.0, 1.0)
+            for q in grid.get((kx + dx, ky + dy), ())
+        )
+        if any(np.hypot(*(p - q)) <= tolerance for q in near):
             continue
+        grid.setdefault((kx, ky), []).append(p)
         out.append(
             OffsetProblem(
                 "self-intersection",
@@ -572,6 +593,20 @@ def _self_crossings(cub: FloatArray, closed: bool, tolerance: float) -> list[Off
                 None,
                 f"the contour crosses itself on segment {i} at ({p[0]:.6g}, {p[1]:.6g}): it "
                 "has no one inside and outside, so it is not offset; remove the crossing first",
+            )
+        )
+    if unexamined and out:
+        p0 = out[0]
+        out.append(
+            OffsetProblem(
+                "self-intersection",
+                p0.segment,
+                p0.t,
+                p0.x,
+                p0.y,
+                None,
+                f"{unexamined} more candidate crossings of the contour with itself were not "
+                f"examined (at most {FINDINGS_PER_KIND} crossings are listed): it is not offset",
             )
         )
     return out
@@ -661,23 +696,39 @@ def _vanished(removed: FloatArray, orig: FloatArray, problems, r: float, chains)
         return out
     if len(removed) == 0:
         return out
+    from scipy.spatial import cKDTree
+
     known = np.array([[q.x, q.y] for q in problems]) if problems else np.zeros((0, 2))
     mids = 0.125 * (removed[:, 0] + 3 * removed[:, 1] + 3 * removed[:, 2] + removed[:, 3])
     if len(known):
-        d = np.min(np.hypot(*(mids[:, None, :] - known[None]).transpose(2, 0, 1)), axis=1)
+        # distance to the nearest reported place (k-d tree: exact Euclidean nearest)
+        d, _ = cKDTree(known).query(mids)
         unexplained = mids[d > 3 * r]
     else:
         unexplained = mids
-    reported: list[FloatArray] = []
+    if len(unexplained) == 0:
+        return out
+    # the original sampled once at 65 points a segment; nearest sample by a k-d tree
+    ts = np.linspace(0, 1, 65)
+    pts, _, _ = _eval(_coef(orig), np.tile(ts, (len(orig), 1)))
+    samples = cKDTree(pts.reshape(-1, 2))
+    # reported places in a hash grid of cell 2r: one within 2r lies in the 3 × 3 cells around
+    cell = 2 * r
+    grid: dict[tuple[float, float], list[FloatArray]] = {}
     for m in unexplained:
-        if any(np.hypot(*(m - q)) < 2 * r for q in reported):
+        with np.errstate(over="ignore"):
+            kx, ky = (float(v) for v in np.floor(m / cell))
+        if any(
+            np.hypot(*(m - q)) < 2 * r
+            for dx in (-1, 0, 1)
+            for dy in (-1, 0, 1)
+            for q in grid.get((kx + dx, ky + dy), ())
+        ):
             continue
-        reported.append(m)
+        grid.setdefault((kx, ky), []).append(m)
         # nearest point of the original
-        ts = np.linspace(0, 1, 65)
-        pts, _, _ = _eval(_coef(orig), np.tile(ts, (len(orig), 1)))
-        dd = np.hypot(*(pts - m).transpose(2, 0, 1))
-        si, ti = np.unravel_index(int(np.argmin(dd)), dd.shape)
+        _, flat_k = samples.query(m)
+        si, ti = divmod(int(flat_k), len(ts))
         p = pts[si, ti]
         out.append(
             OffsetProblem(

@@ -65,20 +65,25 @@ def _trim(
     owner = np.concatenate([np.full(len(p), i) for i, p in enumerate(pts)])
     chain = np.vstack([*pts, raw[-1][3][None]])
     line = shapely.LineString(chain)
-    ref = shapely.LineString(np.vstack(flatten_contours([(list(orig), False)], tol / 8)))
+    chords = shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1))
+    tree = shapely.STRtree(chords)
+    _check_crossing_budget(tree, chords)
+    ref_pts = np.vstack(flatten_contours([(list(orig), False)], tol / 8))
+    ref = shapely.LineString(ref_pts)
+    near = _NearestChord(ref_pts)
     noded = shapely.unary_union(line)
-    # intersection points: ends of noded pieces that are not ends of the raw chain
+    # intersection points: ends of noded pieces that are not ends of the raw chain (each
+    # crossing is the end of up to four noded pieces: taken once)
     cut_pts = []
     for g in getattr(noded, "geoms", [noded]):
         cs = np.asarray(g.coords)
         cut_pts.extend([cs[0], cs[-1]])
-    cut_pts = np.array(cut_pts).reshape(-1, 2)
+    cut_pts = np.unique(np.array(cut_pts).reshape(-1, 2), axis=0)
     # parameters on the raw pieces: nearest chord, then Newton on the cubic; the two pieces
     # that cross there are then solved together (A(ta) = B(tb)) so that both are cut at the
     # same point and the kept parts meet exactly
     splits: dict[int, list[float]] = {}
     if len(cut_pts):
-        tree = shapely.STRtree(shapely.linestrings(np.stack([chain[:-1], chain[1:]], axis=1)))
         hits = tree.query(shapely.points(cut_pts), predicate="dwithin", distance=tol * 1e-6)
         at: dict[int, list[tuple[int, float]]] = {}
         hit_k = owner[hits[1]]
@@ -89,15 +94,25 @@ def _trim(
             locs = at.setdefault(int(pi), [])
             if all(k != k2 or abs(t - t2) > 1e-7 for k2, t2 in locs):
                 locs.append((k, t))
-        for locs in at.values():
-            refined = list(locs)
+        # every pair (first, j-th) of pieces through one crossing, refined together
+        pa, pb, pta, ptb, where = [], [], [], [], []
+        for n_at, locs in enumerate(at.values()):
             for j in range(1, len(locs)):
-                ka, ta = locs[0]
-                kb, tb = locs[j]
-                ra, rb = _refine_crossing(raw[ka], raw[kb], ta, tb)
-                if ra is not None:
-                    refined[0] = (ka, ra)
-                    refined[j] = (kb, rb)
+                pa.append(locs[0][0])
+                pta.append(locs[0][1])
+                pb.append(locs[j][0])
+                ptb.append(locs[j][1])
+                where.append((n_at, j))
+        ra, rb, ok = _refine_crossings(
+            raw[np.array(pa, dtype=np.intp)], raw[np.array(pb, dtype=np.intp)],
+            np.array(pta, dtype=float), np.array(ptb, dtype=float),
+        )  # fmt: skip
+        refined_at = [list(locs) for locs in at.values()]
+        for q, (n_at, j) in enumerate(where):
+            if ok[q]:
+                refined_at[n_at][0] = (pa[q], float(ra[q]))
+                refined_at[n_at][j] = (pb[q], float(rb[q]))
+        for refined in refined_at:
             for k, t in refined:
                 if 1e-9 < t < 1 - 1e-9:
                     splits.setdefault(k, []).append(t)
@@ -121,7 +136,7 @@ def _trim(
     ns = 16
     su = np.linspace(0.0, 1.0, ns + 1)
     sp, _, _ = _eval(_coef(pieces_arr), np.tile(su, (len(pieces_arr), 1)))
-    sd = shapely.distance(shapely.points(sp.reshape(-1, 2)), ref).reshape(len(pieces_arr), -1)
+    sd = near.distance(sp.reshape(-1, 2)).reshape(len(pieces_arr), -1)
     above = sd >= thr
     rows, cols = np.nonzero(above[:, 1:] != above[:, :-1])
     if len(rows):
@@ -132,7 +147,7 @@ def _trim(
         for _ in range(40):
             mid = 0.5 * (lo + hi)
             mp, _, _ = _eval(pc, mid[:, None])
-            md = shapely.distance(shapely.points(mp[:, 0]), ref) >= thr
+            md = near.distance(mp[:, 0]) >= thr
             same = md == up
             lo = np.where(same, mid, lo)
             hi = np.where(same, hi, mid)
@@ -149,7 +164,7 @@ def _trim(
     mids = 0.125 * (
         pieces_arr[:, 0] + 3 * pieces_arr[:, 1] + 3 * pieces_arr[:, 2] + pieces_arr[:, 3]
     )
-    dist = shapely.distance(shapely.points(mids), ref)
+    dist = near.distance(mids)
     keep = dist >= thr
     if closed:
         area = shapely.Polygon(np.asarray(ref.coords))
@@ -162,30 +177,102 @@ def _trim(
     return _chain(kept, closed, tol, prev_arr[keep], r), removed
 
 
-def _refine_crossing(a: FloatArray, b: FloatArray, ta: float, tb: float):
-    """Parameters (ta, tb) where cubics a and b cross, by Newton's method on A(ta) − B(tb) = 0
-    from a starting guess; (None, None) when it does not converge inside [0, 1]²."""
-    ca = _coef(a[None])
-    cb = _coef(b[None])
-    scale = 1.0 + float(np.max(np.abs(np.concatenate([a, b]))))
+class _NearestChord:
+    """Distances from points to a polyline through an STRtree of its chords.
+
+    ``shapely.distance(points, line)`` visits every vertex of the line for every point
+    (points × vertices); the tree's nearest-neighbour search (``STRtree.query_nearest``,
+    exact distances, branch and bound over the chords' boxes) takes about log(vertices) per
+    point. The distance to the polyline is the least distance to one of its chords, so the
+    values are the same.
+    """
+
+    def __init__(self, pts: FloatArray) -> None:
+        import shapely
+
+        self._tree = shapely.STRtree(shapely.linestrings(np.stack([pts[:-1], pts[1:]], axis=1)))
+
+    def distance(self, p: FloatArray) -> FloatArray:
+        """Distance (N,) of each point p (N, 2) to the polyline."""
+        import shapely
+
+        out = np.full(len(p), np.inf)
+        if len(p):
+            (qi, _), d = self._tree.query_nearest(
+                shapely.points(p), return_distance=True, all_matches=False
+            )
+            out[qi] = d
+        return out
+
+
+def _refine_crossings(a: FloatArray, b: FloatArray, ta: FloatArray, tb: FloatArray):
+    """Parameters where cubics a[i] and b[i] cross, by Newton's method on A(ta) − B(tb) = 0.
+
+    a, b (N, 4, 2), starting guesses ta, tb (N,). Returns (ta, tb, ok): ``ok`` False where
+    the iteration does not converge inside [0, 1]² within 30 steps or meets a singular
+    Jacobian (the starting guesses are then kept). Each row's 2 × 2 Newton system is solved
+    by Cramer's rule, all rows at once (Newton's method for a system of two equations).
+    """
+    n = len(ta)
+    ok = np.zeros(n, dtype=bool)
+    if n == 0:
+        return ta, tb, ok
+    ca, cb = _coef(a), _coef(b)
+    scale = 1.0 + np.max(np.abs(np.concatenate([a, b], axis=1)), axis=(1, 2))
+    ta, tb = ta.astype(float).copy(), tb.astype(float).copy()
+    xa, xb = ta.copy(), tb.copy()
+    live = np.ones(n, dtype=bool)
     for _ in range(30):
-        pa, da, _ = _eval(ca, np.array([[ta]]))
-        pb, db, _ = _eval(cb, np.array([[tb]]))
-        f = pa[0, 0] - pb[0, 0]
-        if np.hypot(*f) <= 1e-13 * scale:
+        rows = np.nonzero(live)[0]
+        if len(rows) == 0:
             break
-        jac = np.array([[da[0, 0, 0], -db[0, 0, 0]], [da[0, 0, 1], -db[0, 0, 1]]])
-        det = jac[0, 0] * jac[1, 1] - jac[0, 1] * jac[1, 0]
-        if abs(det) <= 1e-14 * (np.sum(jac * jac) + 1e-300):
-            return None, None
-        step = np.linalg.solve(jac, -f)
-        ta += float(step[0])
-        tb += float(step[1])
-        if not (-1e-9 <= ta <= 1 + 1e-9 and -1e-9 <= tb <= 1 + 1e-9):
-            return None, None
-    else:
-        return None, None
-    return min(1.0, max(0.0, ta)), min(1.0, max(0.0, tb))
+        pa, da, _ = _eval(ca[rows], xa[rows, None])
+        pb, db, _ = _eval(cb[rows], xb[rows, None])
+        f = pa[:, 0] - pb[:, 0]
+        done = np.hypot(f[:, 0], f[:, 1]) <= 1e-13 * scale[rows]
+        ok[rows[done]] = True
+        live[rows[done]] = False
+        j00, j01 = da[:, 0, 0], -db[:, 0, 0]
+        j10, j11 = da[:, 0, 1], -db[:, 0, 1]
+        det = j00 * j11 - j01 * j10
+        singular = ~done & (np.abs(det) <= 1e-14 * (j00**2 + j01**2 + j10**2 + j11**2 + 1e-300))
+        live[rows[singular]] = False
+        go = ~done & ~singular
+        r2 = rows[go]
+        dg, fx, fy = det[go], -f[go, 0], -f[go, 1]
+        xa[r2] += (fx * j11[go] - j01[go] * fy) / dg
+        xb[r2] += (j00[go] * fy - j10[go] * fx) / dg
+        out = ~((-1e-9 <= xa[r2]) & (xa[r2] <= 1 + 1e-9) & (-1e-9 <= xb[r2]) & (xb[r2] <= 1 + 1e-9))
+        live[r2[out]] = False
+    ta = np.where(ok, np.clip(xa, 0.0, 1.0), ta)
+    tb = np.where(ok, np.clip(xb, 0.0, 1.0), tb)
+    return ta, tb, ok
+
+
+def _check_crossing_budget(tree, chords) -> None:
+    """Refuse a raw offset whose chords cross each other more than the crossing budget.
+
+    A contour far more detailed than the tool (a zig-zag of steps much narrower than the
+    tool diameter) has a raw offset where every piece crosses the offsets of all its
+    neighbours within the tool's reach: the crossings, and the work of trimming them, grow
+    as segments × reach. They are counted in blocks with the chords' STRtree (pairs of
+    crossing chords, the neighbouring pair sharing an end left out), stopping at
+    :data:`outlinebench.limits.OFFSET_CROSSINGS` with an ``InvalidGeometryError``.
+    """
+    from outlinebench.errors import InvalidGeometryError
+    from outlinebench.limits import OFFSET_CROSSINGS
+
+    total = 0
+    block = 20_000
+    for s0 in range(0, len(chords), block):
+        qi, ti = tree.query(chords[s0 : s0 + block], predicate="intersects")
+        qi = qi + s0
+        total += int(np.count_nonzero(ti > qi + 1))
+        if total > OFFSET_CROSSINGS:
+            raise InvalidGeometryError(
+                f"the raw offset crosses itself more than {OFFSET_CROSSINGS} times "
+                "(the contour is far more detailed than the tool): offset refused"
+            )
 
 
 def _project_many(c: FloatArray, p: FloatArray) -> FloatArray:
@@ -234,75 +321,30 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
         return []
     snap = tol * 0.5
     ends = np.array([[p[0], p[3]] for p in kept]).reshape(-1, 2)  # start 2i, end 2i + 1
-    node = np.full(len(ends), -1)
-    reps: list[FloatArray] = []
-    for i, q in enumerate(ends):
-        for j, rp in enumerate(reps):
-            if np.hypot(*(q - rp)) <= snap:
-                node[i] = j
-                break
-        else:
-            node[i] = len(reps)
-            reps.append(q)
+    node = _snap_nodes(ends, snap)
+    n_nodes = int(node.max()) + 1
     start_node = node[0::2]
     end_node = node[1::2]
     # control polygon lengths: ≥ the arc lengths, and not 0 for a piece that closes on itself
-    lengths = np.array([float(np.sum(np.hypot(*np.diff(p, axis=0).T))) for p in kept])
+    kept_arr = np.asarray(kept)
+    lengths = np.sum(np.hypot(*np.diff(kept_arr, axis=1).transpose(2, 0, 1)), axis=1)
     # pieces shorter than the snap distance that start and end on one node are specks
     alive = ~((start_node == end_node) & (lengths <= snap))
-
-    def counts():
-        n_out = np.bincount(start_node[alive], minlength=len(reps))
-        n_in = np.bincount(end_node[alive], minlength=len(reps))
-        return n_in, n_out
-
-    while True:
-        n_in, n_out = counts()
-        spurs = []
-        # runs leaving a node with surplus out-degree and ending where nothing starts
-        for s0 in np.nonzero(alive)[0]:
-            v = start_node[s0]
-            if n_out[v] < 2:
-                continue
-            run, cur, length = [int(s0)], int(s0), lengths[s0]
-            while True:
-                w = end_node[cur]
-                if n_out[w] == 0:  # dead end: a spur
-                    spurs.append((length, run))
-                    break
-                if n_out[w] != 1 or n_in[w] != 1:
-                    break
-                nxt = int(np.nonzero(alive & (start_node == w))[0][0])
-                if nxt in run:
-                    break
-                run.append(nxt)
-                cur = nxt
-                length += lengths[nxt]
-        # runs arriving at a node with surplus in-degree from where nothing arrives
-        for s0 in np.nonzero(alive)[0]:
-            v = end_node[s0]
-            if n_in[v] < 2:
-                continue
-            run, cur, length = [int(s0)], int(s0), lengths[s0]
-            while True:
-                w = start_node[cur]
-                if n_in[w] == 0:
-                    spurs.append((length, run))
-                    break
-                if n_in[w] != 1 or n_out[w] != 1:
-                    break
-                prv = int(np.nonzero(alive & (end_node == w))[0][0])
-                if prv in run:
-                    break
-                run.append(prv)
-                cur = prv
-                length += lengths[prv]
-        if not spurs:
-            break
-        _, run = min(spurs, key=lambda x: x[0])
-        alive[run] = False
+    _remove_spurs(start_node, end_node, lengths, alive, n_nodes)
 
     used = ~alive
+    # the unused pieces leaving each node, lowest index first (a cursor skips used ones)
+    order = np.argsort(start_node, kind="stable")
+    first = np.searchsorted(start_node[order], np.arange(n_nodes + 1))
+    cursor = first[:-1].copy()
+
+    def next_unused(w: int) -> int:
+        k = int(cursor[w])
+        while k < first[w + 1] and used[order[k]]:
+            k += 1
+        cursor[w] = k
+        return int(order[k]) if k < first[w + 1] else -1
+
     out = []
     for s in range(len(kept)):
         if used[s]:
@@ -316,10 +358,9 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
             # prefer the next piece in order
             nxt = cur + 1
             if not (nxt < len(kept) and not used[nxt] and start_node[nxt] == w):
-                cand = np.nonzero(~used & (start_node == w))[0]
-                if len(cand) == 0:
+                nxt = next_unused(int(w))
+                if nxt < 0:
                     break
-                nxt = int(cand[0])
             piece = kept[nxt].copy()
             piece[0] = ch[-1][3]
             ch.append(piece)
@@ -329,24 +370,15 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
         is_closed = end_node[cur] == start_node[s] and (closed or len(ch) > 1)
         # cut out sub-loops holding a backwards piece (the walk visits a node twice)
         nodes = [int(start_node[s])] + [int(end_node[k]) for k in idx]
-        changed = True
-        while changed:
-            changed = False
-            for i in range(len(nodes)):
-                for j in range(i + 1, len(nodes)):
-                    if nodes[i] != nodes[j] or (i == 0 and j == len(nodes) - 1):
-                        continue
-                    if any(rev[k] for k in idx[i:j]):
-                        del ch[i:j], idx[i:j], nodes[i + 1 : j + 1]
-                        changed = True
-                        break
-                    if is_closed and any(rev[k] for k in idx[j:] + idx[:i]):
-                        # the loop runs round the walk's start: keep the part between
-                        ch, idx, nodes = ch[i:j], idx[i:j], nodes[i : j + 1]
-                        changed = True
-                        break
-                if changed:
-                    break
+        while True:
+            found = _backward_loop(nodes, [bool(rev[k]) for k in idx], bool(is_closed))
+            if found is None:
+                break
+            how, i, j = found
+            if how == "cut":
+                del ch[i:j], idx[i:j], nodes[i + 1 : j + 1]
+            else:  # the loop runs round the walk's start: keep the part between
+                ch, idx, nodes = ch[i:j], idx[i:j], nodes[i : j + 1]
         if not ch:
             continue
         for a, b in zip(ch[:-1], ch[1:], strict=True):
@@ -362,6 +394,125 @@ def _chain(kept: list[FloatArray], closed: bool, tol: float, rev=None, r: float 
     if closed and any(not cl for _, cl in out) and any(cl for _, cl in out):
         out = _drop_doubles(out, tol)
     return out
+
+
+def _snap_nodes(ends: FloatArray, snap: float) -> NDArray[np.intp]:
+    """Node number of each point: the first earlier representative within ``snap``, else new.
+
+    A point joins the lowest-numbered representative within ``snap`` (Euclidean), as a scan
+    over all representatives would; candidates come from a hash grid of cell ``snap`` (any
+    representative within ``snap`` lies in the 3 × 3 cells around the point), so the work
+    is linear in the number of points instead of quadratic.
+    """
+    cell = snap if snap > 0 else 1.0
+    keys = np.floor(ends / cell)
+    grid: dict[tuple[float, float], list[int]] = {}
+    reps: list[FloatArray] = []
+    node = np.full(len(ends), -1, dtype=np.intp)
+    for i, (q, kq) in enumerate(zip(ends, keys.tolist(), strict=True)):
+        best = -1
+        for dx in (-1.0, 0.0, 1.0):
+            for dy in (-1.0, 0.0, 1.0):
+                for j in grid.get((kq[0] + dx, kq[1] + dy), ()):
+                    if (best < 0 or j < best) and np.hypot(*(q - reps[j])) <= snap:
+                        best = j
+        if best < 0:
+            best = len(reps)
+            reps.append(q)
+            grid.setdefault((kq[0], kq[1]), []).append(best)
+        node[i] = best
+    return node
+
+
+def _first_by(node_of: NDArray[np.intp], alive: NDArray[np.bool_], n_nodes: int):
+    """For each node, the lowest-numbered alive piece with ``node_of[piece]`` there (−1: none)."""
+    al = np.nonzero(alive)[0]
+    out = np.full(n_nodes, -1, dtype=np.intp)
+    u, fi = np.unique(node_of[al], return_index=True)
+    out[u] = al[fi]
+    return out
+
+
+def _remove_spurs(start_node, end_node, lengths, alive, n_nodes: int) -> None:
+    """Mark dead (``alive`` False) the spurs of the piece graph, the shortest first.
+
+    A spur is a run of pieces leaving a node with surplus out-degree and ending where nothing
+    starts (or its mirror image: arriving at a node with surplus in-degree from where nothing
+    arrives). Each round finds all runs in time linear in the pieces (each piece lies on at
+    most one run each way) and removes, shortest first, those that share no node with a
+    shorter one removed in the same round; removing a spur changes degrees only at its own
+    nodes, so the others stay spurs, and the next round finds the ones it created.
+    """
+    while True:
+        n_out = np.bincount(start_node[alive], minlength=n_nodes)
+        n_in = np.bincount(end_node[alive], minlength=n_nodes)
+        first_out = _first_by(start_node, alive, n_nodes)
+        first_in = _first_by(end_node, alive, n_nodes)
+        spurs: list[tuple[float, list[int]]] = []
+        for forward in (True, False):
+            head, tail = (start_node, end_node) if forward else (end_node, start_node)
+            n_head, n_tail = (n_out, n_in) if forward else (n_in, n_out)
+            step = first_out if forward else first_in
+            for s0 in np.nonzero(alive & (n_head[head] >= 2))[0].tolist():
+                run, seen, cur, length = [s0], {s0}, s0, float(lengths[s0])
+                while True:
+                    w = tail[cur]
+                    if n_head[w] == 0:  # dead end: a spur
+                        spurs.append((length, run))
+                        break
+                    if n_head[w] != 1 or n_tail[w] != 1:
+                        break
+                    nxt = int(step[w])
+                    if nxt in seen:
+                        break
+                    run.append(nxt)
+                    seen.add(nxt)
+                    cur = nxt
+                    length += float(lengths[nxt])
+        if not spurs:
+            return
+        spurs.sort(key=lambda x: x[0])
+        touched: set[int] = set()
+        for _, run in spurs:
+            nodes = {int(start_node[k]) for k in run} | {int(end_node[k]) for k in run}
+            if nodes & touched:
+                continue
+            touched |= nodes
+            alive[run] = False
+
+
+def _backward_loop(nodes: list[int], rev: list[bool], is_closed: bool):
+    """The first sub-loop of a walk to cut: ("cut" | "keep", i, j) or None.
+
+    ``nodes`` (L + 1) are the walk's nodes, ``rev`` (L) its pieces' backwards flags. Pairs
+    i < j with ``nodes[i] == nodes[j]`` (not the closing pair 0, L) are taken in the order
+    (i, then j); a loop holding a backwards piece (``rev`` in pieces i..j−1) is cut
+    ("cut"); on a closed walk a loop round the start holding one (pieces j.. and ..i−1)
+    leaves the part between ("keep"). Prefix counts of ``rev`` and the positions of each
+    node make it linear in the walk plus the repeated pairs.
+    """
+    cnt = [0]
+    for f in rev:
+        cnt.append(cnt[-1] + int(f))
+    total = cnt[-1]
+    if total == 0:
+        return None
+    pos: dict[int, list[int]] = {}
+    for k, v in enumerate(nodes):
+        pos.setdefault(v, []).append(k)
+    last = len(nodes) - 1
+    for i, v in enumerate(nodes):
+        ps = pos[v]
+        if len(ps) < 2:
+            continue
+        for j in ps:
+            if j <= i or (i == 0 and j == last):
+                continue
+            if cnt[j] - cnt[i] > 0:
+                return ("cut", i, j)
+            if is_closed and total - cnt[j] + cnt[i] > 0:
+                return ("keep", i, j)
+    return None
 
 
 def _drop_doubles(chains, tol: float):
