@@ -33,12 +33,12 @@ MEMORY_FLOOR_MB = 256.0
 MEMORY_PER_INPUT_BYTE = 1000.0
 #: Segments that ``use`` instances may add to a document, counted on the geometry they
 #: expand to (each instance adds its referenced element's segments).
-USE_SEGMENTS = 200_000
+USE_SEGMENTS = 250_000
 #: Findings of one kind listed per document by the overlap check; the rest are counted in
 #: one summary finding of that kind.
 FINDINGS_PER_KIND = 1_000
 #: Candidate pairs (outlines whose boxes meet) the overlap check examines; past it, one
 #: finding states the pairs not examined and the document is not clean.
-OVERLAP_CANDIDATE_PAIRS = 200_000
+OVERLAP_CANDIDATE_PAIRS = 20_000
 #: Crossings of a contour's raw offset with itself that the trim may resolve.
 OFFSET_CROSSINGS = 50_000

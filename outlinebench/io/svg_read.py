@@ -44,6 +44,7 @@ from outlinebench.io.svg_units import (
     parse_view_box,
     view_box_transform,
 )
+from outlinebench.limits import USE_SEGMENTS
 from outlinebench.model.document import IDENTITY, Contour, Document, Outline
 
 __all__ = [
@@ -79,7 +80,7 @@ MAX_USE_INSTANCES = 100_000
 # of 100 paths used 10,000 times is 1.2 M segments from 300 KB). 250,000 segments check in
 # about 10 s and take well under 500 MB; a drawing that really needs more instances can be
 # expanded by its exporter.
-MAX_USE_SEGMENTS = 250_000
+MAX_USE_SEGMENTS = USE_SEGMENTS  # stated in outlinebench.limits
 
 _GEOMETRY = {"path", "rect", "circle", "ellipse", "line", "polyline", "polygon"}
 _CONTAINERS = {"svg", "g", "a", "switch"}
