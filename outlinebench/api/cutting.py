@@ -24,6 +24,7 @@ from outlinebench.geometry import (
     verify_toolpaths,
 )
 from outlinebench.geometry.flatten import flatten_contours_bounded
+from outlinebench.limits import WorkCapExceeded
 from outlinebench.model.document import Document
 
 __all__ = ["flatten_document", "offset_document", "result_outline"]
@@ -70,6 +71,15 @@ def _severity(kind: str, value: float | None, count: int) -> str:
         # the summary of inside corners the tool rounds is the normal case of routing
         return INFO if count > 1 or value == 0.0 else WARNING
     return WARNING
+
+
+def _failed(oi: int, gi: int, contour: Any, exc: Exception) -> tuple:
+    """An ``offset-failed`` problem (error): the outline's offset was refused, no toolpath."""
+    p = np.asarray(contour.segments[0])[0]
+    return (
+        "offset-failed", ERROR, oi, gi, None, None, float(p[0]), float(p[1]), None,
+        f"no toolpath for this outline: {exc}",
+    )  # fmt: skip
 
 
 def _source_contours(paths: list[Any], refs: list[Any], distance: float) -> list[int]:
@@ -149,7 +159,11 @@ def offset_document(
             if c.closed:
                 closed.append(ref)
                 continue
-            res = offset_contour(c.segments, False, distance, tolerance)
+            try:
+                res = offset_contour(c.segments, False, distance, tolerance)
+            except WorkCapExceeded as exc:  # past a cap on work (outlinebench.limits)
+                problems.append(_failed(oi, ref.global_index, c, exc))
+                continue
             for oc in res.contours:
                 toolpaths.append(
                     {"outline": oi, "contour": ref.global_index, "closed": oc.closed,
@@ -165,11 +179,15 @@ def offset_document(
                 )  # fmt: skip
         if not closed:
             continue
+        try:
+            reg = offset_region(
+                [r.contour for r in closed], distance, fill_rule=outline.fill_rule,
+                tolerance=tolerance,
+            )  # fmt: skip
+        except WorkCapExceeded as exc:  # past a cap on work (outlinebench.limits)
+            problems.append(_failed(oi, closed[0].global_index, closed[0].contour, exc))
+            continue
         closed_refs[oi] = closed
-        reg = offset_region(
-            [r.contour for r in closed], distance, fill_rule=outline.fill_rule,
-            tolerance=tolerance,
-        )  # fmt: skip
         for k, v in reg.times.items():
             times[k] = times.get(k, 0.0) + v
         regions.append(reg)

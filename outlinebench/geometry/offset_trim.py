@@ -259,8 +259,7 @@ def _check_crossing_budget(tree, chords) -> None:
     crossing chords, the neighbouring pair sharing an end left out), stopping at
     :data:`outlinebench.limits.OFFSET_CROSSINGS` with an ``InvalidGeometryError``.
     """
-    from outlinebench.errors import InvalidGeometryError
-    from outlinebench.limits import OFFSET_CROSSINGS
+    from outlinebench import limits
 
     total = 0
     block = 20_000
@@ -268,9 +267,9 @@ def _check_crossing_budget(tree, chords) -> None:
         qi, ti = tree.query(chords[s0 : s0 + block], predicate="intersects")
         qi = qi + s0
         total += int(np.count_nonzero(ti > qi + 1))
-        if total > OFFSET_CROSSINGS:
-            raise InvalidGeometryError(
-                f"the raw offset crosses itself more than {OFFSET_CROSSINGS} times "
+        if total > limits.OFFSET_CROSSINGS:
+            raise limits.WorkCapExceeded(
+                f"the raw offset crosses itself more than {limits.OFFSET_CROSSINGS} times "
                 "(the contour is far more detailed than the tool): offset refused"
             )
 

@@ -132,3 +132,24 @@ def test_overlap_candidate_pairs_past_the_cap_are_counted(monkeypatch):
     assert 2 <= len(found) <= 31
     assert "were not examined" in found[-1].message
     assert found[-1].value == candidates - 30
+
+
+def test_an_outline_past_the_crossing_cap_is_an_offset_failed_error(monkeypatch):
+    # the document offset goes on: that outline gets an error finding and no toolpath, the
+    # other (a plain square, offset by 1 outward: 4 sides + 4 round corners, closed form
+    # length 4·10 + 2π·1) is offset
+    from outlinebench.api.cutting import offset_document
+
+    monkeypatch.setattr(limits, "OFFSET_CROSSINGS", 100)
+    th = np.linspace(0, 2 * np.pi, 800, endpoint=False)
+    rad = np.where(np.arange(800) % 2, 30, 40)
+    p = np.stack([50 + rad * np.cos(th), 50 + rad * np.sin(th)], 1)
+    star = "M" + " L".join(f"{x:.4f} {y:.4f}" for x, y in p) + " Z"
+    svg = H + f'<path d="{star}"/><path d="M200 0 h10 v10 h-10 Z"/></svg>'
+    doc = read_svg(svg.encode()).document
+    res = offset_document(doc, 1.0, 0.01)
+    failed = [pr for pr in res["problems"] if pr[0] == "offset-failed"]
+    assert len(failed) == 1 and failed[0][1] == "error" and "crosses itself" in failed[0][9]
+    assert len(res["toolpaths"]) == 1
+    length = shapely.LinearRing(res["toolpaths"][0]["points"]).length
+    assert abs(length - (40 + 2 * np.pi)) < 0.05
