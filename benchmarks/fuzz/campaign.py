@@ -220,7 +220,8 @@ class _Runner:
 
     def start_fork(self, fn, args, meta: dict, cap: float) -> None:  # noqa: ANN001
         self._wait_slots()
-        rfd = tempfile.mkstemp(prefix="fz-res-")[1]
+        fd, rfd = tempfile.mkstemp(prefix="fz-res-")
+        os.close(fd)  # (left open, the parent ran out of descriptors after ~1,000 inputs)
         pid = os.fork()
         if pid == 0:  # child
             code = 0
@@ -278,9 +279,10 @@ class _Runner:
                 finally:
                     Path(rfile).unlink(missing_ok=True)
                 if "crash" not in res and not meta.get("killed"):
-                    # died without a result: killed by the memory limit or a signal
+                    # died without a result: killed by the memory limit or a signal, or the
+                    # worker itself failed (exit status 3: a harness error, not the input's)
                     res["crash"] = f"worker died (status {status})"
-                    res["memory_kill"] = True
+                    res["memory_kill"] = os.WIFSIGNALED(status) or status == 0
             self.done.append((meta, res))
         now = time.monotonic()
         for pid, (t0, cap, meta, _) in list(self.live.items()):
