@@ -21,7 +21,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -32,7 +32,7 @@ from outlinebench.geometry.curvature import end_tangents
 from outlinebench.geometry.flatten import _as_cubic_batch, flatten_contours
 from outlinebench.geometry.intersect import intersections, self_intersections
 from outlinebench.geometry.offset_trim import _coef, _eval, _trim
-from outlinebench.limits import FINDINGS_PER_KIND
+from outlinebench.limits import FINDINGS_PER_KIND, OVERLAP_CANDIDATE_PAIRS
 
 __all__ = [
     "DEFAULT_OFFSET_TOLERANCE",
@@ -909,7 +909,9 @@ class ToolpathViolation:
 class OffsetOverlap:
     """Offsets of two separate outlines that overlap (neighbouring letters grown into each
     other): outline indices ``first`` < ``second`` as given, a point inside the overlap and
-    its area."""
+    its area. ``unlisted`` (on the last one listed only) counts the pairs past the caps of
+    :mod:`outlinebench.limits`: overlapping pairs not listed and candidate pairs not
+    examined."""
 
     first: int
     second: int
@@ -917,6 +919,7 @@ class OffsetOverlap:
     y: float
     area: float
     message: str
+    unlisted: int = 0
 
 
 def _boolean_tolerance(tolerance: float) -> float:
@@ -1425,6 +1428,9 @@ def offset_overlaps(
     -----
     Each outline's toolpath region is the even-odd fill of its polylines (they do not cross);
     pairs are found with a shapely STRtree and measured by shapely's polygon intersection.
+    At most ``OVERLAP_CANDIDATE_PAIRS`` candidate pairs are examined and
+    ``FINDINGS_PER_KIND`` overlaps listed (:mod:`outlinebench.limits`); the candidate pairs
+    past either cap are counted in ``unlisted`` of the last overlap listed.
     """
     import shapely
 
@@ -1440,10 +1446,17 @@ def offset_overlaps(
         polys.append(shapely.Polygon() if g is None else g)
     tree = shapely.STRtree(polys)
     ia, ib = tree.query(polys, predicate="intersects")
+    keep = ia < ib
+    ia, ib = ia[keep], ib[keep]
+    # bounded work and output (outlinebench.limits): the rest is counted on the last listed
+    unexamined = max(0, len(ia) - OVERLAP_CANDIDATE_PAIRS)
+    ia, ib = ia[:OVERLAP_CANDIDATE_PAIRS], ib[:OVERLAP_CANDIDATE_PAIRS]
     out = []
-    for a, b in zip(ia.tolist(), ib.tolist(), strict=True):
-        if a >= b:
-            continue
+    unlisted = 0
+    for n_pair, (a, b) in enumerate(zip(ia.tolist(), ib.tolist(), strict=True)):
+        if len(out) >= FINDINGS_PER_KIND:
+            unlisted = len(ia) - n_pair  # candidate pairs left unexamined
+            break
         inter = polys[a].intersection(polys[b])
         if inter.area <= tolerance * tolerance:
             continue
@@ -1459,6 +1472,8 @@ def offset_overlaps(
                 f"({pt.x:.6g}, {pt.y:.6g}): their toolpaths cut into each other",
             )
         )
+    if out and (unlisted or unexamined):
+        out[-1] = replace(out[-1], unlisted=unlisted + unexamined)
     return out
 
 

@@ -153,3 +153,21 @@ def test_an_outline_past_the_crossing_cap_is_an_offset_failed_error(monkeypatch)
     assert len(res["toolpaths"]) == 1
     length = shapely.LinearRing(res["toolpaths"][0]["points"]).length
     assert abs(length - (40 + 2 * np.pi)) < 0.05
+
+
+def test_copies_at_one_place_are_offset_once_and_their_overlaps_capped(monkeypatch):
+    # 30 copies of one square (as `use` instances at one place): every pair overlaps
+    # (closed form: 30·29/2 = 435 pairs); with 10 listed the other 425 are counted; every
+    # copy still gets its toolpath, equal to the first's (the offset is a function of the
+    # geometry)
+    from outlinebench.api.cutting import offset_document
+
+    monkeypatch.setattr("outlinebench.geometry.offset.FINDINGS_PER_KIND", 10)
+    svg = H + '<path d="M10 10 h10 v10 h-10 Z"/>' * 30 + "</svg>"
+    doc = read_svg(svg.encode()).document
+    res = offset_document(doc, 1.0, 0.01)
+    assert len(res["toolpaths"]) == 30
+    first = np.asarray(res["toolpaths"][0]["points"])
+    assert all(np.array_equal(np.asarray(t["points"]), first) for t in res["toolpaths"])
+    assert len(res["overlaps"]) == 10
+    assert res["overlaps"][-1].unlisted == 435 - 10
