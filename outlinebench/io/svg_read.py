@@ -628,9 +628,13 @@ class _Reader:
                         if own is not None:
                             matrix = matrix @ own
                         if not np.isfinite(matrix).all():
+                            own_t = decl.get("transform")
                             raise SvgReadError(
-                                f"{where}: transform {decl['transform'][0]!r} is out of range "
+                                f"{where}: transform {own_t[0]!r} is out of range "
                                 "(with its parents' it overflows a double)"
+                                if own_t
+                                else f"{where}: its position (its parents' transforms and "
+                                "use offsets) overflows a double"
                             )
                 except SvgReadError as exc:
                     self.note("error", f"{exc}; element skipped", "transform")
@@ -790,7 +794,8 @@ class _Reader:
         except SvgReadError as exc:
             self.note("error", f"{exc}; element skipped", "use")
             return
-        m = frame.matrix @ translation(ux, uy)
+        with np.errstate(over="ignore", invalid="ignore"):
+            m = frame.matrix @ translation(ux, uy)  # non-finite: refused where it is used
         chain = frame.chain + (id(target),)
         # The outermost use: (element, its coordinate system, refers straight to geometry?).
         ttag = _local(target.tag)

@@ -171,3 +171,15 @@ def test_copies_at_one_place_are_offset_once_and_their_overlaps_capped(monkeypat
     assert all(np.array_equal(np.asarray(t["points"]), first) for t in res["toolpaths"])
     assert len(res["overlaps"]) == 10
     assert res["overlaps"][-1].unlisted == 435 - 10
+
+
+def test_a_use_offset_that_overflows_is_refused_with_a_note_naming_the_element():
+    # campaign input #480: use x = 1e308 under scale(10) overflows a double (IEEE 754
+    # binary64 largest finite ~1.8e308); the element was a KeyError before
+    svg = (
+        H + '<defs><path id="p" d="M0 0 L9 0 L9 9 Z"/></defs>'
+        '<g transform="scale(10)"><use href="#p" x="1e308"/></g></svg>'
+    )
+    res = read_svg(svg.encode())
+    msgs = [n.message for n in res.notes]
+    assert any("overflows a double" in m and "element skipped" in m for m in msgs), msgs
