@@ -69,6 +69,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT / "tests" / "fuzz"))
 
+sys.path.insert(0, str(ROOT))
 from fuzz_inputs import (  # noqa: E402
     break_path_data,
     mutate_document,
@@ -76,10 +77,12 @@ from fuzz_inputs import (  # noqa: E402
     sample_bytes,
 )
 
-# Stated memory cap: peak resident memory above the worker's start may not pass
-# MEM_FLOOR_MB + MEM_MULTIPLE × input bytes.
-MEM_FLOOR_MB = 256.0
-MEM_MULTIPLE = 1000.0
+from outlinebench import limits  # noqa: E402
+
+# Stated memory cap (outlinebench.limits): peak resident memory above the worker's start may
+# not pass MEM_FLOOR_MB + MEM_MULTIPLE × input bytes.
+MEM_FLOOR_MB = limits.MEMORY_FLOOR_MB
+MEM_MULTIPLE = limits.MEMORY_PER_INPUT_BYTE
 # Time cap per path-data input (seconds).
 PATH_TIME_CAP = 2.0
 OPERATIONS = ("read", "check", "measure", "flatten", "offset")
@@ -217,7 +220,8 @@ class _Runner:
 
     def start_fork(self, fn, args, meta: dict, cap: float) -> None:  # noqa: ANN001
         self._wait_slots()
-        rfd = tempfile.mkstemp(prefix="fz-res-")[1]
+        fd, rfd = tempfile.mkstemp(prefix="fz-res-")
+        os.close(fd)  # (left open, the parent ran out of descriptors after ~1,000 inputs)
         pid = os.fork()
         if pid == 0:  # child
             code = 0
@@ -275,9 +279,10 @@ class _Runner:
                 finally:
                     Path(rfile).unlink(missing_ok=True)
                 if "crash" not in res and not meta.get("killed"):
-                    # died without a result: killed by the memory limit or a signal
+                    # died without a result: killed by the memory limit or a signal, or the
+                    # worker itself failed (exit status 3: a harness error, not the input's)
                     res["crash"] = f"worker died (status {status})"
-                    res["memory_kill"] = True
+                    res["memory_kill"] = os.WIFSIGNALED(status) or status == 0
             self.done.append((meta, res))
         now = time.monotonic()
         for pid, (t0, cap, meta, _) in list(self.live.items()):
@@ -416,7 +421,9 @@ def main() -> int:  # noqa: C901 - one driver
     ap.add_argument("--cli", type=int, default=1_200, help="command-line runs")
     ap.add_argument("--paths", type=int, default=200_000, help="path-data inputs")
     ap.add_argument("--minutes", type=float, default=600.0, help="overall time budget")
-    ap.add_argument("--time-cap", type=float, default=30.0, help="seconds per library input")
+    ap.add_argument(
+        "--time-cap", type=float, default=limits.TIME_PER_FILE_S, help="seconds per library input"
+    )
     ap.add_argument("--cli-time-cap", type=float, default=60.0, help="seconds per CLI run")
     ap.add_argument("--mem-limit-mb", type=float, default=4096.0, help="hard memory limit")
     ap.add_argument("--jobs", type=int, default=2)

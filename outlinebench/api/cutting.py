@@ -24,6 +24,7 @@ from outlinebench.geometry import (
     verify_toolpaths,
 )
 from outlinebench.geometry.flatten import flatten_contours_bounded
+from outlinebench.limits import WorkCapExceeded
 from outlinebench.model.document import Document
 
 __all__ = ["flatten_document", "offset_document", "result_outline"]
@@ -70,6 +71,25 @@ def _severity(kind: str, value: float | None, count: int) -> str:
         # the summary of inside corners the tool rounds is the normal case of routing
         return INFO if count > 1 or value == 0.0 else WARNING
     return WARNING
+
+
+def _geometry_key(contour: Any) -> tuple:
+    """Exact identity of a contour's geometry: closedness, segment shapes and coordinates."""
+    segs = [np.asarray(sg, dtype=float) for sg in contour.segments]
+    return (
+        bool(contour.closed),
+        tuple(len(sg) for sg in segs),
+        np.concatenate(segs).tobytes() if segs else b"",
+    )
+
+
+def _failed(oi: int, gi: int, contour: Any, exc: Exception) -> tuple:
+    """An ``offset-failed`` problem (error): the outline's offset was refused, no toolpath."""
+    p = np.asarray(contour.segments[0])[0]
+    return (
+        "offset-failed", ERROR, oi, gi, None, None, float(p[0]), float(p[1]), None,
+        f"no toolpath for this outline: {exc}",
+    )  # fmt: skip
 
 
 def _source_contours(paths: list[Any], refs: list[Any], distance: float) -> list[int]:
@@ -127,6 +147,7 @@ def offset_document(
     times: dict[str, float] = {}
     refs_by_outline: dict[int, list[Any]] = {}
     closed_refs: dict[int, list[Any]] = {}
+    same_geometry: dict[tuple, Any] = {}
     for ref in doc.contour_refs():
         refs_by_outline.setdefault(ref.outline, []).append(ref)
     for oi, refs in refs_by_outline.items():
@@ -149,7 +170,11 @@ def offset_document(
             if c.closed:
                 closed.append(ref)
                 continue
-            res = offset_contour(c.segments, False, distance, tolerance)
+            try:
+                res = offset_contour(c.segments, False, distance, tolerance)
+            except WorkCapExceeded as exc:  # past a cap on work (outlinebench.limits)
+                problems.append(_failed(oi, ref.global_index, c, exc))
+                continue
             for oc in res.contours:
                 toolpaths.append(
                     {"outline": oi, "contour": ref.global_index, "closed": oc.closed,
@@ -165,12 +190,23 @@ def offset_document(
                 )  # fmt: skip
         if not closed:
             continue
+        # outlines drawn with the same coordinates (``use`` instances at one place, copies)
+        # have the same region offset: computed once (the region offset is a function of
+        # the contours, the fill rule, the distance and the tolerance only)
+        key = (outline.fill_rule, tuple(_geometry_key(r.contour) for r in closed))
+        try:
+            fresh = key not in same_geometry
+            if fresh:
+                same_geometry[key] = offset_region(
+                    [r.contour for r in closed], distance, fill_rule=outline.fill_rule,
+                    tolerance=tolerance,
+                )  # fmt: skip
+            reg = same_geometry[key]
+        except WorkCapExceeded as exc:  # past a cap on work (outlinebench.limits)
+            problems.append(_failed(oi, closed[0].global_index, closed[0].contour, exc))
+            continue
         closed_refs[oi] = closed
-        reg = offset_region(
-            [r.contour for r in closed], distance, fill_rule=outline.fill_rule,
-            tolerance=tolerance,
-        )  # fmt: skip
-        for k, v in reg.times.items():
+        for k, v in (reg.times if fresh else {}).items():
             times[k] = times.get(k, 0.0) + v
         regions.append(reg)
         region_outline.append(oi)

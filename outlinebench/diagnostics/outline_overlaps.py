@@ -20,6 +20,7 @@ import shapely
 
 from outlinebench.diagnostics.findings import ERROR, Finding
 from outlinebench.geometry import flatten_contours, remove_overlaps
+from outlinebench.limits import FINDINGS_PER_KIND, OVERLAP_CANDIDATE_PAIRS
 from outlinebench.model.document import Document
 
 __all__ = ["outline_overlap_findings"]
@@ -90,6 +91,10 @@ def outline_overlap_findings(doc: Document, tolerance: float) -> list[Finding]:
     -----
     Candidate pairs come from a shapely STRtree of the regions (n log n plus the pairs whose
     boxes meet); the shared areas of all candidates are computed in one vectorised call.
+    Work and output are bounded (:mod:`outlinebench.limits`): at most
+    ``OVERLAP_CANDIDATE_PAIRS`` candidate pairs are examined and ``FINDINGS_PER_KIND``
+    overlaps listed; what is past either cap is counted in one more ``overlap`` finding
+    (``value`` the number of pairs, unit ``pairs``), so the document is never clean by a cap.
 
     Examples
     --------
@@ -107,16 +112,29 @@ def outline_overlap_findings(doc: Document, tolerance: float) -> list[Finding]:
         return []
     geoms = np.array([regions[k] for k in idx], dtype=object)
     tree = shapely.STRtree(geoms)
-    a, b = tree.query(geoms, predicate="intersects")
-    keep = a < b
-    a, b = a[keep], b[keep]
+    # candidate pairs in blocks (bounded memory); past the cap they are only counted
+    pa, pb = [], []
+    kept = unexamined = 0
+    block = 2_000
+    for s0 in range(0, len(geoms), block):
+        qa, qb = tree.query(geoms[s0 : s0 + block], predicate="intersects")
+        qa = qa + s0
+        keep = qa < qb
+        qa, qb = qa[keep], qb[keep]
+        room = max(0, OVERLAP_CANDIDATE_PAIRS - kept)
+        pa.append(qa[:room])
+        pb.append(qb[:room])
+        kept += min(room, len(qa))
+        unexamined += max(0, len(qa) - room)
+    a, b = np.concatenate(pa), np.concatenate(pb)
     if a.size == 0:
         return []
     shared = shapely.intersection(geoms[a], geoms[b])
     areas = shapely.area(shared)
     perim = np.minimum(shapely.length(geoms[a]), shapely.length(geoms[b]))
+    over = np.flatnonzero(areas > tolerance * perim)
     out: list[Finding] = []
-    for q in np.flatnonzero(areas > tolerance * perim).tolist():
+    for q in over[:FINDINGS_PER_KIND].tolist():
         i, j = idx[int(a[q])], idx[int(b[q])]
         pt = shared[q].representative_point()
         oj = doc.outlines[j]
@@ -130,4 +148,30 @@ def outline_overlap_findings(doc: Document, tolerance: float) -> list[Finding]:
             )
         )  # fmt: skip
     out.sort(key=lambda f: (f.contour, f.other_contour))
+    unlisted = len(over) - len(out)
+    if unlisted or unexamined:
+        first = out[0] if out else None
+        oi = idx[int(a[0])]
+        here = geoms[int(a[0])].representative_point()
+        hx, hy = (first.x, first.y) if first else (float(here.x), float(here.y))
+        parts = []
+        if unlisted:
+            parts.append(f"{unlisted} more overlapping pairs of outlines are not listed")
+        if unexamined:
+            parts.append(
+                f"{unexamined} pairs of outlines whose boxes meet were not examined (at most "
+                f"{OVERLAP_CANDIDATE_PAIRS} are)"
+            )
+        out.append(
+            Finding(
+                "overlap", ERROR,
+                first.outline if first else doc.outlines[oi].source_index,
+                first.contour if first else firsts[oi],
+                None, None, hx, hy,
+                float(unlisted + unexamined), "pairs",
+                "; ".join(parts) + f" (at most {FINDINGS_PER_KIND} overlaps are listed): the "
+                "document has more outlines drawn over each other than can be checked one by "
+                "one; merge or separate them",
+            )
+        )  # fmt: skip
     return out

@@ -45,6 +45,7 @@ from outlinebench.io.svg_units import (
     parse_view_box,
     view_box_transform,
 )
+from outlinebench.limits import USE_SEGMENTS
 from outlinebench.model.document import IDENTITY, Contour, Document, Outline
 
 __all__ = [
@@ -80,7 +81,7 @@ MAX_USE_INSTANCES = 100_000
 # of 100 paths used 10,000 times is 1.2 M segments from 300 KB). 250,000 segments check in
 # about 10 s and take well under 500 MB; a drawing that really needs more instances can be
 # expanded by its exporter.
-MAX_USE_SEGMENTS = 250_000
+MAX_USE_SEGMENTS = USE_SEGMENTS  # stated in outlinebench.limits
 
 _GEOMETRY = {"path", "rect", "circle", "ellipse", "line", "polyline", "polygon"}
 _CONTAINERS = {"svg", "g", "a", "switch"}
@@ -628,9 +629,13 @@ class _Reader:
                         if own is not None:
                             matrix = matrix @ own
                         if not np.isfinite(matrix).all():
+                            own_t = decl.get("transform")
                             raise SvgReadError(
-                                f"{where}: transform {decl['transform'][0]!r} is out of range "
+                                f"{where}: transform {own_t[0]!r} is out of range "
                                 "(with its parents' it overflows a double)"
+                                if own_t
+                                else f"{where}: its position (its parents' transforms and "
+                                "use offsets) overflows a double"
                             )
                 except SvgReadError as exc:
                     self.note("error", f"{exc}; element skipped", "transform")
@@ -790,7 +795,8 @@ class _Reader:
         except SvgReadError as exc:
             self.note("error", f"{exc}; element skipped", "use")
             return
-        m = frame.matrix @ translation(ux, uy)
+        with np.errstate(over="ignore", invalid="ignore"):
+            m = frame.matrix @ translation(ux, uy)  # non-finite: refused where it is used
         chain = frame.chain + (id(target),)
         # The outermost use: (element, its coordinate system, refers straight to geometry?).
         ttag = _local(target.tag)

@@ -161,7 +161,9 @@ def run(args: argparse.Namespace) -> int:
                      first_of.get(ob, 0), None, None, ov.x * f, ov.y * f, ov.area * f * f,
                      f"{args.units}^2", f"the toolpaths of outline {oa} and outline {ob} "
                      f"overlap ({ov.area * f * f:.4g} {unit_words(args.units)}²): the cuts "
-                     "run into each other; offset less, or merge them with --merge-outlines")
+                     "run into each other; offset less, or merge them with --merge-outlines"
+                     + (f"; {ov.unlisted} more pairs of outlines overlap or were not examined "
+                        "(the caps of outlinebench.limits)" if ov.unlisted else ""))
         )  # fmt: skip
     for v in result["violations"]:
         findings.append(
