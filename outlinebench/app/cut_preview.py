@@ -6,11 +6,9 @@ Qt-free, so the previews can be tested against the library directly:
   :func:`outlinebench.geometry.flatten_contours_bounded` (each chord admitted by a proven bound
   of its deviation) and finds where the largest deviation lies with
   :func:`outlinebench.geometry.polyline_deviation` on the contour whose bound is largest.
-- :func:`compute_offset` is the one place the offset preview asks for offsets. Today it uses
-  :func:`outlinebench.geometry.offset_contour` per contour, holes of an outline moving the
-  other way (even-odd nesting, :func:`outlinebench.geometry.hole_flags`), exactly as
-  ``outlinebench offset`` does; the region engine replaces it later without the editor
-  changing.
+- :func:`compute_offset` is the one place the offset preview asks for offsets: the library's
+  region offset (:func:`outlinebench.offset`: each outline's filled region by its fill rule),
+  exactly as ``outlinebench offset`` does.
 - :func:`cut_file_bytes` writes either as an SVG cut file in millimetres (the library's
   :func:`outlinebench.io.polylines_svg`, which carries the cutting caution), rounding the
   coordinates to a stated resolution, and :func:`verify_cut_file` reads the bytes back and

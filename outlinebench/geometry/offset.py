@@ -41,7 +41,6 @@ __all__ = [
     "OffsetResult",
     "offset_contour",
     "offset_contours",
-    "hole_flags",
     "RegionFinding",
     "RegionOffset",
     "ToolpathViolation",
@@ -279,7 +278,7 @@ def _line_cubic(a: FloatArray, b: FloatArray) -> FloatArray:
 # --------------------------------------------------------------------------------------------
 # the offset
 # --------------------------------------------------------------------------------------------
-def offset_contour(
+def offset_contour(  # noqa: C901 (older than the complexity gate; split when next changed)
     segments: Sequence[ArrayLike],
     closed: bool,
     distance: float,
@@ -772,51 +771,6 @@ def offset_contours(
     return out
 
 
-def hole_flags(contours: Sequence, tolerance: float = DEFAULT_OFFSET_TOLERANCE) -> list[bool]:
-    """Which closed contours of one outline are holes (even-odd nesting).
-
-    Parameters
-    ----------
-    contours : sequence
-        Objects with ``segments`` and ``closed`` or pairs ``(segments, closed)``.
-    tolerance : float
-        Flattening tolerance used for the containment test.
-
-    Returns
-    -------
-    list of bool
-        True for a closed contour that lies inside an odd number of the other closed
-        contours (a counter of a letter, a hole in a part); False otherwise, and for open
-        contours.
-
-    Notes
-    -----
-    The even-odd rule of SVG's ``fill-rule`` (W3C SVG 1.1 §11.3), tested with a point of each
-    contour (its first on-curve point) against the flattened other contours (shapely).
-    """
-    import shapely
-
-    items = [(c.segments, c.closed) if hasattr(c, "segments") else c for c in contours]
-    polys = flatten_contours([(list(s), cl) for s, cl in items], tolerance)
-    shapes = [
-        shapely.Polygon(p) if cl and len(p) >= 3 else None
-        for p, (_, cl) in zip(polys, items, strict=True)
-    ]
-    flags = []
-    for i, (segs, cl) in enumerate(items):
-        if not cl or len(segs) == 0:
-            flags.append(False)
-            continue
-        pt = shapely.Point(np.asarray(segs[0], dtype=float)[0])
-        inside = sum(
-            1
-            for j, sh in enumerate(shapes)
-            if j != i and sh is not None and sh.is_valid and sh.contains(pt)
-        )
-        flags.append(inside % 2 == 1)
-    return flags
-
-
 # --------------------------------------------------------------------------------------------
 # offsets of whole regions
 # --------------------------------------------------------------------------------------------
@@ -949,7 +903,7 @@ def _width_at(p: FloatArray, boundary, inward: FloatArray, reach: float) -> floa
     return float(np.min(np.hypot(*(pts - p).T)))
 
 
-def offset_region(
+def offset_region(  # noqa: C901 (older than the complexity gate; split when next changed)
     contours: Sequence,
     distance: float,
     *,

@@ -16,6 +16,7 @@ References
 from __future__ import annotations
 
 import math
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -87,7 +88,7 @@ def _trim(
         hits = tree.query(shapely.points(cut_pts), predicate="dwithin", distance=tol * 1e-6)
         at: dict[int, list[tuple[int, float]]] = {}
         hit_k = owner[hits[1]]
-        hit_t = _project_many(raw[hit_k], cut_pts[hits[0]]) if len(hit_k) else []
+        hit_t: Any = _project_many(raw[hit_k], cut_pts[hits[0]]) if len(hit_k) else []
         for pi, k, t in zip(
             hits[0].tolist(), hit_k.tolist(), np.asarray(hit_t).tolist(), strict=True
         ):

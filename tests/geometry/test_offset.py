@@ -201,15 +201,6 @@ def test_bad_input_raises():
         offset_contour(circle(1.0), True, math.inf, 0.1)
 
 
-def test_hole_flags_follow_the_even_odd_rule():
-    # W3C SVG 1.1 §11.3 even-odd: a contour inside one other is a hole, inside two is not.
-    from outlinebench.geometry.offset import hole_flags
-
-    flags = hole_flags([(circle(30.0), True), (circle(20.0), True), (circle(10.0), True)])
-    assert flags == [False, True, False]
-    assert hole_flags([([np.array([[0.0, 0.0], [1.0, 0.0]])], False)]) == [False]
-
-
 def test_random_simple_outlines_offset_to_distance_d():
     # Seeded random star-shaped cubic outlines (self-intersecting ones skipped, shapely
     # is_simple), open and closed, several distances: every point of the result lies
