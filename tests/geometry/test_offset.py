@@ -201,6 +201,7 @@ def test_bad_input_raises():
         offset_contour(circle(1.0), True, math.inf, 0.1)
 
 
+@pytest.mark.slow
 def test_random_simple_outlines_offset_to_distance_d():
     # Seeded random star-shaped cubic outlines (self-intersecting ones skipped, shapely
     # is_simple), open and closed, several distances: every point of the result lies

@@ -469,6 +469,7 @@ def test_damaged_files_raise_only_our_read_error(edits):
     assert res.error is None or isinstance(res.error, SvgReadError)
 
 
+@pytest.mark.slow
 def test_use_expansion_is_bounded_by_the_geometry_it_draws():
     # issue "hardened": a group of 100 squares used 1,000 times would draw 400,000 segments
     # from a small file; the budget counts segments (MAX_USE_SEGMENTS), not instances, and
