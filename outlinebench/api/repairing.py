@@ -43,6 +43,7 @@ __all__ = [
     "RepairRun",
     "parse_kinds",
     "repair_for_finding",
+    "same_place",
     "added_problem",
     "ALLOWED_NEW_KINDS",
     "repair_document",
@@ -211,10 +212,13 @@ def repair_for_finding(
     if kind == "tiny-segment":
         o, c = _locate(doc, finding.contour)
         return RemoveRedundantPoints(o, c, max_change, settings.corner_angle)
+    if kind == "self-intersection":
+        o, _ = _locate(doc, finding.contour)
+        return RemoveOverlaps(o, max_change=max_change)
     return None
 
 
-def _same_place(a: Finding, b: Finding) -> bool:
+def same_place(a: Finding, b: Finding) -> bool:
     """Whether two findings are the same one (before and after an edit)."""
     if a.kind != b.kind or a.contour != b.contour:
         return False
@@ -342,7 +346,7 @@ class _Runner:
             return
         after = list(self.checker.update(new))
         reason = None
-        if target is not None and any(_same_place(target, f) for f in after):
+        if target is not None and any(same_place(target, f) for f in after):
             reason = f"the {target.kind} is still found after the fix"
         else:
             worse = added_problem(cmd, self.doc, self.findings, new, after)
@@ -506,7 +510,7 @@ def _fix_joins_and_segments(
     """Join and segment fixes: later segments first, so earlier indices stay valid."""
     todo.sort(key=lambda f: (f.contour, -(f.join if f.join is not None else f.segment or 0)))
     for f in todo:
-        fresh = [g for g in run.findings if _same_place(f, g)]
+        fresh = [g for g in run.findings if same_place(f, g)]
         if not fresh:
             continue  # an earlier fix already removed it
         cmd = repair_for_finding(run.doc, fresh[0], max_change=max_change, settings=settings)

@@ -25,13 +25,14 @@ from outlinebench.api.repairing import (
     added_problem,
     repair_document,
     repair_for_finding,
+    same_place,
 )
 from outlinebench.app.units import DisplayUnits
 from outlinebench.diagnostics import Checker, CheckSettings, Finding
 from outlinebench.errors import CommandError
 from outlinebench.model.commands import Command
 from outlinebench.model.document import Contour, Document
-from outlinebench.model.repairs import REPAIR_ORDER, RemoveOverlaps, SmoothKink
+from outlinebench.model.repairs import REPAIR_ORDER, SmoothKink
 
 __all__ = [
     "FixPreview",
@@ -171,23 +172,6 @@ class FixPreview:
         )
 
 
-def _locate(doc: Document, global_index: int) -> tuple[int, int] | None:
-    for ref in doc.contour_refs():
-        if ref.global_index == global_index:
-            return ref.outline, ref.index
-    return None
-
-
-def _same_place(a: Finding, b: Finding) -> bool:
-    """Whether ``b`` (after the fix) is the finding ``a`` (before it) still found."""
-    if a.kind != b.kind or a.contour != b.contour:
-        return False
-    if a.kind == "gap":  # joins renumber contours: a gap is its end point
-        tol = 1e-9 * max(1.0, abs(a.x), abs(a.y))
-        return abs(a.x - b.x) <= tol and abs(a.y - b.y) <= tol
-    return a.join == b.join and (a.join is not None or a.segment == b.segment)
-
-
 def _no_fix_reason(doc: Document, f: Finding, settings: CheckSettings, units: DisplayUnits):
     if repair_kind_of(f.kind) is None:
         return f"no repair fixes a {f.kind}"
@@ -216,10 +200,7 @@ def _refusal_text(exc: CommandError, cmd, max_change: float, units: DisplayUnits
             f"the outline would move by up to {change_text(units, change.upper)}, more than "
             f"the allowed {change_text(units, max_change)}"
         )
-    text = str(exc)
-    label = getattr(cmd, "label", "")
-    prefix = f"{label.lower()}: "
-    return text[len(prefix) :] if label and text.startswith(prefix) else text
+    return str(exc)
 
 
 def preview_fix(
@@ -263,12 +244,7 @@ def preview_fix(
     out = FixPreview(finding, doc, kind)
     cmd: Command | None
     try:
-        if finding.kind == "self-intersection":
-            # repair_for_finding leaves overlaps to repair_document; the same command
-            place = _locate(doc, finding.contour)
-            cmd = None if place is None else RemoveOverlaps(place[0], max_change=max_change)
-        else:
-            cmd = repair_for_finding(doc, finding, max_change=max_change, settings=settings)
+        cmd = repair_for_finding(doc, finding, max_change=max_change, settings=settings)
     except CommandError as exc:
         out.refusal = str(exc)
         return out
@@ -290,7 +266,7 @@ def preview_fix(
     checker = Checker(settings)
     found_before = list(checker.update(doc))
     after = list(checker.update(new))  # incremental: only the changed contours re-checked
-    if any(_same_place(finding, g) for g in after):
+    if any(same_place(finding, g) for g in after):
         out.refusal = f"the {finding.kind} is still found after the fix"
         return out
     worse = added_problem(cmd, doc, found_before, new, after)
