@@ -11,6 +11,7 @@ __all__ = [
     "OutlinebenchError",
     "OptionError",
     "InvalidGeometryError",
+    "WorkCapExceeded",
     "SvgReadError",
     "SvgPathError",
     "UnsupportedSvgFeature",
@@ -89,6 +90,10 @@ class OptionError(OutlinebenchError, ValueError):
 
 class InvalidGeometryError(OutlinebenchError, ValueError):
     """Control points of the wrong shape, or not finite."""
+
+
+class WorkCapExceeded(InvalidGeometryError):
+    """A computation refused: its input is past a cap on work (:mod:`outlinebench.limits`)."""
 
 
 class SvgReadError(OutlinebenchError, ValueError):

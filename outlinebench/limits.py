@@ -15,7 +15,7 @@ Time and memory per file (stated targets, measured by ``benchmarks/fuzz/campaign
 
 from __future__ import annotations
 
-from outlinebench.errors import InvalidGeometryError
+from outlinebench.errors import WorkCapExceeded
 
 __all__ = [
     "WorkCapExceeded",
@@ -45,7 +45,3 @@ FINDINGS_PER_KIND = 1_000
 OVERLAP_CANDIDATE_PAIRS = 20_000
 #: Crossings of a contour's raw offset with itself that the trim may resolve.
 OFFSET_CROSSINGS = 50_000
-
-
-class WorkCapExceeded(InvalidGeometryError):
-    """A computation refused because its input is past one of the caps above."""

@@ -13,7 +13,7 @@ import numpy as np
 import shapely
 
 from outlinebench.diagnostics.findings import ERROR, INFO, WARNING
-from outlinebench.errors import OutlinebenchError
+from outlinebench.errors import OutlinebenchError, WorkCapExceeded
 from outlinebench.geometry import (
     evaluate,
     merge_offsets,
@@ -24,7 +24,6 @@ from outlinebench.geometry import (
     verify_toolpaths,
 )
 from outlinebench.geometry.flatten import flatten_contours_bounded
-from outlinebench.limits import WorkCapExceeded
 from outlinebench.model.document import Document
 
 __all__ = ["flatten_document", "offset_document", "result_outline"]
